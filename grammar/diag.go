@@ -1,0 +1,255 @@
+package grammar
+
+import (
+	"fmt"
+	"io"
+	"sort"
+	"strings"
+)
+
+// Pos is a place in a source file. Line and Col are 1-based; Col counts
+// bytes. The zero Pos means "no position".
+type Pos struct {
+	File   string
+	Offset int
+	Line   int
+	Col    int
+}
+
+// IsValid reports whether p names a real place.
+func (p Pos) IsValid() bool { return p.Line > 0 }
+
+// String renders p as file:line:col (or as much of it as is known).
+func (p Pos) String() string {
+	switch {
+	case !p.IsValid() && p.File == "":
+		return "-"
+	case !p.IsValid():
+		return p.File
+	case p.File == "":
+		return fmt.Sprintf("%d:%d", p.Line, p.Col)
+	}
+	return fmt.Sprintf("%s:%d:%d", p.File, p.Line, p.Col)
+}
+
+// Severity says whether a diagnostic stops the run.
+type Severity int
+
+const (
+	// Error diagnostics stop the run.
+	Error Severity = iota
+	// Warning diagnostics are printed but do not stop the run.
+	Warning
+)
+
+func (s Severity) String() string {
+	if s == Warning {
+		return "warning"
+	}
+	return "error"
+}
+
+// Diagnostic is one message about a place in a model or a query.
+type Diagnostic struct {
+	Pos      Pos
+	Severity Severity
+	// Code is a stable identifier (for example "unknown-column") that tests
+	// and tools can match on.
+	Code    string
+	Message string
+	// Notes add context on lines of their own ("the cycle: a -> b -> a").
+	Notes []string
+	// Suggestion says what to write instead, when there is something to say.
+	Suggestion string
+}
+
+func (d *Diagnostic) Error() string {
+	return fmt.Sprintf("%s: %s: %s", d.Pos, d.Severity, d.Message)
+}
+
+// Diagnostics is a list of diagnostics, used as an error value in the manner
+// of go/scanner.ErrorList.
+type Diagnostics []*Diagnostic
+
+// Add appends a diagnostic.
+func (l *Diagnostics) Add(d *Diagnostic) { *l = append(*l, d) }
+
+// Errorf appends an error with a code at pos.
+func (l *Diagnostics) Errorf(pos Pos, code, format string, args ...any) *Diagnostic {
+	d := &Diagnostic{Pos: pos, Severity: Error, Code: code, Message: fmt.Sprintf(format, args...)}
+	l.Add(d)
+	return d
+}
+
+// Warnf appends a warning with a code at pos.
+func (l *Diagnostics) Warnf(pos Pos, code, format string, args ...any) *Diagnostic {
+	d := &Diagnostic{Pos: pos, Severity: Warning, Code: code, Message: fmt.Sprintf(format, args...)}
+	l.Add(d)
+	return d
+}
+
+// Append adds every diagnostic of other.
+func (l *Diagnostics) Append(other Diagnostics) { *l = append(*l, other...) }
+
+// Sort orders the list by file, line and column, keeping the order of
+// diagnostics at the same place.
+func (l Diagnostics) Sort() {
+	sort.SliceStable(l, func(i, j int) bool {
+		a, b := l[i].Pos, l[j].Pos
+		if a.File != b.File {
+			return a.File < b.File
+		}
+		if a.Line != b.Line {
+			return a.Line < b.Line
+		}
+		return a.Col < b.Col
+	})
+}
+
+// HasErrors reports whether any diagnostic is an error (not a warning).
+func (l Diagnostics) HasErrors() bool {
+	for _, d := range l {
+		if d.Severity == Error {
+			return true
+		}
+	}
+	return false
+}
+
+// Errors returns only the errors.
+func (l Diagnostics) Errors() Diagnostics {
+	var out Diagnostics
+	for _, d := range l {
+		if d.Severity == Error {
+			out = append(out, d)
+		}
+	}
+	return out
+}
+
+// Err returns nil when the list holds no error, and the list otherwise.
+func (l Diagnostics) Err() error {
+	if !l.HasErrors() {
+		return nil
+	}
+	return l.Errors()
+}
+
+// Error renders the first error and how many more there are.
+func (l Diagnostics) Error() string {
+	switch len(l) {
+	case 0:
+		return "no errors"
+	case 1:
+		return l[0].Error()
+	}
+	return fmt.Sprintf("%s (and %d more errors)", l[0].Error(), len(l)-1)
+}
+
+// Sources maps a file name to its text, so that messages can quote the line
+// they point at.
+type Sources map[string]string
+
+// Print writes each diagnostic as
+//
+//	FILE:LINE:COL: error: MESSAGE
+//	   12 | measure m = sum(sales.qtty)
+//	      |                       ^
+//	  note: ...
+//	  hint: ...
+//
+// The source line is shown when src holds the file.
+func (l Diagnostics) Print(w io.Writer, src Sources, color bool) {
+	for _, d := range l {
+		sev := d.Severity.String()
+		if color {
+			if d.Severity == Error {
+				sev = "\x1b[1;31m" + sev + "\x1b[0m"
+			} else {
+				sev = "\x1b[1;33m" + sev + "\x1b[0m"
+			}
+		}
+		fmt.Fprintf(w, "%s: %s: %s\n", d.Pos, sev, d.Message)
+		if line, ok := sourceLine(src, d.Pos); ok {
+			num := fmt.Sprintf("%5d", d.Pos.Line)
+			fmt.Fprintf(w, "%s | %s\n", num, strings.ReplaceAll(line, "\t", " "))
+			col := d.Pos.Col - 1
+			if col > len(line) {
+				col = len(line)
+			}
+			fmt.Fprintf(w, "%s | %s^\n", strings.Repeat(" ", len(num)), strings.Repeat(" ", col))
+		}
+		for _, n := range d.Notes {
+			fmt.Fprintf(w, "  note: %s\n", n)
+		}
+		if d.Suggestion != "" {
+			fmt.Fprintf(w, "  hint: %s\n", d.Suggestion)
+		}
+	}
+}
+
+func sourceLine(src Sources, p Pos) (string, bool) {
+	if !p.IsValid() || src == nil {
+		return "", false
+	}
+	text, ok := src[p.File]
+	if !ok {
+		return "", false
+	}
+	start := p.Offset
+	if start > len(text) {
+		return "", false
+	}
+	for start > 0 && text[start-1] != '\n' {
+		start--
+	}
+	end := strings.IndexByte(text[start:], '\n')
+	if end < 0 {
+		end = len(text) - start
+	}
+	line := strings.TrimRight(text[start:start+end], "\r")
+	if len(line) > 200 {
+		return "", false
+	}
+	return line, true
+}
+
+// Closest returns the candidate nearest to name by edit distance (ignoring
+// case), if it is close enough to be a plausible typo, and "" otherwise.
+func Closest(name string, candidates []string) string {
+	best, bestD := "", -1
+	for _, c := range candidates {
+		d := editDistance(strings.ToLower(name), strings.ToLower(c))
+		if bestD < 0 || d < bestD || (d == bestD && c < best) {
+			best, bestD = c, d
+		}
+	}
+	limit := 1
+	if len(name) > 3 {
+		limit = max(2, len(name)/3)
+	}
+	if best == "" || bestD > limit {
+		return ""
+	}
+	return best
+}
+
+func editDistance(a, b string) int {
+	prev := make([]int, len(b)+1)
+	cur := make([]int, len(b)+1)
+	for j := range prev {
+		prev[j] = j
+	}
+	for i := 1; i <= len(a); i++ {
+		cur[0] = i
+		for j := 1; j <= len(b); j++ {
+			cost := 1
+			if a[i-1] == b[j-1] {
+				cost = 0
+			}
+			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+		}
+		prev, cur = cur, prev
+	}
+	return prev[len(b)]
+}

@@ -1,0 +1,233 @@
+package grammar
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"regexp"
+	"strings"
+
+	"github.com/alecthomas/participle/v2"
+	"github.com/alecthomas/participle/v2/lexer"
+)
+
+// Limits that keep hostile input from exhausting the machine.
+const (
+	// MaxSourceBytes is the largest model file accepted.
+	MaxSourceBytes = 64 << 20
+	// MaxNesting is the deepest nesting of parentheses and brackets.
+	MaxNesting = 64
+)
+
+// EBNF returns the grammar in EBNF, as participle prints it.
+func EBNF() string { return parser.String() }
+
+var symbols = lexDef.Symbols()
+
+// Parse parses one model file. It reports every syntax error it can find:
+// after an error it resumes at the next top-level declaration (a line's
+// `table`, `measure` or `view`).
+func Parse(filename, src string) (*File, Diagnostics) {
+	f := &File{Name: filename}
+	var diags Diagnostics
+	if len(src) > MaxSourceBytes {
+		diags.Errorf(Pos{File: filename}, "too-large",
+			"the file is %d bytes; the largest model file accepted is %d bytes", len(src), MaxSourceBytes)
+		return f, diags
+	}
+	toks, ok := lexAll(filename, src, &diags)
+	if !ok {
+		return f, diags
+	}
+	for _, chunk := range splitDecls(toks) {
+		if !checkChunk(chunk, &diags) {
+			continue
+		}
+		eof := lexer.EOFToken(chunk[len(chunk)-1].Pos)
+		eof.Pos.Offset += len(chunk[len(chunk)-1].Value)
+		eof.Pos.Column += len(chunk[len(chunk)-1].Value)
+		withEOF := append(chunk[:len(chunk):len(chunk)], eof)
+		pl, err := lexer.Upgrade(&sliceLexer{toks: withEOF})
+		if err != nil {
+			diags.Errorf(pos(chunk[0].Pos), "syntax", "%v", err)
+			continue
+		}
+		sf, err := parser.ParseFromLexer(pl)
+		if err != nil {
+			diags.Add(syntaxDiag(err, chunk[0].Pos))
+			continue
+		}
+		for _, d := range sf.Decls {
+			d.addTo(f)
+		}
+	}
+	return f, diags
+}
+
+// lexAll tokenises src, dropping white space and comments, and reports
+// characters that start no token.
+func lexAll(filename, src string, diags *Diagnostics) ([]lexer.Token, bool) {
+	lx, err := lexDef.LexString(filename, src)
+	if err != nil {
+		diags.Errorf(Pos{File: filename}, "syntax", "%v", err)
+		return nil, false
+	}
+	var toks []lexer.Token
+	ok := true
+	for {
+		t, err := lx.Next()
+		if err != nil {
+			diags.Errorf(Pos{File: filename}, "syntax", "%v", err)
+			return nil, false
+		}
+		if t.EOF() {
+			break
+		}
+		switch t.Type {
+		case symbols["Whitespace"], symbols["Comment"]:
+			continue
+		case symbols["Unterminated"]:
+			q := t.Value[:1]
+			diags.Errorf(pos(t.Pos), "syntax", "unterminated %s", quoteKind(q)).Suggestion =
+				fmt.Sprintf("close it with %s on the same line", q)
+			ok = false
+			continue
+		case symbols["Bad"]:
+			diags.Errorf(pos(t.Pos), "syntax", "unexpected character %q", t.Value).Suggestion =
+				"strings are written in single quotes, names with letters, digits and _ (or in backquotes)"
+			ok = false
+			continue
+		}
+		toks = append(toks, t)
+	}
+	return toks, ok
+}
+
+func quoteKind(q string) string {
+	switch q {
+	case "'":
+		return "string"
+	case "`":
+		return "quoted name"
+	}
+	return "double-quoted text"
+}
+
+// splitDecls cuts the token stream before each `table`, `measure` and
+// `view` keyword (they cannot appear inside a declaration, except after a
+// dot), so that one bad declaration does not hide errors in the ones after
+// it.
+func splitDecls(toks []lexer.Token) [][]lexer.Token {
+	var chunks [][]lexer.Token
+	start := 0
+	for i, t := range toks {
+		if i > start && t.Type == symbols["Keyword"] && isDeclKeyword(t.Value) &&
+			!(toks[i-1].Type == symbols["Op"] && toks[i-1].Value == ".") {
+			chunks = append(chunks, toks[start:i])
+			start = i
+		}
+	}
+	if start < len(toks) {
+		chunks = append(chunks, toks[start:])
+	}
+	return chunks
+}
+
+func isDeclKeyword(v string) bool {
+	return strings.EqualFold(v, "table") || strings.EqualFold(v, "measure") || strings.EqualFold(v, "view")
+}
+
+// checkChunk rejects nesting deeper than MaxNesting before the recursive
+// parser sees it.
+func checkChunk(chunk []lexer.Token, diags *Diagnostics) bool {
+	depth := 0
+	for _, t := range chunk {
+		if t.Type != symbols["Op"] {
+			continue
+		}
+		switch t.Value {
+		case "(", "[", "{":
+			depth++
+			if depth > MaxNesting {
+				diags.Errorf(pos(t.Pos), "too-deep",
+					"expressions nest more than %d levels deep here", MaxNesting).Suggestion =
+					"split the expression into several measures or derived columns"
+				return false
+			}
+		case ")", "]", "}":
+			depth--
+		}
+	}
+	return true
+}
+
+type sliceLexer struct {
+	toks []lexer.Token
+	i    int
+}
+
+func (s *sliceLexer) Next() (lexer.Token, error) {
+	if s.i >= len(s.toks) {
+		return s.toks[len(s.toks)-1], nil
+	}
+	t := s.toks[s.i]
+	s.i++
+	return t, nil
+}
+
+var productionNames = strings.NewReplacer(
+	"SyntaxExpr", "an expression", "SyntaxOr", "an expression", "SyntaxAnd", "an expression",
+	"SyntaxNot", "an expression", "SyntaxCmp", "an expression", "SyntaxSum", "a value",
+	"SyntaxProduct", "a value", "SyntaxUnary", "a value", "SyntaxPostfix", "a value",
+	"SyntaxPrimary", "a value", "SyntaxName", "a name", "SyntaxMember", "a name",
+	"SyntaxRef", "table.column", "SyntaxString", `a "double-quoted" text`,
+	"SyntaxItem", "a column, key or link", "SyntaxEdit", "a cell edit",
+	"SyntaxDecl", "table, measure or view", "SyntaxOption", "a column option",
+	"<ident>", "a name", "<qident>", "a name", "<keyword>", "a keyword", "<dstring>", `a "double-quoted" text`,
+	"<string>", "a 'string'", "<number>", "a number", "<eof>", "the end of the declaration",
+)
+
+var tokenRe = regexp.MustCompile(`unexpected token "([^"]*)"`)
+
+func syntaxDiag(err error, start lexer.Position) *Diagnostic {
+	var perr participle.Error
+	p := start
+	msg := err.Error()
+	if errors.As(err, &perr) {
+		p = perr.Position()
+		msg = perr.Message()
+	}
+	msg = productionNames.Replace(msg)
+	if m := tokenRe.FindStringSubmatch(msg); m != nil && m[1] == "<EOF>" {
+		msg = strings.Replace(msg, `unexpected token "<EOF>"`, "unexpected end of declaration", 1)
+	}
+	d := &Diagnostic{Pos: pos(p), Severity: Error, Code: "syntax", Message: "syntax error: " + msg}
+	if strings.Contains(msg, `"`) && keywordToken(msg) {
+		d.Suggestion = "a keyword cannot be a name; write it in backquotes, for example `order`"
+	}
+	return d
+}
+
+func keywordToken(msg string) bool {
+	m := tokenRe.FindStringSubmatch(msg)
+	if m == nil {
+		return false
+	}
+	for _, k := range keywords {
+		if strings.EqualFold(k, m[1]) && strings.Contains(msg, "a name") {
+			return true
+		}
+	}
+	return false
+}
+
+// ParseReader reads and parses one model file.
+func ParseReader(filename string, r io.Reader) (*File, Diagnostics) {
+	b, err := io.ReadAll(io.LimitReader(r, MaxSourceBytes+1))
+	if err != nil {
+		var d Diagnostics
+		d.Errorf(Pos{File: filename}, "read", "cannot read the file: %v", err)
+		return &File{Name: filename}, d
+	}
+	return Parse(filename, string(b))
+}
