@@ -231,3 +231,44 @@ func ParseReader(filename string, r io.Reader) (*File, Diagnostics) {
 	}
 	return Parse(filename, string(b))
 }
+
+var exprParser = participle.MustBuild[syntaxExpr](
+	participle.Lexer(lexDef),
+	participle.CaseInsensitive("Keyword"),
+	participle.Elide("Comment", "Whitespace"),
+	participle.UseLookahead(3),
+)
+
+// ParseExpr parses one expression given outside a model file (a --where
+// filter on the command line, say). name labels positions in messages.
+func ParseExpr(name, src string) (Expr, Diagnostics) {
+	var diags Diagnostics
+	if len(src) > MaxSourceBytes {
+		diags.Errorf(Pos{File: name}, "too-large", "the expression is too long")
+		return nil, diags
+	}
+	toks, ok := lexAll(name, src, &diags)
+	if !ok {
+		return nil, diags
+	}
+	if len(toks) == 0 {
+		diags.Errorf(Pos{File: name, Line: 1, Col: 1}, "syntax", "empty expression")
+		return nil, diags
+	}
+	if !checkChunk(toks, &diags) {
+		return nil, diags
+	}
+	last := toks[len(toks)-1]
+	eof := lexer.EOFToken(last.Pos)
+	eof.Pos.Offset += len(last.Value)
+	eof.Pos.Column += len(last.Value)
+	pl, err := lexer.Upgrade(&sliceLexer{toks: append(toks, eof)})
+	if err == nil {
+		var se *syntaxExpr
+		if se, err = exprParser.ParseFromLexer(pl); err == nil {
+			return se.expr(), nil
+		}
+	}
+	diags.Add(syntaxDiag(err, toks[0].Pos))
+	return nil, diags
+}

@@ -1,0 +1,149 @@
+package dialects
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// expr renders a row or measure expression. Literals are rendered by the
+// dialect; numbers were checked by the lexer to hold only digits, a dot and
+// an exponent.
+func (r *renderer) expr(e planner.Expr) (string, error) {
+	switch e := e.(type) {
+	case *planner.ColRef:
+		if e.Col.Derived != nil {
+			x, err := r.expr(e.Col.Derived)
+			if err != nil {
+				return "", err
+			}
+			return "(" + x + ")", nil
+		}
+		return r.q(e.Col.Table.Name) + "." + r.q(e.Col.Name), nil
+	case *planner.Lit:
+		return r.lit(e), nil
+	case *planner.BinOp:
+		l, err := r.expr(e.L)
+		if err != nil {
+			return "", err
+		}
+		rt, err := r.expr(e.R)
+		if err != nil {
+			return "", err
+		}
+		if e.Op == "/" {
+			return "(" + r.d.Divide(l, rt) + ")", nil
+		}
+		return "(" + l + " " + strings.ToUpper(e.Op) + " " + rt + ")", nil
+	case *planner.UnOp:
+		x, err := r.expr(e.X)
+		if err != nil {
+			return "", err
+		}
+		if e.Op == "not" {
+			return "(NOT " + x + ")", nil
+		}
+		return "(-" + x + ")", nil
+	case *planner.Func:
+		return r.fn(e)
+	case *planner.CaseExpr:
+		s := "CASE"
+		for _, w := range e.Whens {
+			c, err := r.expr(w.Cond)
+			if err != nil {
+				return "", err
+			}
+			t, err := r.expr(w.Then)
+			if err != nil {
+				return "", err
+			}
+			s += " WHEN " + c + " THEN " + t
+		}
+		if e.Else != nil {
+			x, err := r.expr(e.Else)
+			if err != nil {
+				return "", err
+			}
+			s += " ELSE " + x
+		}
+		return s + " END", nil
+	case *planner.InExpr:
+		x, err := r.expr(e.X)
+		if err != nil {
+			return "", err
+		}
+		list, err := r.list(e.List)
+		if err != nil {
+			return "", err
+		}
+		not := ""
+		if e.Not {
+			not = "NOT "
+		}
+		return "(" + x + " " + not + "IN (" + list + "))", nil
+	case *planner.IsNullExpr:
+		x, err := r.expr(e.X)
+		if err != nil {
+			return "", err
+		}
+		if e.Not {
+			return "(" + x + " IS NOT NULL)", nil
+		}
+		return "(" + x + " IS NULL)", nil
+	case *planner.LeafRef:
+		s := r.q(e.Leaf.Name)
+		if r.multi {
+			s = r.q(r.cells[e.Scan]) + "." + s
+		}
+		if e.ZeroIfMissing {
+			s = "COALESCE(" + s + ", 0)"
+		}
+		return s, nil
+	}
+	return "", fmt.Errorf("internal error: cannot render %T", e)
+}
+
+func (r *renderer) list(es []planner.Expr) (string, error) {
+	var parts []string
+	for _, a := range es {
+		x, err := r.expr(a)
+		if err != nil {
+			return "", err
+		}
+		parts = append(parts, x)
+	}
+	return strings.Join(parts, ", "), nil
+}
+
+func (r *renderer) lit(e *planner.Lit) string {
+	switch e.T {
+	case planner.TypeText:
+		return r.d.String(e.Text)
+	case planner.TypeDate:
+		return r.d.Date(e.Text)
+	case planner.TypeTimestamp:
+		return r.d.Timestamp(e.Text)
+	case planner.TypeBoolean:
+		return strings.ToUpper(e.Text)
+	case planner.TypeNull:
+		return "NULL"
+	}
+	return e.Text
+}
+
+func (r *renderer) fn(e *planner.Func) (string, error) {
+	args, err := r.list(e.Args)
+	if err != nil {
+		return "", err
+	}
+	switch e.Name {
+	case "cast":
+		return "CAST(" + args + " AS " + r.d.TypeName(e.CastTo) + ")", nil
+	case "extract":
+		return r.d.Extract(e.Unit, args), nil
+	case "date_trunc":
+		return r.d.DateTrunc(e.Unit, args, e.Args[0].Type()), nil
+	}
+	return e.Name + "(" + args + ")", nil
+}

@@ -1,0 +1,184 @@
+package planner
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/rollwise/rollwise/grammar"
+)
+
+// Query asks for measures, grouped by columns, under filters.
+type Query struct {
+	Measures []*Measure
+	// Groups are the --by columns; GroupNames the references as written.
+	Groups     []*Column
+	GroupNames []string
+	GroupPos   []grammar.Pos
+	// Filters are the --where conjuncts (row predicates).
+	Filters []Expr
+	Totals  TotalsMode
+	// OrderBy is nil for the default order (by the group values).
+	OrderBy *Measure
+	Desc    bool
+	// Limit cuts the detail rows; 0 means no limit.
+	Limit int
+}
+
+// QuerySpec is a query as the command line gives it.
+type QuerySpec struct {
+	Measures []string
+	By       []string
+	Where    string
+	Totals   string
+	Order    string
+	Limit    int
+}
+
+// NewQuery resolves a query against the model. Positions in diagnostics
+// name the option they come from ("--by:1:9").
+func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
+	var diags grammar.Diagnostics
+	q := &Query{Totals: TotalsNone}
+	r := &resolver{m: m, state: map[string]int{}}
+	for _, name := range m.Measures {
+		r.state[name.Name] = 2
+	}
+	if len(spec.Measures) == 0 {
+		diags.Errorf(grammar.Pos{File: "--measures"}, "usage", "no measures asked for").Suggestion =
+			"name one or more measures: -m revenue,margin_rate"
+	}
+	col := 1
+	for _, name := range spec.Measures {
+		p := grammar.Pos{File: "--measures", Line: 1, Col: col}
+		col += len(name) + 1
+		name = strings.TrimSpace(name)
+		mm := m.Measure(name)
+		if mm == nil {
+			var names []string
+			for _, x := range m.Measures {
+				names = append(names, x.Name)
+			}
+			d := diags.Errorf(p, "unknown-measure", "unknown measure '%s'", name)
+			if near := grammar.Closest(name, names); near != "" {
+				d.Message += fmt.Sprintf("; did you mean '%s'?", near)
+			}
+			continue
+		}
+		q.Measures = append(q.Measures, mm)
+	}
+	col = 1
+	for _, ref := range spec.By {
+		p := grammar.Pos{File: "--by", Line: 1, Col: col}
+		col += len(ref) + 1
+		ref = strings.TrimSpace(ref)
+		c := r.byColumn(ref, p)
+		if c == nil {
+			continue
+		}
+		for i, prev := range q.Groups {
+			if prev == c {
+				diags.Errorf(p, "duplicate-group", "%s is already grouped by (as %s)", c, q.GroupNames[i])
+			}
+		}
+		q.Groups = append(q.Groups, c)
+		q.GroupNames = append(q.GroupNames, ref)
+		q.GroupPos = append(q.GroupPos, p)
+	}
+	if strings.TrimSpace(spec.Where) != "" {
+		e, d := grammar.ParseExpr("--where", spec.Where)
+		diags.Append(d)
+		if e != nil {
+			pred := (&exprResolver{r: r, row: true}).expr(e)
+			if pred != nil && (&exprResolver{r: r}).wantType(pred, TypeBoolean, "--where") {
+				q.Filters = Conjuncts(pred)
+			}
+		}
+	}
+	switch mode := TotalsMode(strings.ToLower(strings.TrimSpace(spec.Totals))); mode {
+	case "", TotalsNone:
+	case TotalsGrand, TotalsRollup, TotalsAll:
+		q.Totals = mode
+	default:
+		diags.Errorf(grammar.Pos{File: "--totals"}, "usage", "unknown totals mode %q", spec.Totals).Suggestion =
+			"write none, grand, rollup or all"
+	}
+	if o := strings.Fields(spec.Order); len(o) > 0 {
+		p := grammar.Pos{File: "--order", Line: 1, Col: 1}
+		q.OrderBy = m.Measure(o[0])
+		switch {
+		case q.OrderBy == nil:
+			diags.Errorf(p, "unknown-measure", "--order names '%s', which is not a measure of the query", o[0])
+		case len(o) > 2 || len(o) == 2 && !strings.EqualFold(o[1], "desc") && !strings.EqualFold(o[1], "asc"):
+			diags.Errorf(p, "usage", "--order takes a measure and an optional asc or desc, not %q", spec.Order)
+		default:
+			q.Desc = len(o) == 2 && strings.EqualFold(o[1], "desc")
+			found := false
+			for _, mm := range q.Measures {
+				found = found || mm == q.OrderBy
+			}
+			if !found {
+				diags.Errorf(p, "usage", "--order names %s, which the query does not ask for", o[0]).Suggestion =
+					"add it to --measures"
+			}
+		}
+	}
+	if spec.Limit < 0 {
+		diags.Errorf(grammar.Pos{File: "--limit"}, "usage", "--limit must be a positive number, not %d", spec.Limit)
+	}
+	q.Limit = spec.Limit
+	diags.Append(r.diags)
+	return q, diags
+}
+
+func (r *resolver) byColumn(ref string, p grammar.Pos) *Column {
+	e, d := grammar.ParseExpr(p.File, ref)
+	for _, x := range d {
+		x.Pos.Col += p.Col - 1
+	}
+	r.diags.Append(d)
+	if e == nil {
+		return nil
+	}
+	gr, ok := e.(*grammar.Ref)
+	if !ok || gr.Table == "" {
+		r.diags.Errorf(p, "usage", "%q is not a column reference", ref).Suggestion = "group by columns written table.column"
+		return nil
+	}
+	gr.Pos.Col += p.Col - 1
+	gr.NamePos.Col += p.Col - 1
+	return r.columnRef(gr, nil)
+}
+
+// Conjuncts splits a predicate at its top-level `and`s.
+func Conjuncts(e Expr) []Expr {
+	if b, ok := e.(*BinOp); ok && b.Op == "and" {
+		return append(Conjuncts(b.L), Conjuncts(b.R)...)
+	}
+	return []Expr{e}
+}
+
+// ViewQuery is the query a view block declares.
+func (m *Model) ViewQuery(v *View) *Query {
+	q := &Query{Measures: v.Measures, Totals: v.Totals}
+	for _, c := range v.By {
+		q.Groups = append(q.Groups, c)
+		q.GroupNames = append(q.GroupNames, c.String())
+		q.GroupPos = append(q.GroupPos, v.Pos)
+	}
+	if v.Where != nil {
+		q.Filters = Conjuncts(v.Where)
+	}
+	return q
+}
+
+// SplitList splits a comma-separated option value, dropping empty items.
+func SplitList(s string) []string {
+	var out []string
+	for _, p := range strings.Split(s, ",") {
+		if strings.TrimSpace(p) != "" {
+			out = append(out, p)
+		}
+	}
+	return out
+}
+

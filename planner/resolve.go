@@ -1,0 +1,405 @@
+package planner
+
+import (
+	"fmt"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"github.com/rollwise/rollwise/grammar"
+)
+
+// Load resolves parsed files into a checked model. The diagnostics hold
+// every error and warning found; the model is nil when there are errors.
+func Load(files []*grammar.File) (*Model, grammar.Diagnostics) {
+	r := &resolver{
+		m: &Model{tables: map[string]*Table{}, measures: map[string]*Measure{}},
+		measureDecls: map[string]*grammar.MeasureDecl{},
+		state:        map[string]int{},
+	}
+	for _, f := range files {
+		for _, td := range f.Tables {
+			r.declareTable(f, td)
+		}
+	}
+	for _, t := range r.m.Tables {
+		r.resolveLinks(t, r.tableDecls[t])
+	}
+	for _, t := range r.m.Tables {
+		r.resolveDerived(t, r.tableDecls[t])
+	}
+	r.checkPaths()
+	for _, f := range files {
+		for _, md := range f.Measures {
+			if prev, dup := r.measureDecls[md.Name.Name]; dup {
+				r.diags.Errorf(md.Name.Pos, "duplicate-measure", "measure %q is declared twice", md.Name.Name).
+					Notes = []string{"first declared at " + prev.Name.Pos.String()}
+				continue
+			}
+			r.measureDecls[md.Name.Name] = md
+			r.measureOrder = append(r.measureOrder, md)
+		}
+	}
+	for _, md := range r.measureOrder {
+		r.measure(md.Name.Name)
+	}
+	for _, f := range files {
+		for _, vd := range f.Views {
+			r.view(vd)
+		}
+	}
+	r.diags.Sort()
+	if r.diags.HasErrors() {
+		return nil, r.diags
+	}
+	return r.m, r.diags
+}
+
+type resolver struct {
+	m            *Model
+	diags        grammar.Diagnostics
+	tableDecls   map[*Table]*grammar.TableDecl
+	measureDecls map[string]*grammar.MeasureDecl
+	measureOrder []*grammar.MeasureDecl
+	// state is 1 while a measure is being resolved, 2 when done.
+	state map[string]int
+	stack []string
+	// derivedState does the same for derived columns.
+	derivedState map[*Column]int
+}
+
+var typeByName = map[string]Type{
+	"integer": TypeInteger, "decimal": TypeDecimal, "float": TypeFloat, "text": TypeText,
+	"date": TypeDate, "timestamp": TypeTimestamp, "boolean": TypeBoolean,
+}
+
+func typeNameList() []string {
+	return []string{"integer", "decimal", "float", "text", "date", "timestamp", "boolean"}
+}
+
+func (r *resolver) declareTable(f *grammar.File, td *grammar.TableDecl) {
+	name := td.Name.Name
+	if prev := r.m.tables[name]; prev != nil {
+		r.diags.Errorf(td.Name.Pos, "duplicate-table", "table %q is declared twice", name).
+			Notes = []string{"first declared at " + prev.Pos.String()}
+		return
+	}
+	t := &Table{Name: name, Pos: td.Name.Pos, Relation: []string{name}, columns: map[string]*Column{}}
+	if td.At != nil {
+		parts := strings.Split(td.At.Value, ".")
+		for _, p := range parts {
+			if p == "" {
+				r.diags.Errorf(td.At.Pos, "bad-relation", "relation %q has an empty part", td.At.Value).
+					Suggestion = `write "schema.name" or "name"`
+			}
+		}
+		t.Relation = parts
+	}
+	if td.From != nil {
+		t.File = td.From.Value
+		if !filepath.IsAbs(t.File) {
+			t.File = filepath.Join(filepath.Dir(f.Name), t.File)
+		}
+	}
+	for _, cd := range td.Columns {
+		if prev := t.columns[cd.Name.Name]; prev != nil {
+			r.diags.Errorf(cd.Name.Pos, "duplicate-column", "column %q is declared twice in table %s", cd.Name.Name, name).
+				Notes = []string{"first declared at " + prev.Pos.String()}
+			continue
+		}
+		c := &Column{Table: t, Name: cd.Name.Name, Pos: cd.Name.Pos}
+		if cd.Type != nil {
+			ty, ok := typeByName[strings.ToLower(cd.Type.Name)]
+			if !ok {
+				d := r.diags.Errorf(cd.Type.Pos, "unknown-type", "unknown type %q", cd.Type.Name)
+				d.Suggestion = "write one of " + strings.Join(typeNameList(), ", ")
+				if near := grammar.Closest(cd.Type.Name, typeNameList()); near != "" {
+					d.Message += fmt.Sprintf("; did you mean %q?", near)
+				}
+			}
+			c.Type = ty
+		}
+		switch cd.Additivity {
+		case grammar.NonAdditive:
+			c.Additivity = NonAdditive
+		case grammar.SemiAdditive:
+			c.Additivity = SemiAdditive
+		}
+		t.columns[c.Name] = c
+		t.Columns = append(t.Columns, c)
+	}
+	for _, k := range td.Key {
+		c := t.columns[k.Name]
+		if c == nil {
+			r.unknownColumn(k.Pos, t, k.Name)
+			continue
+		}
+		t.Key = append(t.Key, c)
+	}
+	if r.tableDecls == nil {
+		r.tableDecls = map[*Table]*grammar.TableDecl{}
+	}
+	r.tableDecls[t] = td
+	r.m.tables[name] = t
+	r.m.Tables = append(r.m.Tables, t)
+}
+
+func (r *resolver) unknownColumn(p grammar.Pos, t *Table, name string) {
+	var names []string
+	for _, c := range t.Columns {
+		names = append(names, c.Name)
+	}
+	d := r.diags.Errorf(p, "unknown-column", "unknown column '%s' in table %s", name, t.Name)
+	if near := grammar.Closest(name, names); near != "" {
+		d.Message += fmt.Sprintf("; did you mean '%s'?", near)
+	}
+}
+
+func (r *resolver) unknownTable(p grammar.Pos, name string) {
+	var names []string
+	for _, t := range r.m.Tables {
+		names = append(names, t.Name)
+	}
+	d := r.diags.Errorf(p, "unknown-table", "unknown table '%s'", name)
+	if near := grammar.Closest(name, names); near != "" {
+		d.Message += fmt.Sprintf("; did you mean '%s'?", near)
+	}
+}
+
+func (r *resolver) lookupTable(p grammar.Pos, name string) *Table {
+	t := r.m.tables[name]
+	if t == nil {
+		r.unknownTable(p, name)
+	}
+	return t
+}
+
+func (r *resolver) resolveLinks(t *Table, td *grammar.TableDecl) {
+	for _, cd := range td.Columns {
+		c := t.columns[cd.Name.Name]
+		if c == nil || c.Pos != cd.Name.Pos {
+			continue
+		}
+		if cd.SemiDate != nil {
+			c.SemiDate = r.columnRef(cd.SemiDate, nil)
+			if c.SemiDate != nil && c.SemiDate.Type != TypeDate && c.SemiDate.Type != TypeTimestamp {
+				r.diags.Errorf(cd.SemiDate.Pos, "type", "semiadditive needs a date column; %s is %s", c.SemiDate, c.SemiDate.Type)
+			}
+		}
+		if cd.Link == nil {
+			continue
+		}
+		if cd.Link.Table == "" {
+			r.diags.Errorf(cd.Link.Pos, "bad-link", "a link names its target as TABLE.KEYCOL").
+				Suggestion = fmt.Sprintf("write -> TABLE.%s", cd.Link.Name)
+			continue
+		}
+		to := r.lookupTable(cd.Link.Pos, cd.Link.Table)
+		if to == nil {
+			continue
+		}
+		tc := to.Column(cd.Link.Name)
+		if tc == nil {
+			r.unknownColumn(cd.Link.NamePos, to, cd.Link.Name)
+			continue
+		}
+		r.addLink(&Link{From: t, FromCols: []*Column{c}, To: to, ToCols: []*Column{tc}, Pos: cd.Link.Pos})
+	}
+	for _, ld := range td.Links {
+		to := r.lookupTable(ld.Table.Pos, ld.Table.Name)
+		if to == nil {
+			continue
+		}
+		if len(ld.From) != len(ld.To) {
+			r.diags.Errorf(ld.Pos, "bad-link", "the link lists %d columns of %s but %d of %s",
+				len(ld.From), t.Name, len(ld.To), to.Name).Suggestion = "list as many key columns as link columns, in the same order"
+			continue
+		}
+		l := &Link{From: t, To: to, Pos: ld.Pos}
+		ok := true
+		for i := range ld.From {
+			fc, tc := t.Column(ld.From[i].Name), to.Column(ld.To[i].Name)
+			if fc == nil {
+				r.unknownColumn(ld.From[i].Pos, t, ld.From[i].Name)
+				ok = false
+			}
+			if tc == nil {
+				r.unknownColumn(ld.To[i].Pos, to, ld.To[i].Name)
+				ok = false
+			}
+			l.FromCols = append(l.FromCols, fc)
+			l.ToCols = append(l.ToCols, tc)
+		}
+		if ok {
+			r.addLink(l)
+		}
+	}
+}
+
+// addLink checks that a link targets exactly the key of its table, with
+// matching types, and records it.
+func (r *resolver) addLink(l *Link) {
+	keyNames := func(cs []*Column) []string {
+		var s []string
+		for _, c := range cs {
+			s = append(s, c.Name)
+		}
+		sort.Strings(s)
+		return s
+	}
+	if len(l.To.Key) == 0 {
+		r.diags.Errorf(l.Pos, "link-to-non-key", "table %s has no key, so nothing can link to it", l.To.Name).
+			Suggestion = fmt.Sprintf("declare its key in table %s: key COL", l.To.Name)
+		return
+	}
+	if strings.Join(keyNames(l.ToCols), ",") != strings.Join(keyNames(l.To.Key), ",") {
+		d := r.diags.Errorf(l.Pos, "link-to-non-key", "link %s does not point at the key of %s", l, l.To.Name)
+		d.Notes = []string{fmt.Sprintf("the key of %s is (%s); a link must match it exactly, so that each row finds at most one row",
+			l.To.Name, strings.Join(keyNames(l.To.Key), ", "))}
+		return
+	}
+	for i := range l.FromCols {
+		a, b := l.FromCols[i].Type, l.ToCols[i].Type
+		if a != b && !(a.Numeric() && b.Numeric()) {
+			r.diags.Errorf(l.Pos, "type", "link %s joins %s (%s) to %s (%s)", l, l.FromCols[i], a, l.ToCols[i], b)
+			return
+		}
+	}
+	for _, prev := range l.From.Links {
+		if prev.To == l.To && prev.String() == l.String() {
+			r.diags.Errorf(l.Pos, "duplicate-link", "link %s is declared twice", l)
+			return
+		}
+	}
+	l.From.Links = append(l.From.Links, l)
+}
+
+func (r *resolver) resolveDerived(t *Table, td *grammar.TableDecl) {
+	if r.derivedState == nil {
+		r.derivedState = map[*Column]int{}
+	}
+	for _, cd := range td.Columns {
+		c := t.columns[cd.Name.Name]
+		if c == nil || c.Pos != cd.Name.Pos || cd.Expr == nil {
+			continue
+		}
+		r.derived(c, cd)
+	}
+}
+
+// derived resolves one derived column, resolving the derived columns it
+// reads first and reporting cycles.
+func (r *resolver) derived(c *Column, cd *grammar.ColumnDecl) {
+	switch r.derivedState[c] {
+	case 1:
+		r.diags.Errorf(c.Pos, "cycle", "derived column %s depends on itself", c)
+		return
+	case 2:
+		return
+	}
+	r.derivedState[c] = 1
+	x := &exprResolver{r: r, self: c.Table, row: true}
+	c.Derived = x.expr(cd.Expr)
+	if c.Derived == nil {
+		c.Derived = &Lit{Pos: c.Pos, T: TypeNull}
+	}
+	c.Type = c.Derived.Type()
+	if c.Type == TypeNull {
+		c.Type = TypeText
+	}
+	r.derivedState[c] = 2
+}
+
+// ensureDerived resolves a derived column on first use, so that one derived
+// column can read another declared after it.
+func (r *resolver) ensureDerived(c *Column) {
+	if r.derivedState[c] == 2 {
+		return
+	}
+	td := r.tableDecls[c.Table]
+	for _, cd := range td.Columns {
+		if cd.Name.Name == c.Name && cd.Expr != nil {
+			r.derived(c, cd)
+		}
+	}
+}
+
+// checkPaths reports two different link paths between the same tables.
+func (r *resolver) checkPaths() {
+	for _, t := range r.m.Tables {
+		paths := map[*Table][]*Link{}
+		var walk func(at *Table, path []*Link, seen map[*Table]bool)
+		walk = func(at *Table, path []*Link, seen map[*Table]bool) {
+			for _, l := range at.Links {
+				if seen[l.To] {
+					continue
+				}
+				p := append(append([]*Link{}, path...), l)
+				if prev, ok := paths[l.To]; ok {
+					d := r.diags.Errorf(l.Pos, "two-paths", "two different link paths lead from %s to %s", t.Name, l.To.Name)
+					d.Notes = []string{"first path: " + pathString(t, prev), "second path: " + pathString(t, p)}
+					d.Suggestion = fmt.Sprintf("declare a second table that reads the same relation (at \"%s\") for the second role, and link to it",
+						strings.Join(l.To.Relation, "."))
+					continue
+				}
+				paths[l.To] = p
+				seen[l.To] = true
+				walk(l.To, p, seen)
+				delete(seen, l.To)
+			}
+		}
+		walk(t, nil, map[*Table]bool{t: true})
+	}
+}
+
+func pathString(from *Table, path []*Link) string {
+	s := from.Name
+	for _, l := range path {
+		s += " -> " + l.To.Name
+	}
+	return s
+}
+
+// Reach returns the link path from t to every table reachable from it
+// (t itself maps to an empty path).
+func Reach(t *Table) map[*Table][]*Link {
+	out := map[*Table][]*Link{t: nil}
+	queue := []*Table{t}
+	for len(queue) > 0 {
+		at := queue[0]
+		queue = queue[1:]
+		for _, l := range at.Links {
+			if _, ok := out[l.To]; ok {
+				continue
+			}
+			out[l.To] = append(append([]*Link{}, out[at]...), l)
+			queue = append(queue, l.To)
+		}
+	}
+	return out
+}
+
+// columnRef resolves a table.column reference (self: the table whose bare
+// names are columns, or nil).
+func (r *resolver) columnRef(ref *grammar.Ref, self *Table) *Column {
+	if ref.Table == "" {
+		if self == nil {
+			r.diags.Errorf(ref.Pos, "bare-name", "'%s' is a bare name; columns are written table.column", ref.Name)
+			return nil
+		}
+		c := self.Column(ref.Name)
+		if c == nil {
+			r.unknownColumn(ref.Pos, self, ref.Name)
+		}
+		return c
+	}
+	t := r.lookupTable(ref.Pos, ref.Table)
+	if t == nil {
+		return nil
+	}
+	c := t.Column(ref.Name)
+	if c == nil {
+		r.unknownColumn(ref.NamePos, t, ref.Name)
+	}
+	return c
+}
