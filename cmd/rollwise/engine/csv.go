@@ -1,0 +1,256 @@
+package engine
+
+import (
+	"bufio"
+	"bytes"
+	"context"
+	"database/sql"
+	"encoding/csv"
+	"errors"
+	"fmt"
+	"io"
+	"os"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// loadCSV creates r as a table filled from its CSV file: comma-separated,
+// double quotes, a header row naming the columns. Only the stored columns
+// are kept, in their declared types; empty fields are NULL.
+//
+// Integer and decimal fields are read as text and cast after a check that
+// the cast does not round (DuckDB would read 3.5 as the integer 4, and
+// 1.2345678 as 1.234568). Any failure is diagnosed by diagnoseCSV, which
+// names the file, line, column and value.
+func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
+	header, err := readHeader(r.file)
+	if err != nil {
+		return fmt.Errorf("table %s: %v", r.tables[0].Name, err)
+	}
+	at, err := matchHeader(r, header)
+	if err != nil {
+		return err
+	}
+	readTypes := make([]string, len(header))
+	for i := range readTypes {
+		readTypes[i] = "VARCHAR"
+	}
+	selects := make([]string, len(r.columns))
+	for i, c := range r.columns {
+		field := fieldName(at[i])
+		switch c.typ {
+		case planner.TypeInteger, planner.TypeDecimal:
+			selects[i] = fmt.Sprintf("CASE WHEN %s THEN error('rollwise: value would be rounded') ELSE CAST(%s AS %s) END AS %s",
+				lossyExpr(field, scaleOf(c.typ)), field, c.duckType, quoteIdent(c.name))
+		default:
+			readTypes[at[i]] = c.duckType
+			selects[i] = field + " AS " + quoteIdent(c.name)
+		}
+	}
+	q := fmt.Sprintf("CREATE TABLE %s AS SELECT %s FROM %s", r.sqlName(), strings.Join(selects, ", "), csvReader(r.file, readTypes))
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		if derr := diagnoseCSV(ctx, conn, r, at, len(header)); derr != nil {
+			return derr
+		}
+		return fmt.Errorf("table %s: %s: %s", r.tables[0].Name, r.file, firstParagraph(err.Error()))
+	}
+	return nil
+}
+
+// scaleOf is the number of decimal places a column of type t holds.
+func scaleOf(t planner.Type) int {
+	if t == planner.TypeDecimal {
+		return DecimalScale
+	}
+	return 0
+}
+
+// fieldName is the name the CSV reader gives the field at position i.
+func fieldName(i int) string { return fmt.Sprintf("c%d", i) }
+
+// csvReader is a read_csv call with every setting explicit, so that
+// nothing is guessed from the data: types[i] is the type of field i.
+func csvReader(file string, types []string) string {
+	cols := make([]string, len(types))
+	for i, t := range types {
+		cols[i] = quoteString(fieldName(i)) + ": " + quoteString(t)
+	}
+	return fmt.Sprintf("read_csv(%s, header = true, auto_detect = false, delim = ',', quote = '\"', escape = '\"', columns = {%s})",
+		quoteString(file), strings.Join(cols, ", "))
+}
+
+var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
+
+// readHeader reads the header row of a CSV file.
+func readHeader(path string) ([]string, error) {
+	f, err := os.Open(path)
+	if err != nil {
+		return nil, err
+	}
+	defer f.Close()
+	br := bufio.NewReader(f)
+	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
+		if _, err := br.Discard(len(utf8BOM)); err != nil {
+			return nil, err
+		}
+	}
+	cr := csv.NewReader(br)
+	cr.FieldsPerRecord = -1
+	rec, err := cr.Read()
+	if errors.Is(err, io.EOF) {
+		return nil, fmt.Errorf("%s is empty; it needs a header row naming the columns", path)
+	}
+	if err != nil {
+		return nil, fmt.Errorf("%s: reading the header row: %v", path, err)
+	}
+	for i := range rec {
+		rec[i] = strings.TrimSpace(rec[i])
+	}
+	return rec, nil
+}
+
+// matchHeader finds each stored column of r in the header: at[i] is the
+// field position of r.columns[i]. A name matches exactly or, failing that,
+// without regard to case (as DuckDB matches names), if only one does.
+func matchHeader(r *relation, header []string) ([]int, error) {
+	at := make([]int, len(r.columns))
+	var missing []string
+	var errs []error
+	for i, c := range r.columns {
+		var exact, folded []int
+		for j, h := range header {
+			if h == c.name {
+				exact = append(exact, j)
+			} else if strings.EqualFold(h, c.name) {
+				folded = append(folded, j)
+			}
+		}
+		found := exact
+		if len(found) == 0 {
+			found = folded
+		}
+		switch len(found) {
+		case 0:
+			missing = append(missing, c.name)
+		case 1:
+			at[i] = found[0]
+		default:
+			errs = append(errs, fmt.Errorf("table %s: %s: the header has column %s %d times", c.table.Name, r.file, c.name, len(found)))
+		}
+	}
+	if len(missing) > 0 {
+		noun := "column"
+		if len(missing) > 1 {
+			noun = "columns"
+		}
+		errs = append(errs, fmt.Errorf("table %s: %s: the header row lacks %s %s (it has: %s)",
+			r.tableNames(), r.file, noun, strings.Join(missing, ", "), strings.Join(header, ", ")))
+	}
+	return at, errors.Join(errs...)
+}
+
+// diagnoseCSV explains why loading r failed: it reads every stored column
+// as text into a temporary table and finds the first value (in file
+// order) that its declared type cannot hold exactly. It returns nil when
+// it finds none, or an error of its own when even text cannot be read (a
+// malformed file).
+func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fields int) error {
+	types := make([]string, fields)
+	for i := range types {
+		types[i] = "VARCHAR"
+	}
+	selects := make([]string, len(r.columns))
+	for i := range r.columns {
+		selects[i] = fmt.Sprintf("%s AS k%d", fieldName(at[i]), i)
+	}
+	const check = "rollwise_csv_check"
+	q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS SELECT %s FROM %s", check, strings.Join(selects, ", "), csvReader(r.file, types))
+	if _, err := conn.ExecContext(ctx, q); err != nil {
+		return fmt.Errorf("table %s: %s: %s", r.tables[0].Name, r.file, firstParagraph(err.Error()))
+	}
+	defer conn.ExecContext(context.WithoutCancel(ctx), "DROP TABLE IF EXISTS "+check) //nolint:errcheck // best effort
+
+	var worst *badValue
+	for i, c := range r.columns {
+		if c.typ == planner.TypeText {
+			continue
+		}
+		k := fmt.Sprintf("k%d", i)
+		cond := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", k, c.duckType)
+		if c.typ == planner.TypeInteger || c.typ == planner.TypeDecimal {
+			cond += " OR " + lossyExpr(k, scaleOf(c.typ))
+		}
+		q := fmt.Sprintf("SELECT rowid, %[1]s, TRY_CAST(%[1]s AS %[2]s) IS NULL, TRY_CAST(%[1]s AS DOUBLE) IS NOT NULL FROM %[3]s WHERE %[1]s IS NOT NULL AND (%[4]s) ORDER BY rowid LIMIT 1",
+			k, c.duckType, check, cond)
+		b := badValue{col: c}
+		err := conn.QueryRowContext(ctx, q).Scan(&b.row, &b.value, &b.unreadable, &b.numeric)
+		if errors.Is(err, sql.ErrNoRows) {
+			continue
+		}
+		if err != nil {
+			return fmt.Errorf("table %s: %s: checking column %s: %s", r.tables[0].Name, r.file, c.name, firstParagraph(err.Error()))
+		}
+		if worst == nil || b.row < worst.row {
+			worst = &b
+		}
+	}
+	if worst == nil {
+		return nil
+	}
+	// rowid counts data records from 0; the header is line 1. (A quoted
+	// field spanning lines would shift this.)
+	return fmt.Errorf("%s:%d: column %s (%s): %s", r.file, worst.row+2, worst.col.name, worst.col.typ, worst.explain())
+}
+
+// badValue is a CSV value its column's type cannot hold exactly.
+type badValue struct {
+	col        column
+	row        int64
+	value      string
+	unreadable bool // the cast fails (rather than rounds)
+	numeric    bool // the value reads as a floating-point number
+}
+
+// explain says what is wrong with the value and what to do.
+func (b *badValue) explain() string {
+	v := b.value
+	if !b.unreadable {
+		// The value converts, but not exactly.
+		switch b.col.typ {
+		case planner.TypeInteger:
+			return fmt.Sprintf("%q is not a whole number; declare the column decimal or float to keep the fraction", v)
+		case planner.TypeDecimal:
+			return fmt.Sprintf("%q has more than %d decimal places; decimal columns hold exactly %d (%s) and rollwise does not round data (declare the column float if approximate values will do)",
+				v, DecimalScale, DecimalScale, DecimalType)
+		}
+		return fmt.Sprintf("%q would change when stored as %s", v, b.col.typ)
+	}
+	finite := b.numeric && !nonFinite(v)
+	switch b.col.typ {
+	case planner.TypeInteger:
+		if finite {
+			return fmt.Sprintf("%q is out of range for integer (64 bits); declare the column decimal", v)
+		}
+	case planner.TypeDecimal:
+		if finite {
+			return fmt.Sprintf("%q is out of range for decimal (at most %d digits before the point)", v, DecimalWidth-DecimalScale)
+		}
+	case planner.TypeDate:
+		return fmt.Sprintf("cannot read %q as a date (write YYYY-MM-DD)", v)
+	case planner.TypeTimestamp:
+		return fmt.Sprintf("cannot read %q as a timestamp (write YYYY-MM-DD HH:MM:SS)", v)
+	case planner.TypeBoolean:
+		return fmt.Sprintf("cannot read %q as a boolean (write true or false)", v)
+	}
+	return fmt.Sprintf("cannot read %q as %s", v, b.col.typ)
+}
+
+// nonFinite reports whether v spells NaN or an infinity.
+func nonFinite(v string) bool {
+	switch strings.TrimLeft(strings.ToLower(strings.TrimSpace(v)), "+-") {
+	case "nan", "inf", "infinity":
+		return true
+	}
+	return false
+}

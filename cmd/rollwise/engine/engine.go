@@ -1,0 +1,293 @@
+// Package engine runs generated SQL on an embedded, in-memory DuckDB that
+// exposes a model's tables under their warehouse relation names, loaded from
+// the tables' CSV or Parquet files.
+package engine
+
+import (
+	"context"
+	"database/sql"
+	"errors"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+
+	_ "github.com/duckdb/duckdb-go/v2" // registers the "duckdb" driver
+	"github.com/rollwise/rollwise/planner"
+)
+
+// relation is one warehouse relation to create and the model tables that
+// read it. Several tables may read one relation (a dimension playing
+// several roles); it is loaded once, with the union of their stored
+// columns.
+type relation struct {
+	name    []string
+	tables  []*planner.Table
+	file    string
+	columns []column
+}
+
+// column is a stored column of a relation.
+type column struct {
+	name     string
+	typ      planner.Type
+	duckType string
+	table    *planner.Table
+}
+
+// OpenDuckDB opens an in-memory DuckDB and creates every table of m under its
+// relation name: a TABLE loaded from a CSV file, or a VIEW over a Parquet
+// file, with the stored columns in their declared types. With dataDir set,
+// the file of table NAME is dataDir/NAME.csv or dataDir/NAME.parquet;
+// otherwise it is the table's `from` file. All problems found are returned
+// together; on error no database is returned.
+func OpenDuckDB(ctx context.Context, m *planner.Model, dataDir string) (*sql.DB, error) {
+	if m == nil {
+		return nil, errors.New("no model to load")
+	}
+	rels, err := relations(m, dataDir)
+	if err != nil {
+		return nil, err
+	}
+	db, err := sql.Open("duckdb", "")
+	if err != nil {
+		return nil, fmt.Errorf("opening DuckDB: %w", err)
+	}
+	// One connection does all the loading, so that its temporary tables
+	// stay visible to it; the tables it creates are visible to all.
+	conn, err := db.Conn(ctx)
+	if err != nil {
+		db.Close()
+		return nil, fmt.Errorf("opening DuckDB: %w", err)
+	}
+	var errs []error
+	for _, r := range rels {
+		if err := load(ctx, conn, r); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	conn.Close()
+	if len(errs) > 0 {
+		db.Close()
+		return nil, errors.Join(errs...)
+	}
+	return db, nil
+}
+
+// relations groups the model's tables by relation and resolves each
+// relation's data file and columns.
+func relations(m *planner.Model, dataDir string) ([]*relation, error) {
+	var errs []error
+	byKey := map[string]*relation{}
+	var rels []*relation
+	for _, t := range m.Tables {
+		key, err := relationKey(t)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		r := byKey[key]
+		if r == nil {
+			r = &relation{name: t.Relation}
+			byKey[key] = r
+			rels = append(rels, r)
+		}
+		r.tables = append(r.tables, t)
+	}
+	for _, r := range rels {
+		if err := r.resolveFile(dataDir); err != nil {
+			errs = append(errs, err)
+		}
+		if err := r.resolveColumns(); err != nil {
+			errs = append(errs, err)
+		}
+	}
+	return rels, errors.Join(errs...)
+}
+
+// relationKey is the identity of a table's relation in DuckDB, which
+// matches names without regard to case and puts unqualified names in the
+// main schema of the memory catalog.
+func relationKey(t *planner.Table) (string, error) {
+	parts := t.Relation
+	if len(parts) == 0 {
+		parts = []string{t.Name}
+	}
+	if len(parts) > 3 {
+		return "", fmt.Errorf("table %s: relation %q has %d parts; DuckDB names have at most three (catalog.schema.name)",
+			t.Name, strings.Join(parts, "."), len(parts))
+	}
+	for _, p := range parts {
+		if p == "" {
+			return "", fmt.Errorf("table %s: relation %q has an empty part", t.Name, strings.Join(parts, "."))
+		}
+	}
+	full := append([]string{"memory", "main"}[:3-len(parts)], parts...)
+	return strings.ToLower(quoteName(full)), nil
+}
+
+// displayName is the relation as written in the model.
+func (r *relation) displayName() string {
+	if len(r.name) == 0 {
+		return r.tables[0].Name
+	}
+	return strings.Join(r.name, ".")
+}
+
+// sqlName is the relation's quoted SQL name.
+func (r *relation) sqlName() string {
+	if len(r.name) == 0 {
+		return quoteIdent(r.tables[0].Name)
+	}
+	return quoteName(r.name)
+}
+
+// tableNames lists the names of the tables reading r.
+func (r *relation) tableNames() string {
+	names := make([]string, len(r.tables))
+	for i, t := range r.tables {
+		names[i] = t.Name
+	}
+	return strings.Join(names, ", ")
+}
+
+// resolveFile finds the one data file of r.
+func (r *relation) resolveFile(dataDir string) error {
+	var errs []error
+	var from *planner.Table
+	for _, t := range r.tables {
+		f, err := dataFile(t, dataDir)
+		if err != nil {
+			errs = append(errs, err)
+			continue
+		}
+		if f == "" {
+			continue
+		}
+		if r.file == "" {
+			r.file, from = f, t
+		} else if filepath.Clean(f) != filepath.Clean(r.file) {
+			errs = append(errs, fmt.Errorf("tables %s and %s both read relation %q but from different files, %s and %s; give them the same file",
+				from.Name, t.Name, r.displayName(), r.file, f))
+		}
+	}
+	if len(errs) > 0 {
+		return errors.Join(errs...)
+	}
+	if r.file != "" {
+		return nil
+	}
+	t := r.tables[0]
+	if dataDir != "" {
+		return fmt.Errorf("table %s has no data file: --data %s holds neither %s.csv nor %s.parquet",
+			t.Name, dataDir, t.Name, t.Name)
+	}
+	return fmt.Errorf("table %s has no data file: write `from \"FILE\"` in its declaration (a .csv or .parquet file, relative to the model file), or run with --data DIR where DIR holds %s.csv or %s.parquet",
+		t.Name, t.Name, t.Name)
+}
+
+// dataFile returns the data file of t, or "" when it has none.
+func dataFile(t *planner.Table, dataDir string) (string, error) {
+	if dataDir != "" {
+		if t.Name == "" || t.Name == "." || t.Name == ".." || strings.ContainsAny(t.Name, `/\`) {
+			return "", fmt.Errorf("table %q: its name cannot be used as a file name in --data %s", t.Name, dataDir)
+		}
+		csvPath := filepath.Join(dataDir, t.Name+".csv")
+		pqPath := filepath.Join(dataDir, t.Name+".parquet")
+		hasCSV, hasPQ := isFile(csvPath), isFile(pqPath)
+		switch {
+		case hasCSV && hasPQ:
+			return "", fmt.Errorf("table %s: both %s and %s exist; keep only one", t.Name, csvPath, pqPath)
+		case hasCSV:
+			return csvPath, nil
+		case hasPQ:
+			return pqPath, nil
+		}
+		return "", nil
+	}
+	if t.File == "" {
+		return "", nil
+	}
+	switch strings.ToLower(filepath.Ext(t.File)) {
+	case ".csv", ".parquet":
+		return t.File, nil
+	}
+	return "", fmt.Errorf("table %s: data file %s: rollwise reads .csv and .parquet files only", t.Name, t.File)
+}
+
+// isFile reports whether path names an existing file (or a link to one).
+func isFile(path string) bool {
+	fi, err := os.Stat(path)
+	return err == nil && !fi.IsDir()
+}
+
+// resolveColumns collects the stored columns of r's tables, in declaration
+// order, checking that tables sharing the relation agree on their types.
+func (r *relation) resolveColumns() error {
+	var errs []error
+	seen := map[string]column{}
+	for _, t := range r.tables {
+		for _, c := range t.Columns {
+			if c == nil || !c.Stored() {
+				continue
+			}
+			dt, err := duckType(c.Type)
+			if err != nil {
+				errs = append(errs, fmt.Errorf("table %s: column %s: %v", t.Name, c.Name, err))
+				continue
+			}
+			key := strings.ToLower(c.Name)
+			if prev, ok := seen[key]; ok {
+				if prev.table == t {
+					errs = append(errs, fmt.Errorf("table %s: columns %s and %s differ only in case, which DuckDB does not tell apart",
+						t.Name, prev.name, c.Name))
+				} else if prev.typ != c.Type {
+					errs = append(errs, fmt.Errorf("tables %s and %s both read relation %q but declare column %s as %s and %s",
+						prev.table.Name, t.Name, r.displayName(), c.Name, prev.typ, c.Type))
+				}
+				continue
+			}
+			col := column{name: c.Name, typ: c.Type, duckType: dt, table: t}
+			seen[key] = col
+			r.columns = append(r.columns, col)
+		}
+	}
+	return errors.Join(errs...)
+}
+
+// load creates r in the database.
+func load(ctx context.Context, conn *sql.Conn, r *relation) error {
+	if err := createNamespace(ctx, conn, r.name); err != nil {
+		return fmt.Errorf("table %s: creating relation %q: %v", r.tables[0].Name, r.displayName(), err)
+	}
+	if _, err := os.Stat(r.file); err != nil {
+		return fmt.Errorf("table %s: data file: %v", r.tables[0].Name, err)
+	}
+	if strings.ContainsAny(r.file, "*?[") {
+		return fmt.Errorf("table %s: data file %s: DuckDB would read a name with *, ? or [ as a pattern; rename the file",
+			r.tables[0].Name, r.file)
+	}
+	if strings.EqualFold(filepath.Ext(r.file), ".parquet") {
+		return loadParquet(ctx, conn, r)
+	}
+	return loadCSV(ctx, conn, r)
+}
+
+// createNamespace creates the catalog and schema a qualified relation
+// name needs.
+func createNamespace(ctx context.Context, conn *sql.Conn, name []string) error {
+	switch len(name) {
+	case 2:
+		_, err := conn.ExecContext(ctx, "CREATE SCHEMA IF NOT EXISTS "+quoteIdent(name[0]))
+		return err
+	case 3:
+		if !strings.EqualFold(name[0], "memory") {
+			if _, err := conn.ExecContext(ctx, "ATTACH IF NOT EXISTS ':memory:' AS "+quoteIdent(name[0])); err != nil {
+				return err
+			}
+		}
+		_, err := conn.ExecContext(ctx, "CREATE SCHEMA IF NOT EXISTS "+quoteName(name[:2]))
+		return err
+	}
+	return nil
+}
