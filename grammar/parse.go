@@ -187,7 +187,13 @@ var productionNames = strings.NewReplacer(
 	"<string>", "a 'string'", "<number>", "a number", "<eof>", "the end of the declaration",
 )
 
-var tokenRe = regexp.MustCompile(`unexpected token "([^"]*)"`)
+var (
+	tokenRe    = regexp.MustCompile(`unexpected token "([^"]*)"`)
+	expectedRe = regexp.MustCompile(`^(.*?) \(expected (.*)\)$`)
+	// firstExpected keeps the first thing participle expected, not the
+	// whole rest of the production.
+	firstExpected = regexp.MustCompile(`^("[^"]*"|a "double-quoted" text|table\.column|a 'string'|(an? |the )?[a-z, ]+[a-z])`)
+)
 
 func syntaxDiag(err error, start lexer.Position) *Diagnostic {
 	var perr participle.Error
@@ -200,6 +206,11 @@ func syntaxDiag(err error, start lexer.Position) *Diagnostic {
 	msg = productionNames.Replace(msg)
 	if m := tokenRe.FindStringSubmatch(msg); m != nil && m[1] == "<EOF>" {
 		msg = strings.Replace(msg, `unexpected token "<EOF>"`, "unexpected end of declaration", 1)
+	}
+	if m := expectedRe.FindStringSubmatch(msg); m != nil {
+		if first := firstExpected.FindString(m[2]); first != "" {
+			msg = m[1] + " (expected " + first + ")"
+		}
 	}
 	d := &Diagnostic{Pos: pos(p), Severity: Error, Code: "syntax", Message: "syntax error: " + msg}
 	if strings.Contains(msg, `"`) && keywordToken(msg) {

@@ -84,6 +84,8 @@ func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
 		q.GroupNames = append(q.GroupNames, ref)
 		q.GroupPos = append(q.GroupPos, p)
 	}
+	diags.Append(r.diags)
+	r.diags = nil
 	if strings.TrimSpace(spec.Where) != "" {
 		e, d := grammar.ParseExpr("--where", spec.Where)
 		diags.Append(d)
@@ -181,4 +183,3 @@ func SplitList(s string) []string {
 	}
 	return out
 }
-

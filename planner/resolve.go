@@ -13,7 +13,7 @@ import (
 // every error and warning found; the model is nil when there are errors.
 func Load(files []*grammar.File) (*Model, grammar.Diagnostics) {
 	r := &resolver{
-		m: &Model{tables: map[string]*Table{}, measures: map[string]*Measure{}},
+		m:            &Model{tables: map[string]*Table{}, measures: map[string]*Measure{}},
 		measureDecls: map[string]*grammar.MeasureDecl{},
 		state:        map[string]int{},
 	}

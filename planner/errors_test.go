@@ -1,0 +1,184 @@
+package planner_test
+
+import (
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+const shop = `table sales {
+  key id
+  id integer
+  store_id integer -> stores.id
+  price decimal nonadditive
+  qty integer
+  note text
+  day date
+  balance decimal semiadditive(sales.day)
+}
+table stores {
+  key id
+  id integer
+  region text
+}
+table repairs {
+  key id
+  id integer
+  fee decimal
+}
+`
+
+// load parses and resolves src (after the shop tables) and returns every
+// diagnostic as "line:col: severity: message".
+func load(t *testing.T, src string) (*planner.Model, []string) {
+	t.Helper()
+	f, d := grammar.Parse("m.roll", shop+src)
+	var m *planner.Model
+	if !d.HasErrors() {
+		var d2 grammar.Diagnostics
+		m, d2 = planner.Load([]*grammar.File{f})
+		d = append(d, d2...)
+	}
+	var out []string
+	for _, x := range d {
+		out = append(out, strings.TrimPrefix(x.Error(), "m.roll:")+suggestion(x))
+	}
+	return m, out
+}
+
+func suggestion(d *grammar.Diagnostic) string {
+	s := ""
+	for _, n := range d.Notes {
+		s += " | note: " + n
+	}
+	if d.Suggestion != "" {
+		s += " | hint: " + d.Suggestion
+	}
+	return s
+}
+
+// line is the line number of the first line after the shop tables.
+var line = strings.Count(shop, "\n") + 1
+
+func at(l, col int) string { return strings.TrimPrefix(grammar.Pos{Line: line + l, Col: col}.String(), "") }
+
+func expectErrors(t *testing.T, src string, want ...string) {
+	t.Helper()
+	_, got := load(t, src)
+	if len(got) != len(want) {
+		t.Fatalf("got %d diagnostics, want %d:\n%s", len(got), len(want), strings.Join(got, "\n"))
+	}
+	for i := range want {
+		if got[i] != want[i] {
+			t.Errorf("diagnostic %d:\n got: %s\nwant: %s", i, got[i], want[i])
+		}
+	}
+}
+
+func TestUnknownColumnHasHint(t *testing.T) {
+	expectErrors(t, "measure m = sum(sales.qtty)\n",
+		at(0, 23)+": error: unknown column 'qtty' in table sales; did you mean 'qty'?")
+}
+
+func TestUnknownMeasureHasHint(t *testing.T) {
+	expectErrors(t, "measure units = sum(sales.qty)\nmeasure m = unit * 2\n",
+		at(1, 13)+": error: unknown measure 'unit'; did you mean 'units'?")
+}
+
+func TestMeasureCycleIsPrinted(t *testing.T) {
+	expectErrors(t, "measure a = b + sum(sales.qty)\nmeasure b = c\nmeasure c = a * 2\n",
+		at(0, 9)+": error: measure a depends on itself | note: the cycle: a -> b -> c -> a")
+}
+
+func TestNonadditiveSum(t *testing.T) {
+	expectErrors(t, "measure p = sum(sales.price)\n",
+		at(0, 13)+": error: sum of sales.price, which is declared nonadditive: adding it across rows gives a meaningless number"+
+			" | hint: write avg(sales.price), a weighted ratio such as sum(sales.price * t.qty) / sum(t.qty), or a per-grain measure such as avg(m per t.c)")
+}
+
+func TestSemiadditiveSumNeedsPin(t *testing.T) {
+	expectErrors(t, "measure b = sum(sales.balance)\nmeasure ok = sum(sales.balance)[sales.day = date '2026-01-31']\n",
+		at(0, 13)+": error: sum of sales.balance, which is semiadditive: it adds up across everything but sales.day"+
+			" | hint: pin the date to one value, for example sum(sales.balance)[sales.day = date '2026-01-31']")
+}
+
+func TestTypeErrors(t *testing.T) {
+	expectErrors(t, "measure a = sum(sales.note)\nmeasure b = max(sales.day / 2)\n",
+		at(0, 17)+": error: cannot sum a text value | hint: count(distinct ...) counts values; min and max work on any type",
+		at(1, 27)+": error: cannot divide a date value | hint: date arithmetic is not part of the language; use extract(year from d) or date_trunc(month, d)")
+}
+
+func TestNoIterationTable(t *testing.T) {
+	expectErrors(t, "measure a = sum(sales.qty * repairs.fee)\n",
+		at(0, 13)+": error: the aggregate reads tables sales, repairs, and none of them reaches all the others along links"+
+			" | hint: declare a link (-> TABLE.KEY) from the fact table to the others, or split the aggregate into two measures")
+}
+
+func TestProductOfSumsWarns(t *testing.T) {
+	m, got := load(t, "measure a = sum(sales.qty) * sum(sales.price * sales.qty)\n")
+	if m == nil || len(got) != 1 || !strings.HasPrefix(got[0], at(0, 28)+": warning: this multiplies two totals") {
+		t.Fatalf("got %v", got)
+	}
+}
+
+func TestLinkErrors(t *testing.T) {
+	_, got := load(t, "table a {\n  key id\n  id integer\n  r text -> stores.region\n}\n")
+	if len(got) != 1 || !strings.Contains(got[0], "does not point at the key of stores") {
+		t.Fatalf("link to a non-key: %v", got)
+	}
+	_, got = load(t, `table hq at "stores" {
+  key id
+  id integer
+  region_id integer -> stores.id
+}
+table x {
+  key id
+  id integer
+  s integer -> stores.id
+  h integer -> hq.id
+}
+`)
+	if len(got) != 1 || !strings.Contains(got[0], "two different link paths lead from x to stores") ||
+		!strings.Contains(got[0], "first path: x -> stores") || !strings.Contains(got[0], "second path: x -> hq -> stores") {
+		t.Fatalf("two paths: %v", got)
+	}
+}
+
+func TestUnreachableGrouping(t *testing.T) {
+	m, d := load(t, "measure fees = sum(repairs.fee)\n")
+	if m == nil {
+		t.Fatal(d)
+	}
+	q, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"fees"}, By: []string{"stores.region"}})
+	if qd.HasErrors() {
+		t.Fatal(qd)
+	}
+	_, pd := planner.NewPlan(q)
+	want := "--by:1:1: error: cannot group by stores.region: measure fees iterates over repairs, and no link leads from repairs to stores"
+	if len(pd) != 1 || pd[0].Error() != want {
+		t.Fatalf("got %v\nwant %s", pd, want)
+	}
+}
+
+func TestQueryErrorsHavePositions(t *testing.T) {
+	m, d := load(t, "measure units = sum(sales.qty)\n")
+	if m == nil {
+		t.Fatal(d)
+	}
+	_, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"units", "unts"}, By: []string{"stores.region", "sales.qtty"},
+		Where: "stores.region = 'North' and sales.qty >"})
+	var got []string
+	for _, x := range qd {
+		got = append(got, x.Error())
+	}
+	want := []string{
+		"--measures:1:7: error: unknown measure 'unts'; did you mean 'units'?",
+		"--by:1:21: error: unknown column 'qtty' in table sales; did you mean 'qty'?",
+		"--where:1:40: error: syntax error: unexpected end of declaration (expected a value)",
+	}
+	if strings.Join(got, "\n") != strings.Join(want, "\n") {
+		t.Errorf("got:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
+	}
+}
