@@ -200,7 +200,7 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 	}
 	// rowid counts data records from 0; the header is line 1. (A quoted
 	// field spanning lines would shift this.)
-	return fmt.Errorf("%s:%d: column %s (%s): %s", r.file, worst.row+2, worst.col.name, worst.col.typ, worst.explain())
+	return fmt.Errorf("%s:%d: column %s.%s (%s): %s", r.file, worst.row+2, worst.col.table.Name, worst.col.name, worst.col.typ, worst.explain())
 }
 
 // badValue is a CSV value its column's type cannot hold exactly.

@@ -216,10 +216,10 @@ func TestCSVWrongTypeNamesFileLineColumnAndValue(t *testing.T) {
 		typ       planner.Type
 		want      []string
 	}{
-		{"text in integer", "id,v\n1,2\n2,abc\n", planner.TypeInteger, []string{":3:", "column v (integer)", `"abc"`}},
+		{"text in integer", "id,v\n1,2\n2,abc\n", planner.TypeInteger, []string{":3:", "column t.v (integer)", `"abc"`}},
 		{"fraction in integer", "id,v\n1,3.5\n", planner.TypeInteger, []string{":2:", `"3.5"`, "not a whole number"}},
 		{"huge integer", "id,v\n1,99999999999999999999\n", planner.TypeInteger, []string{":2:", "out of range"}},
-		{"bad date", "id,v\n1,2026-01-31\n2,2026-02-30\n", planner.TypeDate, []string{":3:", "column v (date)", `"2026-02-30"`, "YYYY-MM-DD"}},
+		{"bad date", "id,v\n1,2026-01-31\n2,2026-02-30\n", planner.TypeDate, []string{":3:", "column t.v (date)", `"2026-02-30"`, "YYYY-MM-DD"}},
 		{"bad boolean", "id,v\n1,maybe\n", planner.TypeBoolean, []string{":2:", `"maybe"`}},
 		{"bad float", "id,v\n1,1.5\n2,1,5\n", planner.TypeFloat, []string{"Line: 3"}},
 		{"huge decimal", "id,v\n1,1" + strings.Repeat("0", 33) + "\n", planner.TypeDecimal, []string{":2:", "out of range for decimal"}},

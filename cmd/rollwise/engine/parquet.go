@@ -106,5 +106,5 @@ func checkParquetColumn(ctx context.Context, conn *sql.Conn, r *relation, c colu
 		return fmt.Errorf("table %s: %s: column %s (%s in the file, declared %s): %s",
 			c.table.Name, r.file, c.name, s.typ, c.typ, firstParagraph(err.Error()))
 	}
-	return fmt.Errorf("%s: row %d: column %s (%s): %s", r.file, b.row+1, c.name, c.typ, b.explain())
+	return fmt.Errorf("%s: row %d: column %s.%s (%s): %s", r.file, b.row+1, c.table.Name, c.name, c.typ, b.explain())
 }
