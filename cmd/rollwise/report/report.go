@@ -1,0 +1,206 @@
+// Package report writes query results for people (aligned tables,
+// Markdown) and for machines (CSV, JSON).
+//
+// A result row is either a detail row or a total row: a total row has one
+// or more group columns rolled up (it is the measures re-evaluated without
+// grouping on them). People see the rolled-up cells labelled "Total" (or
+// "All" in the grand total, where every group column is rolled up);
+// machines get them as NULL plus the row's list of rolled-up columns, so
+// that a total is never confused with a genuine NULL group value.
+package report
+
+import (
+	"errors"
+	"fmt"
+	"io"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// Column describes one column of a result.
+type Column struct {
+	// Name is the column's heading and JSON key: the group reference as
+	// written (e.g. "plants.family") or the measure name.
+	Name string
+	// Group marks a group column (a --by column), which total rows roll up.
+	Group bool
+	// Format says how a measure's values are shown in the table and
+	// markdown formats.
+	Format planner.Format
+}
+
+// Row is one result row.
+type Row struct {
+	// Values holds one value per column: nil, int64, float64,
+	// decimal.Decimal, string, bool or time.Time (other integer and float
+	// types are accepted too). The values of rolled-up columns are ignored.
+	Values []any
+	// RolledUp names the group columns rolled up in this row; empty for a
+	// detail row.
+	RolledUp []string
+}
+
+// Table is a query result to write.
+type Table struct {
+	Columns []Column
+	Rows    []Row
+}
+
+// Options say how to write a table.
+type Options struct {
+	// Format is one of table, csv, json, markdown; "" means table.
+	Format string
+	// Color makes total rows bold in the table format (ANSI escapes).
+	Color bool
+	// Width, when positive, is the terminal width: the table format
+	// wraps its widest text columns to fit. Numbers are never cut.
+	Width int
+}
+
+// The output formats.
+const (
+	FormatTable    = "table"
+	FormatCSV      = "csv"
+	FormatJSON     = "json"
+	FormatMarkdown = "markdown"
+)
+
+// Formats lists the valid output format names.
+func Formats() []string {
+	return []string{FormatTable, FormatCSV, FormatJSON, FormatMarkdown}
+}
+
+// ValidFormat returns nil when s names an output format, and otherwise an
+// error that lists the valid names.
+func ValidFormat(s string) error {
+	for _, f := range Formats() {
+		if s == f {
+			return nil
+		}
+	}
+	return fmt.Errorf("unknown format %q: valid formats are %s", s, strings.Join(Formats(), ", "))
+}
+
+// Write writes t to w in the format o.Format.
+func Write(w io.Writer, t *Table, o Options) error {
+	format := o.Format
+	if format == "" {
+		format = FormatTable
+	}
+	if err := ValidFormat(format); err != nil {
+		return err
+	}
+	p, err := prepare(t)
+	if err != nil {
+		return err
+	}
+	switch format {
+	case FormatCSV:
+		return writeCSV(w, p)
+	case FormatJSON:
+		return writeJSON(w, p)
+	case FormatMarkdown:
+		return writeMarkdown(w, p)
+	}
+	return writeTable(w, p, o)
+}
+
+// prepared is a validated table with every cell rendered in every form.
+type prepared struct {
+	cols []Column
+	// numeric marks columns whose values are all numbers (right-aligned).
+	numeric []bool
+	rows    []preparedRow
+}
+
+// preparedRow is a validated row.
+type preparedRow struct {
+	cells    []cell
+	rolledUp []string
+	// grand marks the grand total: every group column rolled up.
+	grand bool
+}
+
+// cell is one value in the forms the writers need.
+type cell struct {
+	rolled bool
+	null   bool
+	json   string // a JSON literal
+	raw    string // full-precision text for CSV; "" for NULL
+	show   string // display text for people
+}
+
+// prepare validates t and renders its cells.
+func prepare(t *Table) (*prepared, error) {
+	if t == nil {
+		return nil, errors.New("report: no table")
+	}
+	p := &prepared{cols: t.Columns, numeric: make([]bool, len(t.Columns))}
+	groups := map[string]bool{}
+	groupCount := 0
+	for _, c := range t.Columns {
+		if c.Group {
+			groups[c.Name] = true
+			groupCount++
+		}
+	}
+	dates := dateColumns(t)
+	seenValue := make([]bool, len(t.Columns))
+	for j := range p.numeric {
+		p.numeric[j] = true
+	}
+	for i, r := range t.Rows {
+		if len(r.Values) != len(t.Columns) {
+			return nil, fmt.Errorf("report: row %d has %d values for %d columns", i+1, len(r.Values), len(t.Columns))
+		}
+		rolled := map[string]bool{}
+		for _, name := range r.RolledUp {
+			if !groups[name] {
+				return nil, fmt.Errorf("report: row %d rolls up %q, which is not a group column", i+1, name)
+			}
+			rolled[name] = true
+		}
+		pr := preparedRow{cells: make([]cell, len(t.Columns)), rolledUp: r.RolledUp}
+		pr.grand = len(rolled) > 0 && len(rolled) == groupCount
+		for j, c := range t.Columns {
+			if c.Group && rolled[c.Name] {
+				pr.cells[j] = cell{rolled: true, null: true, json: "null"}
+				continue
+			}
+			v, err := renderValue(r.Values[j], c, dates[j])
+			if err != nil {
+				return nil, fmt.Errorf("report: row %d, column %s: %v", i+1, c.Name, err)
+			}
+			pr.cells[j] = v.cell
+			if !v.cell.null {
+				seenValue[j] = true
+				p.numeric[j] = p.numeric[j] && v.number
+			}
+		}
+		p.rows = append(p.rows, pr)
+	}
+	for j := range p.numeric {
+		p.numeric[j] = p.numeric[j] && seenValue[j]
+	}
+	return p, nil
+}
+
+// checkKeys refuses column names that would make CSV headers or JSON keys
+// ambiguous.
+func checkKeys(cols []Column) error {
+	seen := map[string]bool{rolledUpKey: true}
+	for _, c := range cols {
+		if seen[c.Name] {
+			if c.Name == rolledUpKey {
+				return fmt.Errorf("report: a column is named %q, which the csv and json formats use for the rolled-up columns", rolledUpKey)
+			}
+			return fmt.Errorf("report: two columns are named %q", c.Name)
+		}
+		seen[c.Name] = true
+	}
+	return nil
+}
+
+// rolledUpKey is the name of the rolled-up list in CSV and JSON.
+const rolledUpKey = "rolled_up"

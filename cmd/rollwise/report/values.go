@@ -1,0 +1,218 @@
+package report
+
+import (
+	"encoding/json"
+	"fmt"
+	"math"
+	"strconv"
+	"strings"
+	"time"
+
+	"github.com/rollwise/rollwise/planner"
+	"github.com/shopspring/decimal"
+)
+
+// rendered is a value in all its forms.
+type rendered struct {
+	cell   cell
+	number bool
+}
+
+// nullText is how a NULL group value is shown to people.
+const nullText = "(null)"
+
+// renderValue renders one value of column c. asDate says the column's time
+// values are all dates.
+func renderValue(v any, c Column, asDate bool) (rendered, error) {
+	v, err := normalize(v)
+	if err != nil {
+		return rendered{}, err
+	}
+	switch x := v.(type) {
+	case nil:
+		show := ""
+		if c.Group {
+			show = nullText
+		}
+		return rendered{cell: cell{null: true, json: "null", show: show}}, nil
+	case int64:
+		s := strconv.FormatInt(x, 10)
+		return rendered{number: true, cell: cell{json: s, raw: s, show: showNumber(decimal.NewFromInt(x), c)}}, nil
+	case float64:
+		if math.IsNaN(x) || math.IsInf(x, 0) {
+			s := strconv.FormatFloat(x, 'g', -1, 64) // NaN, +Inf, -Inf
+			return rendered{number: true, cell: cell{json: "null", raw: s, show: s}}, nil
+		}
+		s := shortestFloat(x)
+		return rendered{number: true, cell: cell{json: s, raw: s, show: showNumber(decimal.NewFromFloat(x), c)}}, nil
+	case decimal.Decimal:
+		s := x.String()
+		return rendered{number: true, cell: cell{json: s, raw: s, show: showNumber(x, c)}}, nil
+	case string:
+		return rendered{cell: cell{json: jsonString(x), raw: x, show: x}}, nil
+	case bool:
+		s := strconv.FormatBool(x)
+		return rendered{cell: cell{json: s, raw: s, show: s}}, nil
+	case time.Time:
+		if asDate {
+			s := x.Format(time.DateOnly)
+			return rendered{cell: cell{json: jsonString(s), raw: s, show: s}}, nil
+		}
+		s := x.Format(time.RFC3339Nano)
+		return rendered{cell: cell{json: jsonString(s), raw: s, show: x.Format("2006-01-02 15:04:05.999999999")}}, nil
+	}
+	return rendered{}, fmt.Errorf("unsupported value type %T", v)
+}
+
+// normalize maps the accepted Go types onto the few renderValue handles.
+func normalize(v any) (any, error) {
+	switch x := v.(type) {
+	case int:
+		return int64(x), nil
+	case int8:
+		return int64(x), nil
+	case int16:
+		return int64(x), nil
+	case int32:
+		return int64(x), nil
+	case uint8:
+		return int64(x), nil
+	case uint16:
+		return int64(x), nil
+	case uint32:
+		return int64(x), nil
+	case uint:
+		return decimal.NewFromUint64(uint64(x)), nil
+	case uint64:
+		return decimal.NewFromUint64(x), nil
+	case float32:
+		f, err := strconv.ParseFloat(strconv.FormatFloat(float64(x), 'g', -1, 32), 64)
+		if err != nil {
+			return float64(x), nil
+		}
+		return f, nil
+	case *decimal.Decimal:
+		if x == nil {
+			return nil, nil
+		}
+		return *x, nil
+	case decimal.NullDecimal:
+		if !x.Valid {
+			return nil, nil
+		}
+		return x.Decimal, nil
+	case time.Time:
+		return x.UTC(), nil
+	}
+	return v, nil
+}
+
+// shortestFloat renders a finite float in the shortest form that reads
+// back as the same float, as JSON does (an exponent only for very large
+// or very small magnitudes).
+func shortestFloat(f float64) string {
+	b, err := json.Marshal(f)
+	if err != nil {
+		return strconv.FormatFloat(f, 'g', -1, 64)
+	}
+	return string(b)
+}
+
+// jsonString renders s as a JSON string, leaving <, > and & as they are.
+func jsonString(s string) string {
+	var b strings.Builder
+	enc := json.NewEncoder(&b)
+	enc.SetEscapeHTML(false)
+	if err := enc.Encode(s); err != nil {
+		return `""`
+	}
+	return strings.TrimSuffix(b.String(), "\n")
+}
+
+// dateColumns reports, per column, whether every time value in it falls
+// on midnight UTC, in which case the column is shown as dates.
+func dateColumns(t *Table) []bool {
+	dates := make([]bool, len(t.Columns))
+	for j := range dates {
+		dates[j] = true
+	}
+	for _, r := range t.Rows {
+		for j, v := range r.Values {
+			if j >= len(dates) {
+				break
+			}
+			tv, ok := v.(time.Time)
+			if !ok {
+				continue
+			}
+			tv = tv.UTC()
+			if tv.Hour() != 0 || tv.Minute() != 0 || tv.Second() != 0 || tv.Nanosecond() != 0 {
+				dates[j] = false
+			}
+		}
+	}
+	return dates
+}
+
+// showNumber formats a number for people according to the column's
+// format. Group columns show their values in full.
+func showNumber(d decimal.Decimal, c Column) string {
+	if c.Group {
+		return d.String()
+	}
+	switch c.Format {
+	case planner.FormatPercent:
+		return groupThousands(d.Shift(2).StringFixed(1)) + "%"
+	case planner.FormatCurrency:
+		return groupThousands(d.StringFixed(2))
+	case planner.FormatInteger:
+		return groupThousands(d.StringFixed(0))
+	case planner.FormatNumber:
+		return groupThousands(fewDecimals(d))
+	}
+	return fewDecimals(d)
+}
+
+// fewDecimals rounds d to at most four decimal places, dropping trailing
+// zeros; a nonzero value that would round to zero keeps up to four
+// significant digits instead.
+func fewDecimals(d decimal.Decimal) string {
+	places := int32(4)
+	if !d.IsZero() {
+		for d.Round(places).IsZero() && places < 60 {
+			places++
+		}
+		if places > 4 {
+			places += 3
+		}
+	}
+	return d.Round(places).String()
+}
+
+// groupThousands puts commas between groups of three digits in the integer
+// part of a plain decimal number.
+func groupThousands(s string) string {
+	sign := ""
+	if strings.HasPrefix(s, "-") {
+		sign, s = "-", s[1:]
+	}
+	intPart, frac := s, ""
+	if i := strings.IndexByte(s, '.'); i >= 0 {
+		intPart, frac = s[:i], s[i:]
+	}
+	if len(intPart) <= 3 {
+		return sign + intPart + frac
+	}
+	var b strings.Builder
+	lead := len(intPart) % 3
+	if lead > 0 {
+		b.WriteString(intPart[:lead])
+	}
+	for i := lead; i < len(intPart); i += 3 {
+		if b.Len() > 0 {
+			b.WriteByte(',')
+		}
+		b.WriteString(intPart[i : i+3])
+	}
+	return sign + b.String() + frac
+}
