@@ -19,8 +19,9 @@ import (
 // double quotes, a header row naming the columns. Only the stored columns
 // are kept, in their declared types; empty fields are NULL.
 //
-// Integer and decimal fields are read as text and cast after a check that
-// the cast does not round (DuckDB would read 3.5 as the integer 4, and
+// Timestamps with a time zone offset are converted to UTC. Integer and
+// decimal fields are read as text and cast after a check that the cast
+// does not round (DuckDB would read 3.5 as the integer 4, and
 // 1.2345678 as 1.234568). Any failure is diagnosed by diagnoseCSV, which
 // names the file, line, column and value.
 func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
@@ -43,6 +44,9 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 		case planner.TypeInteger, planner.TypeDecimal:
 			selects[i] = fmt.Sprintf("CASE WHEN %s THEN error('rollwise: value would be rounded') ELSE CAST(%s AS %s) END AS %s",
 				lossyExpr(field, scaleOf(c.typ)), field, c.duckType, quoteIdent(c.name))
+		case planner.TypeTimestamp:
+			readTypes[at[i]] = parseType(c)
+			selects[i] = fmt.Sprintf("CAST(%s AS TIMESTAMP) AS %s", field, quoteIdent(c.name))
 		default:
 			readTypes[at[i]] = c.duckType
 			selects[i] = field + " AS " + quoteIdent(c.name)
@@ -56,6 +60,16 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 		return fmt.Errorf("table %s: %s: %s", r.tables[0].Name, r.file, firstParagraph(err.Error()))
 	}
 	return nil
+}
+
+// parseType is the type a text value of column c is parsed as. Timestamps
+// are parsed with their time zone offset, if any, and then held in UTC
+// (DuckDB's TIMESTAMP would drop the offset).
+func parseType(c column) string {
+	if c.typ == planner.TypeTimestamp {
+		return "TIMESTAMPTZ"
+	}
+	return c.duckType
 }
 
 // scaleOf is the number of decimal places a column of type t holds.
@@ -177,12 +191,12 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 			continue
 		}
 		k := fmt.Sprintf("k%d", i)
-		cond := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", k, c.duckType)
+		cond := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", k, parseType(c))
 		if c.typ == planner.TypeInteger || c.typ == planner.TypeDecimal {
 			cond += " OR " + lossyExpr(k, scaleOf(c.typ))
 		}
 		q := fmt.Sprintf("SELECT rowid, %[1]s, TRY_CAST(%[1]s AS %[2]s) IS NULL, TRY_CAST(%[1]s AS DOUBLE) IS NOT NULL FROM %[3]s WHERE %[1]s IS NOT NULL AND (%[4]s) ORDER BY rowid LIMIT 1",
-			k, c.duckType, check, cond)
+			k, parseType(c), check, cond)
 		b := badValue{col: c}
 		err := conn.QueryRowContext(ctx, q).Scan(&b.row, &b.value, &b.unreadable, &b.numeric)
 		if errors.Is(err, sql.ErrNoRows) {

@@ -40,7 +40,8 @@ type column struct {
 // file, with the stored columns in their declared types. With dataDir set,
 // the file of table NAME is dataDir/NAME.csv or dataDir/NAME.parquet;
 // otherwise it is the table's `from` file. All problems found are returned
-// together; on error no database is returned.
+// together; on error no database is returned. The database's time zone
+// is UTC.
 func OpenDuckDB(ctx context.Context, m *planner.Model, dataDir string) (*sql.DB, error) {
 	if m == nil {
 		return nil, errors.New("no model to load")
@@ -60,6 +61,10 @@ func OpenDuckDB(ctx context.Context, m *planner.Model, dataDir string) (*sql.DB,
 		db.Close()
 		return nil, fmt.Errorf("opening DuckDB: %w", err)
 	}
+	// Time zones: UTC, whatever the machine's, so that results do not
+	// depend on where rollwise runs. (Without the ICU extension DuckDB
+	// has no time zones and is in UTC anyway, so a failure is harmless.)
+	conn.ExecContext(ctx, "SET GLOBAL TimeZone = 'UTC'") //nolint:errcheck // see above
 	var errs []error
 	for _, r := range rels {
 		if err := load(ctx, conn, r); err != nil {
@@ -251,6 +256,9 @@ func (r *relation) resolveColumns() error {
 			seen[key] = col
 			r.columns = append(r.columns, col)
 		}
+	}
+	if len(r.columns) == 0 && len(errs) == 0 {
+		errs = append(errs, fmt.Errorf("table %s declares no stored columns, so there is nothing to read from its data file", r.tableNames()))
 	}
 	return errors.Join(errs...)
 }

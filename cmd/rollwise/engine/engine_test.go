@@ -356,3 +356,30 @@ func TestErrorsFromSeveralTablesAreAllReported(t *testing.T) {
 		table("b", nil, "", col("x", planner.TypeInteger)),
 	), "", "table a has no data file", "table b has no data file")
 }
+
+func TestTimestampsAreHeldInUTC(t *testing.T) {
+	// DuckDB takes its time zone from the environment; rollwise must not.
+	t.Setenv("TZ", "America/New_York")
+	dir := t.TempDir()
+	file := writeFile(t, dir, "t.csv", "id,at\n1,2026-03-01T10:00:00+02:00\n2,2026-03-01 10:00:00\n3,2026-03-01\n")
+	pq := writeParquet(t, dir, "t.parquet", "SELECT * FROM (VALUES (1, TIMESTAMPTZ '2026-03-01 10:00:00+02'), (2, NULL)) v(id, \"at\")")
+	pqText := writeParquet(t, dir, "u.parquet", "SELECT 1 AS id, '2026-03-01T10:00:00+02:00' AS \"at\"")
+	m := model(
+		table("t", nil, file, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
+		table("p", nil, pq, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
+		table("u", nil, pqText, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
+	)
+	db := open(t, m, "")
+	at := func(h int) time.Time { return time.Date(2026, 3, 1, h, 0, 0, 0, time.UTC) }
+	expectRows(t, query(t, db, `SELECT "at", "at"::DATE AS day FROM "t" ORDER BY "id"`), []string{"at", "day"},
+		[][]any{{at(8), date(2026, 3, 1)}, {at(10), date(2026, 3, 1)}, {at(0), date(2026, 3, 1)}})
+	expectRows(t, query(t, db, `SELECT "at" FROM "p" ORDER BY "id"`), []string{"at"}, [][]any{{at(8)}, {nil}})
+	expectRows(t, query(t, db, `SELECT "at" FROM "u"`), []string{"at"}, [][]any{{at(8)}})
+	expectRows(t, query(t, db, `SELECT current_setting('TimeZone') AS tz`), []string{"tz"}, [][]any{{"UTC"}})
+}
+
+func TestTableWithoutStoredColumns(t *testing.T) {
+	dir := t.TempDir()
+	file := writeFile(t, dir, "t.csv", "a\n1\n")
+	expectOpenError(t, model(table("t", nil, file, derived("d", planner.TypeInteger))), "", "table t declares no stored columns")
+}
