@@ -2,7 +2,15 @@ module github.com/rollwise/rollwise
 
 go 1.26.8
 
-require github.com/alecthomas/participle/v2 v2.1.4
+require (
+	github.com/alecthomas/participle/v2 v2.1.4
+	github.com/spf13/cobra v1.10.2
+)
+
+require (
+	github.com/inconshreveable/mousetrap v1.1.0 // indirect
+	github.com/spf13/pflag v1.0.9 // indirect
+)
 
 require (
 	github.com/apache/arrow-go/v18 v18.5.1 // indirect
@@ -22,7 +30,7 @@ require (
 	github.com/klauspost/cpuid/v2 v2.3.0 // indirect
 	github.com/mattn/go-runewidth v0.0.16 // indirect
 	github.com/pierrec/lz4/v4 v4.1.25 // indirect
-	github.com/pingcap/go-tpc v1.0.7 // indirect
+	github.com/pingcap/go-tpc v1.0.7
 	github.com/rivo/uniseg v0.4.7 // indirect
 	github.com/shopspring/decimal v1.6.0
 	github.com/zeebo/xxh3 v1.1.0 // indirect

@@ -122,7 +122,7 @@ func (duckdb) TypeName(t planner.Type) string {
 	case planner.TypeInteger:
 		return "BIGINT"
 	case planner.TypeDecimal:
-		return "DECIMAL(38, 10)"
+		return "DECIMAL(38, 6)"
 	case planner.TypeFloat:
 		return "DOUBLE"
 	case planner.TypeDate:

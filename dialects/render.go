@@ -118,7 +118,8 @@ func (r *renderer) render() (string, error) {
 	if q.Limit > 0 {
 		rank := "ROW_NUMBER() OVER (PARTITION BY " + r.qual(keyTable, GroupingColumn) + " ORDER BY " + strings.Join(order, ", ") + ") AS " + r.q("detail_rank")
 		resName := r.cteName("result")
-		ctes = append(ctes, r.q(resName)+" AS (\n"+strings.Replace(body, "\nFROM ", ",\n  "+rank+"\nFROM ", 1)+"\n)")
+		inner := strings.Replace(body, "\nFROM ", ",\n  "+rank+"\nFROM ", 1)
+		ctes = append(ctes, r.q(resName)+" AS (\n  "+strings.ReplaceAll(inner, "\n", "\n  ")+"\n)")
 		var outCols []string
 		for _, g := range q.GroupNames {
 			outCols = append(outCols, r.q(g))

@@ -1,0 +1,80 @@
+package main
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// loadModel reads, parses and resolves model files (a folder stands for
+// the .roll files in it). Diagnostics are printed to stderr; the error is
+// an exitError with code 1 when there are errors.
+func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) {
+	src := grammar.Sources{}
+	var files []*grammar.File
+	var diags grammar.Diagnostics
+	for _, p := range paths {
+		names := []string{p}
+		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
+			names, _ = filepath.Glob(filepath.Join(p, "*.roll"))
+			sort.Strings(names)
+			if len(names) == 0 {
+				return nil, nil, usageErr("folder %s holds no .roll files", p)
+			}
+		}
+		for _, name := range names {
+			b, err := os.ReadFile(name)
+			if err != nil {
+				return nil, nil, usageErr("cannot read the model: %v", err)
+			}
+			if len(b) > grammar.MaxSourceBytes {
+				return nil, nil, usageErr("%s is %d bytes; the largest model file accepted is %d bytes", name, len(b), grammar.MaxSourceBytes)
+			}
+			src[name] = string(b)
+			f, d := grammar.Parse(name, string(b))
+			diags.Append(d)
+			files = append(files, f)
+		}
+	}
+	var m *planner.Model
+	if !diags.HasErrors() {
+		var d grammar.Diagnostics
+		m, d = planner.Load(files)
+		diags.Append(d)
+	}
+	printDiags(e, diags, src)
+	if diags.HasErrors() {
+		return nil, src, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
+	}
+	return m, src, nil
+}
+
+func printDiags(e *env, d grammar.Diagnostics, src grammar.Sources) {
+	d.Print(e.stderr, src, isTerminal(e.stderr))
+}
+
+func countErrors(d grammar.Diagnostics) string {
+	n := len(d.Errors())
+	if n == 1 {
+		return "1 error"
+	}
+	return fmt.Sprintf("%d errors", n)
+}
+
+// modelArgs checks that at least one model path was given.
+func modelArgs(args []string) error {
+	if len(args) == 0 {
+		return usageErr("name a model file (or a folder of .roll files)")
+	}
+	for _, a := range args {
+		if strings.HasPrefix(a, "-") {
+			return usageErr("unexpected %q", a)
+		}
+	}
+	return nil
+}

@@ -1,0 +1,136 @@
+package main
+
+import (
+	"fmt"
+
+	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// queryOptions are the flags that say what to compute, shared by sql and
+// run.
+type queryOptions struct {
+	models   []string
+	measures []string
+	by       []string
+	where    string
+	totals   string
+	order    string
+	limit    int
+	view     string
+	dialect  string
+}
+
+func (o *queryOptions) addFlags(cmd *cobra.Command) {
+	f := cmd.Flags()
+	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compute, comma-separated")
+	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
+	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
+	f.StringVar(&o.totals, "totals", "none", "total rows: none, grand, rollup or all")
+	f.StringVar(&o.order, "order", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
+	f.IntVar(&o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
+	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
+	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
+}
+
+// compiled is a planned and rendered query.
+type compiled struct {
+	model *planner.Model
+	query *planner.Query
+	plan  *planner.Plan
+	sql   string
+}
+
+// compile loads the model and plans and renders the query.
+func compile(e *env, o *queryOptions) (*compiled, error) {
+	d, err := dialects.Get(o.dialect)
+	if err != nil {
+		return nil, &exitError{code: exitUsage, err: err}
+	}
+	if o.limit < 0 {
+		return nil, usageErr("--limit must be a positive number, not %d", o.limit)
+	}
+	m, src, err := loadModel(e, o.models)
+	if err != nil {
+		return nil, err
+	}
+	var q *planner.Query
+	var diags grammar.Diagnostics
+	if o.view != "" {
+		if len(o.measures)+len(o.by) > 0 || o.where != "" {
+			return nil, usageErr("--view computes the view as declared; leave out -m, -b and -w")
+		}
+		var v *planner.View
+		for _, x := range m.Views {
+			if x.Name == o.view {
+				v = x
+			}
+		}
+		if v == nil {
+			var names []string
+			for _, x := range m.Views {
+				names = append(names, x.Name)
+			}
+			msg := fmt.Sprintf("the model has no view %q", o.view)
+			if near := grammar.Closest(o.view, names); near != "" {
+				msg += fmt.Sprintf("; did you mean %q?", near)
+			}
+			return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", msg)}
+		}
+		q = m.ViewQuery(v)
+	} else {
+		q, diags = m.NewQuery(planner.QuerySpec{Measures: o.measures, By: o.by, Where: o.where,
+			Totals: o.totals, Order: o.order, Limit: o.limit})
+	}
+	src["--where"] = o.where
+	if !diags.HasErrors() {
+		var p *planner.Plan
+		var pd grammar.Diagnostics
+		p, pd = planner.NewPlan(q)
+		diags.Append(pd)
+		if p != nil {
+			printDiags(e, diags, src)
+			sql, err := dialects.Render(p, d)
+			if err != nil {
+				return nil, &exitError{code: exitFindings, err: err}
+			}
+			return &compiled{model: m, query: q, plan: p, sql: sql}, nil
+		}
+	}
+	printDiags(e, diags, src)
+	return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
+}
+
+func newSQLCmd(e *env) *cobra.Command {
+	o := &queryOptions{}
+	cmd := &cobra.Command{
+		Use:   "sql MODEL... -m M1,M2 [-b T.C,...] [flags]",
+		Short: "Print the SQL statement that computes measures",
+		Example: `  rollwise sql garden.roll -m revenue,margin_rate -b plants.family --totals grand
+  rollwise sql garden.roll -m revenue -b stores.region -w "sales.sold_on >= date '2026-01-01'"`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := modelArgs(args); err != nil {
+				return err
+			}
+			o.models = args
+			c, err := compile(e, o)
+			if err != nil {
+				return err
+			}
+			fmt.Fprintln(e.stdout, c.sql+";")
+			printCautions(e, c.plan)
+			return nil
+		},
+	}
+	o.addFlags(cmd)
+	return cmd
+}
+
+func printCautions(e *env, p *planner.Plan) {
+	for _, c := range p.Cautions {
+		fmt.Fprintf(e.stderr, "caution: %s\n", c)
+	}
+}
