@@ -62,7 +62,9 @@ func suggestion(d *grammar.Diagnostic) string {
 // line is the line number of the first line after the shop tables.
 var line = strings.Count(shop, "\n") + 1
 
-func at(l, col int) string { return strings.TrimPrefix(grammar.Pos{Line: line + l, Col: col}.String(), "") }
+func at(l, col int) string {
+	return strings.TrimPrefix(grammar.Pos{Line: line + l, Col: col}.String(), "")
+}
 
 func expectErrors(t *testing.T, src string, want ...string) {
 	t.Helper()
