@@ -1,0 +1,34 @@
+-- TPC-H Q12, Shipping Modes and Order Priority Query.
+-- Source: TPC Benchmark H Standard Specification, Revision 2.17.1, clause
+-- 2.4.12 (2.4.12.2 functional query definition; 2.4.12.4 validation values
+-- SHIPMODE1 = MAIL, SHIPMODE2 = SHIP, DATE = 1994-01-01). Read: the dbgen
+-- query template queries/12.sql (third-party copies); the validation values
+-- are from memory of clause 2.4.12.4, matching third-party copies.
+select
+	l_shipmode,
+	sum(case
+		when o_orderpriority = '1-URGENT'
+			or o_orderpriority = '2-HIGH'
+			then 1
+		else 0
+	end) as high_line_count,
+	sum(case
+		when o_orderpriority <> '1-URGENT'
+			and o_orderpriority <> '2-HIGH'
+			then 1
+		else 0
+	end) as low_line_count
+from
+	orders,
+	lineitem
+where
+	o_orderkey = l_orderkey
+	and l_shipmode in ('MAIL', 'SHIP')
+	and l_commitdate < l_receiptdate
+	and l_shipdate < l_commitdate
+	and l_receiptdate >= date '1994-01-01'
+	and l_receiptdate < date '1994-01-01' + interval '1' year
+group by
+	l_shipmode
+order by
+	l_shipmode;
