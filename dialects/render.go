@@ -14,20 +14,21 @@ const GroupingColumn = "grouping_id"
 
 // Render prints a plan as one SQL statement for the dialect.
 func Render(p *planner.Plan, d Dialect) (string, error) {
-	r := &renderer{p: p, d: d, names: map[string]bool{}}
+	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{}}
 	return r.render()
 }
 
 type renderer struct {
 	p     *planner.Plan
 	d     Dialect
-	b     strings.Builder
 	names map[string]bool
-	// cells maps each scan to its grouped CTE's name.
-	cells map[*planner.Scan]string
-	// keys is the CTE that lists every cell when several scans are joined.
-	keys  string
-	multi bool
+	ctes  []string
+	// cte names the CTE holding each relation's cells; keyRel the CTE
+	// holding each context's rows.
+	cte    map[*planner.Rel]string
+	keyRel map[*planner.Context]string
+	// ctx is the context whose expressions are being rendered.
+	ctx *planner.Context
 }
 
 func (r *renderer) q(name string) string { return r.d.Ident(name) }
@@ -53,112 +54,163 @@ func (r *renderer) cteName(base string) string {
 	}
 }
 
+func (r *renderer) addCTE(name, body string) {
+	r.ctes = append(r.ctes, r.q(name)+" AS (\n"+body+"\n)")
+}
+
 func (r *renderer) render() (string, error) {
 	q := r.p.Query
-	if !r.d.Caps().GroupingSets && len(r.p.Sets) > 1 {
-		return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "grouping sets (total rows)",
-			Hint: "ask for --totals none"}
+	root := r.p.Root
+	if err := r.context(root); err != nil {
+		return "", err
 	}
-	r.cells = map[*planner.Scan]string{}
-	r.multi = len(r.p.Scans) > 1
-	var ctes []string
-	for _, s := range r.p.Scans {
-		rows, err := r.rowsCTE(s)
-		if err != nil {
-			return "", err
-		}
-		rowsName := r.cteName(s.Name + "_rows")
-		ctes = append(ctes, r.q(rowsName)+" AS (\n"+rows+"\n)")
-		cells, err := r.cellsCTE(s, rowsName)
-		if err != nil {
-			return "", err
-		}
-		r.cells[s] = r.cteName(s.Name + "_cells")
-		ctes = append(ctes, r.q(r.cells[s])+" AS (\n"+cells+"\n)")
-	}
-	from := r.q(r.cells[r.p.Scans[0]])
-	keyTable := from
-	if r.multi {
-		keys := r.cteName("cells")
-		r.keys = keys
-		var parts []string
-		for _, s := range r.p.Scans {
-			parts = append(parts, "  SELECT "+r.keyList("")+" FROM "+r.q(r.cells[s]))
-		}
-		ctes = append(ctes, r.q(keys)+" AS (\n"+strings.Join(parts, "\n  UNION\n")+"\n)")
-		keyTable = r.q(keys)
-		from = keyTable
-		for _, s := range r.p.Scans {
-			c := r.q(r.cells[s])
-			conds := []string{c + "." + r.q(GroupingColumn) + " = " + keyTable + "." + r.q(GroupingColumn)}
-			for _, g := range q.GroupNames {
-				conds = append(conds, r.d.NullSafeEqual(c+"."+r.q(g), keyTable+"."+r.q(g)))
-			}
-			from += "\n  LEFT JOIN " + c + " ON " + strings.Join(conds, "\n    AND ")
-		}
-	}
+	r.ctx = root
+	from, single := r.from(root)
 	var cols []string
-	for _, g := range q.GroupNames {
-		cols = append(cols, r.qual(keyTable, g))
+	for _, k := range root.Keys {
+		cols = append(cols, r.keyCol(root, k.Name))
 	}
 	for _, o := range r.p.Outputs {
 		e, err := r.expr(o.Expr)
 		if err != nil {
 			return "", err
 		}
-		if e == r.q(o.Name) || e == r.qual(from, o.Name) && !r.multi {
+		if e == r.q(o.Name) {
 			cols = append(cols, e)
 		} else {
 			cols = append(cols, e+" AS "+r.q(o.Name))
 		}
 	}
-	cols = append(cols, r.qual(keyTable, GroupingColumn))
-	order := r.orderBy()
+	cols = append(cols, r.keyCol(root, GroupingColumn))
+	order := r.orderBy(single)
 	body := "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM " + from
 	if q.Limit > 0 {
-		rank := "ROW_NUMBER() OVER (PARTITION BY " + r.qual(keyTable, GroupingColumn) + " ORDER BY " + strings.Join(order, ", ") + ") AS " + r.q("detail_rank")
-		resName := r.cteName("result")
+		rank := "ROW_NUMBER() OVER (PARTITION BY " + r.keyCol(root, GroupingColumn) + " ORDER BY " + strings.Join(order, ", ") + ") AS " + r.q("detail_rank")
+		res := r.cteName("result")
 		inner := strings.Replace(body, "\nFROM ", ",\n  "+rank+"\nFROM ", 1)
-		ctes = append(ctes, r.q(resName)+" AS (\n  "+strings.ReplaceAll(inner, "\n", "\n  ")+"\n)")
+		r.addCTE(res, "  "+strings.ReplaceAll(inner, "\n", "\n  "))
 		var outCols []string
-		for _, g := range q.GroupNames {
-			outCols = append(outCols, r.q(g))
+		for _, k := range root.Keys {
+			outCols = append(outCols, r.q(k.Name))
 		}
 		for _, o := range r.p.Outputs {
 			outCols = append(outCols, r.q(o.Name))
 		}
 		outCols = append(outCols, r.q(GroupingColumn))
-		body = "SELECT\n  " + strings.Join(outCols, ",\n  ") + "\nFROM " + r.q(resName) +
+		body = "SELECT\n  " + strings.Join(outCols, ",\n  ") + "\nFROM " + r.q(res) +
 			"\nWHERE " + r.q(GroupingColumn) + " <> 0 OR " + r.q("detail_rank") + " <= " + fmt.Sprint(q.Limit)
-		order = r.orderByNames()
+		order = r.orderBy(true)
 	}
-	sql := "WITH " + strings.Join(ctes, ",\n") + "\n" + body
+	sql := "WITH " + strings.Join(r.ctes, ",\n") + "\n" + body
 	if len(order) > 0 {
 		sql += "\nORDER BY " + strings.Join(order, ", ")
 	}
 	return sql, nil
 }
 
-func (r *renderer) qual(table, col string) string {
-	if !r.multi {
-		return r.q(col)
+// context renders the CTEs of every relation of ctx, and of its key
+// relation.
+func (r *renderer) context(ctx *planner.Context) error {
+	for _, rel := range ctx.Rels {
+		var err error
+		if rel.Scan != nil {
+			err = r.scan(ctx, rel)
+		} else {
+			err = r.per(ctx, rel)
+		}
+		if err != nil {
+			return err
+		}
 	}
-	return table + "." + r.q(col)
+	if len(ctx.Bases) == 1 {
+		r.keyRel[ctx] = r.cte[ctx.Bases[0]]
+		return nil
+	}
+	name := r.cteName(prefix(ctx.Name, "cells"))
+	var parts []string
+	for _, b := range ctx.Bases {
+		cols := []string{r.q(GroupingColumn)}
+		for _, k := range ctx.Keys {
+			cols = append(cols, r.q(k.Name))
+		}
+		parts = append(parts, "  SELECT "+strings.Join(cols, ", ")+" FROM "+r.q(r.cte[b]))
+	}
+	r.addCTE(name, strings.Join(parts, "\n  UNION\n"))
+	r.keyRel[ctx] = name
+	return nil
 }
 
-func (r *renderer) keyList(prefix string) string {
-	cols := []string{prefix + r.q(GroupingColumn)}
-	for _, g := range r.p.Query.GroupNames {
-		cols = append(cols, prefix+r.q(g))
+func prefix(ctx, name string) string {
+	if ctx == "" {
+		return name
 	}
-	return strings.Join(cols, ", ")
+	return ctx + "_" + name
+}
+
+// from joins every relation of ctx to its key relation. single reports
+// that there is only the key relation, whose columns need no qualifier.
+func (r *renderer) from(ctx *planner.Context) (string, bool) {
+	key := r.q(r.keyRel[ctx])
+	from := key
+	joined := 0
+	for _, rel := range ctx.Rels {
+		name := r.cte[rel]
+		if name == r.keyRel[ctx] {
+			continue
+		}
+		joined++
+		c := r.q(name)
+		var conds []string
+		if len(rel.Sets) > 1 {
+			conds = append(conds, c+"."+r.q(GroupingColumn)+" = "+r.gidMap(ctx, rel, key+"."+r.q(GroupingColumn)))
+		}
+		for _, i := range rel.Keys {
+			k := r.q(ctx.Keys[i].Name)
+			conds = append(conds, r.d.NullSafeEqual(c+"."+k, key+"."+k))
+		}
+		if len(conds) == 0 {
+			conds = []string{"1 = 1"}
+		}
+		from += "\n  LEFT JOIN " + c + " ON " + strings.Join(conds, "\n    AND ")
+	}
+	return from, joined == 0 && len(ctx.Bases) == 1
+}
+
+// gidMap spells the relation's grouping id for the context's grouping id.
+func (r *renderer) gidMap(ctx *planner.Context, rel *planner.Rel, gid string) string {
+	identity := true
+	for _, s := range ctx.Sets {
+		identity = identity && rel.GidOf[s] == s
+	}
+	if identity {
+		return gid
+	}
+	s := "CASE " + gid
+	for _, set := range ctx.Sets {
+		s += fmt.Sprintf(" WHEN %d THEN %d", set, rel.GidOf[set])
+	}
+	return s + " END"
+}
+
+// keyCol is a key column (or the grouping column) of ctx's rows.
+func (r *renderer) keyCol(ctx *planner.Context, name string) string {
+	if _, single := r.from(ctx); single {
+		return r.q(name)
+	}
+	return r.q(r.keyRel[ctx]) + "." + r.q(name)
 }
 
 // orderBy sorts rows by the group values, NULLs last, each total row after
 // its group; with --order, detail rows first, by the measure.
-func (r *renderer) orderBy() []string {
+func (r *renderer) orderBy(plain bool) []string {
 	q := r.p.Query
-	gid := r.qual(r.keyTableName(), GroupingColumn)
+	col := func(name string) string {
+		if plain {
+			return r.q(name)
+		}
+		return r.keyCol(r.p.Root, name)
+	}
+	gid := col(GroupingColumn)
 	var out []string
 	if r.p.OrderBy != nil {
 		if len(r.p.Sets) > 1 {
@@ -175,24 +227,9 @@ func (r *renderer) orderBy() []string {
 		if len(r.p.Sets) > 1 {
 			out = append(out, r.d.BitAnd(gid, fmt.Sprint(uint64(1)<<(n-1-i))))
 		}
-		out = append(out, r.qual(r.keyTableName(), g)+" ASC"+r.nullsLast())
+		out = append(out, col(g)+" ASC"+r.nullsLast())
 	}
 	return out
-}
-
-// orderByNames is orderBy over the result CTE's plain column names.
-func (r *renderer) orderByNames() []string {
-	multi := r.multi
-	r.multi = false
-	defer func() { r.multi = multi }()
-	return r.orderBy()
-}
-
-func (r *renderer) keyTableName() string {
-	if r.multi {
-		return r.q(r.keys)
-	}
-	return ""
 }
 
 func (r *renderer) nullsLast() string {
@@ -202,48 +239,195 @@ func (r *renderer) nullsLast() string {
 	return ""
 }
 
-// rowsCTE selects, for each row of the scan's table that passes the
-// filters, its group values and the inputs of its aggregates.
-func (r *renderer) rowsCTE(s *planner.Scan) (string, error) {
-	q := r.p.Query
+// scan renders a scan's rows CTE (group values and aggregate inputs of
+// each row that passes the filters) and cells CTE (the aggregates in every
+// cell of its grouping sets).
+func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
+	s := rel.Scan
 	var cols []string
-	for i, g := range q.Groups {
-		e, err := r.expr(&planner.ColRef{Col: g})
+	for _, k := range s.Keys {
+		e, err := r.expr(&planner.ColRef{Col: k.Col})
 		if err != nil {
-			return "", err
+			return err
 		}
-		cols = append(cols, e+" AS "+r.q(q.GroupNames[i]))
+		cols = append(cols, e+" AS "+r.q(k.Name))
 	}
 	for _, in := range s.Inputs {
 		e, err := r.expr(in.Expr)
 		if err != nil {
-			return "", err
+			return err
 		}
 		cols = append(cols, e+" AS "+r.q(in.Name))
 	}
 	if len(cols) == 0 {
 		cols = append(cols, "1 AS "+r.q("one"))
 	}
-	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.relation(s.Table) + " AS " + r.q(s.Table.Name)
+	rows := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.relation(s.Table) + " AS " + r.q(s.Table.Name)
 	for _, l := range s.Joins {
 		var conds []string
 		for i := range l.FromCols {
 			conds = append(conds, r.q(l.From.Name)+"."+r.q(l.FromCols[i].Name)+" = "+r.q(l.To.Name)+"."+r.q(l.ToCols[i].Name))
 		}
-		sql += "\n  LEFT JOIN " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
+		rows += "\n  LEFT JOIN " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
 	}
 	if len(s.Where) > 0 {
 		var conds []string
 		for _, w := range s.Where {
 			e, err := r.expr(w)
 			if err != nil {
-				return "", err
+				return err
 			}
 			conds = append(conds, e)
 		}
-		sql += "\n  WHERE " + strings.Join(conds, "\n    AND ")
+		rows += "\n  WHERE " + strings.Join(conds, "\n    AND ")
+	}
+	rowsName := r.cteName(rel.Name + "_rows")
+	r.addCTE(rowsName, rows)
+
+	var aggs []string
+	for _, l := range s.Leaves {
+		arg := ""
+		if l.Arg != nil {
+			arg = r.q(l.Arg.Name)
+		}
+		if l.Func == "median" && !r.d.Caps().ExactMedian {
+			return &UnsupportedError{Dialect: r.d.Name(), Construct: "an exact median"}
+		}
+		filter := ""
+		if l.Filter != nil {
+			filter = r.q(l.Filter.Name)
+		}
+		a, err := r.agg(l.Func, l.Distinct, arg, filter)
+		if err != nil {
+			return err
+		}
+		aggs = append(aggs, a+" AS "+r.q(l.Name))
+	}
+	var keys []string
+	for _, k := range s.Keys {
+		keys = append(keys, r.q(k.Name))
+	}
+	cells, err := r.grouped(keys, rel.Sets, aggs, r.q(rowsName))
+	if err != nil {
+		return err
+	}
+	r.cte[rel] = r.cteName(rel.Name + "_cells")
+	r.addCTE(r.cte[rel], cells)
+	return nil
+}
+
+// agg spells an aggregate with an optional filter condition, as a FILTER
+// clause or, where the dialect has none, a CASE inside the aggregate.
+func (r *renderer) agg(fn string, distinct bool, arg, filter string) (string, error) {
+	if filter != "" && !r.d.Caps().FilterClause {
+		if arg == "" {
+			arg = "1"
+		}
+		arg = "CASE WHEN " + filter + " THEN " + arg + " END"
+	}
+	a, err := r.d.Agg(fn, distinct, arg)
+	if err != nil {
+		return "", err
+	}
+	if filter != "" && r.d.Caps().FilterClause {
+		a += " FILTER (WHERE " + filter + ")"
+	}
+	return a, nil
+}
+
+// grouped is SELECT keys, grouping id, aggregates FROM source, grouped
+// over the sets (masks over keys).
+func (r *renderer) grouped(keys []string, sets []uint64, aggs []string, source string) (string, error) {
+	cols := append([]string{}, keys...)
+	if len(sets) > 1 {
+		if !r.d.Caps().GroupingSets {
+			return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "grouping sets (total rows)", Hint: "ask for --totals none"}
+		}
+		cols = append(cols, "GROUPING("+strings.Join(keys, ", ")+") AS "+r.q(GroupingColumn))
+	} else {
+		cols = append(cols, fmt.Sprintf("%d AS %s", sets[0], r.q(GroupingColumn)))
+	}
+	cols = append(cols, aggs...)
+	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + source
+	switch {
+	case len(keys) == 0:
+	case len(sets) == 1:
+		sql += "\n  GROUP BY " + strings.Join(keys, ", ")
+	default:
+		var parts []string
+		n := len(keys)
+		for _, mask := range sets {
+			var in []string
+			for i, k := range keys {
+				if mask&(1<<(n-1-i)) == 0 {
+					in = append(in, k)
+				}
+			}
+			parts = append(parts, "("+strings.Join(in, ", ")+")")
+		}
+		sql += "\n  GROUP BY GROUPING SETS (" + strings.Join(parts, ", ") + ")"
 	}
 	return sql, nil
+}
+
+// per renders a per-grain relation: its sub-context's CTEs, a CTE with
+// the sub-context's values per group, and the aggregate of those values
+// back at the relation's keys.
+func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
+	sub := rel.Per.Sub
+	if err := r.context(sub); err != nil {
+		return err
+	}
+	outer := r.ctx
+	r.ctx = sub
+	from, _ := r.from(sub)
+	var cols []string
+	for _, k := range sub.Keys {
+		cols = append(cols, r.keyCol(sub, k.Name))
+	}
+	cols = append(cols, r.keyCol(sub, GroupingColumn))
+	for _, v := range sub.Values {
+		e, err := r.expr(v.Expr)
+		if err != nil {
+			return err
+		}
+		cols = append(cols, e+" AS "+r.q(v.Name))
+	}
+	r.ctx = outer
+	groups := r.cteName(sub.Name + "_groups")
+	r.addCTE(groups, "  SELECT\n    "+strings.Join(cols, ",\n    ")+"\n  FROM "+strings.ReplaceAll(from, "\n", "\n  "))
+
+	var keys []string
+	for _, i := range rel.Keys {
+		keys = append(keys, r.q(ctx.Keys[i].Name))
+	}
+	var aggs []string
+	for _, l := range rel.Per.Leaves {
+		var cond []string
+		if l.Having != nil {
+			cond = append(cond, r.q(l.Having.Name))
+		} else {
+			for _, pk := range l.PerKeys {
+				cond = append(cond, r.q(pk.Name)+" IS NOT NULL")
+			}
+		}
+		arg := ""
+		if l.Value != nil {
+			arg = r.q(l.Value.Name)
+		}
+		a, err := r.agg(l.Func, false, arg, strings.Join(cond, " AND "))
+		if err != nil {
+			return err
+		}
+		aggs = append(aggs, a+" AS "+r.q(l.Name))
+	}
+	cols = append(append([]string{}, keys...), r.q(GroupingColumn))
+	cols = append(cols, aggs...)
+	body := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.q(groups) +
+		"\n  GROUP BY " + strings.Join(append([]string{r.q(GroupingColumn)}, keys...), ", ")
+	r.cte[rel] = r.cteName(rel.Name)
+	r.addCTE(r.cte[rel], body)
+	return nil
 }
 
 func (r *renderer) relation(t *planner.Table) string {
@@ -252,63 +436,4 @@ func (r *renderer) relation(t *planner.Table) string {
 		parts = append(parts, r.q(p))
 	}
 	return strings.Join(parts, ".")
-}
-
-// cellsCTE aggregates the scan's rows in every cell of the grouping sets.
-func (r *renderer) cellsCTE(s *planner.Scan, rows string) (string, error) {
-	q := r.p.Query
-	var keys []string
-	for _, g := range q.GroupNames {
-		keys = append(keys, r.q(g))
-	}
-	cols := append([]string{}, keys...)
-	switch {
-	case len(keys) > 0 && len(r.p.Sets) > 1:
-		cols = append(cols, "GROUPING("+strings.Join(keys, ", ")+") AS "+r.q(GroupingColumn))
-	default:
-		cols = append(cols, "0 AS "+r.q(GroupingColumn))
-	}
-	for _, l := range s.Leaves {
-		arg := ""
-		if l.Arg != nil {
-			arg = r.q(l.Arg.Name)
-		}
-		if l.Func == "median" && !r.d.Caps().ExactMedian {
-			return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "an exact median"}
-		}
-		if l.Filter != nil && !r.d.Caps().FilterClause {
-			if arg == "" {
-				arg = "1"
-			}
-			arg = "CASE WHEN " + r.q(l.Filter.Name) + " THEN " + arg + " END"
-		}
-		a, err := r.d.Agg(l.Func, l.Distinct, arg)
-		if err != nil {
-			return "", err
-		}
-		if l.Filter != nil && r.d.Caps().FilterClause {
-			a += " FILTER (WHERE " + r.q(l.Filter.Name) + ")"
-		}
-		cols = append(cols, a+" AS "+r.q(l.Name))
-	}
-	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.q(rows)
-	switch {
-	case len(keys) == 0:
-	case len(r.p.Sets) == 1:
-		sql += "\n  GROUP BY " + strings.Join(keys, ", ")
-	default:
-		var sets []string
-		n := len(keys)
-		for _, mask := range r.p.Sets {
-			var in []string
-			for i, k := range keys {
-				if mask&(1<<(n-1-i)) == 0 {
-					in = append(in, k)
-				}
-			}
-			sets = append(sets, "("+strings.Join(in, ", ")+")")
-		}
-		sql += "\n  GROUP BY GROUPING SETS (" + strings.Join(sets, ", ") + ")"
-	}
-	return sql, nil
 }

@@ -91,12 +91,13 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return "(" + x + " IS NOT NULL)", nil
 		}
 		return "(" + x + " IS NULL)", nil
-	case *planner.LeafRef:
-		s := r.q(e.Leaf.Name)
-		if r.multi {
-			s = r.q(r.cells[e.Scan]) + "." + s
+	case *planner.ValueRef:
+		s := r.q(e.Column)
+		name := r.cte[e.Rel]
+		if _, single := r.from(r.ctx); !single {
+			s = r.q(name) + "." + s
 		}
-		if e.ZeroIfMissing {
+		if e.ZeroIfMissing && name != r.keyRel[r.ctx] {
 			s = "COALESCE(" + s + ", 0)"
 		}
 		return s, nil

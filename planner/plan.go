@@ -1,44 +1,103 @@
 package planner
 
 import (
-	"fmt"
 	"math/bits"
-	"slices"
 	"sort"
 	"strings"
 
 	"github.com/rollwise/rollwise/grammar"
 )
 
-// Plan is the logical plan of one query, free of any SQL dialect: one scan
-// per iteration table, aggregated over the query's grouping sets, then the
-// measures' arithmetic over the aggregates.
+// Plan is the logical plan of one query, free of any SQL dialect. The root
+// context evaluates the query's measures at its grain; per-grain measures
+// open sub-contexts at a finer grain.
 type Plan struct {
 	Query *Query
-	// Sets are the grouping sets, each a mask of the rolled-up groups: bit
-	// 1<<(n-1-i) stands for group i, as SQL's GROUPING(g1, ..., gn) counts.
+	// Sets are the query's grouping sets, each a mask of the rolled-up
+	// groups: bit 1<<(n-1-i) stands for group i, as SQL's
+	// GROUPING(g1, ..., gn) counts.
 	Sets    []uint64
-	Scans   []*Scan
+	Root    *Context
 	Outputs []*Output
 	// OrderBy is the output the detail rows are sorted by, or nil.
 	OrderBy *Output
+	// Scans lists every scan of every context, in creation order.
+	Scans []*Scan
 	// Cautions are things the reader of the numbers should know.
 	Cautions []string
+}
+
+// Key is a key column of a context: a query group, or a per-grain column.
+type Key struct {
+	Name string
+	Col  *Column
+	// Pos is where the key was asked for (a --by item, or a per list).
+	Pos grammar.Pos
+}
+
+// Context is one grain of evaluation: its key columns, grouping sets and
+// row filters, the relations that compute values at that grain, and the
+// relations whose cells make up its rows.
+type Context struct {
+	Name    string
+	Keys    []Key
+	Sets    []uint64
+	Filters []Expr
+	// Rels are the scans and per-grain relations, in creation order.
+	Rels []*Rel
+	// Bases are the scans whose cells are the context's rows.
+	Bases []*Rel
+	// Values are the context's result columns (a sub-context's X and
+	// having), expressions over ValueRefs.
+	Values []*Input
+}
+
+// Rel is a relation joined to its context's rows: a scan of one table, or
+// the aggregate of a per-grain sub-context. Its cells are keyed by Keys (a
+// subset of the context's keys, as indexes) and a grouping id; GidOf maps
+// each of the context's grouping masks to the Rel's own grouping id.
+type Rel struct {
+	Name  string
+	Keys  []int
+	Sets  []uint64
+	GidOf map[uint64]uint64
+	Scan  *Scan
+	Per   *PerRel
 }
 
 // Scan reads one iteration table (joined along links to what it needs),
 // keeps the rows that pass the filters, and computes its leaves per cell.
 type Scan struct {
-	// Name is a readable base name for the scan's parts ("sales").
 	Name   string
 	Table  *Table
 	Joins  []*Link
 	Where  []Expr
+	Keys   []Key
 	Inputs []*Input
 	Leaves []*Leaf
 }
 
-// Input is a row-level value a scan computes for its aggregates.
+// PerRel aggregates the values of a sub-context over its per-grain keys.
+type PerRel struct {
+	Sub    *Context
+	Leaves []*PerLeaf
+}
+
+// PerLeaf is AGG(sub value) over the kept groups.
+type PerLeaf struct {
+	Name string
+	Func string
+	// Value is the sub-context value aggregated; nil for count(*).
+	Value *Input
+	// Having is the sub-context value that keeps a group, or nil: then
+	// groups with a NULL per-key are skipped.
+	Having  *Input
+	PerKeys []Key
+	T       Type
+}
+
+// Input is a named value computed row by row (in a scan) or cell by cell
+// (in a context).
 type Input struct {
 	Name string
 	Expr Expr
@@ -55,21 +114,22 @@ type Leaf struct {
 	T      Type
 }
 
-// LeafRef is a measure-level expression node that reads a leaf's value in
-// the current cell. ZeroIfMissing is set for counts read across scans,
-// where a cell that the scan lacks counts 0.
-type LeafRef struct {
+// ValueRef reads a column of a relation in the current cell.
+// ZeroIfMissing is set for counts, which are 0 in a cell the relation
+// lacks.
+type ValueRef struct {
 	Pos           grammar.Pos
-	Leaf          *Leaf
-	Scan          *Scan
+	Rel           *Rel
+	Column        string
+	T             Type
 	ZeroIfMissing bool
 }
 
-// Type is the leaf's type.
-func (e *LeafRef) Type() Type { return e.Leaf.T }
+// Type is the value's type.
+func (e *ValueRef) Type() Type { return e.T }
 
-// Position is where the aggregate was written.
-func (e *LeafRef) Position() grammar.Pos { return e.Pos }
+// Position is where the value was written.
+func (e *ValueRef) Position() grammar.Pos { return e.Pos }
 
 // Output is one measure column of the result.
 type Output struct {
@@ -114,317 +174,122 @@ func (q *Query) RolledUp(mask uint64) []string {
 	return out
 }
 
-type planner struct {
-	q      *Query
-	p      *Plan
-	diags  grammar.Diagnostics
-	leaves map[string]*LeafRef
-	inputs map[*Scan]map[string]*Input
-	// owner is the innermost measure whose expression is being compiled.
-	owner *Measure
-	// narrowedBy names the measure whose narrowing is in force, if any:
-	// leaves under it are named after it.
-	narrowedBy string
-	// taken holds the names in use: leaves and the query's measures.
-	taken map[string]bool
+// bit is the mask bit of key i among n keys.
+func bit(i, n int) uint64 { return 1 << (n - 1 - i) }
+
+// compact maps a mask over n keys to a mask over the keys listed in keep.
+func compact(mask uint64, n int, keep []int) uint64 {
+	var out uint64
+	for j, i := range keep {
+		if mask&bit(i, n) != 0 {
+			out |= bit(j, len(keep))
+		}
+	}
+	return out
 }
 
-// NewPlan plans a query. Cell edits and per-grain measures are not planned
-// yet: they are reported as errors rather than answered wrongly.
-func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
-	pl := &planner{q: q, p: &Plan{Query: q}, leaves: map[string]*LeafRef{},
-		inputs: map[*Scan]map[string]*Input{}, taken: map[string]bool{}}
-	pl.p.Sets = GroupingSets(q.Totals, len(q.Groups))
-	for _, m := range q.Measures {
-		pl.owner = m
-		e := pl.compile(m.Expr, nil)
-		if e != nil {
-			out := &Output{Name: m.Name, Measure: m, Expr: e}
-			pl.p.Outputs = append(pl.p.Outputs, out)
-			if q.OrderBy == m {
-				pl.p.OrderBy = out
-			}
-		}
-	}
-	if pl.diags.HasErrors() {
-		return nil, pl.diags
-	}
-	for _, s := range pl.p.Scans {
-		pl.checkReach(s)
-		pl.joins(s)
-	}
-	if len(pl.p.Scans) > 1 {
-		for _, o := range pl.p.Outputs {
-			Walk(o.Expr, func(e Expr) bool {
-				if lr, ok := e.(*LeafRef); ok && lr.Leaf.Func == "count" {
-					lr.ZeroIfMissing = true
-				}
-				return true
-			})
-		}
-	}
-	pl.cautions()
-	if pl.diags.HasErrors() {
-		return nil, pl.diags
-	}
-	return pl.p, pl.diags
+// cell is what a measure expression is evaluated in: the context's keys
+// that still group it, and its filters. A filter with rows set belongs to
+// the context's row set (a --where conjunct, or any filter of a per-grain
+// cell); the others (narrowings, pins) narrow single aggregates.
+type cell struct {
+	removed uint64
+	filters []cellFilter
 }
 
-// compile turns a measure expression into arithmetic over leaves; filter
-// holds the narrowing predicates in force.
-func (pl *planner) compile(e Expr, filter []Expr) Expr {
-	switch e := e.(type) {
-	case *MeasureRef:
-		outer := pl.owner
-		pl.owner = e.Measure
-		x := pl.compile(e.Measure.Expr, filter)
-		pl.owner = outer
-		return x
-	case *NarrowExpr:
-		outer := pl.narrowedBy
-		pl.narrowedBy = pl.owner.Name
-		x := pl.compile(e.X, append(slices.Clip(filter), e.Pred))
-		pl.narrowedBy = outer
-		return x
-	case *Agg:
-		return pl.leaf(e, filter)
-	case *EditExpr:
-		pl.diags.Errorf(e.Pos, "not-supported", "cell edits [...] are not supported by the planner yet (measure %s)", pl.owner.Name).
-			Suggestion = "leave this measure out of the query for now"
-		return nil
-	case *PerAgg:
-		pl.diags.Errorf(e.Pos, "not-supported", "per-grain aggregates (... per ...) are not supported by the planner yet (measure %s)", pl.owner.Name).
-			Suggestion = "leave this measure out of the query for now"
-		return nil
-	case *BinOp:
-		l, r := pl.compile(e.L, filter), pl.compile(e.R, filter)
-		if l == nil || r == nil {
-			return nil
-		}
-		return &BinOp{Pos: e.Pos, Op: e.Op, L: l, R: r, T: e.T}
-	case *UnOp:
-		x := pl.compile(e.X, filter)
-		if x == nil {
-			return nil
-		}
-		return &UnOp{Pos: e.Pos, Op: e.Op, X: x}
-	case *Func:
-		f := *e
-		f.Args = nil
-		for _, a := range e.Args {
-			x := pl.compile(a, filter)
-			if x == nil {
-				return nil
-			}
-			f.Args = append(f.Args, x)
-		}
-		return &f
-	case *CaseExpr:
-		c := &CaseExpr{Pos: e.Pos, T: e.T}
-		for _, w := range e.Whens {
-			cond, then := pl.compile(w.Cond, filter), pl.compile(w.Then, filter)
-			if cond == nil || then == nil {
-				return nil
-			}
-			c.Whens = append(c.Whens, WhenArm{Cond: cond, Then: then})
-		}
-		if e.Else != nil {
-			if c.Else = pl.compile(e.Else, filter); c.Else == nil {
-				return nil
-			}
-		}
-		return c
-	case *IsNullExpr:
-		x := pl.compile(e.X, filter)
-		if x == nil {
-			return nil
-		}
-		return &IsNullExpr{Pos: e.Pos, X: x, Not: e.Not}
-	case *InExpr:
-		in := &InExpr{Pos: e.Pos, Not: e.Not, List: e.List}
-		if in.X = pl.compile(e.X, filter); in.X == nil {
-			return nil
-		}
-		return in
-	case *Lit:
-		return e
-	}
-	pl.diags.Errorf(e.Position(), "internal", "cannot plan %T in measure %s", e, pl.owner.Name)
-	return nil
+type cellFilter struct {
+	e    Expr
+	rows bool
 }
 
-// leaf finds or adds the scan leaf computing agg under filter.
-func (pl *planner) leaf(a *Agg, filter []Expr) Expr {
-	var ftexts []string
-	for _, f := range filter {
-		ftexts = append(ftexts, Text(f))
-	}
-	sort.Strings(ftexts)
-	key := a.Table.Name + "|" + Text(a) + "|" + strings.Join(ftexts, " and ")
-	if lr, ok := pl.leaves[key]; ok {
-		return &LeafRef{Pos: a.Pos, Leaf: lr.Leaf, Scan: lr.Scan}
-	}
-	s := pl.scan(a.Table)
-	base := pl.owner.Name
-	if len(filter) > 0 && pl.narrowedBy != "" {
-		base = pl.narrowedBy
-	}
-	l := &Leaf{Name: pl.name(base), Func: a.Func, Distinct: a.Distinct, T: a.T}
-	if a.Arg != nil {
-		l.Arg = pl.input(s, l.Name+"_arg", a.Arg)
-	}
-	if len(filter) > 0 {
-		pred := filter[0]
-		for _, f := range filter[1:] {
-			pred = &BinOp{Pos: f.Position(), Op: "and", L: pred, R: f, T: TypeBoolean}
-		}
-		l.Filter = pl.input(s, l.Name+"_if", pred)
-	}
-	s.Leaves = append(s.Leaves, l)
-	lr := &LeafRef{Pos: a.Pos, Leaf: l, Scan: s}
-	pl.leaves[key] = lr
-	return lr
+func (c cell) with(f cellFilter) cell {
+	return cell{removed: c.removed, filters: append(append([]cellFilter{}, c.filters...), f)}
 }
 
-// name gives a leaf a unique, readable name based on its measure's name,
-// never the name of another measure of the query.
-func (pl *planner) name(base string) string {
-	for i := 1; ; i++ {
-		cand := base
-		if i > 1 {
-			cand = fmt.Sprintf("%s_%d", base, i)
+// mentions reports whether e reads column c directly.
+func mentions(e Expr, c func(*Column) bool) bool {
+	found := false
+	Walk(e, func(x Expr) bool {
+		if r, ok := x.(*ColRef); ok && c(r.Col) {
+			found = true
 		}
-		if pl.taken[cand] {
+		return !found
+	})
+	return found
+}
+
+// edit applies one cell edit.
+func (c cell) edit(ctx *Context, ed *CellEdit) cell {
+	hit := func(col *Column) bool {
+		switch {
+		case ed.Col != nil:
+			return col == ed.Col
+		case ed.Table != nil:
+			return col.Table == ed.Table
+		}
+		return true
+	}
+	out := cell{removed: c.removed}
+	n := len(ctx.Keys)
+	for i, k := range ctx.Keys {
+		if hit(k.Col) {
+			out.removed |= bit(i, n)
+		}
+	}
+	for _, f := range c.filters {
+		if ed.Kind == EditUngroup || !mentions(f.e, hit) {
+			out.filters = append(out.filters, f)
+		}
+	}
+	if ed.Kind == EditPin {
+		ref := &ColRef{Pos: ed.Pos, Col: ed.Col}
+		var pred Expr
+		if len(ed.Values) == 1 {
+			pred = &BinOp{Pos: ed.Pos, Op: "=", L: ref, R: ed.Values[0], T: TypeBoolean}
+		} else {
+			in := &InExpr{Pos: ed.Pos, X: ref}
+			for _, v := range ed.Values {
+				in.List = append(in.List, v)
+			}
+			pred = in
+		}
+		out.filters = append(out.filters, cellFilter{e: pred})
+	}
+	return out
+}
+
+func filterKey(fs []cellFilter, rows bool) string {
+	var t []string
+	for _, f := range fs {
+		if f.rows == rows {
+			t = append(t, Text(f.e))
+		}
+	}
+	sort.Strings(t)
+	return strings.Join(t, " and ")
+}
+
+func conj(fs []cellFilter, rows bool) Expr {
+	var out Expr
+	for _, f := range fs {
+		if f.rows != rows {
 			continue
 		}
-		clash := false
-		for _, m := range pl.q.Measures {
-			clash = clash || (m.Name == cand && m.Name != base)
-		}
-		if !clash {
-			pl.taken[cand] = true
-			return cand
+		if out == nil {
+			out = f.e
+		} else {
+			out = &BinOp{Pos: f.e.Position(), Op: "and", L: out, R: f.e, T: TypeBoolean}
 		}
 	}
+	return out
 }
 
-// input finds or adds a row-level value of the scan.
-func (pl *planner) input(s *Scan, name string, e Expr) *Input {
-	key := Text(e)
-	if in, ok := pl.inputs[s][key]; ok {
-		return in
-	}
-	in := &Input{Name: name, Expr: e}
-	pl.inputs[s][key] = in
-	s.Inputs = append(s.Inputs, in)
-	return in
-}
-
-func (pl *planner) scan(t *Table) *Scan {
-	for _, s := range pl.p.Scans {
-		if s.Table == t {
-			return s
+func rowFilters(fs []cellFilter) []Expr {
+	var out []Expr
+	for _, f := range fs {
+		if f.rows {
+			out = append(out, f.e)
 		}
 	}
-	s := &Scan{Name: t.Name, Table: t, Where: pl.q.Filters}
-	pl.inputs[s] = map[string]*Input{}
-	pl.p.Scans = append(pl.p.Scans, s)
-	return s
-}
-
-// measuresOf names the measures that read a scan.
-func (pl *planner) measuresOf(s *Scan) string {
-	var names []string
-	for _, o := range pl.p.Outputs {
-		Walk(o.Expr, func(e Expr) bool {
-			if lr, ok := e.(*LeafRef); ok && lr.Scan == s && !slices.Contains(names, o.Name) {
-				names = append(names, o.Name)
-			}
-			return true
-		})
-	}
-	return strings.Join(names, ", ")
-}
-
-// checkReach reports groups and filters the scan's table cannot reach.
-func (pl *planner) checkReach(s *Scan) {
-	reach := Reach(s.Table)
-	for i, g := range pl.q.Groups {
-		if _, ok := reach[g.Table]; !ok {
-			d := pl.diags.Errorf(pl.q.GroupPos[i], "unreachable", "cannot group by %s: measure %s iterates over %s, and no link leads from %s to %s",
-				pl.q.GroupNames[i], pl.measuresOf(s), s.Table.Name, s.Table.Name, g.Table.Name)
-			d.Suggestion = fmt.Sprintf("group by a column %s can reach, or add a link from %s towards %s", s.Table.Name, s.Table.Name, g.Table.Name)
-		}
-	}
-	for _, f := range s.Where {
-		for _, c := range Columns(f) {
-			if _, ok := reach[c.Table]; !ok {
-				pl.diags.Errorf(f.Position(), "unreachable", "cannot filter on %s: measure %s iterates over %s, and no link leads from %s to %s",
-					c, pl.measuresOf(s), s.Table.Name, s.Table.Name, c.Table.Name)
-				break
-			}
-		}
-	}
-	for _, in := range s.Inputs {
-		for _, c := range Columns(in.Expr) {
-			if _, ok := reach[c.Table]; !ok {
-				pl.diags.Errorf(in.Expr.Position(), "unreachable", "measure %s narrows %s by %s, which %s cannot reach along links",
-					pl.measuresOf(s), s.Table.Name, c, s.Table.Name)
-				break
-			}
-		}
-	}
-}
-
-// joins lists the links the scan follows, nearest first.
-func (pl *planner) joins(s *Scan) {
-	reach := Reach(s.Table)
-	need := map[*Table]bool{}
-	for _, g := range pl.q.Groups {
-		need[g.Table] = true
-	}
-	var exprs []Expr
-	exprs = append(exprs, s.Where...)
-	for _, in := range s.Inputs {
-		exprs = append(exprs, in.Expr)
-	}
-	for _, g := range pl.q.Groups {
-		if g.Derived != nil {
-			exprs = append(exprs, g.Derived)
-		}
-	}
-	for _, e := range exprs {
-		for _, c := range Columns(e) {
-			need[c.Table] = true
-		}
-	}
-	var links []*Link
-	for t := range need {
-		for _, l := range reach[t] {
-			if !slices.Contains(links, l) {
-				links = append(links, l)
-			}
-		}
-	}
-	depth := func(l *Link) int { return len(reach[l.To]) }
-	sort.Slice(links, func(i, j int) bool {
-		if depth(links[i]) != depth(links[j]) {
-			return depth(links[i]) < depth(links[j])
-		}
-		return links[i].To.Name < links[j].To.Name
-	})
-	s.Joins = links
-}
-
-// cautions notes results that could mislead.
-func (pl *planner) cautions() {
-	for _, s := range pl.p.Scans {
-		for _, l := range s.Leaves {
-			if l.Arg != nil && l.Arg.Expr.Type() == TypeFloat && (l.Func == "sum" || l.Func == "avg") {
-				pl.p.Cautions = append(pl.p.Cautions, fmt.Sprintf(
-					"%s adds float values: the last digits can change with the order the engine reads rows in; declare the column decimal for exact sums",
-					l.Name))
-			}
-		}
-	}
+	return out
 }

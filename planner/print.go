@@ -144,8 +144,8 @@ func writeText(b *strings.Builder, e Expr) {
 			writeText(b, e.Having)
 		}
 		b.WriteString(")")
-	case *LeafRef:
-		b.WriteString(e.Leaf.Name)
+	case *ValueRef:
+		b.WriteString(e.Rel.Name + "." + e.Column)
 	}
 }
 

@@ -1,0 +1,161 @@
+package dialects
+
+import (
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// This file is the DDL layer: how each engine creates a view so that
+// running the same script twice is harmless. The spellings come from the
+// CREATE VIEW table of the design notes (dialects.md, section 11).
+
+// ViewStyle is how a dialect makes CREATE VIEW idempotent.
+type ViewStyle int
+
+// The idempotent forms of CREATE VIEW.
+const (
+	// CreateOrReplace: CREATE OR REPLACE VIEW (DuckDB, PostgreSQL, MySQL,
+	// MariaDB, Snowflake, BigQuery, Trino, Spark).
+	CreateOrReplace ViewStyle = iota
+	// CreateOrAlter: CREATE OR ALTER VIEW (SQL Server).
+	CreateOrAlter
+	// DropAndCreate: DROP VIEW IF EXISTS, then CREATE VIEW, for engines
+	// that can do nothing else (SQLite).
+	DropAndCreate
+)
+
+// ViewDDL is what a dialect needs to create views, as data.
+type ViewDDL struct {
+	Style ViewStyle
+	// OrderBy reports whether a view's query may end with ORDER BY. Where
+	// it may not (SQL Server), the ordering is left to whoever selects
+	// from the view.
+	OrderBy bool
+	// BatchEnd is a line written after each statement of a script, for
+	// engines that want some statements alone in their batch ("GO" for
+	// SQL Server's CREATE OR ALTER VIEW); "" for none.
+	BatchEnd string
+}
+
+// ViewDDLer is implemented by a dialect that states its own view DDL; it
+// takes precedence over the table below, so a new dialect can describe
+// itself in its own file.
+type ViewDDLer interface {
+	ViewDDL() ViewDDL
+}
+
+// viewDDLs holds the view DDL of the engines in the design notes, by
+// dialect name (with the names an engine commonly goes by).
+var viewDDLs = map[string]ViewDDL{
+	"duckdb":     {Style: CreateOrReplace, OrderBy: true},
+	"postgres":   {Style: CreateOrReplace, OrderBy: true},
+	"postgresql": {Style: CreateOrReplace, OrderBy: true},
+	"mysql":      {Style: CreateOrReplace, OrderBy: true},
+	"mariadb":    {Style: CreateOrReplace, OrderBy: true},
+	"snowflake":  {Style: CreateOrReplace, OrderBy: true},
+	"bigquery":   {Style: CreateOrReplace, OrderBy: true},
+	"trino":      {Style: CreateOrReplace, OrderBy: true},
+	"spark":      {Style: CreateOrReplace, OrderBy: true},
+	"databricks": {Style: CreateOrReplace, OrderBy: true},
+	"sqlite":     {Style: DropAndCreate, OrderBy: true},
+	"sqlserver":  {Style: CreateOrAlter, BatchEnd: "GO"},
+	"mssql":      {Style: CreateOrAlter, BatchEnd: "GO"},
+	"tsql":       {Style: CreateOrAlter, BatchEnd: "GO"},
+}
+
+// ViewDDLOf returns how dialect d creates views, or an error naming the
+// dialect when nobody has said yet.
+func ViewDDLOf(d Dialect) (ViewDDL, error) {
+	if x, ok := d.(ViewDDLer); ok {
+		return x.ViewDDL(), nil
+	}
+	if v, ok := viewDDLs[strings.ToLower(d.Name())]; ok {
+		return v, nil
+	}
+	return ViewDDL{}, &UnsupportedError{Dialect: d.Name(), Construct: "CREATE VIEW",
+		Hint: "describe its view DDL in dialects/ddl.go or with a ViewDDL method"}
+}
+
+// QualifiedName quotes a view or relation name given as parts (schema,
+// name) and joins them with dots.
+func QualifiedName(d Dialect, parts []string) string {
+	q := make([]string, len(parts))
+	for i, p := range parts {
+		q[i] = d.Ident(p)
+	}
+	return strings.Join(q, ".")
+}
+
+// RenderView renders a plan as the query of a view: the statement Render
+// prints, without its final ORDER BY where the dialect allows none in a
+// view (the rows are the same; their order is then up to the reader).
+func RenderView(p *planner.Plan, d Dialect) (string, error) {
+	ddl, err := ViewDDLOf(d)
+	if err != nil {
+		return "", err
+	}
+	sql, err := Render(p, d)
+	if err != nil {
+		return "", err
+	}
+	// Render ends with ORDER BY exactly when it sorts by a measure or by
+	// group values.
+	if !ddl.OrderBy && (p.OrderBy != nil || len(p.Query.Groups) > 0) {
+		sql = withoutOrderBy(sql)
+	}
+	return sql, nil
+}
+
+// CreateView returns the statements (without a trailing semicolon) that
+// create view name, or replace it if it exists, with the given column
+// names over query. The column list names the view's columns whatever the
+// query calls them.
+func CreateView(d Dialect, name []string, columns []string, query string) ([]string, error) {
+	ddl, err := ViewDDLOf(d)
+	if err != nil {
+		return nil, err
+	}
+	cols := make([]string, len(columns))
+	for i, c := range columns {
+		cols[i] = d.Ident(c)
+	}
+	target := QualifiedName(d, name) + " (" + strings.Join(cols, ", ") + ")"
+	switch ddl.Style {
+	case CreateOrAlter:
+		return []string{"CREATE OR ALTER VIEW " + target + " AS\n" + query}, nil
+	case DropAndCreate:
+		return []string{"DROP VIEW IF EXISTS " + QualifiedName(d, name),
+			"CREATE VIEW " + target + " AS\n" + query}, nil
+	}
+	return []string{"CREATE OR REPLACE VIEW " + target + " AS\n" + query}, nil
+}
+
+// Script joins statements into a script: each ends with a semicolon, and
+// with the dialect's batch end where it has one.
+func Script(d Dialect, stmts []string) (string, error) {
+	ddl, err := ViewDDLOf(d)
+	if err != nil {
+		return "", err
+	}
+	var b strings.Builder
+	for _, s := range stmts {
+		b.WriteString(s)
+		b.WriteString(";\n")
+		if ddl.BatchEnd != "" {
+			b.WriteString(ddl.BatchEnd + "\n")
+		}
+	}
+	return b.String(), nil
+}
+
+// withoutOrderBy cuts the final ORDER BY of a statement that Render
+// printed: Render starts its top-level clauses at the beginning of a line
+// and indents everything inside its CTEs, so the last line that starts
+// with ORDER BY is the statement's own.
+func withoutOrderBy(query string) string {
+	if i := strings.LastIndex(query, "\nORDER BY "); i >= 0 {
+		return query[:i]
+	}
+	return query
+}

@@ -1,0 +1,87 @@
+package dialects
+
+import (
+	"fmt"
+	"slices"
+	"sort"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// RowQuery is the row-level query of a table: every row of its relation,
+// once, with its stored columns and its derived columns computed.
+type RowQuery struct {
+	// SQL selects the table's columns in declaration order.
+	SQL string
+	// Columns are the table's columns, in the order SQL selects them.
+	Columns []*planner.Column
+	// Joins are the links the derived columns follow, nearest first.
+	Joins []*planner.Link
+}
+
+// RenderRows renders the row-level query of table t. Derived columns are
+// computed exactly as Render computes them in a query's scan; those that
+// read other tables do so through LEFT JOINs along the links that lead
+// there. Every link is many-to-one, so each row of t is kept and kept once
+// (a row whose link finds nothing reads NULL for that table's columns).
+func RenderRows(t *planner.Table, d Dialect) (*RowQuery, error) {
+	joins, err := rowJoins(t)
+	if err != nil {
+		return nil, err
+	}
+	r := &renderer{d: d}
+	var cols []string
+	for _, c := range t.Columns {
+		if c.Stored() {
+			cols = append(cols, r.q(t.Name)+"."+r.q(c.Name))
+			continue
+		}
+		e, err := r.expr(c.Derived)
+		if err != nil {
+			return nil, fmt.Errorf("derived column %s: %w", c, err)
+		}
+		cols = append(cols, e+" AS "+r.q(c.Name))
+	}
+	sql := "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM " + r.relation(t) + " AS " + r.q(t.Name)
+	for _, l := range joins {
+		var conds []string
+		for i := range l.FromCols {
+			conds = append(conds, r.q(l.From.Name)+"."+r.q(l.FromCols[i].Name)+" = "+r.q(l.To.Name)+"."+r.q(l.ToCols[i].Name))
+		}
+		sql += "\n  LEFT JOIN " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
+	}
+	return &RowQuery{SQL: sql, Columns: t.Columns, Joins: joins}, nil
+}
+
+// rowJoins lists the links t's derived columns follow, nearest first (so
+// each join reads only tables joined before it), ties by table name.
+func rowJoins(t *planner.Table) ([]*planner.Link, error) {
+	reach := planner.Reach(t)
+	var links []*planner.Link
+	for _, c := range t.Columns {
+		if c.Stored() {
+			continue
+		}
+		for _, used := range planner.Columns(c.Derived) {
+			path, ok := reach[used.Table]
+			if !ok {
+				return nil, fmt.Errorf("derived column %s reads %s, and no link leads from %s to %s",
+					c, used, t.Name, used.Table.Name)
+			}
+			for _, l := range path {
+				if !slices.Contains(links, l) {
+					links = append(links, l)
+				}
+			}
+		}
+	}
+	depth := func(l *planner.Link) int { return len(reach[l.To]) }
+	sort.SliceStable(links, func(i, j int) bool {
+		if depth(links[i]) != depth(links[j]) {
+			return depth(links[i]) < depth(links[j])
+		}
+		return links[i].To.Name < links[j].To.Name
+	})
+	return links, nil
+}

@@ -1,0 +1,413 @@
+package planner
+
+import (
+	"fmt"
+	"slices"
+	"strings"
+
+	"github.com/rollwise/rollwise/grammar"
+)
+
+type planner struct {
+	q     *Query
+	p     *Plan
+	diags grammar.Diagnostics
+	// owner is the innermost measure being compiled; narrowedBy and
+	// editedBy name the measures whose narrowing or edit is in force (for
+	// readable names).
+	owner      *Measure
+	narrowedBy string
+	editedBy   string
+	taken      map[string]bool
+	// measureNames are the query's measures: output columns.
+	measureNames map[string]bool
+	rels       map[string]*Rel
+	values     map[string]*ValueRef
+	inputs     map[*Scan]map[string]*Input
+}
+
+// NewPlan plans a query: every measure is compiled into arithmetic over
+// aggregates, each aggregate computed by a scan of its iteration table in
+// the measure's (possibly edited) cell, or by a per-grain sub-context.
+func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
+	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
+		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}}
+	pl.measureNames = map[string]bool{}
+	for _, m := range q.Measures {
+		pl.measureNames[m.Name] = true
+	}
+	pl.p.Sets = GroupingSets(q.Totals, len(q.Groups))
+	root := &Context{Sets: pl.p.Sets, Filters: q.Filters}
+	for i, g := range q.Groups {
+		root.Keys = append(root.Keys, Key{Name: q.GroupNames[i], Col: g, Pos: q.GroupPos[i]})
+	}
+	pl.p.Root = root
+	start := cell{}
+	for _, f := range q.Filters {
+		start.filters = append(start.filters, cellFilter{e: f, rows: true})
+	}
+	for _, m := range q.Measures {
+		pl.owner, pl.narrowedBy, pl.editedBy = m, "", ""
+		for _, t := range pl.iterationTables(m.Expr) {
+			pl.base(root, t)
+		}
+		if e := pl.compile(root, m.Expr, start); e != nil {
+			out := &Output{Name: m.Name, Measure: m, Expr: e}
+			pl.p.Outputs = append(pl.p.Outputs, out)
+			if q.OrderBy == m {
+				pl.p.OrderBy = out
+			}
+		}
+	}
+	if !pl.diags.HasErrors() {
+		for _, s := range pl.p.Scans {
+			pl.checkReach(s)
+			pl.joins(s)
+		}
+		pl.cautions()
+	}
+	if pl.diags.HasErrors() {
+		return nil, pl.diags
+	}
+	return pl.p, pl.diags
+}
+
+// name gives a unique, readable name based on base; a measure name of
+// the query is only ever given to that measure's own values.
+func (pl *planner) name(base string) string {
+	for i := 1; ; i++ {
+		cand := base
+		if i > 1 {
+			cand = fmt.Sprintf("%s_%d", base, i)
+		}
+		if pl.taken[cand] || (cand != base && pl.measureNames[cand]) {
+			continue
+		}
+		pl.taken[cand] = true
+		return cand
+	}
+}
+
+// iterationTables lists the tables whose rows a measure's value iterates
+// over: the tables of every aggregate inside it.
+func (pl *planner) iterationTables(e Expr) []*Table {
+	var out []*Table
+	add := func(ts ...*Table) {
+		for _, t := range ts {
+			if t != nil && !slices.Contains(out, t) {
+				out = append(out, t)
+			}
+		}
+	}
+	Walk(e, func(x Expr) bool {
+		switch x := x.(type) {
+		case *Agg:
+			add(x.Table)
+		case *MeasureRef:
+			add(pl.iterationTables(x.Measure.Expr)...)
+		case *PerAgg:
+			add(pl.perTables(x)...)
+			return false
+		}
+		return true
+	})
+	return out
+}
+
+// perTables are the tables whose rows form the groups of a per-grain
+// aggregate: X's iteration tables; for count(* per ...), the having's, or
+// else the per columns' own table.
+func (pl *planner) perTables(pa *PerAgg) []*Table {
+	switch {
+	case pa.X != nil:
+		return pl.iterationTables(pa.X)
+	case pa.Having != nil:
+		return pl.iterationTables(pa.Having)
+	}
+	for _, c := range pa.Per {
+		reach := Reach(c.Table)
+		all := true
+		for _, o := range pa.Per {
+			_, ok := reach[o.Table]
+			all = all && ok
+		}
+		if all {
+			return []*Table{c.Table}
+		}
+	}
+	pl.diags.Errorf(pa.Pos, "no-iteration-table", "the per columns of this count(* per ...) are on tables that no one table reaches").Suggestion =
+		"count over a measure instead: count(m per t.c)"
+	return nil
+}
+
+// compile turns a measure expression, evaluated in cell c of ctx, into
+// arithmetic over values of relations.
+func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
+	switch e := e.(type) {
+	case *MeasureRef:
+		outer := pl.owner
+		pl.owner = e.Measure
+		x := pl.compile(ctx, e.Measure.Expr, c)
+		pl.owner = outer
+		return x
+	case *NarrowExpr:
+		outer := pl.narrowedBy
+		pl.narrowedBy = pl.owner.Name
+		x := pl.compile(ctx, e.X, c.with(cellFilter{e: e.Pred}))
+		pl.narrowedBy = outer
+		return x
+	case *EditExpr:
+		outer := pl.editedBy
+		pl.editedBy = pl.owner.Name
+		c2 := c
+		for _, ed := range e.Edits {
+			c2 = c2.edit(ctx, ed)
+		}
+		x := pl.compile(ctx, e.X, c2)
+		pl.editedBy = outer
+		return x
+	case *Agg:
+		return pl.leaf(ctx, e, c)
+	case *PerAgg:
+		return pl.per(ctx, e, c)
+	case *BinOp:
+		l, r := pl.compile(ctx, e.L, c), pl.compile(ctx, e.R, c)
+		if l == nil || r == nil {
+			return nil
+		}
+		return &BinOp{Pos: e.Pos, Op: e.Op, L: l, R: r, T: e.T}
+	case *UnOp:
+		if x := pl.compile(ctx, e.X, c); x != nil {
+			return &UnOp{Pos: e.Pos, Op: e.Op, X: x}
+		}
+		return nil
+	case *Func:
+		f := *e
+		f.Args = nil
+		for _, a := range e.Args {
+			x := pl.compile(ctx, a, c)
+			if x == nil {
+				return nil
+			}
+			f.Args = append(f.Args, x)
+		}
+		return &f
+	case *CaseExpr:
+		out := &CaseExpr{Pos: e.Pos, T: e.T}
+		for _, w := range e.Whens {
+			cond, then := pl.compile(ctx, w.Cond, c), pl.compile(ctx, w.Then, c)
+			if cond == nil || then == nil {
+				return nil
+			}
+			out.Whens = append(out.Whens, WhenArm{Cond: cond, Then: then})
+		}
+		if e.Else != nil {
+			if out.Else = pl.compile(ctx, e.Else, c); out.Else == nil {
+				return nil
+			}
+		}
+		return out
+	case *IsNullExpr:
+		if x := pl.compile(ctx, e.X, c); x != nil {
+			return &IsNullExpr{Pos: e.Pos, X: x, Not: e.Not}
+		}
+		return nil
+	case *InExpr:
+		in := &InExpr{Pos: e.Pos, Not: e.Not, List: e.List}
+		if in.X = pl.compile(ctx, e.X, c); in.X == nil {
+			return nil
+		}
+		return in
+	case *Lit:
+		return e
+	}
+	pl.diags.Errorf(e.Position(), "internal", "cannot plan %T in measure %s", e, pl.owner.Name)
+	return nil
+}
+
+// localKeys lists the keys of ctx that a cell with removed keys still
+// groups by, and maps each of ctx's grouping masks to a mask over them.
+func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[uint64]uint64) {
+	n := len(ctx.Keys)
+	var keep []int
+	for i := range ctx.Keys {
+		if removed&bit(i, n) == 0 {
+			keep = append(keep, i)
+		}
+	}
+	gid := map[uint64]uint64{}
+	var sets []uint64
+	for _, s := range ctx.Sets {
+		l := compact(s|removed, n, keep) << shift
+		gid[s] = l
+		if !slices.Contains(sets, l) {
+			sets = append(sets, l)
+		}
+	}
+	return keep, sets, gid
+}
+
+// scanRel finds or adds the scan of t in ctx for a cell with the given
+// removed keys and row filters.
+func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, nameBase string) *Rel {
+	var texts []string
+	for _, w := range where {
+		texts = append(texts, Text(w))
+	}
+	slices.Sort(texts)
+	key := fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, strings.Join(texts, " and "))
+	if r, ok := pl.rels[key]; ok {
+		return r
+	}
+	keep, sets, gid := localKeys(ctx, removed, 0)
+	s := &Scan{Table: t, Where: where}
+	for _, i := range keep {
+		s.Keys = append(s.Keys, ctx.Keys[i])
+	}
+	r := &Rel{Name: pl.name(nameBase), Keys: keep, Sets: sets, GidOf: gid, Scan: s}
+	s.Name = r.Name
+	pl.inputs[s] = map[string]*Input{}
+	pl.rels[key] = r
+	ctx.Rels = append(ctx.Rels, r)
+	pl.p.Scans = append(pl.p.Scans, s)
+	return r
+}
+
+// base adds t's scan to the scans whose cells are ctx's rows.
+func (pl *planner) base(ctx *Context, t *Table) {
+	name := t.Name
+	if ctx.Name != "" {
+		name = ctx.Name + "_" + t.Name
+	}
+	r := pl.scanRel(ctx, t, 0, ctx.Filters, name)
+	if !slices.Contains(ctx.Bases, r) {
+		ctx.Bases = append(ctx.Bases, r)
+	}
+}
+
+// leaf finds or adds the scan leaf computing a in cell c.
+func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
+	nameBase := a.Table.Name
+	if ctx.Name != "" {
+		nameBase = ctx.Name + "_" + a.Table.Name
+	}
+	if c.removed != 0 || filterKey(c.filters, true) != filterKey(cellFiltersOf(ctx.Filters), true) {
+		nameBase = pl.editedBy + "_" + a.Table.Name
+	}
+	r := pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), nameBase)
+	key := r.Name + "|" + Text(a) + "|" + filterKey(c.filters, false)
+	if v, ok := pl.values[key]; ok {
+		return &ValueRef{Pos: a.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
+	}
+	s := r.Scan
+	base := pl.owner.Name
+	if ctx.Name != "" {
+		base = ctx.Name + "_" + base
+	}
+	switch {
+	case pl.editedBy != "" && pl.editedBy != pl.owner.Name:
+		base = pl.editedBy + "_" + pl.owner.Name
+	case pl.narrowedBy != "" && conj(c.filters, false) != nil:
+		base = pl.narrowedBy
+	}
+	l := &Leaf{Name: pl.name(base), Func: a.Func, Distinct: a.Distinct, T: a.T}
+	if a.Arg != nil {
+		l.Arg = pl.input(s, l.Name+"_arg", a.Arg)
+	}
+	if extra := conj(c.filters, false); extra != nil {
+		l.Filter = pl.input(s, l.Name+"_if", extra)
+	}
+	s.Leaves = append(s.Leaves, l)
+	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count"}
+	pl.values[key] = v
+	return v
+}
+
+func cellFiltersOf(fs []Expr) []cellFilter {
+	var out []cellFilter
+	for _, f := range fs {
+		out = append(out, cellFilter{e: f, rows: true})
+	}
+	return out
+}
+
+// input finds or adds a row-level value of the scan.
+func (pl *planner) input(s *Scan, name string, e Expr) *Input {
+	key := Text(e)
+	if in, ok := pl.inputs[s][key]; ok {
+		return in
+	}
+	in := &Input{Name: pl.name(name), Expr: e}
+	pl.inputs[s][key] = in
+	s.Inputs = append(s.Inputs, in)
+	return in
+}
+
+// per plans AGG(X per P having H) in cell c: a sub-context keyed by the
+// cell's remaining keys plus the per columns, whose value X (and H) are
+// aggregated back to the cell's keys.
+func (pl *planner) per(ctx *Context, pa *PerAgg, c cell) Expr {
+	var texts []string
+	for _, f := range c.filters {
+		texts = append(texts, fmt.Sprint(f.rows)+Text(f.e))
+	}
+	slices.Sort(texts)
+	key := fmt.Sprintf("%p|per|%s|%d|%s", ctx, Text(pa), c.removed, strings.Join(texts, " and "))
+	if v, ok := pl.values[key]; ok {
+		return &ValueRef{Pos: pa.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
+	}
+	k := len(pa.Per)
+	keep, sets, gid := localKeys(ctx, c.removed, k)
+	sub := &Context{Name: pl.name(pl.owner.Name + "_per")}
+	names := map[string]bool{}
+	for _, i := range keep {
+		sub.Keys = append(sub.Keys, ctx.Keys[i])
+		names[ctx.Keys[i].Name] = true
+	}
+	var perKeys []Key
+	for _, col := range pa.Per {
+		name := col.String() + " per"
+		for names[name] {
+			name += " per"
+		}
+		names[name] = true
+		pk := Key{Name: name, Col: col, Pos: pa.Pos}
+		perKeys = append(perKeys, pk)
+		sub.Keys = append(sub.Keys, pk)
+	}
+	sub.Sets = sets
+	start := cell{}
+	for _, f := range c.filters {
+		sub.Filters = append(sub.Filters, f.e)
+		start.filters = append(start.filters, cellFilter{e: f.e, rows: true})
+	}
+	for _, t := range pl.perTables(pa) {
+		pl.base(sub, t)
+	}
+	outerNarrow, outerEdit := pl.narrowedBy, pl.editedBy
+	pl.narrowedBy, pl.editedBy = "", ""
+	leaf := &PerLeaf{Func: pa.Func, PerKeys: perKeys, T: pa.T}
+	if pa.X != nil {
+		x := pl.compile(sub, pa.X, start)
+		if x == nil {
+			return nil
+		}
+		leaf.Value = &Input{Name: pl.name(pl.owner.Name + "_value"), Expr: x}
+		sub.Values = append(sub.Values, leaf.Value)
+	}
+	if pa.Having != nil {
+		h := pl.compile(sub, pa.Having, start)
+		if h == nil {
+			return nil
+		}
+		leaf.Having = &Input{Name: pl.name(pl.owner.Name + "_keep"), Expr: h}
+		sub.Values = append(sub.Values, leaf.Having)
+	}
+	pl.narrowedBy, pl.editedBy = outerNarrow, outerEdit
+	leaf.Name = pl.name(pl.owner.Name)
+	r := &Rel{Name: sub.Name, Keys: keep, Sets: sets, GidOf: gid, Per: &PerRel{Sub: sub, Leaves: []*PerLeaf{leaf}}}
+	ctx.Rels = append(ctx.Rels, r)
+	v := &ValueRef{Pos: pa.Pos, Rel: r, Column: leaf.Name, T: pa.T, ZeroIfMissing: pa.Func == "count"}
+	pl.values[key] = v
+	return v
+}

@@ -1,0 +1,122 @@
+package planner
+
+import (
+	"fmt"
+	"slices"
+	"sort"
+	"strings"
+)
+
+// measuresOf names the measures that read a scan.
+func (pl *planner) measuresOf(s *Scan) string {
+	var names []string
+	var visit func(e Expr, name string)
+	visit = func(e Expr, name string) {
+		Walk(e, func(x Expr) bool {
+			if v, ok := x.(*ValueRef); ok {
+				if v.Rel.Scan == s && !slices.Contains(names, name) {
+					names = append(names, name)
+				}
+				if v.Rel.Per != nil {
+					for _, in := range v.Rel.Per.Sub.Values {
+						visit(in.Expr, name)
+					}
+					for _, b := range v.Rel.Per.Sub.Bases {
+						if b.Scan == s && !slices.Contains(names, name) {
+							names = append(names, name)
+						}
+					}
+				}
+			}
+			return true
+		})
+	}
+	for _, o := range pl.p.Outputs {
+		visit(o.Expr, o.Name)
+	}
+	if len(names) == 0 {
+		for _, m := range pl.q.Measures {
+			names = append(names, m.Name)
+		}
+	}
+	return strings.Join(names, ", ")
+}
+
+// checkReach reports keys and filters the scan's table cannot reach.
+func (pl *planner) checkReach(s *Scan) {
+	reach := Reach(s.Table)
+	for _, k := range s.Keys {
+		if _, ok := reach[k.Col.Table]; !ok {
+			what := "group by " + k.Name
+			if strings.HasSuffix(k.Name, " per") {
+				what = "form per-grain groups of " + k.Col.String()
+			}
+			d := pl.diags.Errorf(k.Pos, "unreachable", "cannot %s: measure %s iterates over %s, and no link leads from %s to %s",
+				what, pl.measuresOf(s), s.Table.Name, s.Table.Name, k.Col.Table.Name)
+			d.Suggestion = fmt.Sprintf("use a column %s can reach, or add a link from %s towards %s", s.Table.Name, s.Table.Name, k.Col.Table.Name)
+		}
+	}
+	check := func(e Expr, what string) {
+		for _, c := range Columns(e) {
+			if _, ok := reach[c.Table]; !ok {
+				pl.diags.Errorf(e.Position(), "unreachable", "cannot %s %s: measure %s iterates over %s, and no link leads from %s to %s",
+					what, c, pl.measuresOf(s), s.Table.Name, s.Table.Name, c.Table.Name)
+				return
+			}
+		}
+	}
+	for _, f := range s.Where {
+		check(f, "filter on")
+	}
+	for _, in := range s.Inputs {
+		check(in.Expr, "read")
+	}
+}
+
+// joins lists the links the scan follows, nearest first.
+func (pl *planner) joins(s *Scan) {
+	reach := Reach(s.Table)
+	need := map[*Table]bool{}
+	var exprs []Expr
+	exprs = append(exprs, s.Where...)
+	for _, in := range s.Inputs {
+		exprs = append(exprs, in.Expr)
+	}
+	for _, k := range s.Keys {
+		exprs = append(exprs, &ColRef{Col: k.Col})
+	}
+	for _, e := range exprs {
+		for _, c := range Columns(e) {
+			need[c.Table] = true
+		}
+	}
+	var links []*Link
+	for t := range need {
+		for _, l := range reach[t] {
+			if !slices.Contains(links, l) {
+				links = append(links, l)
+			}
+		}
+	}
+	depth := func(l *Link) int { return len(reach[l.To]) }
+	sort.Slice(links, func(i, j int) bool {
+		if depth(links[i]) != depth(links[j]) {
+			return depth(links[i]) < depth(links[j])
+		}
+		return links[i].To.Name < links[j].To.Name
+	})
+	s.Joins = links
+}
+
+// cautions notes results that could mislead.
+func (pl *planner) cautions() {
+	for _, s := range pl.p.Scans {
+		for _, l := range s.Leaves {
+			if l.Arg != nil && l.Arg.Expr.Type() == TypeFloat && (l.Func == "sum" || l.Func == "avg") {
+				pl.p.Cautions = append(pl.p.Cautions, fmt.Sprintf(
+					"%s adds float values: the last digits can change with the order the engine reads rows in; declare the column decimal for exact sums",
+					l.Name))
+			}
+		}
+	}
+}
