@@ -21,9 +21,9 @@ type planner struct {
 	taken      map[string]bool
 	// measureNames are the query's measures: output columns.
 	measureNames map[string]bool
-	rels       map[string]*Rel
-	values     map[string]*ValueRef
-	inputs     map[*Scan]map[string]*Input
+	rels         map[string]*Rel
+	values       map[string]*ValueRef
+	inputs       map[*Scan]map[string]*Input
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
