@@ -36,7 +36,7 @@ func TestGoldenSQL(t *testing.T) {
 				t.Fatalf("%s: the first line must be a JSON array of arguments: %v", f, err)
 			}
 			var out, errb bytes.Buffer
-			if code := Main(append([]string{"sql", shopModel}, args...), nil, &out, &errb); code != 0 {
+			if code := Main(append([]string{"sql", shopModel, editsModel}, args...), nil, &out, &errb); code != 0 {
 				t.Fatalf("exit %d: %s", code, errb.String())
 			}
 			if *update {
@@ -49,7 +49,7 @@ func TestGoldenSQL(t *testing.T) {
 				t.Errorf("SQL changed (review, then go test ./cmd/rollwise -run TestGoldenSQL -update):\n%s", lineDiff(want, out.String()))
 			}
 			// The same SQL must run: the golden text is never the only check.
-			rows := runJSON(t, append([]string{"run", shopModel}, args...)...)
+			rows := runJSON(t, append([]string{"run", shopModel, editsModel}, args...)...)
 			if rows == nil {
 				t.Errorf("no rows")
 			}
