@@ -184,8 +184,19 @@ func (r *relation) resolveFile(dataDir string) error {
 	}
 	t := r.tables[0]
 	if dataDir != "" {
-		return fmt.Errorf("table %s has no data file: --data %s holds neither %s.csv nor %s.parquet",
-			t.Name, dataDir, t.Name, t.Name)
+		// Tables that play roles of one relation (at "nation") can share
+		// the relation's file: DIR/nation.parquet.
+		rel := t.Name
+		if len(t.Relation) > 0 {
+			rel = t.Relation[len(t.Relation)-1]
+		}
+		f, err := dataFileNamed(rel, dataDir)
+		if err != nil || f != "" {
+			r.file = f
+			return err
+		}
+		return fmt.Errorf("table %s has no data file: --data %s holds none of %s.csv, %s.parquet, %s.csv, %s.parquet",
+			t.Name, dataDir, t.Name, t.Name, rel, rel)
 	}
 	return fmt.Errorf("table %s has no data file: write `from \"FILE\"` in its declaration (a .csv or .parquet file, relative to the model file), or run with --data DIR where DIR holds %s.csv or %s.parquet",
 		t.Name, t.Name, t.Name)
@@ -194,21 +205,7 @@ func (r *relation) resolveFile(dataDir string) error {
 // dataFile returns the data file of t, or "" when it has none.
 func dataFile(t *planner.Table, dataDir string) (string, error) {
 	if dataDir != "" {
-		if t.Name == "" || t.Name == "." || t.Name == ".." || strings.ContainsAny(t.Name, `/\`) {
-			return "", fmt.Errorf("table %q: its name cannot be used as a file name in --data %s", t.Name, dataDir)
-		}
-		csvPath := filepath.Join(dataDir, t.Name+".csv")
-		pqPath := filepath.Join(dataDir, t.Name+".parquet")
-		hasCSV, hasPQ := isFile(csvPath), isFile(pqPath)
-		switch {
-		case hasCSV && hasPQ:
-			return "", fmt.Errorf("table %s: both %s and %s exist; keep only one", t.Name, csvPath, pqPath)
-		case hasCSV:
-			return csvPath, nil
-		case hasPQ:
-			return pqPath, nil
-		}
-		return "", nil
+		return dataFileNamed(t.Name, dataDir)
 	}
 	if t.File == "" {
 		return "", nil
@@ -218,6 +215,26 @@ func dataFile(t *planner.Table, dataDir string) (string, error) {
 		return t.File, nil
 	}
 	return "", fmt.Errorf("table %s: data file %s: rollwise reads .csv and .parquet files only", t.Name, t.File)
+}
+
+// dataFileNamed returns dataDir/name.csv or dataDir/name.parquet, or ""
+// when neither exists.
+func dataFileNamed(name, dataDir string) (string, error) {
+	if name == "" || name == "." || name == ".." || strings.ContainsAny(name, `/\`) {
+		return "", fmt.Errorf("%q cannot be used as a file name in --data %s", name, dataDir)
+	}
+	csvPath := filepath.Join(dataDir, name+".csv")
+	pqPath := filepath.Join(dataDir, name+".parquet")
+	hasCSV, hasPQ := isFile(csvPath), isFile(pqPath)
+	switch {
+	case hasCSV && hasPQ:
+		return "", fmt.Errorf("%s: both %s and %s exist; keep only one", name, csvPath, pqPath)
+	case hasCSV:
+		return csvPath, nil
+	case hasPQ:
+		return pqPath, nil
+	}
+	return "", nil
 }
 
 // isFile reports whether path names an existing file (or a link to one).

@@ -383,3 +383,14 @@ func TestTableWithoutStoredColumns(t *testing.T) {
 	file := writeFile(t, dir, "t.csv", "a\n1\n")
 	expectOpenError(t, model(table("t", nil, file, derived("d", planner.TypeInteger))), "", "table t declares no stored columns")
 }
+
+// Tables that play two roles of one relation (at "nation") read the
+// relation's file from --data when there is none of their own name.
+func TestDataFileFallsBackToRelationName(t *testing.T) {
+	dir := t.TempDir()
+	writeFile(t, dir, "nation.csv", "n_nationkey\n7\n")
+	m := model(table("cust_nation", []string{"nation"}, "", col("n_nationkey", planner.TypeInteger)),
+		table("supp_nation", []string{"nation"}, "", col("n_nationkey", planner.TypeInteger)))
+	db := open(t, m, dir)
+	expectRows(t, query(t, db, `SELECT * FROM "nation"`), []string{"n_nationkey"}, [][]any{{int64(7)}})
+}
