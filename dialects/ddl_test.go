@@ -1,0 +1,176 @@
+package dialects
+
+import (
+	"errors"
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// renamed is DuckDB's spelling under another engine's name, to see which
+// view DDL each name gets.
+type renamed struct {
+	duckdb
+	name string
+}
+
+func (r renamed) Name() string { return r.name }
+
+// selfDescribed states its own view DDL.
+type selfDescribed struct{ renamed }
+
+func (selfDescribed) ViewDDL() ViewDDL { return ViewDDL{Style: DropAndCreate, BatchEnd: "/"} }
+
+const ddlModel = `
+table sales at "shop.sales" {
+  key id
+  id        integer
+  store_id  integer -> stores.id
+  qty       integer
+  twice     = qty * 2
+  area      = districts.area
+}
+table stores at "shop.stores" {
+  key id
+  id           integer
+  district_id  integer -> districts.id
+}
+table districts {
+  key id
+  id    integer
+  area  text
+}
+table lonely {
+  key id
+  id  integer
+}
+measure units = sum(sales.qty)
+view by_area = units by sales.area with totals
+`
+
+func loadDDLModel(t *testing.T, src string) *planner.Model {
+	t.Helper()
+	f, d := grammar.Parse("m.roll", src)
+	if d.HasErrors() {
+		t.Fatalf("parse: %v", d)
+	}
+	m, d := planner.Load([]*grammar.File{f})
+	if d.HasErrors() {
+		t.Fatalf("load: %v", d)
+	}
+	return m
+}
+
+func TestCreateViewStyles(t *testing.T) {
+	cols := []string{"a", `b"c`}
+	cases := []struct {
+		d    Dialect
+		want []string
+	}{
+		{duckdb{}, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed{name: "postgres"}, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed{name: "sqlserver"}, []string{`CREATE OR ALTER VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed{name: "SQLite"}, []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{selfDescribed{renamed{name: "duckdb"}}, []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+	}
+	for _, c := range cases {
+		got, err := CreateView(c.d, []string{"s", "v"}, cols, "SELECT 1")
+		if err != nil {
+			t.Fatalf("%s: %v", c.d.Name(), err)
+		}
+		if strings.Join(got, ";\n") != strings.Join(c.want, ";\n") {
+			t.Errorf("%s:\n got %q\nwant %q", c.d.Name(), got, c.want)
+		}
+	}
+}
+
+func TestUnknownDialectHasNoViewDDL(t *testing.T) {
+	_, err := CreateView(renamed{name: "teradata"}, []string{"v"}, []string{"a"}, "SELECT 1")
+	var ue *UnsupportedError
+	if !errors.As(err, &ue) || ue.Dialect != "teradata" || !strings.Contains(err.Error(), "CREATE VIEW") {
+		t.Fatalf("want an error naming teradata and CREATE VIEW, got %v", err)
+	}
+}
+
+func TestScriptEndsBatches(t *testing.T) {
+	got, err := Script(renamed{name: "sqlserver"}, []string{"CREATE OR ALTER VIEW a AS SELECT 1", "CREATE OR ALTER VIEW b AS SELECT 2"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := "CREATE OR ALTER VIEW a AS SELECT 1;\nGO\nCREATE OR ALTER VIEW b AS SELECT 2;\nGO\n"
+	if got != want {
+		t.Errorf("got %q, want %q", got, want)
+	}
+	got, _ = Script(duckdb{}, []string{"X", "Y"})
+	if got != "X;\nY;\n" {
+		t.Errorf("duckdb script %q", got)
+	}
+}
+
+// A view keeps Render's ORDER BY where the engine allows one in a view,
+// and loses exactly that clause where it does not.
+func TestRenderViewOrderBy(t *testing.T) {
+	m := loadDDLModel(t, ddlModel)
+	p, d := planner.NewPlan(m.ViewQuery(m.Views[0]))
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	full, err := Render(p, duckdb{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	kept, err := RenderView(p, duckdb{})
+	if err != nil || kept != full {
+		t.Fatalf("duckdb view query differs from Render (%v):\n%s", err, kept)
+	}
+	cut, err := RenderView(p, renamed{name: "sqlserver"})
+	if err != nil {
+		t.Fatal(err)
+	}
+	i := strings.LastIndex(full, "\nORDER BY ")
+	if i < 0 || cut != full[:i] || strings.Contains(cut, "ORDER BY") {
+		t.Errorf("sqlserver view query should be Render without its ORDER BY:\n%s", cut)
+	}
+}
+
+func TestRenderRowsJoinsAlongLinks(t *testing.T) {
+	m := loadDDLModel(t, ddlModel)
+	rq, err := RenderRows(m.Table("sales"), duckdb{})
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := `SELECT
+  "sales"."id",
+  "sales"."store_id",
+  "sales"."qty",
+  ("sales"."qty" * 2) AS "twice",
+  "districts"."area" AS "area"
+FROM "shop"."sales" AS "sales"
+  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
+  LEFT JOIN "districts" AS "districts" ON "stores"."district_id" = "districts"."id"`
+	if rq.SQL != want {
+		t.Errorf("got\n%s\nwant\n%s", rq.SQL, want)
+	}
+	if len(rq.Joins) != 2 || rq.Joins[0].To.Name != "stores" || rq.Joins[1].To.Name != "districts" {
+		t.Errorf("joins %v, want stores then districts", rq.Joins)
+	}
+	if len(rq.Columns) != 5 {
+		t.Errorf("%d columns, want 5", len(rq.Columns))
+	}
+}
+
+// A derived column that reads a table its own cannot reach is refused.
+// The resolver reports such a model already; the renderer does not rely
+// on that, so the column is made by hand.
+func TestRenderRowsRefusesUnreachable(t *testing.T) {
+	m := loadDDLModel(t, ddlModel)
+	sales := m.Table("sales")
+	sales.Columns = append(sales.Columns, &planner.Column{Table: sales, Name: "odd", Type: planner.TypeInteger,
+		Derived: &planner.ColRef{Col: m.Table("lonely").Column("id")}})
+	_, err := RenderRows(sales, duckdb{})
+	if err == nil || !strings.Contains(err.Error(), "sales.odd") || !strings.Contains(err.Error(), "lonely") {
+		t.Fatalf("want an error naming sales.odd and lonely, got %v", err)
+	}
+}
