@@ -1,0 +1,303 @@
+package reference
+
+import (
+	"fmt"
+	"slices"
+
+	"github.com/shopspring/decimal"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// evaluator evaluates measure expressions in cells, caching what does
+// not depend on the cell (constraint row sets, aggregate arguments) and
+// measure values per cell.
+type evaluator struct {
+	d    *Data
+	bits map[string]bits
+	args map[string][]Value
+	memo map[string]Value
+	// depth guards against runaway recursion on a malformed model.
+	depth int
+}
+
+func newEvaluator(d *Data) *evaluator {
+	return &evaluator{d: d, bits: map[string]bits{}, args: map[string][]Value{}, memo: map[string]Value{}}
+}
+
+// maxDepth bounds measure nesting; resolved models have no cycles, so
+// only a malformed model reaches it.
+const maxDepth = 10000
+
+// measure evaluates a measure expression in a cell.
+func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
+	ev.depth++
+	defer func() { ev.depth-- }()
+	if ev.depth > maxDepth {
+		return nil, fmt.Errorf("measures nest too deeply (a cycle?)")
+	}
+	switch e := e.(type) {
+	case nil:
+		return nil, fmt.Errorf("missing expression")
+	case *planner.Agg:
+		return ev.agg(e, c)
+	case *planner.MeasureRef:
+		if e.Measure == nil || e.Measure.Expr == nil {
+			return nil, fmt.Errorf("measure reference without a definition")
+		}
+		k := fmt.Sprintf("M%p|%s", e.Measure, c.id())
+		if v, ok := ev.memo[k]; ok {
+			return v, nil
+		}
+		v, err := ev.measure(e.Measure.Expr, c)
+		if err != nil {
+			return nil, fmt.Errorf("measure %s: %w", e.Measure.Name, err)
+		}
+		ev.memo[k] = v
+		return v, nil
+	case *planner.NarrowExpr:
+		return ev.measure(e.X, c.with(filterOn(e.Pred)))
+	case *planner.EditExpr:
+		edited := c
+		for _, ed := range e.Edits {
+			var err error
+			if edited, err = edited.edit(ed); err != nil {
+				return nil, err
+			}
+		}
+		return ev.measure(e.X, edited)
+	case *planner.PerAgg:
+		k := fmt.Sprintf("A%p|%s", e, c.id())
+		if v, ok := ev.memo[k]; ok {
+			return v, nil
+		}
+		v, err := ev.perAgg(e, c)
+		if err != nil {
+			return nil, err
+		}
+		ev.memo[k] = v
+		return v, nil
+	case *planner.ColRef:
+		return nil, fmt.Errorf("column %s used outside an aggregate", e.Col)
+	}
+	v, ok, err := scalar(e, func(x planner.Expr) (Value, error) { return ev.measure(x, c) })
+	if !ok && err == nil {
+		return nil, fmt.Errorf("cannot evaluate %T", e)
+	}
+	return v, err
+}
+
+// agg aggregates the rows of the iteration table that satisfy the cell.
+func (ev *evaluator) agg(a *planner.Agg, c cell) (Value, error) {
+	td := ev.d.tables[a.Table]
+	if td == nil {
+		return nil, fmt.Errorf("table %v is not loaded", a.Table)
+	}
+	rows, err := ev.rowsOf(td, c)
+	if err != nil {
+		return nil, err
+	}
+	if a.Arg == nil {
+		return decimal.NewFromInt(int64(len(rows))), nil
+	}
+	args, err := ev.argValues(td, a.Arg)
+	if err != nil {
+		return nil, err
+	}
+	vals := make([]Value, len(rows))
+	for i, r := range rows {
+		vals[i] = args[r]
+	}
+	return aggregate(a.Func, a.Distinct, vals, a.T)
+}
+
+// argValues evaluates a row expression on every row of td, once.
+func (ev *evaluator) argValues(td *tableData, e planner.Expr) ([]Value, error) {
+	k := fmt.Sprintf("%s|%p", td.t.Name, e)
+	if v, ok := ev.args[k]; ok {
+		return v, nil
+	}
+	out := make([]Value, len(td.rows))
+	for i := range td.rows {
+		v, err := ev.d.row(td, i, e)
+		if err != nil {
+			return nil, err
+		}
+		out[i] = v
+	}
+	ev.args[k] = out
+	return out, nil
+}
+
+// perAgg evaluates AGG(X per C... having H): the groups are the distinct
+// values of the per columns among the iteration rows of X (of H for
+// count(* per ...)) that satisfy the cell; each group is the cell plus
+// the grouping C = value. A group whose value has a NULL is skipped when
+// there is no having clause; with one, the having clause decides for
+// every group. The kept groups' values of X are aggregated with AGG;
+// count(* per ...) counts the kept groups.
+func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
+	tables, err := ev.perTables(p)
+	if err != nil {
+		return nil, err
+	}
+	var groups [][]Value
+	seen := map[string]bool{}
+	for _, t := range tables {
+		td := ev.d.tables[t]
+		if td == nil {
+			return nil, fmt.Errorf("table %s is not loaded", t.Name)
+		}
+		rows, err := ev.rowsOf(td, c)
+		if err != nil {
+			return nil, err
+		}
+		for _, r := range rows {
+			g := make([]Value, len(p.Per))
+			for i, col := range p.Per {
+				if g[i], err = ev.d.column(td, r, col); err != nil {
+					return nil, err
+				}
+			}
+			if k := tupleKey(g); !seen[k] {
+				seen[k] = true
+				groups = append(groups, g)
+			}
+		}
+	}
+	var vals []Value
+	kept := 0
+	for _, g := range groups {
+		cg := c
+		null := false
+		for i, col := range p.Per {
+			cg = cg.with(groupOn(col, g[i]))
+			null = null || g[i] == nil
+		}
+		if p.Having != nil {
+			h, err := ev.measure(p.Having, cg)
+			if err != nil {
+				return nil, err
+			}
+			if !truth(h) {
+				continue
+			}
+		} else if null {
+			continue
+		}
+		kept++
+		if p.X == nil {
+			continue
+		}
+		v, err := ev.measure(p.X, cg)
+		if err != nil {
+			return nil, err
+		}
+		vals = append(vals, v)
+	}
+	if p.X == nil {
+		return decimal.NewFromInt(int64(kept)), nil
+	}
+	return aggregate(p.Func, false, vals, p.T)
+}
+
+// perTables are the tables whose rows give a per-grain's groups: the
+// iteration tables of its measure expression; when that reads no table
+// (count(* per ...), a literal), those of its having clause; when neither
+// does, the table among the per columns' tables from which the others are
+// reachable.
+func (ev *evaluator) perTables(p *planner.PerAgg) ([]*planner.Table, error) {
+	var tables []*planner.Table
+	var err error
+	for _, e := range []planner.Expr{p.X, p.Having} {
+		if e == nil {
+			continue
+		}
+		if tables, err = iterationTables(e, nil, map[*planner.Measure]bool{}); err != nil || len(tables) > 0 {
+			return tables, err
+		}
+	}
+	t, err := perColumnsTable(p.Per)
+	if err != nil {
+		return nil, err
+	}
+	return []*planner.Table{t}, nil
+}
+
+// perColumnsTable is the one table among the per columns' tables from
+// which every other is reachable.
+func perColumnsTable(per []*planner.Column) (*planner.Table, error) {
+	var tables []*planner.Table
+	for _, c := range per {
+		if !slices.Contains(tables, c.Table) {
+			tables = append(tables, c.Table)
+		}
+	}
+	var cands []*planner.Table
+	for _, t := range tables {
+		all := true
+		for _, o := range tables {
+			if _, ok := reachableTable(t, o); !ok {
+				all = false
+			}
+		}
+		if all {
+			cands = append(cands, t)
+		}
+	}
+	if len(cands) != 1 {
+		return nil, fmt.Errorf("the per columns have no table from which the others are reachable")
+	}
+	return cands[0], nil
+}
+
+func reachableTable(from, to *planner.Table) (int, bool) {
+	return reachable(&tableData{t: from}, to)
+}
+
+// iterationTables adds to acc the iteration tables of every aggregate in
+// e, following measure references and per-grain aggregates.
+func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Measure]bool) ([]*planner.Table, error) {
+	var err error
+	add := func(t *planner.Table) {
+		if t != nil && !slices.Contains(acc, t) {
+			acc = append(acc, t)
+		}
+	}
+	planner.Walk(e, func(x planner.Expr) bool {
+		if err != nil {
+			return false
+		}
+		switch x := x.(type) {
+		case *planner.Agg:
+			add(x.Table)
+			return false
+		case *planner.MeasureRef:
+			if x.Measure != nil && !seen[x.Measure] {
+				seen[x.Measure] = true
+				acc, err = iterationTables(x.Measure.Expr, acc, seen)
+			}
+			return false
+		case *planner.PerAgg:
+			before := len(acc)
+			if x.X != nil {
+				acc, err = iterationTables(x.X, acc, seen)
+			}
+			if err == nil && x.Having != nil {
+				acc, err = iterationTables(x.Having, acc, seen)
+			}
+			if err == nil && len(acc) == before {
+				var t *planner.Table
+				if t, err = perColumnsTable(x.Per); err == nil {
+					add(t)
+				}
+			}
+			return false
+		case *planner.NarrowExpr:
+			acc, err = iterationTables(x.X, acc, seen)
+			return false
+		}
+		return true
+	})
+	return acc, err
+}

@@ -1,0 +1,292 @@
+// Package reference is rollwise's reference evaluator: it computes a
+// query's result from a resolved model and rows held in memory, cell by
+// cell, exactly as language.md defines a value, with simple loops and no
+// SQL. It shares no planning code with the SQL path (planner.NewPlan and
+// the dialects), so that the two can disagree: the differential tests run
+// both on random models and data and compare their rows.
+//
+// What a value means, as implemented here:
+//
+//   - A result row's cell is its group values (T.C = v for every group
+//     column not rolled up, NULL-safe) plus every filter conjunct.
+//   - An aggregate sees the rows of its iteration table that satisfy every
+//     constraint of the cell, reaching dimension columns along links; a
+//     row whose link finds no match reads NULL for every column of the
+//     tables beyond it (derived columns included). A constraint on a
+//     column the iteration table cannot reach is an error.
+//   - Narrowing (m where P) adds P to the cell as a filter; cell edits
+//     change the cell (see cell.edit); per-grain aggregates evaluate their
+//     measure in the cell plus one grouping per group (see perAgg).
+//   - A total row is the cell with the rolled-up groupings left out.
+//   - The rows: one per combination of group values occurring in the
+//     iteration rows (under the query's filters) of at least one requested
+//     measure, plus the total rows of the totals mode; a grand total row
+//     (or the one row of a query without groups) always exists.
+//   - Exact numbers (integer, decimal) are computed exactly; float results
+//     (averages, ratios, statistics) are computed exactly where the inputs
+//     are exact and rounded once.
+package reference
+
+import (
+	"fmt"
+	"slices"
+	"sort"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// Row is one result row: each group reference as written, each measure's
+// name, and rolled_up, shaped as `rollwise run --format json` writes them
+// (see JSON).
+type Row struct {
+	// Groups holds the group values (nil where rolled up or NULL).
+	Groups []Value
+	// Measures holds one value per query measure.
+	Measures []Value
+	// RolledUp marks the rolled-up groups.
+	RolledUp []bool
+}
+
+// Result is a query's rows in order.
+type Result struct {
+	Query *planner.Query
+	Rows  []Row
+}
+
+// Evaluate loads the model's data (see Load) and runs the query.
+func Evaluate(m *planner.Model, q *planner.Query, dataDir string) (*Result, error) {
+	d, err := Load(m, dataDir)
+	if err != nil {
+		return nil, err
+	}
+	return d.Run(q)
+}
+
+// Run computes the query's rows.
+func (d *Data) Run(q *planner.Query) (*Result, error) {
+	if q == nil {
+		return nil, fmt.Errorf("reference: no query")
+	}
+	ev := newEvaluator(d)
+	var filters cell
+	for _, f := range q.Filters {
+		filters = filters.with(filterOn(f))
+	}
+	combos, err := ev.combinations(q, filters)
+	if err != nil {
+		return nil, err
+	}
+	n := len(q.Groups)
+	var rows []Row
+	for _, rolled := range groupingSets(q.Totals, n) {
+		seen := map[string]bool{}
+		for _, combo := range combos {
+			g := make([]Value, n)
+			for i := range g {
+				if !rolled[i] {
+					g[i] = combo[i]
+				}
+			}
+			k := tupleKey(g)
+			if seen[k] {
+				continue
+			}
+			seen[k] = true
+			rows = append(rows, Row{Groups: g, RolledUp: rolled})
+		}
+		if !slices.Contains(rolled, false) && len(seen) == 0 {
+			rows = append(rows, Row{Groups: make([]Value, n), RolledUp: rolled})
+		}
+	}
+	for i := range rows {
+		c := filters
+		for j, g := range q.Groups {
+			if !rows[i].RolledUp[j] {
+				c = c.with(groupOn(g, rows[i].Groups[j]))
+			}
+		}
+		for _, m := range q.Measures {
+			v, err := ev.measure(m.Expr, c)
+			if err != nil {
+				return nil, fmt.Errorf("measure %s: %w", m.Name, err)
+			}
+			rows[i].Measures = append(rows[i].Measures, v)
+		}
+	}
+	rows, err = order(q, rows)
+	if err != nil {
+		return nil, err
+	}
+	return &Result{Query: q, Rows: rows}, nil
+}
+
+// combinations lists the distinct combinations of group values among the
+// iteration rows of the query's measures that pass the filters.
+func (ev *evaluator) combinations(q *planner.Query, filters cell) ([][]Value, error) {
+	var tables []*planner.Table
+	for _, m := range q.Measures {
+		var err error
+		if tables, err = iterationTables(m.Expr, tables, map[*planner.Measure]bool{}); err != nil {
+			return nil, fmt.Errorf("measure %s: %w", m.Name, err)
+		}
+	}
+	var combos [][]Value
+	seen := map[string]bool{}
+	for _, t := range tables {
+		td := ev.d.tables[t]
+		if td == nil {
+			return nil, fmt.Errorf("table %s is not loaded", t.Name)
+		}
+		for _, g := range q.Groups {
+			if _, ok := reachable(td, g.Table); !ok {
+				return nil, fmt.Errorf("cannot group by %s: %w", g, &errUnreachable{col: g, from: t})
+			}
+		}
+		rows, err := ev.rowsOf(td, filters)
+		if err != nil {
+			return nil, err
+		}
+		for _, r := range rows {
+			combo := make([]Value, len(q.Groups))
+			for i, g := range q.Groups {
+				if combo[i], err = ev.d.column(td, r, g); err != nil {
+					return nil, err
+				}
+			}
+			if k := tupleKey(combo); !seen[k] {
+				seen[k] = true
+				combos = append(combos, combo)
+			}
+		}
+	}
+	return combos, nil
+}
+
+// groupingSets lists, for a totals mode over n groups, which groups each
+// set rolls up, the detail set first: none (detail only), grand (and
+// everything rolled up), rollup (the last j groups rolled up, j = 1..n),
+// all (every subset, fewest rolled up first).
+func groupingSets(mode planner.TotalsMode, n int) [][]bool {
+	set := func(f func(i int) bool) []bool {
+		out := make([]bool, n)
+		for i := range out {
+			out[i] = f(i)
+		}
+		return out
+	}
+	sets := [][]bool{set(func(int) bool { return false })}
+	if n == 0 {
+		return sets
+	}
+	switch mode {
+	case planner.TotalsGrand:
+		sets = append(sets, set(func(int) bool { return true }))
+	case planner.TotalsRollup:
+		for j := 1; j <= n; j++ {
+			sets = append(sets, set(func(i int) bool { return i >= n-j }))
+		}
+	case planner.TotalsAll:
+		for k := 1; k <= n; k++ {
+			for mask := 0; mask < 1<<n; mask++ {
+				if popcount(mask) == k {
+					sets = append(sets, set(func(i int) bool { return mask&(1<<i) != 0 }))
+				}
+			}
+		}
+	}
+	return sets
+}
+
+func popcount(x int) int {
+	n := 0
+	for ; x != 0; x &= x - 1 {
+		n++
+	}
+	return n
+}
+
+// order sorts the rows as the SQL path does: by each group in turn (its
+// total after its values, values ascending, NULLs last); with --order,
+// the detail rows first, by the measure (NULLs last), then the totals.
+// --limit keeps the first N detail rows and every total row.
+func order(q *planner.Query, rows []Row) ([]Row, error) {
+	ob := -1
+	for i, m := range q.Measures {
+		if q.OrderBy != nil && m == q.OrderBy {
+			ob = i
+		}
+	}
+	if q.OrderBy != nil && ob < 0 {
+		return nil, fmt.Errorf("--order names %s, which the query does not ask for", q.OrderBy.Name)
+	}
+	var err error
+	less := func(a, b Row) int {
+		if ob >= 0 {
+			da, db := slices.Contains(a.RolledUp, true), slices.Contains(b.RolledUp, true)
+			if da != db {
+				return boolCmp(da, db)
+			}
+			if c := nullsLast(a.Measures[ob], b.Measures[ob], q.Desc, &err); c != 0 {
+				return c
+			}
+		}
+		for i := range a.Groups {
+			if a.RolledUp[i] != b.RolledUp[i] {
+				return boolCmp(a.RolledUp[i], b.RolledUp[i])
+			}
+			if c := nullsLast(a.Groups[i], b.Groups[i], false, &err); c != 0 {
+				return c
+			}
+		}
+		return 0
+	}
+	sort.SliceStable(rows, func(i, j int) bool { return less(rows[i], rows[j]) < 0 })
+	if err != nil {
+		return nil, err
+	}
+	if q.Limit > 0 {
+		var out []Row
+		kept := 0
+		for _, r := range rows {
+			if slices.Contains(r.RolledUp, true) {
+				out = append(out, r)
+			} else if kept < q.Limit {
+				out = append(out, r)
+				kept++
+			}
+		}
+		rows = out
+	}
+	return rows, nil
+}
+
+func boolCmp(a, b bool) int {
+	if a == b {
+		return 0
+	}
+	if !a {
+		return -1
+	}
+	return 1
+}
+
+// nullsLast compares two values, NULLs after everything in either
+// direction.
+func nullsLast(a, b Value, desc bool, errp *error) int {
+	switch {
+	case a == nil && b == nil:
+		return 0
+	case a == nil:
+		return 1
+	case b == nil:
+		return -1
+	}
+	c, err := compare(a, b)
+	if err != nil && *errp == nil {
+		*errp = err
+	}
+	if desc {
+		return -c
+	}
+	return c
+}
