@@ -47,7 +47,7 @@ func TestPerGrain(t *testing.T) {
 		// revenue[ungroup] drops the store grouping too: 2 groups * 60
 		{"stores.region": "North", "basket": 12.5, "big": 1, "item_max": "6", "ungrouped_per": "120.00"},
 		{"stores.region": "South", "basket": 15.0, "big": 1, "item_max": "10", "ungrouped_per": "60.00"}, // store 3: 12+3
-		{"stores.region": nil, "basket": 20.0, "big": 1, "item_max": "2", "ungrouped_per": "60.00"},     // store 9, unmatched
+		{"stores.region": nil, "basket": 20.0, "big": 1, "item_max": "2", "ungrouped_per": "60.00"},      // store 9, unmatched
 		// stores 1:20 2:5 3:15 9:20, avg 60/4; over 12: 1, 3, 9; rose 4+2+1=7, fern 3, tulip 10; 4 * 60
 		{"stores.region": nil, "basket": 15.0, "big": 3, "item_max": "10", "ungrouped_per": "240.00", "rolled_up": []string{"stores.region"}},
 	})
