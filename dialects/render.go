@@ -113,9 +113,12 @@ func (r *renderer) render() (string, error) {
 func (r *renderer) context(ctx *planner.Context) error {
 	for _, rel := range ctx.Rels {
 		var err error
-		if rel.Scan != nil {
+		switch {
+		case rel.Scan != nil:
 			err = r.scan(ctx, rel)
-		} else {
+		case rel.Window != nil:
+			// spelled inline where it is used (see window)
+		default:
 			err = r.per(ctx, rel)
 		}
 		if err != nil {
@@ -155,7 +158,7 @@ func (r *renderer) from(ctx *planner.Context) (string, bool) {
 	joined := 0
 	for _, rel := range ctx.Rels {
 		name := r.cte[rel]
-		if name == r.keyRel[ctx] {
+		if name == r.keyRel[ctx] || rel.Window != nil {
 			continue
 		}
 		joined++
@@ -428,6 +431,29 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	r.cte[rel] = r.cteName(rel.Name)
 	r.addCTE(r.cte[rel], body)
 	return nil
+}
+
+// window spells an edited aggregate as a window over the context's own
+// cells (the base scan's cells are the context's rows): each cell's value
+// combines the cells of its grouping set that share the keys the edit
+// keeps.
+func (r *renderer) window(ctx *planner.Context, w *planner.WindowRel, column string) (string, error) {
+	col := func(name string) string {
+		if _, single := r.from(ctx); single {
+			return r.q(name)
+		}
+		return r.q(r.keyRel[ctx]) + "." + r.q(name)
+	}
+	part := []string{col(GroupingColumn)}
+	for _, i := range w.Partition {
+		part = append(part, col(ctx.Keys[i].Name))
+	}
+	for _, p := range w.Parts {
+		if p.Name == column {
+			return p.Func + "(" + col(p.Source) + ") OVER (PARTITION BY " + strings.Join(part, ", ") + ")", nil
+		}
+	}
+	return "", fmt.Errorf("internal error: no window column %s", column)
 }
 
 func (r *renderer) relation(t *planner.Table) string {

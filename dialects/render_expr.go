@@ -92,6 +92,9 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 		}
 		return "(" + x + " IS NULL)", nil
 	case *planner.ValueRef:
+		if e.Rel.Window != nil {
+			return r.window(r.ctx, e.Rel.Window, e.Column)
+		}
 		s := r.q(e.Column)
 		name := r.cte[e.Rel]
 		if _, single := r.from(r.ctx); !single {

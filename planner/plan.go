@@ -61,8 +61,28 @@ type Rel struct {
 	Keys  []int
 	Sets  []uint64
 	GidOf map[uint64]uint64
-	Scan  *Scan
-	Per   *PerRel
+	Scan   *Scan
+	Per    *PerRel
+	Window *WindowRel
+}
+
+// WindowRel computes edited aggregates that decompose (sum, count, min,
+// max) as windows over another relation's cells: the value of a cell whose
+// edit removes some keys is the aggregate of the finer cells of the same
+// grouping set that share the remaining keys. Its cells are the base's.
+type WindowRel struct {
+	Base *Rel
+	// Partition lists the context keys the window keeps (by index).
+	Partition []int
+	Parts     []*WindowPart
+}
+
+// WindowPart is one window column: Func over the base's column Source.
+type WindowPart struct {
+	Name   string
+	Func   string
+	Source string
+	T      Type
 }
 
 // Scan reads one iteration table (joined along links to what it needs),

@@ -60,6 +60,7 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 		}
 	}
 	if !pl.diags.HasErrors() {
+		pl.useWindows(root)
 		for _, s := range pl.p.Scans {
 			pl.checkReach(s)
 			pl.joins(s)

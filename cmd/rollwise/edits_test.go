@@ -78,9 +78,9 @@ func TestPinGroupedByItsOwnColumn(t *testing.T) {
 	got := runEdits(t, "-m", "rose_rev,rose_fern,store_total_avg", "-b", "sales.item", "--totals", "grand")
 	expectRows(t, got, []row{
 		// store_total_avg: stores selling fern (1, 9) at their all-item revenue: (20+20)/2.
-		{"sales.item": "fern", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 20.0}, // roses 10+5+3; 18+30
-		{"sales.item": "rose", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 40.0 / 3}, // stores 1, 2, 3: 20+5+15
-		{"sales.item": "tulip", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 15.0}, // store 3
+		{"sales.item": "fern", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 20.0},                                   // roses 10+5+3; 18+30
+		{"sales.item": "rose", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 40.0 / 3},                               // stores 1, 2, 3: 20+5+15
+		{"sales.item": "tulip", "rose_rev": "18", "rose_fern": "48", "store_total_avg": 15.0},                                  // store 3
 		{"sales.item": nil, "rose_rev": "18", "rose_fern": "48", "store_total_avg": 15.0, "rolled_up": []string{"sales.item"}}, // 60/4
 	})
 }
@@ -128,5 +128,23 @@ func TestEditThroughTwoLinks(t *testing.T) {
 		{"districts.area": "Hills", "revenue": "20", "area_share": 20.0 / 60}, // rows 1, 2
 		{"districts.area": nil, "revenue": "20", "area_share": 20.0 / 60},     // the unmatched line
 		{"districts.area": nil, "revenue": "60", "area_share": 1.0, "rolled_up": []string{"districts.area"}},
+	})
+}
+
+// Without a filter, drop, ungroup and pin of a group column are computed
+// as windows over the report's own cells (no second read of the table):
+// the same hand-worked values must come out.
+func TestEditsAsWindows(t *testing.T) {
+	got := runEdits(t, "-m", "revenue,item_share,shown_share,rose_rev,region_share", "-b", "stores.region,sales.item", "--totals", "rollup")
+	expectRows(t, got, []row{
+		{"stores.region": "North", "sales.item": "fern", "revenue": "10", "item_share": 0.4, "shown_share": 0.4, "rose_rev": "15", "region_share": 10.0 / 30}, // fern: 10+20
+		{"stores.region": "North", "sales.item": "rose", "revenue": "15", "item_share": 0.6, "shown_share": 0.6, "rose_rev": "15", "region_share": 15.0 / 18}, // rose: 10+5+3
+		{"stores.region": "North", "sales.item": nil, "revenue": "25", "item_share": 1.0, "shown_share": 1.0, "rose_rev": "15", "region_share": 25.0 / 60},
+		{"stores.region": "South", "sales.item": "rose", "revenue": "3", "item_share": 0.2, "shown_share": 0.2, "rose_rev": "3", "region_share": 3.0 / 18}, // 3/15
+		{"stores.region": "South", "sales.item": "tulip", "revenue": "12", "item_share": 0.8, "shown_share": 0.8, "rose_rev": "3", "region_share": 1.0},    // 12/15; 12/12
+		{"stores.region": "South", "sales.item": nil, "revenue": "15", "item_share": 1.0, "shown_share": 1.0, "rose_rev": "3", "region_share": 0.25},       // 15/60
+		{"stores.region": nil, "sales.item": "fern", "revenue": "20", "item_share": 1.0, "shown_share": 1.0, "rose_rev": nil, "region_share": 20.0 / 30},
+		{"stores.region": nil, "sales.item": nil, "revenue": "20", "item_share": 1.0, "shown_share": 1.0, "rose_rev": nil, "region_share": 20.0 / 60},
+		{"stores.region": nil, "sales.item": nil, "revenue": "60", "item_share": 1.0, "shown_share": 1.0, "rose_rev": "18", "region_share": 1.0},
 	})
 }

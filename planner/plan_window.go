@@ -1,0 +1,95 @@
+package planner
+
+import (
+	"slices"
+	"sort"
+	"strings"
+)
+
+// windowFunc is the window aggregate that combines finer cells' values of
+// an aggregate, or "" when the aggregate does not decompose.
+func windowFunc(l *Leaf) string {
+	if l.Distinct {
+		return ""
+	}
+	switch l.Func {
+	case "sum", "count":
+		return "sum"
+	case "min", "max":
+		return l.Func
+	}
+	return ""
+}
+
+// useWindows turns edited scans into windows over the base scan's cells
+// where that is exact: the context's rows come from that one base scan,
+// the edit only removes groupings (the scan reads the same rows), and every
+// aggregate decomposes. It saves reading the table again.
+func (pl *planner) useWindows(ctx *Context) {
+	for _, r := range ctx.Rels {
+		if r.Per != nil {
+			pl.useWindows(r.Per.Sub)
+		}
+	}
+	if len(ctx.Bases) != 1 {
+		return
+	}
+	base := ctx.Bases[0]
+	want := whereKey(ctx.Filters)
+	for _, r := range ctx.Rels {
+		s := r.Scan
+		if r == base || s == nil || s.Table != base.Scan.Table || whereKey(s.Where) != want || len(s.Leaves) == 0 {
+			continue
+		}
+		ok := true
+		for _, l := range s.Leaves {
+			ok = ok && windowFunc(l) != ""
+		}
+		if !ok {
+			continue
+		}
+		w := &WindowRel{Base: base, Partition: r.Keys}
+		for _, l := range s.Leaves {
+			src := pl.baseLeaf(base.Scan, s, l)
+			w.Parts = append(w.Parts, &WindowPart{Name: l.Name, Func: windowFunc(l), Source: src.Name, T: l.T})
+		}
+		r.Scan, r.Window = nil, w
+		r.Keys = base.Keys
+		r.Sets = base.Sets
+		r.GidOf = base.GidOf
+		pl.p.Scans = slices.DeleteFunc(pl.p.Scans, func(x *Scan) bool { return x == s })
+	}
+}
+
+// baseLeaf finds or adds in the base scan the aggregate l of scan s.
+func (pl *planner) baseLeaf(base, s *Scan, l *Leaf) *Leaf {
+	text := func(in *Input) string {
+		if in == nil {
+			return ""
+		}
+		return Text(in.Expr)
+	}
+	for _, b := range base.Leaves {
+		if b.Func == l.Func && b.Distinct == l.Distinct && text(b.Arg) == text(l.Arg) && text(b.Filter) == text(l.Filter) {
+			return b
+		}
+	}
+	nl := &Leaf{Name: pl.name(l.Name + "_cell"), Func: l.Func, Distinct: l.Distinct, T: l.T}
+	if l.Arg != nil {
+		nl.Arg = pl.input(base, l.Arg.Name, l.Arg.Expr)
+	}
+	if l.Filter != nil {
+		nl.Filter = pl.input(base, l.Filter.Name, l.Filter.Expr)
+	}
+	base.Leaves = append(base.Leaves, nl)
+	return nl
+}
+
+func whereKey(ws []Expr) string {
+	var t []string
+	for _, w := range ws {
+		t = append(t, Text(w))
+	}
+	sort.Strings(t)
+	return strings.Join(t, " and ")
+}
