@@ -1,6 +1,8 @@
 package dialects
 
 import (
+	"fmt"
+	"slices"
 	"strings"
 
 	"github.com/rollwise/rollwise/planner"
@@ -36,6 +38,10 @@ type ViewDDL struct {
 	// engines that want some statements alone in their batch ("GO" for
 	// SQL Server's CREATE OR ALTER VIEW); "" for none.
 	BatchEnd string
+	// ColumnList reports whether CREATE VIEW v (c1, c2) AS ... names the
+	// view's columns. Where it does not (Trino), the query is wrapped in a
+	// SELECT that renames its columns.
+	ColumnList bool
 }
 
 // ViewDDLer is implemented by a dialect that states its own view DDL; it
@@ -46,22 +52,19 @@ type ViewDDLer interface {
 }
 
 // viewDDLs holds the view DDL of the engines in the design notes, by
-// dialect name (with the names an engine commonly goes by).
+// dialect name. PostgreSQL's CREATE OR REPLACE VIEW refuses to change a
+// column's name or type: that fails loudly, and is left to whoever owns
+// the views that depend on it (DROP ... CASCADE would remove them).
 var viewDDLs = map[string]ViewDDL{
-	"duckdb":     {Style: CreateOrReplace, OrderBy: true},
-	"postgres":   {Style: CreateOrReplace, OrderBy: true},
-	"postgresql": {Style: CreateOrReplace, OrderBy: true},
-	"mysql":      {Style: CreateOrReplace, OrderBy: true},
-	"mariadb":    {Style: CreateOrReplace, OrderBy: true},
-	"snowflake":  {Style: CreateOrReplace, OrderBy: true},
-	"bigquery":   {Style: CreateOrReplace, OrderBy: true},
-	"trino":      {Style: CreateOrReplace, OrderBy: true},
-	"spark":      {Style: CreateOrReplace, OrderBy: true},
-	"databricks": {Style: CreateOrReplace, OrderBy: true},
-	"sqlite":     {Style: DropAndCreate, OrderBy: true},
-	"sqlserver":  {Style: CreateOrAlter, BatchEnd: "GO"},
-	"mssql":      {Style: CreateOrAlter, BatchEnd: "GO"},
-	"tsql":       {Style: CreateOrAlter, BatchEnd: "GO"},
+	"duckdb":    {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"postgres":  {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"mysql":     {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"snowflake": {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"bigquery":  {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"spark":     {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	"trino":     {Style: CreateOrReplace, OrderBy: true},
+	"sqlite":    {Style: DropAndCreate, OrderBy: true, ColumnList: true},
+	"sqlserver": {Style: CreateOrAlter, BatchEnd: "GO", ColumnList: true},
 }
 
 // ViewDDLOf returns how dialect d creates views, or an error naming the
@@ -108,19 +111,30 @@ func RenderView(p *planner.Plan, d Dialect) (string, error) {
 }
 
 // CreateView returns the statements (without a trailing semicolon) that
-// create view name, or replace it if it exists, with the given column
-// names over query. The column list names the view's columns whatever the
-// query calls them.
-func CreateView(d Dialect, name []string, columns []string, query string) ([]string, error) {
+// create view name, or replace it if it exists, over query. The view's
+// columns are called columns; the query calls them inner (nil: the same).
+func CreateView(d Dialect, name []string, columns, inner []string, query string) ([]string, error) {
 	ddl, err := ViewDDLOf(d)
 	if err != nil {
 		return nil, err
 	}
-	cols := make([]string, len(columns))
-	for i, c := range columns {
-		cols[i] = d.Ident(c)
+	if inner != nil && len(inner) != len(columns) {
+		return nil, fmt.Errorf("internal error: %d view columns for %d query columns", len(columns), len(inner))
 	}
-	target := QualifiedName(d, name) + " (" + strings.Join(cols, ", ") + ")"
+	target := QualifiedName(d, name)
+	if ddl.ColumnList {
+		cols := make([]string, len(columns))
+		for i, c := range columns {
+			cols[i] = d.Ident(c)
+		}
+		target += " (" + strings.Join(cols, ", ") + ")"
+	} else if inner != nil && !slices.Equal(inner, columns) {
+		cols := make([]string, len(columns))
+		for i, c := range columns {
+			cols[i] = d.Ident(inner[i]) + " AS " + d.Ident(c)
+		}
+		query = "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM (\n" + query + "\n) AS " + d.Ident("view_rows")
+	}
 	switch ddl.Style {
 	case CreateOrAlter:
 		return []string{"CREATE OR ALTER VIEW " + target + " AS\n" + query}, nil

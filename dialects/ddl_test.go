@@ -73,10 +73,13 @@ func TestCreateViewStyles(t *testing.T) {
 		{renamed{name: "postgres"}, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
 		{renamed{name: "sqlserver"}, []string{`CREATE OR ALTER VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
 		{renamed{name: "SQLite"}, []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
-		{selfDescribed{renamed{name: "duckdb"}}, []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{selfDescribed{renamed{name: "duckdb"}}, []string{`DROP VIEW IF EXISTS "s"."v"`,
+			`CREATE VIEW "s"."v" AS` + "\nSELECT\n  \"x\" AS \"a\",\n  \"y\" AS \"b\"\"c\"\nFROM (\nSELECT 1\n) AS \"view_rows\""}},
+		{renamed{name: "trino"}, []string{`CREATE OR REPLACE VIEW "s"."v" AS` +
+			"\nSELECT\n  \"x\" AS \"a\",\n  \"y\" AS \"b\"\"c\"\nFROM (\nSELECT 1\n) AS \"view_rows\""}},
 	}
 	for _, c := range cases {
-		got, err := CreateView(c.d, []string{"s", "v"}, cols, "SELECT 1")
+		got, err := CreateView(c.d, []string{"s", "v"}, cols, []string{"x", "y"}, "SELECT 1")
 		if err != nil {
 			t.Fatalf("%s: %v", c.d.Name(), err)
 		}
@@ -86,8 +89,20 @@ func TestCreateViewStyles(t *testing.T) {
 	}
 }
 
+// Without a column list, a query whose columns already have the view's
+// names is not wrapped.
+func TestNoWrapWhenNamesAgree(t *testing.T) {
+	got, err := CreateView(renamed{name: "trino"}, []string{"v"}, []string{"a"}, []string{"a"}, "SELECT 1 AS a")
+	if err != nil || len(got) != 1 || got[0] != "CREATE OR REPLACE VIEW \"v\" AS\nSELECT 1 AS a" {
+		t.Errorf("got %q (%v)", got, err)
+	}
+	if _, err := CreateView(duckdb{}, []string{"v"}, []string{"a", "b"}, []string{"a"}, "SELECT 1"); err == nil {
+		t.Error("two columns named for one: no error")
+	}
+}
+
 func TestUnknownDialectHasNoViewDDL(t *testing.T) {
-	_, err := CreateView(renamed{name: "teradata"}, []string{"v"}, []string{"a"}, "SELECT 1")
+	_, err := CreateView(renamed{name: "teradata"}, []string{"v"}, []string{"a"}, nil, "SELECT 1")
 	var ue *UnsupportedError
 	if !errors.As(err, &ue) || ue.Dialect != "teradata" || !strings.Contains(err.Error(), "CREATE VIEW") {
 		t.Fatalf("want an error naming teradata and CREATE VIEW, got %v", err)
