@@ -1,0 +1,118 @@
+package main
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/views"
+	"github.com/rollwise/rollwise/dialects"
+)
+
+// viewsOptions are the flags of `rollwise views`.
+type viewsOptions struct {
+	models  []string
+	dialect string
+	out     string
+	check   string
+	schema  string
+}
+
+func newViewsCmd(e *env) *cobra.Command {
+	o := &viewsOptions{}
+	cmd := &cobra.Command{
+		Use:   "views MODEL... [-d DIALECT] [--out DIR | --check DIR] [--schema NAME]",
+		Short: "Write the DDL that publishes derived columns and view blocks as warehouse views",
+		Long: `views prints CREATE VIEW statements that compute, in the warehouse, what the
+model computes: a row-level view NAME` + views.RowViewSuffix + ` for each table with derived
+columns (every row of the table once, with its derived columns), and a view
+for each view block (the rows and values of 'rollwise run --view', total rows
+included, told apart by the ` + dialects.GroupingColumn + ` column). The statements are
+idempotent and ordered so that each view comes after what it reads.
+
+With --out DIR it writes one file per view and a manifest.json, atomically: a
+failure leaves DIR as it was. With --check DIR it compares DIR with what it
+would write and exits 1 if they differ, listing each view that does.`,
+		Example: `  rollwise views garden.roll
+  rollwise views garden.roll --schema analytics --out warehouse/views
+  rollwise views garden.roll --schema analytics --check warehouse/views`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := modelArgs(args); err != nil {
+				return err
+			}
+			o.models = args
+			return runViews(e, o)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect: "+strings.Join(dialects.Names(), ", "))
+	f.StringVar(&o.out, "out", "", "write one file per view and a manifest into DIR")
+	f.StringVar(&o.check, "check", "", "compare DIR with what --out would write; exit 1 if they differ")
+	f.StringVar(&o.schema, "schema", "", "create the views in schema NAME (which must exist)")
+	return cmd
+}
+
+func runViews(e *env, o *viewsOptions) error {
+	if o.out != "" && o.check != "" {
+		return usageErr("--out writes a folder and --check compares one: give one of them")
+	}
+	d, err := dialects.Get(o.dialect)
+	if err != nil {
+		return &exitError{code: exitUsage, err: err}
+	}
+	m, src, err := loadModel(e, o.models)
+	if err != nil {
+		return err
+	}
+	set, diags := views.Generate(m, d, views.Options{Schema: o.schema})
+	printDiags(e, diags, src)
+	if set == nil {
+		return &exitError{code: exitFindings, err: fmt.Errorf("no views written: %s", countErrors(diags))}
+	}
+	for _, c := range set.Cautions {
+		fmt.Fprintf(e.stderr, "caution: %s\n", c)
+	}
+	switch {
+	case o.check != "":
+		drifts, err := views.Check(o.check, set)
+		if err != nil {
+			return &exitError{code: exitInternal, err: err}
+		}
+		if len(drifts) == 0 {
+			fmt.Fprintf(e.stderr, "%s is up to date: %d views\n", o.check, len(set.Views))
+			return nil
+		}
+		for _, dr := range drifts {
+			fmt.Fprintln(e.stdout, dr)
+		}
+		return &exitError{code: exitFindings, err: fmt.Errorf("%s differs from the model in %d places; run 'rollwise views %s --out %s' to update it",
+			o.check, len(drifts), strings.Join(o.models, " ")+viewsFlags(o), o.check)}
+	case o.out != "":
+		rep, err := views.Write(o.out, set)
+		if err != nil {
+			return &exitError{code: exitInternal, err: err}
+		}
+		fmt.Fprintf(e.stderr, "%s: %d views; %d files written, %d unchanged, %d removed\n",
+			o.out, len(set.Views), len(rep.Written), len(rep.Unchanged), len(rep.Removed))
+		for _, f := range rep.Foreign {
+			fmt.Fprintf(e.stderr, "note: %s was not written by rollwise; it is left alone, and --check reports it\n", f)
+		}
+		return nil
+	}
+	fmt.Fprint(e.stdout, set.Script())
+	return nil
+}
+
+// viewsFlags repeats the flags that change what views generates, for a
+// message that shows the command to run.
+func viewsFlags(o *viewsOptions) string {
+	s := ""
+	if o.dialect != "duckdb" {
+		s += " -d " + o.dialect
+	}
+	if o.schema != "" {
+		s += " --schema " + o.schema
+	}
+	return s
+}
