@@ -1,0 +1,110 @@
+package planner_test
+
+import (
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// FuzzCheckPlan runs arbitrary model text through the whole check and
+// plan path: parse, resolve and check (planner.Load), then for each of the
+// first measures a query alone, one grouped by the first columns of the
+// first tables with every total row, a --where filter and an order, and
+// planner.NewPlan on each. Nothing may panic or hang, and every error
+// must carry a position (file, line and column). Run it with:
+//
+//	go test -run='^$' -fuzz='^FuzzCheckPlan$' -fuzztime=10m ./planner
+func FuzzCheckPlan(f *testing.F) {
+	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/demo/*.roll"} {
+		paths, _ := filepath.Glob(pattern)
+		for _, p := range paths {
+			if b, err := os.ReadFile(p); err == nil && len(b) < 8000 {
+				f.Add(string(b))
+			}
+		}
+	}
+	f.Fuzz(func(t *testing.T, src string) {
+		done := make(chan any, 1)
+		go func() {
+			defer func() { done <- recover() }()
+			checkPlan(t, src)
+		}()
+		select {
+		case p := <-done:
+			if p == nil {
+				return
+			}
+			msg := fmt.Sprint(p)
+			if strings.Contains(msg, "was accepted but did not progress the lexer") {
+				t.Skipf("known parser crash (grammar/testdata/crashers): %s", msg)
+			}
+			t.Fatalf("panic: %s", msg)
+		case <-time.After(20 * time.Second):
+			t.Fatalf("check and plan did not return within 20s")
+		}
+	})
+}
+
+// checkPlan runs one model through the path, reporting errors without a
+// position with t.Errorf (safe from the fuzz goroutine).
+func checkPlan(t *testing.T, src string) {
+	file, diags := grammar.Parse("fuzz.roll", src)
+	positioned(t, diags)
+	if diags.HasErrors() || file == nil {
+		return
+	}
+	m, diags := planner.Load([]*grammar.File{file})
+	positioned(t, diags)
+	if diags.HasErrors() || m == nil {
+		return
+	}
+	var by []string
+	where := ""
+	for _, tb := range m.Tables {
+		if len(tb.Columns) > 0 && len(by) < 2 {
+			by = append(by, tb.Columns[0].String())
+			if where == "" {
+				where = tb.Columns[0].String() + " is not null"
+			}
+		}
+	}
+	for i, ms := range m.Measures {
+		if i >= 6 {
+			break
+		}
+		specs := []planner.QuerySpec{
+			{Measures: []string{ms.Name}},
+			{Measures: []string{ms.Name}, By: by, Where: where, Totals: "all", Order: ms.Name + " desc", Limit: 3},
+		}
+		for _, spec := range specs {
+			q, d := m.NewQuery(spec)
+			positioned(t, d)
+			if d.HasErrors() || q == nil {
+				continue
+			}
+			_, d = planner.NewPlan(q)
+			positioned(t, d)
+		}
+	}
+	for _, v := range m.Views {
+		_, d := planner.NewPlan(m.ViewQuery(v))
+		positioned(t, d)
+	}
+}
+
+func positioned(t *testing.T, diags grammar.Diagnostics) {
+	for _, d := range diags {
+		if d.Pos.File == "" || d.Pos.Line < 1 || d.Pos.Col < 1 {
+			t.Errorf("%s diagnostic without a position (%+v): %s", d.Severity, d.Pos, d.Message)
+		}
+		if d.Code == "" || d.Message == "" {
+			t.Errorf("diagnostic at %s without a code or message", d.Pos)
+		}
+	}
+}
