@@ -2,6 +2,11 @@
 // is described once: the few spellings that differ (quoting, literals,
 // functions) and the capabilities the renderer consults to pick a rewrite
 // or to refuse a construct with an error naming the dialect.
+//
+// The facts behind each dialect's rules are in
+// ../shared/design/dialects.md (section numbers are cited as "§N" beside
+// the rules), with the engines' own documents as sources; docs/dialects.md
+// in the project is the users' summary.
 package dialects
 
 import (
@@ -14,17 +19,38 @@ import (
 
 // Caps are what an engine can do, as data.
 type Caps struct {
-	// GroupingSets: GROUP BY GROUPING SETS (...) with GROUPING(...).
+	// GroupingSets: GROUP BY GROUPING SETS (...) with a grouping id
+	// (GroupingID). Without it, total rows need UnionGroupingSets.
 	GroupingSets bool
-	// FilterClause: agg(x) FILTER (WHERE p).
+	// FilterClause: agg(x) FILTER (WHERE p). Without it, FilteredAgg puts
+	// a CASE inside the aggregate.
 	FilterClause bool
 	// ExactMedian: an exact continuous median aggregate.
 	ExactMedian bool
-	// NullsLast: ORDER BY x NULLS LAST.
+	// ApproxMedian: an approximate median aggregate, used only when the
+	// user passes --approximate (see WithApproximate).
+	ApproxMedian bool
+	// SampleStats: the sample standard deviation and variance aggregates.
+	SampleStats bool
+	// NullsLast: ORDER BY x NULLS LAST. Without it, OrderKey sorts on
+	// CASE WHEN x IS NULL THEN 1 ELSE 0 END first.
 	NullsLast bool
+	// DistinctWindow: COUNT(DISTINCT x) OVER (PARTITION BY ...). Without
+	// it, a distinct count per window needs a pre-aggregate joined back.
+	DistinctWindow bool
+	// PredicateValues: a predicate is a value that can be selected and
+	// stored (a boolean type). Without it (SQL Server), BoolValue and
+	// Truth convert between predicates and 1/0.
+	PredicateValues bool
+	// FullOuterJoin: FULL OUTER JOIN.
+	FullOuterJoin bool
+	// Top: row limits are written SELECT TOP (n) rather than LIMIT n.
+	Top bool
 }
 
-// Dialect is what differs between SQL engines.
+// Dialect is what differs between SQL engines. Every method returns SQL
+// text built only from its arguments (already rendered SQL) and from
+// values it quotes itself, so that no name or value can leave its quotes.
 type Dialect interface {
 	// Name is the dialect's name on the command line.
 	Name() string
@@ -37,10 +63,17 @@ type Dialect interface {
 	// (already validated as YYYY-MM-DD[ HH:MM:SS]).
 	Date(s string) string
 	Timestamp(s string) string
+	// Bool renders the literal true or false.
+	Bool(v bool) string
 	// TypeName is the SQL type for casts.
 	TypeName(t planner.Type) string
+	// ColumnType is the SQL type of a stored column in CREATE TABLE.
+	ColumnType(t planner.Type) string
+	// Cast converts an already rendered value of type from to type to.
+	Cast(arg string, from, to planner.Type) string
 	// Agg spells an aggregate call over an already rendered argument
-	// ("" for count(*)).
+	// ("" for count(*)). It refuses, with an *UnsupportedError, an
+	// aggregate the engine cannot compute exactly.
 	Agg(fn string, distinct bool, arg string) (string, error)
 	// Divide spells fractional division that gives NULL on a zero divisor.
 	Divide(l, r string) string
@@ -51,10 +84,36 @@ type Dialect interface {
 	BitAnd(a, b string) string
 	// NullSafeEqual spells equality that treats two NULLs as equal.
 	NullSafeEqual(a, b string) string
+	// Concat spells the text concatenation a || b (NULL if either is).
+	Concat(a, b string) string
+	// Call spells a scalar function of the language (coalesce, nullif,
+	// abs, round, least, greatest, lower, upper) with DuckDB's meaning;
+	// types are the arguments' types.
+	Call(name string, args []string, types []planner.Type) string
+	// GroupingID spells the grouping id of quoted group keys: a bit mask
+	// of the rolled-up keys, the last key the lowest bit.
+	GroupingID(keys []string) string
+	// Limit returns what goes after SELECT (top) or at the end of the
+	// statement (tail) to keep the first n rows.
+	Limit(n int) (top, tail string)
+	// BoolValue turns a predicate into a value that can be selected
+	// (NULL when the predicate is unknown); Truth turns such a value (or
+	// a boolean column) back into a predicate.
+	BoolValue(pred string) string
+	Truth(value string) string
 }
 
+// registry lists the dialects by name. It is built here, not in init().
 var registry = map[string]Dialect{
-	"duckdb": duckdb{},
+	"duckdb":    duckdb{},
+	"postgres":  postgres{},
+	"sqlite":    sqlite{},
+	"mysql":     mysql{},
+	"sqlserver": sqlserver{},
+	"snowflake": snowflake{},
+	"bigquery":  bigquery{},
+	"trino":     trino{},
+	"spark":     spark{},
 }
 
 // Get returns the dialect called name, or an error listing the valid ones.
@@ -100,6 +159,12 @@ func (ansi) Date(s string) string     { return "DATE '" + s + "'" }
 func (ansi) Timestamp(s string) string {
 	return "TIMESTAMP '" + s + "'"
 }
+func (ansi) Bool(v bool) string {
+	if v {
+		return "TRUE"
+	}
+	return "FALSE"
+}
 func (ansi) Divide(l, r string) string { return l + " / NULLIF(" + r + ", 0)" }
 func (ansi) Extract(unit, arg string) string {
 	return "EXTRACT(" + strings.ToUpper(unit) + " FROM " + arg + ")"
@@ -108,57 +173,70 @@ func (ansi) BitAnd(a, b string) string { return "(" + a + " & " + b + ")" }
 func (ansi) NullSafeEqual(a, b string) string {
 	return a + " IS NOT DISTINCT FROM " + b
 }
+func (ansi) Concat(a, b string) string       { return "(" + a + " || " + b + ")" }
+func (ansi) GroupingID(keys []string) string { return "GROUPING(" + strings.Join(keys, ", ") + ")" }
+func (ansi) Limit(n int) (string, string)    { return "", fmt.Sprintf("LIMIT %d", n) }
+func (ansi) BoolValue(pred string) string    { return pred }
+func (ansi) Truth(value string) string       { return value }
 
-// duckdb is the embedded engine's dialect.
-type duckdb struct{ ansi }
-
-func (duckdb) Name() string { return "duckdb" }
-func (duckdb) Caps() Caps {
-	return Caps{GroupingSets: true, FilterClause: true, ExactMedian: true, NullsLast: true}
+// Call spells the scalar functions as DuckDB names them; dialects whose
+// functions differ in name or in meaning override it.
+func (ansi) Call(name string, args []string, _ []planner.Type) string {
+	return plainCall(name, args)
 }
 
-func (duckdb) TypeName(t planner.Type) string {
-	switch t {
-	case planner.TypeInteger:
-		return "BIGINT"
-	case planner.TypeDecimal:
-		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
-		return "DOUBLE"
-	case planner.TypeDate:
-		return "DATE"
-	case planner.TypeTimestamp:
-		return "TIMESTAMP"
-	case planner.TypeBoolean:
-		return "BOOLEAN"
-	}
-	return "VARCHAR"
+func plainCall(name string, args []string) string {
+	return name + "(" + strings.Join(args, ", ") + ")"
 }
 
-func (duckdb) Agg(fn string, distinct bool, arg string) (string, error) {
-	switch {
-	case arg == "":
-		return "count(*)", nil
-	case distinct:
-		return fn + "(DISTINCT " + arg + ")", nil
+// castWith is CAST(arg AS type), the cast most dialects spell.
+func castWith(d interface{ TypeName(planner.Type) string }, arg string, to planner.Type) string {
+	return "CAST(" + arg + " AS " + d.TypeName(to) + ")"
+}
+
+// nullIgnoring spells greatest or least so that NULL arguments are
+// ignored (DuckDB's meaning: NULL only when every argument is NULL) on an
+// engine whose function returns NULL as soon as one argument is NULL:
+// each argument is replaced by the first non-NULL of it and the others,
+// which never changes the extreme. (The dbt-utils nullsafe_greatest macro
+// uses the same construction.)
+func nullIgnoring(fn string, args []string) string {
+	if len(args) == 1 {
+		return args[0]
 	}
+	parts := make([]string, len(args))
+	for i, a := range args {
+		rest := []string{a}
+		for j, b := range args {
+			if j != i {
+				rest = append(rest, b)
+			}
+		}
+		parts[i] = "COALESCE(" + strings.Join(rest, ", ") + ")"
+	}
+	return fn + "(" + strings.Join(parts, ", ") + ")"
+}
+
+// statName maps the language's statistics to the standard sample
+// aggregates: stddev and variance are the SAMPLE statistics (language.md),
+// and the bare STDDEV/VARIANCE names mean the population in MySQL and
+// MariaDB (§12), so the _samp names are always spelled out.
+func statName(fn string) string {
 	switch fn {
 	case "stddev":
-		fn = "stddev_samp"
+		return "stddev_samp"
 	case "variance":
-		fn = "var_samp"
-	case "median":
-		// DuckDB's median averages the two middle values of an even count
-		// for numbers: the continuous median (duckdb.org/docs, aggregates).
-		fn = "median"
+		return "var_samp"
 	}
-	return fn + "(" + arg + ")", nil
+	return fn
 }
 
-func (duckdb) DateTrunc(unit, arg string, t planner.Type) string {
-	s := "date_trunc('" + unit + "', " + arg + ")"
-	if t == planner.TypeDate {
-		return "CAST(" + s + " AS DATE)"
+// isStat reports whether fn is computed in floating point by the language
+// (avg, median, stddev, variance are typed float by the planner).
+func isStat(fn string) bool {
+	switch fn {
+	case "avg", "median", "stddev", "variance":
+		return true
 	}
-	return s
+	return false
 }

@@ -1,0 +1,255 @@
+package dialects
+
+import (
+	"errors"
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// spelling is one dialect's expected spelling of each construct; the
+// comments in the dialects' files say why each differs.
+type spelling struct {
+	ident, str, date, ts, divide, stddev, variance, avg, median    string
+	truncMonth, truncWeekTS, extractWeek, bitAnd, nullSafe, concat string
+	grouping2, greatest2, roundFloat, castFloatInt, count, limit   string
+}
+
+var spellings = map[string]spelling{
+	"duckdb": {
+		ident: `"a""b"`, str: `'it''s \ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP '2026-03-01 10:00:00'`,
+		divide: `x / NULLIF(y, 0)`, stddev: `stddev_samp(x)`, variance: `var_samp(x)`, avg: `avg(x)`, median: `median(x)`,
+		truncMonth: `CAST(date_trunc('month', d) AS DATE)`, truncWeekTS: `date_trunc('week', d)`,
+		extractWeek: `EXTRACT(WEEK FROM d)`, bitAnd: `(g & 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat: `(a || b)`, grouping2: `GROUPING("a", "b")`, greatest2: `greatest(a, b)`, roundFloat: `round(x)`,
+		castFloatInt: `CAST(x AS BIGINT)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"postgres": {
+		ident: `"a""b"`, str: `E'it''s \\ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP '2026-03-01 10:00:00'`,
+		divide: `CAST(x AS DOUBLE PRECISION) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS DOUBLE PRECISION))`,
+		variance: `var_samp(CAST(x AS DOUBLE PRECISION))`, avg: `avg(CAST(x AS DOUBLE PRECISION))`,
+		median:     `percentile_cont(0.5) WITHIN GROUP (ORDER BY CAST(x AS DOUBLE PRECISION))`,
+		truncMonth: `CAST(date_trunc('month', CAST(d AS TIMESTAMP)) AS DATE)`, truncWeekTS: `date_trunc('week', d)`,
+		extractWeek: `CAST(EXTRACT(WEEK FROM d) AS BIGINT)`, bitAnd: `(g & 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat: `(a || b)`, grouping2: `GROUPING("a", "b")`, greatest2: `greatest(a, b)`,
+		roundFloat: `CAST(round(CAST(x AS NUMERIC)) AS DOUBLE PRECISION)`, castFloatInt: `CAST(x AS BIGINT)`,
+		count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"sqlite": {
+		ident: "`a\"b`", str: `'it''s \ ok'`, date: `'2026-03-01'`, ts: `'2026-03-01 10:00:00'`,
+		divide: `CAST(x AS REAL) / NULLIF(y, 0)`, stddev: `error`, variance: `error`, avg: `avg(x)`, median: `error`,
+		truncMonth: `date(d, 'start of month')`, truncWeekTS: `datetime(d, 'start of day', '-6 days', 'weekday 1')`,
+		extractWeek: `CAST(strftime('%V', d) AS INTEGER)`, bitAnd: `(g & 1)`, nullSafe: `a IS b`,
+		concat: `(a || b)`, grouping2: "GROUPING(`a`, `b`)", greatest2: `max(COALESCE(a, b), COALESCE(b, a))`,
+		roundFloat: `round(x)`, castFloatInt: `CAST(round(x) AS INTEGER)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"mysql": {
+		ident: "`a\"b`", str: `'it''s \\ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP '2026-03-01 10:00:00'`,
+		divide: `CAST(x AS DOUBLE) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS DOUBLE))`,
+		variance: `var_samp(CAST(x AS DOUBLE))`, avg: `avg(CAST(x AS DOUBLE))`, median: `error`,
+		truncMonth:  `DATE_SUB(CAST(d AS DATE), INTERVAL DAYOFMONTH(d) - 1 DAY)`,
+		truncWeekTS: `CAST(DATE_SUB(CAST(d AS DATE), INTERVAL WEEKDAY(d) DAY) AS DATETIME(6))`,
+		extractWeek: `WEEK(d, 3)`, bitAnd: `(g & 1)`, nullSafe: `a <=> b`, concat: `CONCAT(a, b)`,
+		grouping2: "GROUPING(`a`, `b`)", greatest2: `GREATEST(COALESCE(a, b), COALESCE(b, a))`,
+		roundFloat:   `CASE WHEN ABS(x) < 1e30 THEN CAST(ROUND(CAST(x AS DECIMAL(65, 30))) AS DOUBLE) ELSE ROUND(x) END`,
+		castFloatInt: `CAST(x AS SIGNED)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"sqlserver": {
+		ident: `[a"b]`, str: `N'it''s \ ok'`, date: `CAST('2026-03-01' AS DATE)`, ts: `CAST('2026-03-01 10:00:00' AS DATETIME2)`,
+		divide: `CAST(x AS FLOAT) / NULLIF(y, 0)`, stddev: `STDEV(CAST(x AS FLOAT))`, variance: `VAR(CAST(x AS FLOAT))`,
+		avg: `AVG(CAST(x AS FLOAT))`, median: `error`,
+		truncMonth: `DATETRUNC(month, d)`, truncWeekTS: `DATETRUNC(iso_week, d)`,
+		extractWeek: `DATEPART(iso_week, d)`, bitAnd: `(g & 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat:    `(CAST(a AS NVARCHAR(MAX)) + CAST(b AS NVARCHAR(MAX)))`,
+		grouping2: `GROUPING_ID([a], [b])`, greatest2: `GREATEST(a, b)`, roundFloat: `ROUND(x, 0)`,
+		castFloatInt: `CAST(ROUND(x, 0) AS BIGINT)`, count: `COUNT_BIG(x)`, limit: `TOP (5)|`,
+	},
+	"snowflake": {
+		ident: `"a""b"`, str: `'it''s \\ ok'`, date: `CAST('2026-03-01' AS DATE)`, ts: `CAST('2026-03-01 10:00:00' AS TIMESTAMP_NTZ)`,
+		divide: `CAST(x AS FLOAT) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS FLOAT))`,
+		variance: `var_samp(CAST(x AS FLOAT))`, avg: `avg(CAST(x AS FLOAT))`, median: `median(x)`,
+		truncMonth: `DATE_TRUNC('MONTH', d)`, truncWeekTS: `DATE_TRUNC('WEEK', d)`,
+		extractWeek: `EXTRACT(WEEKISO FROM d)`, bitAnd: `BITAND(g, 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat: `(a || b)`, grouping2: `GROUPING("A", "B")`, greatest2: `GREATEST_IGNORE_NULLS(a, b)`,
+		roundFloat: `round(x)`, castFloatInt: `CAST(x AS NUMBER(38, 0))`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"bigquery": {
+		ident: "`a\"b`", str: `'it\'s \\ ok'`, date: `DATE '2026-03-01'`, ts: `DATETIME '2026-03-01 10:00:00'`,
+		divide: `CAST(x AS FLOAT64) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS FLOAT64))`,
+		variance: `var_samp(CAST(x AS FLOAT64))`, avg: `avg(CAST(x AS FLOAT64))`, median: `error`,
+		truncMonth: `DATE_TRUNC(d, MONTH)`, truncWeekTS: `DATETIME_TRUNC(d, ISOWEEK)`,
+		extractWeek: `EXTRACT(ISOWEEK FROM d)`, bitAnd: `(g & 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat: `(a || b)`, grouping2: "(GROUPING(`a`) * 2 + GROUPING(`b`))",
+		greatest2: `GREATEST(COALESCE(a, b), COALESCE(b, a))`, roundFloat: `round(x)`,
+		castFloatInt: `CAST(x AS INT64)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"trino": {
+		ident: `"a""b"`, str: `'it''s \ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP '2026-03-01 10:00:00'`,
+		divide: `CAST(x AS DOUBLE) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS DOUBLE))`,
+		variance: `var_samp(CAST(x AS DOUBLE))`, avg: `avg(CAST(x AS DOUBLE))`, median: `error`,
+		truncMonth: `date_trunc('month', d)`, truncWeekTS: `date_trunc('week', d)`,
+		extractWeek: `EXTRACT(WEEK FROM d)`, bitAnd: `bitwise_and(g, 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
+		concat: `(a || b)`, grouping2: `grouping("a", "b")`, greatest2: `greatest(COALESCE(a, b), COALESCE(b, a))`,
+		roundFloat: `round(x)`, castFloatInt: `CAST(x AS BIGINT)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+	"spark": {
+		ident: "`a\"b`", str: `'it\'s \\ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP_NTZ '2026-03-01 10:00:00'`,
+		divide: `CAST(x AS DOUBLE) / NULLIF(y, 0)`, stddev: `stddev_samp(CAST(x AS DOUBLE))`,
+		variance: `var_samp(CAST(x AS DOUBLE))`, avg: `avg(CAST(x AS DOUBLE))`, median: `percentile(CAST(x AS DOUBLE), 0.5)`,
+		truncMonth: `CAST(date_trunc('MONTH', d) AS DATE)`, truncWeekTS: `CAST(date_trunc('WEEK', d) AS TIMESTAMP_NTZ)`,
+		extractWeek: `EXTRACT(WEEK FROM d)`, bitAnd: `(g & 1)`, nullSafe: `a <=> b`,
+		concat: `(a || b)`, grouping2: "grouping_id(`a`, `b`)", greatest2: `greatest(a, b)`, roundFloat: `round(x)`,
+		castFloatInt: `CAST(round(x) AS BIGINT)`, count: `count(x)`, limit: `|LIMIT 5`,
+	},
+}
+
+func aggOrError(d Dialect, fn string) string {
+	s, err := d.Agg(fn, false, "x")
+	if err != nil {
+		var ue *UnsupportedError
+		if !errors.As(err, &ue) || ue.Dialect != d.Name() {
+			return "bad error: " + err.Error()
+		}
+		return "error"
+	}
+	return s
+}
+
+func TestSpellings(t *testing.T) {
+	if len(spellings) != len(Names()) {
+		t.Fatalf("spellings cover %d dialects; the registry has %v", len(spellings), Names())
+	}
+	for _, name := range Names() {
+		d, _ := Get(name)
+		w, ok := spellings[name]
+		if !ok {
+			t.Errorf("no spellings for %s", name)
+			continue
+		}
+		top, tail := d.Limit(5)
+		got := spelling{
+			ident: d.Ident(`a"b`), str: d.String(`it's \ ok`), date: d.Date("2026-03-01"), ts: d.Timestamp("2026-03-01 10:00:00"),
+			divide: d.Divide("x", "y"), stddev: aggOrError(d, "stddev"), variance: aggOrError(d, "variance"),
+			avg: aggOrError(d, "avg"), median: aggOrError(d, "median"),
+			truncMonth: d.DateTrunc("month", "d", planner.TypeDate), truncWeekTS: d.DateTrunc("week", "d", planner.TypeTimestamp),
+			extractWeek: d.Extract("week", "d"), bitAnd: d.BitAnd("g", "1"), nullSafe: d.NullSafeEqual("a", "b"),
+			concat: d.Concat("a", "b"), grouping2: d.GroupingID([]string{d.Ident("a"), d.Ident("b")}),
+			greatest2:    d.Call("greatest", []string{"a", "b"}, []planner.Type{planner.TypeInteger, planner.TypeInteger}),
+			roundFloat:   d.Call("round", []string{"x"}, []planner.Type{planner.TypeFloat}),
+			castFloatInt: d.Cast("x", planner.TypeFloat, planner.TypeInteger),
+			count:        aggOrError(d, "count"), limit: top + "|" + tail,
+		}
+		if got != w {
+			t.Errorf("%s spells:\n%+v\nwant:\n%+v", name, got, w)
+		}
+	}
+}
+
+// Ratios are fractional and statistics are sample statistics on every
+// dialect: dialects.md's generator hazards 1 and 3.
+func TestRatiosFractionalAndStatisticsSampleEverywhere(t *testing.T) {
+	for _, name := range Names() {
+		d, _ := Get(name)
+		div := d.Divide("a", "b")
+		if name != "duckdb" && !strings.HasPrefix(div, "CAST(a AS ") {
+			t.Errorf("%s: %s does not make the dividend fractional", name, div)
+		}
+		if !strings.Contains(div, "NULLIF(b, 0)") {
+			t.Errorf("%s: %s is not NULL on a zero divisor", name, div)
+		}
+		for _, fn := range []string{"stddev", "variance"} {
+			s, err := d.Agg(fn, false, "x")
+			if err != nil {
+				if d.Caps().SampleStats {
+					t.Errorf("%s claims sample statistics but refuses %s: %v", name, fn, err)
+				}
+				continue
+			}
+			low := strings.ToLower(s)
+			sample := strings.Contains(low, "_samp(") || strings.HasPrefix(s, "STDEV(") || strings.HasPrefix(s, "VAR(")
+			if !sample || strings.Contains(low, "pop") {
+				t.Errorf("%s: %s is not the sample statistic (%s)", name, fn, s)
+			}
+		}
+	}
+}
+
+func TestMedianRefusalNamesDialectAndConstruct(t *testing.T) {
+	for _, name := range Names() {
+		d, _ := Get(name)
+		_, err := d.Agg("median", false, "x")
+		if d.Caps().ExactMedian != (err == nil) {
+			t.Errorf("%s: Caps.ExactMedian = %v but Agg(median) gives error %v", name, d.Caps().ExactMedian, err)
+		}
+		if err != nil && (!strings.Contains(err.Error(), name) || !strings.Contains(err.Error(), "median")) {
+			t.Errorf("%s: refusal %q does not name the dialect and the construct", name, err)
+		}
+	}
+}
+
+func TestApproximate(t *testing.T) {
+	cases := map[string]string{
+		"trino":     "approx_percentile(CAST(x AS DOUBLE), 0.5)",
+		"bigquery":  "APPROX_QUANTILES(x, 2)[OFFSET(1)]",
+		"sqlserver": "APPROX_PERCENTILE_CONT(0.5) WITHIN GROUP (ORDER BY x)",
+	}
+	for name, want := range cases {
+		base, _ := Get(name)
+		d := WithApproximate(base)
+		if !d.Caps().ExactMedian {
+			t.Errorf("%s with --approximate still reports no median", name)
+		}
+		if _, used := Approximated(d); used {
+			t.Errorf("%s: approximation reported before any median was rendered", name)
+		}
+		got, err := d.Agg("median", false, "x")
+		if err != nil || got != want {
+			t.Errorf("%s approximate median = %q, %v; want %q", name, got, err, want)
+		}
+		note, used := Approximated(d)
+		if !used || !strings.Contains(note, "approximate") || !strings.Contains(note, name) {
+			t.Errorf("%s: note %q, used %v", name, note, used)
+		}
+		if s, _ := d.Agg("sum", false, "x"); s != "sum(x)" && s != "SUM(x)" {
+			t.Errorf("%s: --approximate changed sum: %s", name, s)
+		}
+	}
+	for _, name := range []string{"duckdb", "postgres", "snowflake", "spark", "mysql", "sqlite"} {
+		base, _ := Get(name)
+		if d := WithApproximate(base); d != base {
+			t.Errorf("%s: --approximate should change nothing (exact median, or none to approximate)", name)
+		}
+	}
+}
+
+func TestGetUnknownListsDialects(t *testing.T) {
+	_, err := Get("oracle")
+	if err == nil || !strings.Contains(err.Error(), "duckdb, mysql, postgres") {
+		t.Fatalf("error %v does not list the dialects", err)
+	}
+	for _, n := range []string{"DuckDB", "Postgres", "SQLServer"} {
+		if _, err := Get(n); err != nil {
+			t.Errorf("Get(%q): %v", n, err)
+		}
+	}
+}
+
+// SQL Server has no boolean values: predicates become 1/0/NULL where a
+// value is due, and are read back with = 1.
+func TestSQLServerBooleans(t *testing.T) {
+	d, _ := Get("sqlserver")
+	if got := d.BoolValue(`([a] = 1)`); got != `CASE WHEN ([a] = 1) THEN 1 WHEN NOT (([a] = 1)) THEN 0 END` {
+		t.Errorf("BoolValue = %s", got)
+	}
+	if got := d.Truth(`[f]`); got != `([f] = 1)` {
+		t.Errorf("Truth = %s", got)
+	}
+	if d.Bool(true) != "(1 = 1)" || d.Bool(false) != "(1 = 0)" {
+		t.Errorf("Bool = %s, %s", d.Bool(true), d.Bool(false))
+	}
+	pg, _ := Get("postgres")
+	if pg.BoolValue("p") != "p" || pg.Truth("v") != "v" {
+		t.Error("postgres should keep predicates as values")
+	}
+}

@@ -1,0 +1,67 @@
+package dialects
+
+import "github.com/rollwise/rollwise/planner"
+
+// duckdb is the embedded engine's dialect, and the reference meaning of
+// every construct: the other dialects reproduce DuckDB's results.
+type duckdb struct{ ansi }
+
+func (duckdb) Name() string { return "duckdb" }
+func (duckdb) Caps() Caps {
+	// COUNT(DISTINCT) works in any window (§6); FULL OUTER JOIN is standard.
+	return Caps{GroupingSets: true, FilterClause: true, ExactMedian: true, ApproxMedian: true,
+		SampleStats: true, NullsLast: true, DistinctWindow: true, PredicateValues: true, FullOuterJoin: true}
+}
+
+func (duckdb) TypeName(t planner.Type) string {
+	switch t {
+	case planner.TypeInteger:
+		return "BIGINT"
+	case planner.TypeDecimal:
+		return "DECIMAL(38, 6)"
+	case planner.TypeFloat:
+		return "DOUBLE"
+	case planner.TypeDate:
+		return "DATE"
+	case planner.TypeTimestamp:
+		return "TIMESTAMP"
+	case planner.TypeBoolean:
+		return "BOOLEAN"
+	}
+	return "VARCHAR"
+}
+
+func (d duckdb) ColumnType(t planner.Type) string { return d.TypeName(t) }
+
+func (d duckdb) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+
+func (duckdb) Agg(fn string, distinct bool, arg string) (string, error) {
+	switch {
+	case arg == "":
+		return "count(*)", nil
+	case distinct:
+		return fn + "(DISTINCT " + arg + ")", nil
+	}
+	switch fn {
+	case "stddev":
+		fn = "stddev_samp"
+	case "variance":
+		fn = "var_samp"
+	case "median":
+		// DuckDB's median averages the two middle values of an even count
+		// for numbers: the continuous median (duckdb.org/docs, aggregates).
+		fn = "median"
+	}
+	return fn + "(" + arg + ")", nil
+}
+
+func (duckdb) DateTrunc(unit, arg string, t planner.Type) string {
+	s := "date_trunc('" + unit + "', " + arg + ")"
+	if t == planner.TypeDate {
+		return "CAST(" + s + " AS DATE)"
+	}
+	return s
+}
+
+// approxMedian: approx_quantile(x, 0.5) (duckdb.org/docs aggregates, §7).
+func (duckdb) approxMedian(arg string) string { return "approx_quantile(" + arg + ", 0.5)" }

@@ -1,0 +1,141 @@
+package dialects
+
+import (
+	"fmt"
+	"strings"
+)
+
+// The rewrites below replace a construct an engine lacks by one it has,
+// with the same meaning. Each takes the pieces the renderer already has
+// (rendered SQL text, quoted names) and returns SQL text; each returns
+// exactly the renderer's own spelling on an engine that has the construct,
+// so that calling it changes nothing there.
+
+// GroupingSetsSQL renders the aggregation of from over the grouping sets,
+// in the layout of the renderer's cells CTE (two-space indented SELECT
+// list, one clause a line). keys are the quoted group keys in --by order;
+// sets are the grouping sets as masks of rolled-up keys (planner.Plan.Sets:
+// bit 1<<(n-1-i) is key i, the detail set 0 first); aggs are the rendered
+// aggregate columns ("sum(x) AS y"); from is the (quoted) relation.
+//
+// With GROUPING SETS it is one SELECT with GROUP BY GROUPING SETS and the
+// dialect's grouping id. Without (MySQL/MariaDB have only WITH ROLLUP and
+// MariaDB no GROUPING(), SQLite neither: dialects.md §4), it is a UNION
+// ALL of one GROUP BY per set, each branch carrying its mask as a literal
+// grouping id and NULL for its rolled-up keys: the same rows, as a set
+// with no keys aggregates every row into one row (also when there are
+// none), as the empty grouping set does.
+func GroupingSetsSQL(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+	gid := d.Ident(GroupingColumn)
+	if len(keys) == 0 || len(sets) <= 1 {
+		cols := append(append(append([]string{}, keys...), "0 AS "+gid), aggs...)
+		sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from
+		if len(keys) > 0 {
+			sql += "\n  GROUP BY " + strings.Join(keys, ", ")
+		}
+		return sql
+	}
+	if d.Caps().GroupingSets {
+		cols := append(append(append([]string{}, keys...), d.GroupingID(keys)+" AS "+gid), aggs...)
+		var groups []string
+		for _, mask := range sets {
+			groups = append(groups, "("+strings.Join(keptKeys(keys, mask), ", ")+")")
+		}
+		return "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from +
+			"\n  GROUP BY GROUPING SETS (" + strings.Join(groups, ", ") + ")"
+	}
+	return UnionGroupingSets(d, keys, sets, aggs, from)
+}
+
+// UnionGroupingSets is GroupingSetsSQL's UNION ALL form, for engines
+// without GROUPING SETS: one GROUP BY per set, the mask as a literal
+// grouping id, NULL for rolled-up keys.
+func UnionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+	gid := d.Ident(GroupingColumn)
+	n := len(keys)
+	var branches []string
+	for _, mask := range sets {
+		var cols []string
+		for i, k := range keys {
+			if mask&(uint64(1)<<(n-1-i)) != 0 {
+				cols = append(cols, "NULL AS "+k)
+			} else {
+				cols = append(cols, k)
+			}
+		}
+		cols = append(cols, fmt.Sprintf("%d AS %s", mask, gid))
+		cols = append(cols, aggs...)
+		b := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from
+		if kept := keptKeys(keys, mask); len(kept) > 0 {
+			b += "\n  GROUP BY " + strings.Join(kept, ", ")
+		}
+		branches = append(branches, b)
+	}
+	return strings.Join(branches, "\n  UNION ALL\n")
+}
+
+// keptKeys lists the keys a grouping set keeps (does not roll up).
+func keptKeys(keys []string, mask uint64) []string {
+	n := len(keys)
+	var out []string
+	for i, k := range keys {
+		if mask&(uint64(1)<<(n-1-i)) == 0 {
+			out = append(out, k)
+		}
+	}
+	return out
+}
+
+// FilteredAgg spells an aggregate over the rows where filter (a rendered
+// boolean value, "" for none) holds: agg(x) FILTER (WHERE f) where the
+// engine has the clause, else agg(CASE WHEN f THEN x END), which the
+// aggregates treat alike as they skip NULLs (dialects.md §5); count(*)
+// becomes count(CASE WHEN f THEN 1 END). arg is "" for count(*).
+func FilteredAgg(d Dialect, fn string, distinct bool, arg, filter string) (string, error) {
+	if filter == "" {
+		return d.Agg(fn, distinct, arg)
+	}
+	if d.Caps().FilterClause {
+		a, err := d.Agg(fn, distinct, arg)
+		if err != nil {
+			return "", err
+		}
+		return a + " FILTER (WHERE " + d.Truth(filter) + ")", nil
+	}
+	if arg == "" {
+		arg = "1"
+	}
+	return d.Agg(fn, distinct, "CASE WHEN "+d.Truth(filter)+" THEN "+arg+" END")
+}
+
+// OrderKey returns the ORDER BY items that sort by expr, NULLs last:
+// "x ASC NULLS LAST" where the engine has NULLS LAST, else a leading
+// "CASE WHEN x IS NULL THEN 1 ELSE 0 END" (MySQL, MariaDB and SQL Server
+// sort NULLs first ascending). The same items serve a window's ORDER BY.
+func OrderKey(d Dialect, expr string, desc bool) []string {
+	dir := "ASC"
+	if desc {
+		dir = "DESC"
+	}
+	if d.Caps().NullsLast {
+		return []string{expr + " " + dir + " NULLS LAST"}
+	}
+	return []string{"CASE WHEN " + expr + " IS NULL THEN 1 ELSE 0 END", expr + " " + dir}
+}
+
+// ApplyLimit keeps the first n rows of a statement that starts with
+// SELECT: SELECT TOP (n) on SQL Server (§10), a LIMIT clause elsewhere.
+// A statement that does not start with SELECT (a WITH ... query) is
+// returned with the limit as a tail, or with an error on a TOP dialect,
+// where TOP belongs in the final SELECT: pass that SELECT instead.
+func ApplyLimit(d Dialect, stmt string, n int) (string, error) {
+	top, tail := d.Limit(n)
+	if top != "" {
+		rest, ok := strings.CutPrefix(stmt, "SELECT")
+		if !ok {
+			return "", fmt.Errorf("internal error: %s puts TOP in a SELECT; the statement starts with %.20q", d.Name(), stmt)
+		}
+		return "SELECT " + top + rest, nil
+	}
+	return stmt + "\n" + tail, nil
+}

@@ -1,0 +1,93 @@
+package dialects
+
+import (
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// trino is Trino (and Presto's SQL).
+type trino struct{ ansi }
+
+func (trino) Name() string { return "trino" }
+
+// Caps: GROUPING SETS over column names (§4; rollwise groups over named
+// columns of a CTE), FILTER (§5), NULLS LAST; no exact median, only
+// approx_percentile (§7); no COUNT(DISTINCT) OVER (§6).
+func (trino) Caps() Caps {
+	return Caps{GroupingSets: true, FilterClause: true, ApproxMedian: true, SampleStats: true,
+		NullsLast: true, PredicateValues: true, FullOuterJoin: true}
+}
+
+func (trino) TypeName(t planner.Type) string {
+	switch t {
+	case planner.TypeInteger:
+		return "BIGINT"
+	case planner.TypeDecimal:
+		return "DECIMAL(38, 6)"
+	case planner.TypeFloat:
+		return "DOUBLE"
+	case planner.TypeDate:
+		return "DATE"
+	case planner.TypeTimestamp:
+		return "TIMESTAMP"
+	case planner.TypeBoolean:
+		return "BOOLEAN"
+	}
+	return "VARCHAR"
+}
+
+func (d trino) ColumnType(t planner.Type) string { return d.TypeName(t) }
+
+func (d trino) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+
+// Agg: avg of a decimal is a decimal, so the inputs of avg and the
+// statistics are made DOUBLE, as DuckDB computes them
+// (trino.io/docs/current/functions/aggregate.html).
+func (d trino) Agg(fn string, distinct bool, arg string) (string, error) {
+	switch {
+	case arg == "":
+		return "count(*)", nil
+	case distinct:
+		return fn + "(DISTINCT " + arg + ")", nil
+	case fn == "median":
+		return "", &UnsupportedError{Dialect: d.Name(), Construct: "an exact median",
+			Hint: "Trino has only approx_percentile; pass --approximate to use it"}
+	case isStat(fn):
+		return statName(fn) + "(CAST(" + arg + " AS DOUBLE))", nil
+	}
+	return fn + "(" + arg + ")", nil
+}
+
+// approxMedian: approx_percentile(x, 0.5) (§7).
+func (trino) approxMedian(arg string) string {
+	return "approx_percentile(CAST(" + arg + " AS DOUBLE), 0.5)"
+}
+
+// Divide: integer division truncates in Trino (§3).
+func (trino) Divide(l, r string) string {
+	return "CAST(" + l + " AS DOUBLE) / NULLIF(" + r + ", 0)"
+}
+
+// DateTrunc: date_trunc keeps the argument's type; weeks start on Monday
+// (trino.io/docs/current/functions/datetime.html).
+func (trino) DateTrunc(unit, arg string, _ planner.Type) string {
+	return "date_trunc('" + unit + "', " + arg + ")"
+}
+
+// BitAnd: Trino has no & operator; bitwise_and
+// (trino.io/docs/current/functions/bitwise.html).
+func (trino) BitAnd(a, b string) string { return "bitwise_and(" + a + ", " + b + ")" }
+
+// Call: greatest and least return NULL when an argument is NULL in Trino
+// (functions/comparison.html), so NULLs are stepped over as DuckDB does.
+func (trino) Call(name string, args []string, _ []planner.Type) string {
+	switch name {
+	case "greatest", "least":
+		return nullIgnoring(name, args)
+	}
+	return plainCall(name, args)
+}
+
+// GroupingID: grouping(a, b, ...) returns the bit mask (§4).
+func (trino) GroupingID(keys []string) string { return "grouping(" + strings.Join(keys, ", ") + ")" }
