@@ -103,6 +103,6 @@ Start with the demo:
 		SilenceErrors: true,
 	}
 	root.CompletionOptions.DisableDefaultCmd = true
-	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e))
+	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e))
 	return root
 }

@@ -1,0 +1,337 @@
+package verify
+
+import (
+	"fmt"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
+
+// This file holds the wrong formulas that rewrite a measure's expression:
+// the wrong measure is then planned and rendered like any other, so that
+// its value is computed on the data by the same SQL path as the right one.
+
+// formula is a wrong version of a measure's expression.
+type formula struct {
+	name   string
+	detail string
+	expr   planner.Expr
+}
+
+// rewrite copies e bottom-up; fn may replace a node (after its children
+// were rewritten) by returning a different expression. Measure references
+// are inlined, so that the copy never shares a node with the model.
+func rewrite(e planner.Expr, fn func(planner.Expr) planner.Expr) planner.Expr {
+	if e == nil {
+		return nil
+	}
+	var out planner.Expr
+	switch x := e.(type) {
+	case *planner.MeasureRef:
+		return rewrite(x.Measure.Expr, fn)
+	case *planner.BinOp:
+		c := *x
+		c.L, c.R = rewrite(x.L, fn), rewrite(x.R, fn)
+		out = &c
+	case *planner.UnOp:
+		c := *x
+		c.X = rewrite(x.X, fn)
+		out = &c
+	case *planner.Func:
+		c := *x
+		c.Args = rewriteList(x.Args, fn)
+		out = &c
+	case *planner.CaseExpr:
+		c := *x
+		c.Whens = nil
+		for _, w := range x.Whens {
+			c.Whens = append(c.Whens, planner.WhenArm{Cond: rewrite(w.Cond, fn), Then: rewrite(w.Then, fn)})
+		}
+		c.Else = rewrite(x.Else, fn)
+		out = &c
+	case *planner.InExpr:
+		c := *x
+		c.X = rewrite(x.X, fn)
+		c.List = rewriteList(x.List, fn)
+		out = &c
+	case *planner.IsNullExpr:
+		c := *x
+		c.X = rewrite(x.X, fn)
+		out = &c
+	case *planner.Agg:
+		c := *x
+		c.Arg = rewrite(x.Arg, fn)
+		out = &c
+	case *planner.NarrowExpr:
+		c := *x
+		c.X, c.Pred = rewrite(x.X, fn), rewrite(x.Pred, fn)
+		out = &c
+	case *planner.EditExpr:
+		c := *x
+		c.X = rewrite(x.X, fn)
+		c.Edits = append([]*planner.CellEdit(nil), x.Edits...)
+		out = &c
+	case *planner.PerAgg:
+		c := *x
+		c.X, c.Having = rewrite(x.X, fn), rewrite(x.Having, fn)
+		out = &c
+	default:
+		// Column references and literals have no children.
+		out = e
+	}
+	return fn(out)
+}
+
+func rewriteList(es []planner.Expr, fn func(planner.Expr) planner.Expr) []planner.Expr {
+	var out []planner.Expr
+	for _, a := range es {
+		out = append(out, rewrite(a, fn))
+	}
+	return out
+}
+
+func keep(e planner.Expr) planner.Expr { return e }
+
+// inline is the measure's expression with every measure reference
+// replaced by the measure's own expression.
+func inline(m *planner.Measure) planner.Expr { return rewrite(m.Expr, keep) }
+
+// changer rewrites one node and says, in words, what it changed.
+type changer func(planner.Expr) (planner.Expr, string)
+
+// nth rewrites the i-th node (in rewrite order) for which match holds, or
+// every such node when i < 0. It returns the copy, what was changed, and
+// how many nodes matched.
+func nth(e planner.Expr, i int, match func(planner.Expr) bool, change changer) (planner.Expr, []string, int) {
+	n := 0
+	var notes []string
+	out := rewrite(e, func(x planner.Expr) planner.Expr {
+		if !match(x) {
+			return x
+		}
+		n++
+		if n-1 == i || i < 0 {
+			y, note := change(x)
+			notes = append(notes, note)
+			return y
+		}
+		return x
+	})
+	return out, notes, n
+}
+
+// variants applies change to each matching node on its own and, when
+// there are several, to all of them at once: one formula each.
+func variants(name string, e planner.Expr, match func(planner.Expr) bool, change changer) []formula {
+	_, _, n := nth(e, -1, match, func(x planner.Expr) (planner.Expr, string) { return x, "" })
+	var out []formula
+	for i := 0; i < n; i++ {
+		x, notes, _ := nth(e, i, match, change)
+		out = append(out, formula{name: name, detail: strings.Join(notes, "; "), expr: x})
+	}
+	if n > 1 {
+		x, notes, _ := nth(e, -1, match, change)
+		out = append(out, formula{name: name, detail: strings.Join(notes, "; "), expr: x})
+	}
+	return out
+}
+
+// productOfSums: sum(a * b) written as sum(a) * sum(b). A derived column
+// that is a product (line = price * qty) counts as one.
+func productOfSums(m *planner.Measure) []formula {
+	match := func(x planner.Expr) bool { _, _, ok := product(x); return ok }
+	change := func(x planner.Expr) (planner.Expr, string) {
+		a := x.(*planner.Agg)
+		l, r, _ := product(x)
+		note := fmt.Sprintf("sum(%s) * sum(%s) in place of sum(%s * %s)", bare(l), bare(r), bare(l), bare(r))
+		la, ra := *a, *a
+		la.Arg, la.T = l, l.Type()
+		ra.Arg, ra.T = r, r.Type()
+		return &planner.BinOp{Pos: a.Pos, Op: "*", L: &la, R: &ra, T: a.T}, note
+	}
+	return variants(ProductOfSums, inline(m), match, change)
+}
+
+// product splits the argument of sum(a * b).
+func product(x planner.Expr) (l, r planner.Expr, ok bool) {
+	a, isAgg := x.(*planner.Agg)
+	if !isAgg || a.Func != "sum" || a.Distinct || a.Arg == nil {
+		return nil, nil, false
+	}
+	arg := a.Arg
+	if c, isCol := arg.(*planner.ColRef); isCol && c.Col.Derived != nil {
+		arg = c.Col.Derived
+	}
+	b, isBin := arg.(*planner.BinOp)
+	if !isBin || b.Op != "*" {
+		return nil, nil, false
+	}
+	return b.L, b.R, true
+}
+
+// bare is an expression's text without its outer parentheses.
+func bare(e planner.Expr) string {
+	s := planner.Text(e)
+	if strings.HasPrefix(s, "(") && strings.HasSuffix(s, ")") && balanced(s[1:len(s)-1]) {
+		return s[1 : len(s)-1]
+	}
+	return s
+}
+
+func balanced(s string) bool {
+	depth := 0
+	for _, c := range s {
+		switch c {
+		case '(':
+			depth++
+		case ')':
+			depth--
+			if depth < 0 {
+				return false
+			}
+		}
+	}
+	return depth == 0
+}
+
+// narrowingIgnored: a narrowing (`M where PRED`) or a pin
+// (`M[T.C = v]`) left out.
+func narrowingIgnored(m *planner.Measure) []formula {
+	e := inline(m)
+	isNarrow := func(x planner.Expr) bool { _, ok := x.(*planner.NarrowExpr); return ok }
+	drop := func(x planner.Expr) (planner.Expr, string) {
+		n := x.(*planner.NarrowExpr)
+		return n.X, fmt.Sprintf("the narrowing `where %s` is not applied", bare(n.Pred))
+	}
+	out := variants(FilterIgnored, e, isNarrow, drop)
+	hasPin := func(x planner.Expr) bool { return editsOf(x, planner.EditPin) > 0 }
+	unpin := func(x planner.Expr) (planner.Expr, string) {
+		ed := x.(*planner.EditExpr)
+		var kept []*planner.CellEdit
+		var notes []string
+		for _, c := range ed.Edits {
+			if c.Kind == planner.EditPin {
+				notes = append(notes, fmt.Sprintf("the pin [%s] is not applied", editText(c)))
+				continue
+			}
+			kept = append(kept, c)
+		}
+		if len(kept) == 0 {
+			return ed.X, strings.Join(notes, "; ")
+		}
+		c := *ed
+		c.Edits = kept
+		return &c, strings.Join(notes, "; ")
+	}
+	return append(out, variants(FilterIgnored, e, hasPin, unpin)...)
+}
+
+// filterLeaked: a `drop` edit that lets the query's filters through, as a
+// handwritten subquery for "all families" that keeps the report's WHERE
+// does. The wrong cell is the `ungroup` of the same target. The planner
+// does not plan cell edits yet, so these formulas are reported as not
+// computable until it does.
+func filterLeaked(m *planner.Measure) []formula {
+	hasDrop := func(x planner.Expr) bool { return editsOf(x, planner.EditDrop) > 0 }
+	leak := func(x planner.Expr) (planner.Expr, string) {
+		ed := x.(*planner.EditExpr)
+		c := *ed
+		c.Edits = nil
+		var notes []string
+		for _, d := range ed.Edits {
+			if d.Kind == planner.EditDrop {
+				u := *d
+				u.Kind = planner.EditUngroup
+				notes = append(notes, fmt.Sprintf("[%s] keeps the query's filters, as [%s] does", editText(d), editText(&u)))
+				d = &u
+			}
+			c.Edits = append(c.Edits, d)
+		}
+		return &c, strings.Join(notes, "; ")
+	}
+	return variants(FilterLeaked, inline(m), hasDrop, leak)
+}
+
+func editsOf(x planner.Expr, kind planner.EditKind) int {
+	ed, ok := x.(*planner.EditExpr)
+	if !ok {
+		return 0
+	}
+	n := 0
+	for _, c := range ed.Edits {
+		if c.Kind == kind {
+			n++
+		}
+	}
+	return n
+}
+
+// editText is one edit as written in a measure.
+func editText(c *planner.CellEdit) string {
+	s := planner.Text(&planner.EditExpr{X: &planner.Lit{T: planner.TypeNull}, Edits: []*planner.CellEdit{c}})
+	// "(null)[EDIT]"
+	if i := strings.Index(s, "["); i >= 0 && strings.HasSuffix(s, "]") {
+		return s[i+1 : len(s)-1]
+	}
+	return s
+}
+
+// nullAsZero: every aggregate reads coalesce(x, 0) in place of x, so that
+// NULLs count as zeros (in an average, a count, a minimum, and a sum over
+// only NULLs).
+func nullAsZero(m *planner.Measure) []formula {
+	match := func(x planner.Expr) bool {
+		a, ok := x.(*planner.Agg)
+		return ok && a.Arg != nil && a.Arg.Type().Numeric() && a.Arg.Type() != planner.TypeNull
+	}
+	change := func(x planner.Expr) (planner.Expr, string) {
+		a := *x.(*planner.Agg)
+		note := planner.Text(x)
+		zero := &planner.Lit{Pos: a.Pos, T: planner.TypeInteger, Text: "0"}
+		a.Arg = &planner.Func{Pos: a.Pos, Name: "coalesce", Args: []planner.Expr{a.Arg, zero}, T: a.Arg.Type()}
+		return &a, note
+	}
+	v, notes, n := nth(inline(m), -1, match, change)
+	if n == 0 {
+		return nil
+	}
+	return []formula{{name: NullAsZero, expr: v, detail: "NULL values counted as 0 in " + strings.Join(notes, ", ")}}
+}
+
+// ratioKind says which wrong totals suit a measure: "ratio" for a ratio
+// or an average (sum-of-ratios, average-of-ratios), "distinct" for a
+// distinct count (sum-of-distinct-counts), "" otherwise.
+func ratioKind(m *planner.Measure) string {
+	switch e := inline(m).(type) {
+	case *planner.BinOp:
+		if e.Op == "/" {
+			return "ratio"
+		}
+	case *planner.Agg:
+		switch {
+		case e.Func == "avg":
+			return "ratio"
+		case e.Func == "count" && e.Distinct:
+			return "distinct"
+		}
+	}
+	return ""
+}
+
+// iterationTables lists the tables a measure's aggregates iterate over,
+// in first-use order.
+func iterationTables(m *planner.Measure) []*planner.Table {
+	var out []*planner.Table
+	planner.Walk(inline(m), func(x planner.Expr) bool {
+		if a, ok := x.(*planner.Agg); ok && a.Table != nil {
+			for _, t := range out {
+				if t == a.Table {
+					return true
+				}
+			}
+			out = append(out, a.Table)
+		}
+		return true
+	})
+	return out
+}

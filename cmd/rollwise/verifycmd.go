@@ -1,0 +1,188 @@
+package main
+
+import (
+	"context"
+	"errors"
+	"os"
+	"path/filepath"
+	"sort"
+	"strings"
+
+	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/verify"
+	"github.com/rollwise/rollwise/dialects"
+)
+
+// verifyOptions are the flags of verify.
+type verifyOptions struct {
+	models    []string
+	sqlFile   string
+	measures  []string
+	by        []string
+	where     string
+	totals    string
+	dialect   string
+	data      string
+	format    string
+	maps      []string
+	tolerance float64
+	grouping  string
+}
+
+func newVerifyCmd(e *env) *cobra.Command {
+	o := &verifyOptions{}
+	cmd := &cobra.Command{
+		Use:   "verify MODEL... --sql FILE.sql -m M1,M2 [-b T.C,...] [flags]",
+		Short: "Check a handwritten SQL rollup against the measure definitions",
+		Long: `verify runs a handwritten SQL query and rollwise's own query for the same
+measures on the embedded DuckDB (every table exposed under its 'at'
+relation), aligns their rows by the group values, and compares every value.
+
+A handwritten column matches a --by reference by its column name (region) or
+its full reference ("stores.region"); a measure matches the column of its
+own name, or the one --map gives. With --totals, rows whose group values are
+NULL are matched with total rows; where a genuine NULL group and a total row
+could be confused, verify says so, and --grouping-column NAME names a column
+the SQL computes as GROUPING(g1, ..., gn) over the --by columns in order.
+
+Each value that differs is diagnosed: verify computes the usual wrong
+formulas for the measure on the same data (sum-of-ratios, average-of-ratios,
+product-of-sums, fan-out, dropped-unmatched, sum-of-distinct-counts,
+filter-ignored, filter-leaked, null-as-zero) and names the one that gives
+the handwritten value.
+
+Integers and decimals are compared exactly when both sides have them;
+otherwise two values agree when |a - b| <= REL * max(1, |a|, |b|), with REL
+from --tolerance (default 1e-9).
+
+Exit status: 0 when everything agrees, 1 when anything differs (or the SQL
+fails), 2 for usage errors.`,
+		Example: `  rollwise verify garden.roll --sql family_margin.sql -m revenue,margin_rate -b plants.family --totals grand
+  rollwise verify shop.roll --sql rollup.sql -m revenue -b stores.region --totals rollup --grouping-column g
+  rollwise verify shop.roll --sql report.sql -m revenue --map revenue=total_sales -b stores.region --format json`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := modelArgs(args); err != nil {
+				return err
+			}
+			o.models = args
+			return runVerify(e, o)
+		},
+	}
+	f := cmd.Flags()
+	f.StringVar(&o.sqlFile, "sql", "", "the handwritten SQL file to check")
+	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compare, comma-separated")
+	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
+	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
+	f.StringVar(&o.totals, "totals", "none", "total rows: none, grand, rollup or all")
+	f.StringSliceVar(&o.maps, "map", nil, "MEASURE=COLUMN: the SQL's column that holds a measure (repeatable)")
+	f.Float64Var(&o.tolerance, "tolerance", verify.DefaultTolerance, "relative tolerance for values that are not both exact")
+	f.StringVar(&o.grouping, "grouping-column", "", "the SQL's GROUPING(...) column, which tells total rows from NULL groups")
+	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
+	f.StringVar(&o.format, "format", "table", "output: table or json")
+	return cmd
+}
+
+// runVerify compiles the query, runs both sides on the embedded DuckDB
+// and writes the report. It is the whole command, without cobra.
+func runVerify(e *env, o *verifyOptions) error {
+	if o.format != "table" && o.format != "json" {
+		return usageErr("unknown format %q: verify writes table or json", o.format)
+	}
+	d, err := dialects.Get(o.dialect)
+	if err != nil {
+		return &exitError{code: exitUsage, err: err}
+	}
+	if d.Name() != "duckdb" {
+		// Live databases (--dsn) will bring their own Runner and dialect.
+		return usageErr("verify runs on the embedded DuckDB; -d %s needs a live database, which verify does not reach yet", o.dialect)
+	}
+	if o.sqlFile == "" {
+		return usageErr("name the handwritten SQL with --sql FILE.sql")
+	}
+	text, err := os.ReadFile(o.sqlFile)
+	if err != nil {
+		return usageErr("cannot read the handwritten SQL: %v", err)
+	}
+	maps := map[string]string{}
+	for _, m := range o.maps {
+		name, col, ok := strings.Cut(m, "=")
+		name, col = strings.TrimSpace(name), strings.TrimSpace(col)
+		if !ok || name == "" || col == "" {
+			return usageErr("--map takes MEASURE=COLUMN, not %q", m)
+		}
+		if prev, dup := maps[name]; dup && prev != col {
+			return usageErr("--map gives measure %s two columns, %s and %s", name, prev, col)
+		}
+		maps[name] = col
+	}
+	sources, err := modelSources(o.models)
+	if err != nil {
+		return err
+	}
+	c, err := compile(e, &queryOptions{models: o.models, measures: o.measures, by: o.by, where: o.where,
+		totals: o.totals, dialect: o.dialect})
+	if err != nil {
+		return err
+	}
+	ctx := context.Background()
+	db, err := engine.OpenDuckDB(ctx, c.model, o.data)
+	if err != nil {
+		return &exitError{code: exitFindings, err: err}
+	}
+	defer db.Close()
+	in := &verify.Input{
+		Spec: verify.Spec{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals, Map: maps,
+			GroupingColumn: o.grouping, Tolerance: o.tolerance},
+		Model: c.model, Query: c.query, Plan: c.plan, Compiled: c.sql,
+		Handwritten: string(text), SQLName: o.sqlFile, Sources: sources, Dialect: d,
+	}
+	rep, err := verify.Run(ctx, in, verify.DB(db))
+	if err != nil {
+		var ie *verify.InputError
+		if errors.As(err, &ie) {
+			return &exitError{code: exitUsage, err: err}
+		}
+		return &exitError{code: exitFindings, err: err}
+	}
+	if o.format == "json" {
+		err = verify.WriteJSON(e.stdout, rep)
+	} else {
+		err = verify.WriteText(e.stdout, rep)
+	}
+	if err != nil {
+		return &exitError{code: exitInternal, err: err}
+	}
+	printCautions(e, c.plan)
+	if !rep.OK() {
+		return &exitError{code: exitFindings}
+	}
+	return nil
+}
+
+// modelSources reads the model files (a folder stands for the .roll files
+// in it), for verify to re-read the model with a table moved to another
+// relation.
+func modelSources(paths []string) ([]verify.Source, error) {
+	var out []verify.Source
+	for _, p := range paths {
+		names := []string{p}
+		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
+			names, _ = filepath.Glob(filepath.Join(p, "*.roll"))
+			sort.Strings(names)
+		}
+		for _, name := range names {
+			b, err := os.ReadFile(name)
+			if err != nil {
+				return nil, usageErr("cannot read the model: %v", err)
+			}
+			out = append(out, verify.Source{Name: name, Text: string(b)})
+		}
+	}
+	if len(out) == 0 {
+		return nil, usageErr("no model files in %s", strings.Join(paths, ", "))
+	}
+	return out, nil
+}

@@ -1,0 +1,4 @@
+-- A file with no statement: exit 2.
+-- args: -m revenue
+-- exit: 2
+-- stderr: holds no SQL statement
