@@ -160,7 +160,7 @@ func firstDifference(have, want string) string {
 			for k < len(a) && k < len(b) && a[k] == b[k] {
 				k++
 			}
-			return fmt.Sprintf("first at line %d: has %q, model gives %q", i+1, excerpt(a, k), excerpt(b, k))
+			return fmt.Sprintf("first at line %d: has `%s`, model gives `%s`", i+1, excerpt(a, k), excerpt(b, k))
 		}
 	}
 	return "same lines"
