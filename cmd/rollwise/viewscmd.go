@@ -73,6 +73,9 @@ func runViews(e *env, o *viewsOptions) error {
 	for _, c := range set.Cautions {
 		fmt.Fprintf(e.stderr, "caution: %s\n", c)
 	}
+	if len(set.Views) == 0 {
+		fmt.Fprintln(e.stderr, "note: the model has no derived columns and no view blocks: there is nothing to publish")
+	}
 	switch {
 	case o.check != "":
 		drifts, err := views.Check(o.check, set)

@@ -386,3 +386,22 @@ func TestViewsCheckExitCodes(t *testing.T) {
 		t.Errorf("-d nosuch: exit %d: %s", code, stderr)
 	}
 }
+
+// docs/views.md shows the DDL the demo model generates today.
+func TestDocsShowTheDemoViews(t *testing.T) {
+	model := filepath.Join(t.TempDir(), demo.ModelFile)
+	if err := os.WriteFile(model, []byte(demo.Model()), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	var out, errb bytes.Buffer
+	if code := Main([]string{"views", model}, nil, &out, &errb); code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	doc, err := os.ReadFile("../../docs/views.md")
+	if err != nil {
+		t.Fatal(err)
+	}
+	if !strings.Contains(string(doc), "```sql\n"+out.String()+"```\n") {
+		t.Errorf("docs/views.md does not show the demo's views as generated now; paste in the output of `rollwise views garden.roll`:\n%s", out.String())
+	}
+}
