@@ -301,13 +301,13 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 		}
 	}
 	var out []*variant
-	try := func(t *planner.Table, name, detail, body string, rows int) {
-		c, err := v.throughRows(ctx, t, body)
+	try := func(t *planner.Table, name, detail, body, weight string, rows int) {
+		c, has, err := v.throughRows(ctx, t, body, weight)
 		if err != nil {
 			v.note("could not compute %s (%s): %v", name, detail, err)
 			return
 		}
-		out = append(out, &variant{name: name, detail: detail, has: v.every(), cells: c, rows: rows})
+		out = append(out, &variant{name: name, detail: detail, has: has, cells: c, rows: rows})
 	}
 	d := v.in.Dialect
 	for _, t := range tables {
@@ -318,6 +318,7 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 				onPath[l] = true
 			}
 		}
+		weight := weightColumn(t)
 		for _, u := range v.in.Model.Tables {
 			for _, l := range u.Links {
 				path, ok := reach[l.To]
@@ -331,16 +332,29 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 					if kind == "INNER" {
 						rows = -1
 					}
-					try(t, FanOut, detail, joinedRows(d, t, path, "LEFT", l, kind), rows)
+					try(t, FanOut, detail, fannedRows(d, t, path, l, kind, weight), weight, rows)
 				}
 			}
 		}
 		for _, l := range v.followedLinks(t, reach) {
 			detail := fmt.Sprintf("%s rows whose link %s finds no match are dropped, as an inner join does", t.Name, l)
-			try(t, DroppedUnmatched, detail, joinedRows(d, t, reach[l.To], "INNER", nil, ""), -1)
+			try(t, DroppedUnmatched, detail, joinedRows(d, t, reach[l.To], "INNER"), "", -1)
 		}
 	}
 	return out
+}
+
+// weightColumn picks a column name t does not have.
+func weightColumn(t *planner.Table) string {
+	for i := 1; ; i++ {
+		name := "rollwise_repeat"
+		if i > 1 {
+			name = fmt.Sprintf("%s_%d", name, i)
+		}
+		if t.Column(name) == nil {
+			return name
+		}
+	}
 }
 
 func containsTable(list []*planner.Table, t *planner.Table) bool {

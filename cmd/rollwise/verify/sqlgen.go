@@ -100,8 +100,9 @@ func (v *verifier) rowsRelation() string {
 }
 
 // reload loads the model again from its sources, with table t reading
-// relation rel.
-func (v *verifier) reload(t *planner.Table, rel string) (*planner.Model, error) {
+// relation rel and, when weight is not "", declaring one more integer
+// column of that name.
+func (v *verifier) reload(t *planner.Table, rel, weight string) (*planner.Model, error) {
 	if len(v.in.Sources) == 0 {
 		return nil, errors.New("the model's sources are not at hand")
 	}
@@ -113,9 +114,14 @@ func (v *verifier) reload(t *planner.Table, rel string) (*planner.Model, error) 
 			return nil, fmt.Errorf("re-reading %s: %v", s.Name, diags.Err())
 		}
 		for _, td := range f.Tables {
-			if td.Name.Name == t.Name {
-				td.At = &grammar.StringLit{Pos: td.Pos, Value: rel}
-				found = true
+			if td.Name.Name != t.Name {
+				continue
+			}
+			found = true
+			td.At = &grammar.StringLit{Pos: td.Pos, Value: rel}
+			if weight != "" {
+				td.Columns = append(td.Columns, &grammar.ColumnDecl{Pos: td.Pos, Name: grammar.Ident{Pos: td.Pos, Name: weight},
+					Type: &grammar.Ident{Pos: td.Pos, Name: "integer"}})
 			}
 		}
 		files = append(files, f)
@@ -131,23 +137,85 @@ func (v *verifier) reload(t *planner.Table, rel string) (*planner.Model, error) 
 }
 
 // throughRows runs the report's query with table t read from the rows
-// that body (a SELECT of t's columns) returns.
-func (v *verifier) throughRows(ctx context.Context, t *planner.Table, body string) (cells, error) {
+// that body (a SELECT of t's columns) returns. With weight set, body also
+// returns that column, the number of times each row is repeated, and the
+// measures over t are computed as if every row were repeated that many
+// times: sums and counts weighted, distinct counts, minimums and maximums
+// unchanged. has marks the measures it computes: a median or a standard
+// deviation cannot be weighted.
+func (v *verifier) throughRows(ctx context.Context, t *planner.Table, body, weight string) (cells, []bool, error) {
 	rel := v.rowsRelation()
-	m, err := v.reload(t, rel)
+	m, err := v.reload(t, rel, weight)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
 	q, diags := m.NewQuery(planner.QuerySpec{Measures: v.names, By: v.in.Query.GroupNames,
 		Where: v.in.Spec.Where, Totals: string(v.in.Query.Totals)})
 	if diags.HasErrors() {
-		return nil, fmt.Errorf("re-planning the query: %v", diags.Err())
+		return nil, nil, fmt.Errorf("re-planning the query: %v", diags.Err())
+	}
+	has := v.every()
+	if weight != "" {
+		t2 := m.Table(t.Name)
+		w := t2.Column(weight)
+		var ms []*planner.Measure
+		for j, x := range q.Measures {
+			e, ok := weighted(x, t2, w)
+			has[j] = ok
+			ms = append(ms, &planner.Measure{Name: x.Name, Expr: e, Format: x.Format, Doc: x.Doc, Pos: x.Pos, Type: e.Type()})
+		}
+		q.Measures = ms
 	}
 	sql, err := v.planSQL(q)
 	if err != nil {
-		return nil, err
+		return nil, nil, err
 	}
-	return v.runCells(ctx, withCTE(sql, v.in.Dialect.Ident(rel), body), v.allMeasures())
+	c, err := v.runCells(ctx, withCTE(sql, v.in.Dialect.Ident(rel), body), v.allMeasures())
+	return c, has, err
+}
+
+// weighted rewrites the aggregates over t so that each row counts w times.
+// ok is false when an aggregate cannot be weighted (median, stddev,
+// variance).
+func weighted(m *planner.Measure, t *planner.Table, w *planner.Column) (planner.Expr, bool) {
+	ok := true
+	e := rewrite(m.Expr, func(x planner.Expr) planner.Expr {
+		a, isAgg := x.(*planner.Agg)
+		if !isAgg || a.Table != t {
+			return x
+		}
+		wref := &planner.ColRef{Pos: a.Pos, Col: w}
+		zero := &planner.Lit{Pos: a.Pos, T: planner.TypeInteger, Text: "0"}
+		// weightIf is w where arg is not NULL.
+		weightIf := func(arg planner.Expr) planner.Expr {
+			return &planner.CaseExpr{Pos: a.Pos, T: planner.TypeInteger, Whens: []planner.WhenArm{{
+				Cond: &planner.IsNullExpr{Pos: a.Pos, X: arg, Not: true}, Then: wref}}}
+		}
+		sum := func(arg planner.Expr, t planner.Type) *planner.Agg {
+			c := *a
+			c.Func, c.Distinct, c.Arg, c.T = "sum", false, arg, t
+			return &c
+		}
+		orZero := func(e planner.Expr) planner.Expr {
+			return &planner.Func{Pos: a.Pos, Name: "coalesce", Args: []planner.Expr{e, zero}, T: planner.TypeInteger}
+		}
+		switch {
+		case a.Distinct || a.Func == "min" || a.Func == "max":
+			return x
+		case a.Func == "count" && a.Arg == nil:
+			return orZero(sum(wref, planner.TypeInteger))
+		case a.Func == "count":
+			return orZero(sum(weightIf(a.Arg), planner.TypeInteger))
+		case a.Func == "sum":
+			return sum(&planner.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.T)
+		case a.Func == "avg":
+			num := sum(&planner.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.Arg.Type())
+			return &planner.BinOp{Pos: a.Pos, Op: "/", L: num, R: sum(weightIf(a.Arg), planner.TypeInteger), T: planner.TypeFloat}
+		}
+		ok = false
+		return x
+	})
+	return e, ok
 }
 
 // withCTE puts a CTE in front of a statement.
@@ -173,33 +241,53 @@ func relation(d dialects.Dialect, t *planner.Table) string {
 }
 
 // joinedRows selects the columns of t's rows joined along path (links
-// leading away from t, each with join kind pathJoin) and then, when fan
-// is set, to the rows of fan.From whose link points at the path's last
-// table (join kind fanJoin): one row per match, as a handwritten join
-// does.
-func joinedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, pathJoin string, fan *planner.Link, fanJoin string) string {
+// leading away from t, each with join kind join), as a handwritten query
+// that inner-joins its dimensions does.
+func joinedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, join string) string {
+	b, _ := pathJoins(d, t, path, join)
+	return "  SELECT " + d.Ident("t0") + ".*\n" + b
+}
+
+// fannedRows selects the columns of t's rows, joined along path, with one
+// more column, weight: how many rows of fan.From point at the path's last
+// table through the link fan. A join to fan.From would repeat each row
+// that many times; with join INNER, rows without any are dropped, and
+// with LEFT they count once.
+func fannedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, fan *planner.Link, join, weight string) string {
+	q := d.Ident
+	b, alias := pathJoins(d, t, path, "LEFT")
+	var keys, conds []string
+	for i, c := range fan.FromCols {
+		keys = append(keys, q(c.Name))
+		conds = append(conds, q("u")+"."+q(c.Name)+" = "+q(alias[fan.To])+"."+q(fan.ToCols[i].Name))
+	}
+	w := q("u") + "." + q("rollwise_n")
+	if join == "LEFT" {
+		w = "COALESCE(" + w + ", 1)"
+	}
+	return "  SELECT " + q("t0") + ".*, " + w + " AS " + q(weight) + "\n" + b +
+		fmt.Sprintf("\n  %s JOIN (SELECT %s, count(*) AS %s FROM %s GROUP BY %s) AS %s ON %s",
+			join, strings.Join(keys, ", "), q("rollwise_n"), relation(d, fan.From), strings.Join(keys, ", "), q("u"),
+			strings.Join(conds, " AND "))
+}
+
+// pathJoins writes the FROM clause of t joined along path, and the alias
+// of each table.
+func pathJoins(d dialects.Dialect, t *planner.Table, path []*planner.Link, join string) (string, map[*planner.Table]string) {
 	q := d.Ident
 	alias := map[*planner.Table]string{t: "t0"}
 	var b strings.Builder
-	b.WriteString("  SELECT " + q("t0") + ".*\n  FROM " + relation(d, t) + " AS " + q("t0"))
-	on := func(from, to string, fc, tc []*planner.Column) string {
-		var conds []string
-		for i := range fc {
-			conds = append(conds, q(from)+"."+q(fc[i].Name)+" = "+q(to)+"."+q(tc[i].Name))
-		}
-		return strings.Join(conds, " AND ")
-	}
+	b.WriteString("  FROM " + relation(d, t) + " AS " + q("t0"))
 	for i, l := range path {
 		a := fmt.Sprintf("t%d", i+1)
-		b.WriteString(fmt.Sprintf("\n  %s JOIN %s AS %s ON %s", pathJoin, relation(d, l.To), q(a),
-			on(alias[l.From], a, l.FromCols, l.ToCols)))
+		var conds []string
+		for k := range l.FromCols {
+			conds = append(conds, q(alias[l.From])+"."+q(l.FromCols[k].Name)+" = "+q(a)+"."+q(l.ToCols[k].Name))
+		}
+		b.WriteString(fmt.Sprintf("\n  %s JOIN %s AS %s ON %s", join, relation(d, l.To), q(a), strings.Join(conds, " AND ")))
 		alias[l.To] = a
 	}
-	if fan != nil {
-		b.WriteString(fmt.Sprintf("\n  %s JOIN %s AS %s ON %s", fanJoin, relation(d, fan.From), q("u"),
-			on("u", alias[fan.To], fan.FromCols, fan.ToCols)))
-	}
-	return b.String()
+	return b.String(), alias
 }
 
 // perRowSQL wraps a query that computes measure name once per row of an
