@@ -279,18 +279,22 @@ func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Mea
 			}
 			return false
 		case *planner.PerAgg:
-			before := len(acc)
-			if x.X != nil {
-				acc, err = iterationTables(x.X, acc, seen)
+			// The per-grain's own tables (measure references already
+			// seen elsewhere count again here).
+			var own []*planner.Table
+			for _, sub := range []planner.Expr{x.X, x.Having} {
+				if sub != nil && err == nil {
+					own, err = iterationTables(sub, own, map[*planner.Measure]bool{})
+				}
 			}
-			if err == nil && x.Having != nil {
-				acc, err = iterationTables(x.Having, acc, seen)
-			}
-			if err == nil && len(acc) == before {
+			if err == nil && len(own) == 0 {
 				var t *planner.Table
 				if t, err = perColumnsTable(x.Per); err == nil {
-					add(t)
+					own = append(own, t)
 				}
+			}
+			for _, t := range own {
+				add(t)
 			}
 			return false
 		case *planner.NarrowExpr:

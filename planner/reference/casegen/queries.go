@@ -1,0 +1,70 @@
+package casegen
+
+import "slices"
+
+// drawQuery draws a query over the model's measures: one to three
+// measures, group columns every measure's iteration tables reach (none
+// now and then), up to two filter conjuncts, a totals mode, and now and
+// then an order on an exact measure and a limit. ok is false when the
+// measures share no reachable column to group or filter by and no query
+// can be made.
+func (g *gen) drawQuery() (Query, bool) {
+	var q Query
+	var chosen []*measure
+	for n := g.intn(1, 3); len(chosen) < n; {
+		m := g.measures[g.pick(len(g.measures))]
+		if slices.Contains(chosen, m) {
+			if len(chosen) >= len(g.measures) {
+				break
+			}
+			continue
+		}
+		chosen = append(chosen, m)
+	}
+	var tables []*table
+	for _, m := range chosen {
+		q.Measures = append(q.Measures, m.name)
+		tables = union(tables, m.tables)
+	}
+	cols := g.common(tables, func(c *column) bool { return c.groupable() })
+	n := g.intn(0, 3)
+	if n == 0 && g.chance(50) {
+		n = 1
+	}
+	for i := 0; i < n && len(cols) > 0; i++ {
+		c := cols[g.pick(len(cols))]
+		ref := c.ref()
+		if !slices.Contains(q.By, ref) {
+			q.By = append(q.By, ref)
+		}
+	}
+	var where []string
+	for i, nf := 0, g.intn(0, 2); i < nf; i++ {
+		where = append(where, g.predicate(tables))
+	}
+	for i, w := range where {
+		if i > 0 {
+			q.Where += " and "
+		}
+		q.Where += w
+	}
+	q.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
+	if g.chance(30) {
+		var exact []*measure
+		for _, m := range chosen {
+			if m.exact && m.kind == "num" {
+				exact = append(exact, m)
+			}
+		}
+		if len(exact) > 0 {
+			q.Order = exact[g.pick(len(exact))].name
+			if g.chance(50) {
+				q.Order += " desc"
+			}
+		}
+	}
+	if g.chance(20) {
+		q.Limit = g.intn(1, 4)
+	}
+	return q, true
+}
