@@ -99,39 +99,43 @@ func inline(m *planner.Measure) planner.Expr { return rewrite(m.Expr, keep) }
 // changer rewrites one node and says, in words, what it changed.
 type changer func(planner.Expr) (planner.Expr, string)
 
-// nth rewrites the i-th node (in rewrite order) for which match holds, or
-// every such node when i < 0. It returns the copy, what was changed, and
-// how many nodes matched.
-func nth(e planner.Expr, i int, match func(planner.Expr) bool, change changer) (planner.Expr, []string, int) {
-	n := 0
+// rewriteWhere rewrites the nodes for which pick holds, and returns the
+// copy and what was changed (each change said once).
+func rewriteWhere(e planner.Expr, pick func(planner.Expr) bool, change changer) (planner.Expr, []string) {
 	var notes []string
 	out := rewrite(e, func(x planner.Expr) planner.Expr {
-		if !match(x) {
+		if !pick(x) {
 			return x
 		}
-		n++
-		if n-1 == i || i < 0 {
-			y, note := change(x)
-			notes = append(notes, note)
-			return y
-		}
-		return x
+		y, note := change(x)
+		notes = appendOnce(notes, note)
+		return y
 	})
-	return out, notes, n
+	return out, notes
 }
 
-// variants applies change to each matching node on its own and, when
-// there are several, to all of them at once: one formula each.
+// variants applies change to the matching nodes: to each distinct one
+// (every copy of the same aggregate at once, as a handwritten query
+// repeats the same mistake) and, when there are several, to all of them:
+// one formula each.
 func variants(name string, e planner.Expr, match func(planner.Expr) bool, change changer) []formula {
-	_, _, n := nth(e, -1, match, func(x planner.Expr) (planner.Expr, string) { return x, "" })
+	var keys []string
+	planner.Walk(e, func(x planner.Expr) bool {
+		if match(x) {
+			keys = appendOnce(keys, planner.Text(x))
+		}
+		return true
+	})
 	var out []formula
-	for i := 0; i < n; i++ {
-		x, notes, _ := nth(e, i, match, change)
+	add := func(pick func(planner.Expr) bool) {
+		x, notes := rewriteWhere(e, pick, change)
 		out = append(out, formula{name: name, detail: strings.Join(notes, "; "), expr: x})
 	}
-	if n > 1 {
-		x, notes, _ := nth(e, -1, match, change)
-		out = append(out, formula{name: name, detail: strings.Join(notes, "; "), expr: x})
+	for _, k := range keys {
+		add(func(x planner.Expr) bool { return match(x) && planner.Text(x) == k })
+	}
+	if len(keys) > 1 {
+		add(match)
 	}
 	return out
 }
@@ -291,10 +295,10 @@ func nullAsZero(m *planner.Measure) []formula {
 		a.Arg = &planner.Func{Pos: a.Pos, Name: "coalesce", Args: []planner.Expr{a.Arg, zero}, T: a.Arg.Type()}
 		return &a, note
 	}
-	v, notes, n := nth(inline(m), -1, match, change)
-	if n == 0 {
+	if len(variants(NullAsZero, inline(m), match, change)) == 0 {
 		return nil
 	}
+	v, notes := rewriteWhere(inline(m), match, change)
 	return []formula{{name: NullAsZero, expr: v, detail: "NULL values counted as 0 in " + strings.Join(notes, ", ")}}
 }
 
@@ -305,6 +309,10 @@ func ratioKind(m *planner.Measure) string {
 	switch e := inline(m).(type) {
 	case *planner.BinOp:
 		if e.Op == "/" {
+			return "ratio"
+		}
+	case *planner.PerAgg:
+		if e.Func == "avg" {
 			return "ratio"
 		}
 	case *planner.Agg:
