@@ -52,7 +52,7 @@ func Parse(filename, src string) (*File, Diagnostics) {
 			diags.Errorf(pos(chunk[0].Pos), "syntax", "%v", err)
 			continue
 		}
-		sf, err := parser.ParseFromLexer(pl)
+		sf, err := parseChunk(pl)
 		if err != nil {
 			diags.Add(syntaxDiag(err, chunk[0].Pos))
 			continue
@@ -159,6 +159,17 @@ func checkChunk(chunk []lexer.Token, diags *Diagnostics) bool {
 		}
 	}
 	return true
+}
+
+// parseChunk parses one declaration; a panic inside the parser library
+// becomes an error at the declaration rather than a crash.
+func parseChunk(pl *lexer.PeekingLexer) (sf *syntaxFile, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("the parser failed on this declaration (%v)", r)
+		}
+	}()
+	return parser.ParseFromLexer(pl)
 }
 
 type sliceLexer struct {
@@ -276,10 +287,19 @@ func ParseExpr(name, src string) (Expr, Diagnostics) {
 	pl, err := lexer.Upgrade(&sliceLexer{toks: append(toks, eof)})
 	if err == nil {
 		var se *syntaxExpr
-		if se, err = exprParser.ParseFromLexer(pl); err == nil {
+		if se, err = parseExprSafely(pl); err == nil {
 			return se.expr(), nil
 		}
 	}
 	diags.Add(syntaxDiag(err, toks[0].Pos))
 	return nil, diags
+}
+
+func parseExprSafely(pl *lexer.PeekingLexer) (se *syntaxExpr, err error) {
+	defer func() {
+		if r := recover(); r != nil {
+			err = fmt.Errorf("the parser failed on this expression (%v)", r)
+		}
+	}()
+	return exprParser.ParseFromLexer(pl)
 }

@@ -312,14 +312,14 @@ type syntaxWhen struct {
 	Then *syntaxExpr `parser:"\"then\" @@"`
 }
 
-// Call = Name "(" ("*" | "distinct"? (Expr ("," Expr)*)?) ("per" Ref ("," Ref)* ("having" Expr)?)?
+// Call = Name "(" ("*" | "distinct"? Expr ("," Expr)*)? ("per" Ref ("," Ref)* ("having" Expr)?)?
 // ("as" Member)? ("from" Expr)? ")" .
 type syntaxCall struct {
 	Pos      lexer.Position
 	Func     *syntaxName   `parser:"@@ \"(\""`
 	Star     bool          `parser:"( @\"*\""`
-	Distinct bool          `parser:"| @\"distinct\"?"`
-	Args     []*syntaxExpr `parser:"  (@@ (\",\" @@)*)? )"`
+	Distinct bool          `parser:"| ( @\"distinct\"?"`
+	Args     []*syntaxExpr `parser:"  @@ (\",\" @@)* ) )?"`
 	Per      []*syntaxRef  `parser:"(\"per\" @@ (\",\" @@)*"`
 	Having   *syntaxExpr   `parser:"  (\"having\" @@)? )?"`
 	As       *syntaxMember `parser:"(\"as\" @@)?"`
