@@ -70,9 +70,11 @@ func (v *verifier) diagnose(ctx context.Context) error {
 	count := func(fs []fit) {
 		seen := map[string]bool{}
 		for _, f := range fs {
-			if !seen[f.name] {
-				seen[f.name] = true
-				score[f.name]++
+			for _, k := range []string{f.name, f.id} {
+				if !seen[k] {
+					seen[k] = true
+					score[k]++
+				}
 			}
 		}
 	}
@@ -103,15 +105,20 @@ func (v *verifier) diagnose(ctx context.Context) error {
 	return nil
 }
 
-// fit is a formula that reproduces what the SQL shows.
-type fit struct{ name, detail string }
+// fit is a formula that reproduces what the SQL shows; id tells the
+// variants of one formula apart (an inner or a left join).
+type fit struct{ name, id, detail string }
 
-// choose picks the fit with the best score (the first on a tie) and
-// lists the other formulas that fit.
+// choose picks the fit whose formula, then whose variant, fits the most
+// items (the first on a tie) and lists the other formulas that fit.
 func choose(fs []fit, score map[string]int) (name, detail string, also []string) {
 	best := -1
 	for i, f := range fs {
-		if best < 0 || score[f.name] > score[fs[best].name] {
+		b := fit{}
+		if best >= 0 {
+			b = fs[best]
+		}
+		if best < 0 || score[f.name] > score[b.name] || score[f.name] == score[b.name] && score[f.id] > score[b.id] {
 			best = i
 		}
 	}
@@ -158,10 +165,10 @@ func (v *verifier) differenceFits(d *Difference, vs []*variant) []fit {
 		if s, ok := x.perCell[detailKey(key, j)]; ok {
 			detail = s
 		}
-		out = append(out, fit{x.name, fmt.Sprintf("%s, which gives %s", detail, val[j])})
+		out = append(out, fit{x.name, x.name + "\x00" + x.detail, fmt.Sprintf("%s, which gives %s", detail, val[j])})
 	}
 	if d.Rollwise.Null && d.SQL.isZero() {
-		out = append(out, fit{NullAsZero, "rollwise has no value in this cell (no rows, or only NULLs, to aggregate) and the SQL shows 0, as COALESCE(..., 0) or a zero-filled join does"})
+		out = append(out, fit{NullAsZero, NullAsZero, "rollwise has no value in this cell (no rows, or only NULLs, to aggregate) and the SQL shows 0, as COALESCE(..., 0) or a zero-filled join does"})
 	}
 	return out
 }
@@ -222,7 +229,7 @@ func (v *verifier) sqlOnlyFits(u *Unmatched, vs []*variant) []fit {
 				all = all && x.has[j] && Agree(vals[j], u.Values[j], v.rep.Tolerance)
 			}
 			if all {
-				out = append(out, fit{x.name, "rollwise gives this row, with these values, when " + x.detail})
+				out = append(out, fit{x.name, x.name + "\x00" + x.detail, "rollwise gives this row, with these values, when " + x.detail})
 				break
 			}
 		}
@@ -239,7 +246,7 @@ func (v *verifier) rollwiseOnlyFits(u *Unmatched, vs []*variant) []fit {
 			continue
 		}
 		if _, ok := x.cells[key]; !ok {
-			out = append(out, fit{x.name, "the row disappears when " + x.detail})
+			out = append(out, fit{x.name, x.name + "\x00" + x.detail, "the row disappears when " + x.detail})
 		}
 	}
 	return out
@@ -479,7 +486,7 @@ func (v *verifier) sqlDetail() []resultRow {
 // overRows computes, for each rollwise total row, the sum or average of
 // measure j over the given detail rows in its cell.
 func (v *verifier) overRows(j int, name string, avg bool, detail []resultRow, whose string) *variant {
-	x := &variant{name: name, has: v.only(j), cells: cells{}, perCell: map[string]string{}}
+	x := &variant{name: name, detail: "over the rows of the total" + whose, has: v.only(j), cells: cells{}, perCell: map[string]string{}}
 	for _, r := range v.comp {
 		if r.mask == 0 {
 			continue
@@ -594,8 +601,8 @@ func (v *verifier) perRowVariants(ctx context.Context, j int) []*variant {
 		v.note("could not compute the per-row %s of %s: %v", m.Name, t.Name, err)
 		return nil
 	}
-	sum := &variant{name: SumOfRatios, has: v.only(j), cells: cells{}, perCell: map[string]string{}}
-	avg := &variant{name: AverageOfRatios, has: v.only(j), cells: cells{}, perCell: map[string]string{}}
+	sum := &variant{name: SumOfRatios, detail: "per " + t.Name + " row", has: v.only(j), cells: cells{}, perCell: map[string]string{}}
+	avg := &variant{name: AverageOfRatios, detail: "per " + t.Name + " row", has: v.only(j), cells: cells{}, perCell: map[string]string{}}
 	for _, r := range rows {
 		key := cellKey(r.mask, r.keys)
 		s, a := make([]Value, len(v.names)), make([]Value, len(v.names))
