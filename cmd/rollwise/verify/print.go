@@ -253,6 +253,7 @@ func WriteJSON(w io.Writer, r *Report) error {
 			SQLRows: r.unmatchedJSON(a.SQLRows), RollwiseRows: r.unmatchedJSON(a.RollwiseRows)})
 	}
 	enc := json.NewEncoder(w)
+	enc.SetEscapeHTML(false)
 	enc.SetIndent("", "  ")
 	return enc.Encode(out)
 }
