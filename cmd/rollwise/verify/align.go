@@ -250,11 +250,10 @@ func mapColumns(cols, groups, measures []string, mp map[string]string, gname str
 			return nil, err
 		}
 		if i < 0 {
-			err := missing(how, name)
 			if _, ok := mp[m]; !ok {
-				err.(*InputError).Msg += fmt.Sprintf(" (--map %s=COLUMN names another column)", m)
+				how += fmt.Sprintf(" (--map %s=COLUMN names another column)", m)
 			}
-			return nil, err
+			return nil, missing(how, name)
 		}
 		if err := claim(i, how); err != nil {
 			return nil, err

@@ -324,6 +324,10 @@ func (v *verifier) compare() {
 	}
 	v.rep.Notes = append(v.rep.Notes, v.hw.notes...)
 	v.rep.Notes = append(v.rep.Notes, v.keyKindNotes()...)
+	if extra := v.unaskedTotals(); extra > 0 {
+		v.rep.Notes = append(v.rep.Notes, fmt.Sprintf(
+			"%d of the SQL's rows are totals the query does not ask for (--totals %s); --totals all asks for every total", extra, v.rep.Totals))
+	}
 	if len(v.rep.RollwiseOnly) > 0 && v.hw.masks == nil && len(v.in.Plan.Sets) > 1 {
 		totalsOnly := true
 		for _, u := range v.rep.RollwiseOnly {
@@ -335,6 +339,22 @@ func (v *verifier) compare() {
 				v.rep.Totals))
 		}
 	}
+}
+
+// unaskedTotals counts the SQL-only rows that a grouping column marks as
+// totals of a kind the query's --totals does not compute.
+func (v *verifier) unaskedTotals() int {
+	asked := map[uint64]bool{}
+	for _, s := range v.in.Plan.Sets {
+		asked[s] = true
+	}
+	n := 0
+	for _, u := range v.rep.SQLOnly {
+		if m := v.maskOf(u.Row); u.Row.Known && m != 0 && !asked[m] {
+			n++
+		}
+	}
+	return n
 }
 
 func (v *verifier) compID(r resultRow) RowID {
