@@ -169,13 +169,15 @@ func hasDerived(t *planner.Table) bool {
 	return false
 }
 
-func (g *generator) add(v *View, pos grammar.Pos, header string) {
+// add names view v in the schema and adds it to the set; pos is where
+// its table or view block is declared.
+func (g *generator) add(v *View, pos grammar.Pos) {
 	if g.pos == nil {
 		g.pos, g.header = map[*View]grammar.Pos{}, map[*View]string{}
 	}
 	v.QualifiedName = append(slices.Clone(g.schema), v.Name)
 	g.set.Views = append(g.set.Views, v)
-	g.pos[v], g.header[v] = pos, header
+	g.pos[v] = pos
 }
 
 // rowView builds the row-level view of table t.
@@ -204,7 +206,7 @@ func (g *generator) rowView(t *planner.Table, diags *grammar.Diagnostics) {
 		diags.Errorf(t.Pos, "name-clash", "table %s has two columns called %s, which engines that ignore case cannot tell apart", t.Name, dup)
 		return
 	}
-	g.add(v, t.Pos, "")
+	g.add(v, t.Pos)
 	v.Statements, err = dialects.CreateView(g.d, v.QualifiedName, names, nil, rq.SQL)
 	if err != nil {
 		diags.Errorf(t.Pos, "unsupported", "table %s: %v", t.Name, err)
@@ -274,7 +276,7 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 	// The query calls its columns as `run` shows them.
 	inner := append(append([]string{}, q.GroupNames...), outputNames(p)...)
 	inner = append(inner, dialects.GroupingColumn)
-	g.add(v, vb.Pos, "")
+	g.add(v, vb.Pos)
 	v.Statements, err = dialects.CreateView(g.d, v.QualifiedName, names, inner, sql)
 	if err != nil {
 		diags.Errorf(vb.Pos, "unsupported", "view block %s: %v", vb.Name, err)
