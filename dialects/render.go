@@ -294,7 +294,7 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 			arg = r.q(l.Arg.Name)
 		}
 		if l.Func == "median" && !r.d.Caps().ExactMedian {
-			return &UnsupportedError{Dialect: r.d.Name(), Construct: "an exact median"}
+			return &UnsupportedError{Dialect: r.d.Name(), Construct: "a median"}
 		}
 		filter := ""
 		if l.Filter != nil {

@@ -160,7 +160,13 @@ type Sources map[string]string
 //
 // The source line is shown when src holds the file.
 func (l Diagnostics) Print(w io.Writer, src Sources, color bool) {
+	seen := map[string]bool{}
 	for _, d := range l {
+		if key := d.Error(); seen[key] {
+			continue // the same message at the same place, found twice
+		} else {
+			seen[key] = true
+		}
 		sev := d.Severity.String()
 		if color {
 			if d.Severity == Error {

@@ -214,9 +214,16 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 		}
 		return nil
 	case *InExpr:
-		in := &InExpr{Pos: e.Pos, Not: e.Not, List: e.List}
+		in := &InExpr{Pos: e.Pos, Not: e.Not}
 		if in.X = pl.compile(ctx, e.X, c); in.X == nil {
 			return nil
+		}
+		for _, item := range e.List {
+			x := pl.compile(ctx, item, c)
+			if x == nil {
+				return nil
+			}
+			in.List = append(in.List, x)
 		}
 		return in
 	case *Lit:

@@ -35,8 +35,12 @@ func (pl *planner) measuresOf(s *Scan) string {
 		visit(o.Expr, o.Name)
 	}
 	if len(names) == 0 {
+		// A scan that only supplies rows: name the measures iterating
+		// over its table.
 		for _, m := range pl.q.Measures {
-			names = append(names, m.Name)
+			if slices.Contains(pl.iterationTables(m.Expr), s.Table) {
+				names = append(names, m.Name)
+			}
 		}
 	}
 	return strings.Join(names, ", ")

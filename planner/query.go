@@ -22,6 +22,56 @@ type Query struct {
 	Desc    bool
 	// Limit cuts the detail rows; 0 means no limit.
 	Limit int
+
+	model *Model
+}
+
+// Override applies the totals mode, order and limit of spec where they are
+// given (a view's own query, changed on the command line).
+func (q *Query) Override(spec QuerySpec) grammar.Diagnostics {
+	var diags grammar.Diagnostics
+	switch mode := TotalsMode(strings.ToLower(strings.TrimSpace(spec.Totals))); mode {
+	case "":
+	case TotalsNone, TotalsGrand, TotalsRollup, TotalsAll:
+		q.Totals = mode
+	default:
+		diags.Errorf(grammar.Pos{File: "--totals"}, "usage", "unknown totals mode %q", spec.Totals).Suggestion =
+			"write none, grand, rollup or all"
+	}
+	if o := strings.Fields(spec.Order); len(o) > 0 {
+		p := grammar.Pos{File: "--order", Line: 1, Col: 1}
+		q.OrderBy = q.model.Measure(o[0])
+		switch {
+		case q.OrderBy == nil:
+			var names []string
+			for _, x := range q.model.Measures {
+				names = append(names, x.Name)
+			}
+			d := diags.Errorf(p, "unknown-measure", "--order names '%s', which is not a measure", o[0])
+			if near := grammar.Closest(o[0], names); near != "" {
+				d.Message += fmt.Sprintf("; did you mean '%s'?", near)
+			}
+		case len(o) > 2 || len(o) == 2 && !strings.EqualFold(o[1], "desc") && !strings.EqualFold(o[1], "asc"):
+			diags.Errorf(p, "usage", "--order takes a measure and an optional asc or desc, not %q", spec.Order)
+		default:
+			q.Desc = len(o) == 2 && strings.EqualFold(o[1], "desc")
+			found := false
+			for _, mm := range q.Measures {
+				found = found || mm == q.OrderBy
+			}
+			if !found {
+				diags.Errorf(p, "usage", "--order names %s, which the query does not ask for", o[0]).Suggestion =
+					"add it to --measures"
+			}
+		}
+	}
+	if spec.Limit < 0 {
+		diags.Errorf(grammar.Pos{File: "--limit"}, "usage", "--limit must be a positive number, not %d", spec.Limit)
+	}
+	if spec.Limit > 0 {
+		q.Limit = spec.Limit
+	}
+	return diags
 }
 
 // QuerySpec is a query as the command line gives it.
@@ -96,38 +146,8 @@ func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
 			}
 		}
 	}
-	switch mode := TotalsMode(strings.ToLower(strings.TrimSpace(spec.Totals))); mode {
-	case "", TotalsNone:
-	case TotalsGrand, TotalsRollup, TotalsAll:
-		q.Totals = mode
-	default:
-		diags.Errorf(grammar.Pos{File: "--totals"}, "usage", "unknown totals mode %q", spec.Totals).Suggestion =
-			"write none, grand, rollup or all"
-	}
-	if o := strings.Fields(spec.Order); len(o) > 0 {
-		p := grammar.Pos{File: "--order", Line: 1, Col: 1}
-		q.OrderBy = m.Measure(o[0])
-		switch {
-		case q.OrderBy == nil:
-			diags.Errorf(p, "unknown-measure", "--order names '%s', which is not a measure of the query", o[0])
-		case len(o) > 2 || len(o) == 2 && !strings.EqualFold(o[1], "desc") && !strings.EqualFold(o[1], "asc"):
-			diags.Errorf(p, "usage", "--order takes a measure and an optional asc or desc, not %q", spec.Order)
-		default:
-			q.Desc = len(o) == 2 && strings.EqualFold(o[1], "desc")
-			found := false
-			for _, mm := range q.Measures {
-				found = found || mm == q.OrderBy
-			}
-			if !found {
-				diags.Errorf(p, "usage", "--order names %s, which the query does not ask for", o[0]).Suggestion =
-					"add it to --measures"
-			}
-		}
-	}
-	if spec.Limit < 0 {
-		diags.Errorf(grammar.Pos{File: "--limit"}, "usage", "--limit must be a positive number, not %d", spec.Limit)
-	}
-	q.Limit = spec.Limit
+	q.model = m
+	diags.Append(q.Override(QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit}))
 	diags.Append(r.diags)
 	return q, diags
 }
@@ -161,7 +181,7 @@ func Conjuncts(e Expr) []Expr {
 
 // ViewQuery is the query a view block declares.
 func (m *Model) ViewQuery(v *View) *Query {
-	q := &Query{Measures: v.Measures, Totals: v.Totals}
+	q := &Query{Measures: v.Measures, Totals: v.Totals, model: m}
 	for _, c := range v.By {
 		q.Groups = append(q.Groups, c)
 		q.GroupNames = append(q.GroupNames, c.String())

@@ -189,9 +189,14 @@ func (r *resolver) resolveLinks(t *Table, td *grammar.TableDecl) {
 		if cd.Link == nil {
 			continue
 		}
+		if cd.Expr != nil {
+			r.diags.Errorf(cd.Link.Pos, "bad-link", "derived column %s cannot link: links are declared on stored columns", c).
+				Suggestion = "link the stored column the derived one is computed from"
+			continue
+		}
 		if cd.Link.Table == "" {
 			r.diags.Errorf(cd.Link.Pos, "bad-link", "a link names its target as TABLE.KEYCOL").
-				Suggestion = fmt.Sprintf("write -> TABLE.%s", cd.Link.Name)
+				Suggestion = fmt.Sprintf("write -> %s.KEYCOL", cd.Link.Name)
 			continue
 		}
 		to := r.lookupTable(cd.Link.Pos, cd.Link.Table)

@@ -290,7 +290,13 @@ func (r *resolver) rootTable(p grammar.Pos) *Table {
 	if len(roots) != 1 {
 		d := r.diags.Errorf(p, "no-iteration-table", "count(*) does not say whose rows it counts: the model has %d tables that no link points at (%s)",
 			len(roots), strings.Join(roots, ", "))
-		d.Suggestion = "count a table's key instead, for example count(sales.line_id)"
+		d.Suggestion = "count a table's key instead, for example count(T.KEY)"
+		for _, t := range r.m.Tables {
+			if !pointed[t] && len(t.Key) > 0 {
+				d.Suggestion = fmt.Sprintf("count a table's key instead, for example count(%s)", t.Key[0])
+				break
+			}
+		}
 		return nil
 	}
 	return root
@@ -406,7 +412,11 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 		if ed.Target != nil {
 			if ed.Target.Table == "" {
 				if ce.Kind != EditDrop {
-					x.errorf(ed.Target.Pos, "bad-edit", "ungroup takes a column, written table.column")
+					verb := "ungroup"
+					if ce.Kind == EditPin {
+						verb = "a pin"
+					}
+					x.errorf(ed.Target.Pos, "bad-edit", "%s takes a column, written table.column, not '%s'", verb, ed.Target.Name)
 					return nil
 				}
 				if ce.Table = x.r.lookupTable(ed.Target.Pos, ed.Target.Name); ce.Table == nil {
@@ -421,7 +431,17 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 			if lv == nil {
 				return nil
 			}
+			if u, neg := lv.(*UnOp); neg && u.Op == "-" {
+				if l, isLit := u.X.(*Lit); isLit && l.T.Numeric() && l.T != TypeNull {
+					lv = &Lit{Pos: u.Pos, T: l.T, Text: "-" + l.Text}
+				}
+			}
 			lit, ok := lv.(*Lit)
+			if ok && lit.T == TypeNull {
+				x.errorf(v.Position(), "bad-edit", "a pin to null matches no row (nothing equals null)").Suggestion =
+					fmt.Sprintf("narrow instead: m[drop %s] where %s is null", ce.Col, ce.Col)
+				return nil
+			}
 			if !ok {
 				x.errorf(v.Position(), "bad-edit", "a pin takes literal values").Suggestion =
 					"write T.C = 'value' or T.C in ('a', 'b')"
@@ -444,6 +464,9 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 	return out
 }
 
+// reservedNames are result columns rollwise adds beside the measures.
+var reservedNames = map[string]bool{"rolled_up": true, "grouping_id": true, "detail_rank": true}
+
 // measure resolves the measure called name on first use, reporting cycles.
 func (r *resolver) measure(name string) *Measure {
 	if m := r.m.measures[name]; m != nil && r.state[name] == 2 {
@@ -459,6 +482,10 @@ func (r *resolver) measure(name string) *Measure {
 		r.diags.Errorf(md.Name.Pos, "cycle", "measure %s depends on itself", name).
 			Notes = []string{"the cycle: " + strings.Join(cycle, " -> ")}
 		return &Measure{Name: name, Pos: md.Name.Pos}
+	}
+	if reservedNames[name] {
+		r.diags.Errorf(md.Name.Pos, "reserved-name", "%q is the name of a result column rollwise adds; a measure cannot use it", name).
+			Suggestion = "rename the measure"
 	}
 	r.state[name] = 1
 	r.stack = append(r.stack, name)

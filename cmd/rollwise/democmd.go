@@ -111,6 +111,9 @@ func runDemo(e *env, o *demoOptions) error {
 			total = v
 			continue
 		}
+		if r.Values[0] == nil {
+			continue // plants with no family: not a family of their own
+		}
 		sum = sum.Add(v)
 		rows++
 	}

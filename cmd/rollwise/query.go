@@ -29,7 +29,7 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compute, comma-separated")
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
 	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
-	f.StringVar(&o.totals, "totals", "none", "total rows: none, grand, rollup or all")
+	f.StringVar(&o.totals, "totals", "", "total rows: none, grand, rollup or all (default none; with --view, the view's own)")
 	f.StringVar(&o.order, "order", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
 	f.IntVar(&o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
@@ -81,6 +81,7 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", msg)}
 		}
 		q = m.ViewQuery(v)
+		diags = q.Override(planner.QuerySpec{Totals: o.totals, Order: o.order, Limit: o.limit})
 	} else {
 		q, diags = m.NewQuery(planner.QuerySpec{Measures: o.measures, By: o.by, Where: o.where,
 			Totals: o.totals, Order: o.order, Limit: o.limit})
@@ -101,7 +102,23 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 		}
 	}
 	printDiags(e, diags, src)
-	return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
+	return nil, &exitError{code: diagExit(diags), err: fmt.Errorf("%s", countErrors(diags))}
+}
+
+// diagExit is 2 when every error is about the command line's shape (a
+// usage error), 3 for an internal error, and 1 otherwise.
+func diagExit(d grammar.Diagnostics) int {
+	code := exitUsage
+	for _, x := range d.Errors() {
+		switch x.Code {
+		case "internal":
+			return exitInternal
+		case "usage":
+		default:
+			code = exitFindings
+		}
+	}
+	return code
 }
 
 func newSQLCmd(e *env) *cobra.Command {

@@ -155,8 +155,12 @@ func TestNameClashes(t *testing.T) {
 		"table sales", "view block sales_derived", "would both be the view sales_derived")
 	// Engines such as DuckDB ignore case in names.
 	expectGenerateError(t, tiny+"view Sales_Derived = units by stores.name", Options{}, "would both be")
-	expectGenerateError(t, tiny+"measure grouping_id = count(sales.id)\nview v = grouping_id by stores.name", Options{},
-		"two columns called grouping_id")
+	// A measure cannot take the name of the grouping column: the model
+	// itself is refused.
+	f, d := grammar.Parse("m.roll", tiny+"measure grouping_id = count(sales.id)\nview v = grouping_id by stores.name")
+	if _, ld := planner.Load([]*grammar.File{f}); !ld.HasErrors() || !strings.Contains(ld.Error(), `"grouping_id" is the name of a result column`) || d.HasErrors() {
+		t.Errorf("a measure called grouping_id: %v", ld)
+	}
 }
 
 func TestSchema(t *testing.T) {
