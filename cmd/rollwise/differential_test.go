@@ -1,0 +1,353 @@
+package main
+
+import (
+	"bytes"
+	"context"
+	"database/sql"
+	"encoding/json"
+	"fmt"
+	"math"
+	"os"
+	"path/filepath"
+	"strings"
+	"sync/atomic"
+	"testing"
+
+	"github.com/shopspring/decimal"
+	"pgregory.net/rapid"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/reference"
+	"github.com/rollwise/rollwise/planner/reference/casegen"
+)
+
+// The differential tests: random models, data and queries (casegen) run
+// through the SQL path of `rollwise run --format json` (resolve, plan,
+// render for DuckDB, run on the embedded engine, write the JSON report;
+// one engine per case, for speed) and through the reference evaluator,
+// which computes every value cell by cell without SQL. The rows must be equal:
+// the same rows in the same order, group values and exact measures
+// (integer, decimal) equal exactly, float measures within diffFloatTolerance.
+//
+// `go test ./cmd/rollwise` runs -rapid.checks cases (100 by default) of
+// each property; a long campaign:
+//
+//	go test ./cmd/rollwise -run 'TestDifferential' -rapid.checks=20000 -timeout=0 -v
+//
+// On a failure rapid shrinks the case; the minimal model, CSV files and
+// query are printed (and written to $ROLLWISE_DIFF_SAVE/<n>/ when that is
+// set), ready to be kept under testdata/differential as a regression
+// case.
+
+// diffFloatTolerance is the relative tolerance for float measures (averages,
+// ratios, medians, statistics), with an absolute floor at magnitude 1:
+// |got - want| <= diffFloatTolerance * max(1, |got|, |want|).
+const diffFloatTolerance = 1e-9
+
+// diffStats counts what the differential properties did.
+type diffStats struct {
+	compared, skipped, known, failed atomic.Int64
+}
+
+// diffKnownBugs are the planner bugs the differential tests found, each
+// kept as a minimal regression case under testdata/differential/NAME. A
+// failing query that shows a known bug's signature (hits looks at the
+// case, the query and the failure message) is counted, not failed, so
+// that a campaign goes on finding other bugs. Delete an entry once its
+// regression case passes.
+var diffKnownBugs = []struct {
+	name string
+	hits func(c *casegen.Case, q casegen.Query, msg string) bool
+}{
+	{"limit_without_groups", func(_ *casegen.Case, q casegen.Query, msg string) bool {
+		return strings.Contains(msg, "ORDER BY )")
+	}},
+	{"derived_column_unmatched_link", func(c *casegen.Case, q casegen.Query, _ string) bool {
+		return strings.Contains(c.Model, "zone = ")
+	}},
+	{"scan_without_aggregates", func(_ *casegen.Case, q casegen.Query, msg string) bool {
+		return len(q.By) == 0 && strings.HasPrefix(msg, "run gives")
+	}},
+}
+
+// diffKnownBug names the known bug a failing query shows, or "".
+func diffKnownBug(c *casegen.Case, q casegen.Query, msg string) string {
+	for _, b := range diffKnownBugs {
+		if b.hits(c, q, msg) {
+			return b.name
+		}
+	}
+	return ""
+}
+
+func TestDifferentialCore(t *testing.T) {
+	o := casegen.DefaultOptions
+	o.Advanced = false
+	diffRun(t, o)
+}
+
+func TestDifferentialEditsAndPerGrain(t *testing.T) {
+	diffRun(t, casegen.DefaultOptions)
+}
+
+func diffRun(t *testing.T, o casegen.Options) {
+	var st diffStats
+	saved := 0
+	rapid.Check(t, func(rt *rapid.T) {
+		c := casegen.Generator(o).Draw(rt, "case")
+		dir, err := os.MkdirTemp(t.TempDir(), "case")
+		if err != nil {
+			rt.Fatal(err)
+		}
+		if err := c.Write(dir); err != nil {
+			rt.Fatal(err)
+		}
+		dc, err := diffOpen(dir)
+		if err != nil {
+			rt.Fatalf("%v\n\nthe case:\n%s", err, c)
+		}
+		defer dc.close()
+		for _, q := range c.Queries {
+			if msg := dc.compare(q, &st); msg != "" {
+				if bug := diffKnownBug(c, q, msg); bug != "" {
+					st.known.Add(1)
+					continue
+				}
+				st.failed.Add(1)
+				if root := os.Getenv("ROLLWISE_DIFF_SAVE"); root != "" {
+					saved++
+					out := filepath.Join(root, fmt.Sprint(saved))
+					if os.MkdirAll(out, 0o755) == nil && c.Write(out) == nil {
+						os.WriteFile(filepath.Join(out, "query.txt"), []byte(q.Command(casegen.ModelFile)+"\n"), 0o644)
+					}
+				}
+				rt.Fatalf("%s\nquery: %s\n\nthe case:\n%s", msg, q.Command(casegen.ModelFile), c)
+			}
+		}
+	})
+	t.Logf("queries run: %d; failing with a known bug: %d; skipped: %d (the planner reports not-supported)",
+		st.compared.Load(), st.known.Load(), st.skipped.Load())
+	if st.compared.Load() == 0 {
+		t.Errorf("no query was compared")
+	}
+}
+
+// diffOpened is a written case opened both ways: the model resolved, its
+// data in the reference evaluator and in an embedded DuckDB.
+type diffOpened struct {
+	dir  string
+	m    *planner.Model
+	ref  *reference.Data
+	db   *sql.DB
+	ctx  context.Context
+	duck dialects.Dialect
+}
+
+// diffOpen loads the case written in dir.
+func diffOpen(dir string) (*diffOpened, error) {
+	m, err := diffLoadModel(filepath.Join(dir, casegen.ModelFile))
+	if err != nil {
+		return nil, fmt.Errorf("the model does not load: %w", err)
+	}
+	ref, err := reference.Load(m, "")
+	if err != nil {
+		return nil, fmt.Errorf("the reference evaluator cannot load the data: %w", err)
+	}
+	d, err := dialects.Get("duckdb")
+	if err != nil {
+		return nil, err
+	}
+	ctx := context.Background()
+	db, err := engine.OpenDuckDB(ctx, m, "")
+	if err != nil {
+		return nil, fmt.Errorf("the engine cannot load the data: %w", err)
+	}
+	return &diffOpened{dir: dir, m: m, ref: ref, db: db, ctx: ctx, duck: d}, nil
+}
+
+func (dc *diffOpened) close() { dc.db.Close() }
+
+// compare runs one query both ways; it returns "" when they agree (or the
+// planner says the query is not supported yet) and otherwise what
+// differs. The SQL path is the one `rollwise run` takes: plan, render for
+// DuckDB, run on the embedded engine, write the rows as the JSON report.
+func (dc *diffOpened) compare(q casegen.Query, st *diffStats) string {
+	pq, diags := dc.m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
+	if diags.HasErrors() {
+		return "the generated query does not resolve: " + diags.Error()
+	}
+	res, err := dc.ref.Run(pq)
+	if err != nil {
+		return "the reference evaluator fails: " + err.Error()
+	}
+	want := res.JSON()
+	plan, pd := planner.NewPlan(pq)
+	if pd.HasErrors() {
+		for _, d := range pd.Errors() {
+			if d.Code == "not-supported" {
+				st.skipped.Add(1)
+				return ""
+			}
+		}
+		return "the planner rejects the query: " + pd.Error()
+	}
+	text, err := dialects.Render(plan, dc.duck)
+	if err != nil {
+		return "the DuckDB dialect cannot render the plan: " + err.Error()
+	}
+	got, err := dc.runSQL(pq, plan, text)
+	if err != nil {
+		return err.Error() + "\n\nthe SQL:\n" + text
+	}
+	st.compared.Add(1)
+	if diff := diffRows(pq, got, want); diff != "" {
+		return diff + "\nthe SQL:\n" + text
+	}
+	return ""
+}
+
+// runSQL runs the SQL and shapes its rows as `rollwise run --format json`
+// does: group columns, measures, and rolled_up read from the grouping
+// column.
+func (dc *diffOpened) runSQL(q *planner.Query, plan *planner.Plan, text string) ([]map[string]any, error) {
+	res, err := engine.Query(dc.ctx, dc.db, text)
+	if err != nil {
+		return nil, fmt.Errorf("the engine rejects the query: %w", err)
+	}
+	t := &report.Table{}
+	for _, g := range q.GroupNames {
+		t.Columns = append(t.Columns, report.Column{Name: g, Group: true})
+	}
+	for _, o := range plan.Outputs {
+		t.Columns = append(t.Columns, report.Column{Name: o.Name})
+	}
+	n := len(t.Columns)
+	if len(res.Columns) != n+1 || res.Columns[n] != dialects.GroupingColumn {
+		return nil, fmt.Errorf("the result has columns %v", res.Columns)
+	}
+	for _, row := range res.Rows {
+		var mask uint64
+		if g, ok := row[n].(int64); ok {
+			mask = uint64(g)
+		}
+		t.Rows = append(t.Rows, report.Row{Values: row[:n], RolledUp: q.RolledUp(mask)})
+	}
+	var out bytes.Buffer
+	if err := report.Write(&out, t, report.Options{Format: report.FormatJSON}); err != nil {
+		return nil, err
+	}
+	dec := json.NewDecoder(&out)
+	dec.UseNumber()
+	var rows []map[string]any
+	if err := dec.Decode(&rows); err != nil {
+		return nil, fmt.Errorf("bad JSON: %v", err)
+	}
+	return rows, nil
+}
+
+// diffLoadModel parses and resolves one model file.
+func diffLoadModel(path string) (*planner.Model, error) {
+	src, err := os.ReadFile(path)
+	if err != nil {
+		return nil, err
+	}
+	f, diags := grammar.Parse(path, string(src))
+	if diags.HasErrors() {
+		return nil, diags.Err()
+	}
+	m, diags := planner.Load([]*grammar.File{f})
+	if diags.HasErrors() {
+		return nil, diags.Err()
+	}
+	return m, nil
+}
+
+// diffRunJSON runs the CLI in-process and decodes its JSON rows.
+func diffRunJSON(args []string) ([]map[string]any, string, int) {
+	var out, errb bytes.Buffer
+	code := Main(args, strings.NewReader(""), &out, &errb)
+	if code != 0 {
+		return nil, errb.String(), code
+	}
+	dec := json.NewDecoder(&out)
+	dec.UseNumber()
+	var rows []map[string]any
+	if err := dec.Decode(&rows); err != nil {
+		return nil, fmt.Sprintf("bad JSON: %v\n%s", err, out.String()), 3
+	}
+	return rows, errb.String(), 0
+}
+
+// diffRows compares the rows of run (got) with the reference's (want);
+// it returns "" when they agree.
+func diffRows(q *planner.Query, got, want []map[string]any) string {
+	var b strings.Builder
+	if len(got) != len(want) {
+		fmt.Fprintf(&b, "run gives %d rows, the reference %d\n", len(got), len(want))
+	}
+	for i := 0; i < len(got) || i < len(want); i++ {
+		var g, w map[string]any
+		if i < len(got) {
+			g = got[i]
+		}
+		if i < len(want) {
+			w = want[i]
+		}
+		if g == nil || w == nil || !diffSameRow(q, g, w) {
+			fmt.Fprintf(&b, "row %d:\n  run:       %s\n  reference: %s\n", i, diffRowText(q, g), diffRowText(q, w))
+		}
+	}
+	return b.String()
+}
+
+func diffSameRow(q *planner.Query, g, w map[string]any) bool {
+	for _, name := range q.GroupNames {
+		if !diffSameJSON(g[name], w[name], false) {
+			return false
+		}
+	}
+	for _, m := range q.Measures {
+		if !diffSameJSON(g[m.Name], w[m.Name], m.Type == planner.TypeFloat) {
+			return false
+		}
+	}
+	return fmt.Sprint(g[reference.RolledUpKey]) == fmt.Sprint(w[reference.RolledUpKey])
+}
+
+// diffSameJSON compares two JSON values: numbers exactly, or within the
+// float tolerance when approx is set.
+func diffSameJSON(a, b any, approx bool) bool {
+	x, xok := a.(json.Number)
+	y, yok := b.(json.Number)
+	if !xok || !yok {
+		return fmt.Sprintf("%T %v", a, a) == fmt.Sprintf("%T %v", b, b)
+	}
+	if approx {
+		f, err1 := x.Float64()
+		h, err2 := y.Float64()
+		return err1 == nil && err2 == nil && math.Abs(f-h) <= diffFloatTolerance*math.Max(1, math.Max(math.Abs(f), math.Abs(h)))
+	}
+	p, err1 := decimal.NewFromString(x.String())
+	r, err2 := decimal.NewFromString(y.String())
+	return err1 == nil && err2 == nil && p.Equal(r)
+}
+
+func diffRowText(q *planner.Query, r map[string]any) string {
+	if r == nil {
+		return "(none)"
+	}
+	var parts []string
+	for _, name := range q.GroupNames {
+		parts = append(parts, fmt.Sprintf("%s=%v", name, r[name]))
+	}
+	for _, m := range q.Measures {
+		parts = append(parts, fmt.Sprintf("%s=%v", m.Name, r[m.Name]))
+	}
+	parts = append(parts, fmt.Sprintf("rolled_up=%v", r[reference.RolledUpKey]))
+	return strings.Join(parts, " ")
+}
