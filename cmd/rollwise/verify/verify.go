@@ -377,7 +377,7 @@ func (v *verifier) ambiguityReason(g ambiguous) string {
 		}
 	}
 	if v.hw.masks != nil || g.pattern == 0 {
-		return fmt.Sprintf("%d handwritten rows have the same group values; each cell should appear once (is a --by column missing from the SQL's GROUP BY?)", len(g.hw))
+		return fmt.Sprintf("%d handwritten rows have the same group values; each cell should appear once (is a --by column missing from the SQL's GROUP BY, or are some of them total rows, which --totals and --grouping-column would tell apart?)", len(g.hw))
 	}
 	var sqlCols []string
 	for _, c := range v.hw.groupCols {
