@@ -82,30 +82,16 @@ func (r *renderer) render() (string, error) {
 		}
 	}
 	cols = append(cols, r.keyCol(root, GroupingColumn))
-	order := r.orderBy(single)
 	body := "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM " + from
-	if q.Limit > 0 {
-		rank := "ROW_NUMBER() OVER (PARTITION BY " + r.keyCol(root, GroupingColumn) + " ORDER BY " + strings.Join(order, ", ") + ") AS " + r.q("detail_rank")
-		res := r.cteName("result")
-		inner := strings.Replace(body, "\nFROM ", ",\n  "+rank+"\nFROM ", 1)
-		r.addCTE(res, "  "+strings.ReplaceAll(inner, "\n", "\n  "))
-		var outCols []string
-		for _, k := range root.Keys {
-			outCols = append(outCols, r.q(k.Name))
+	if r.p.OrderBy == nil && q.Limit == 0 {
+		order := r.orderBy(single)
+		sql := "WITH " + strings.Join(r.ctes, ",\n") + "\n" + body
+		if len(order) > 0 {
+			sql += "\nORDER BY " + strings.Join(order, ", ")
 		}
-		for _, o := range r.p.Outputs {
-			outCols = append(outCols, r.q(o.Name))
-		}
-		outCols = append(outCols, r.q(GroupingColumn))
-		body = "SELECT\n  " + strings.Join(outCols, ",\n  ") + "\nFROM " + r.q(res) +
-			"\nWHERE " + r.q(GroupingColumn) + " <> 0 OR " + r.q("detail_rank") + " <= " + fmt.Sprint(q.Limit)
-		order = r.orderBy(true)
+		return sql, nil
 	}
-	sql := "WITH " + strings.Join(r.ctes, ",\n") + "\n" + body
-	if len(order) > 0 {
-		sql += "\nORDER BY " + strings.Join(order, ", ")
-	}
-	return sql, nil
+	return r.sorted(body), nil
 }
 
 // context renders the CTEs of every relation of ctx, and of its key

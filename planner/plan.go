@@ -57,10 +57,10 @@ type Context struct {
 // subset of the context's keys, as indexes) and a grouping id; GidOf maps
 // each of the context's grouping masks to the Rel's own grouping id.
 type Rel struct {
-	Name  string
-	Keys  []int
-	Sets  []uint64
-	GidOf map[uint64]uint64
+	Name   string
+	Keys   []int
+	Sets   []uint64
+	GidOf  map[uint64]uint64
 	Scan   *Scan
 	Per    *PerRel
 	Window *WindowRel
