@@ -205,10 +205,21 @@ func popcount(x int) int {
 	return n
 }
 
-// order sorts the rows as the SQL path does: by each group in turn (its
-// total after its values, values ascending, NULLs last); with --order,
-// the detail rows first, by the measure (NULLs last), then the totals.
-// --limit keeps the first N detail rows and every total row.
+// order sorts the rows as the language orders a report:
+//
+//   - without --order, by each group in turn: its values ascending, NULLs
+//     last, and its total rows right after them;
+//   - with --order M and totals in a hierarchy (rollup or all, two groups
+//     or more), level by level: at each group, its total rows last, then
+//     the groups by M at their own subtotal (the row that rolls up every
+//     later group), then by the group's value; at the last group by M
+//     itself. Each subtotal stays after its group;
+//   - with --order M otherwise, the detail rows first, then the total rows
+//     (the grand total, at most one), each by M (NULLs last in either
+//     direction), then by the group values.
+//
+// --limit N keeps the first N detail rows, in that order, and every total
+// row (language.md: --limit cuts the detail rows).
 func order(q *planner.Query, rows []Row) ([]Row, error) {
 	ob := -1
 	for i, m := range q.Measures {
@@ -219,9 +230,15 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 	if q.OrderBy != nil && ob < 0 {
 		return nil, fmt.Errorf("--order names %s, which the query does not ask for", q.OrderBy.Name)
 	}
+	n := len(q.Groups)
+	hier := ob >= 0 && n > 1 && (q.Totals == planner.TotalsRollup || q.Totals == planner.TotalsAll)
 	var err error
-	less := func(a, b Row) int {
-		if ob >= 0 {
+	var sortVal func(r Row, i int) Value
+	if hier {
+		sortVal = subtotalValues(rows, n, ob)
+	}
+	cmp := func(a, b Row) int {
+		if ob >= 0 && !hier {
 			da, db := slices.Contains(a.RolledUp, true), slices.Contains(b.RolledUp, true)
 			if da != db {
 				return boolCmp(da, db)
@@ -234,13 +251,24 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 			if a.RolledUp[i] != b.RolledUp[i] {
 				return boolCmp(a.RolledUp[i], b.RolledUp[i])
 			}
+			if hier {
+				var x, y Value
+				if i < n-1 {
+					x, y = sortVal(a, i), sortVal(b, i)
+				} else {
+					x, y = a.Measures[ob], b.Measures[ob]
+				}
+				if c := nullsLast(x, y, q.Desc, &err); c != 0 {
+					return c
+				}
+			}
 			if c := nullsLast(a.Groups[i], b.Groups[i], false, &err); c != 0 {
 				return c
 			}
 		}
 		return 0
 	}
-	sort.SliceStable(rows, func(i, j int) bool { return less(rows[i], rows[j]) < 0 })
+	sort.SliceStable(rows, func(i, j int) bool { return cmp(rows[i], rows[j]) < 0 })
 	if err != nil {
 		return nil, err
 	}
@@ -258,6 +286,27 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 		rows = out
 	}
 	return rows, nil
+}
+
+// subtotalValues returns, for a row and a level i (below the last group),
+// the value of measure ob at the row's subtotal of level i: the row with
+// the same values of groups 0..i that rolls up exactly the groups after
+// i. It is NULL for a row that rolls up one of groups 0..i.
+func subtotalValues(rows []Row, n, ob int) func(Row, int) Value {
+	at := map[string]Value{}
+	for _, r := range rows {
+		for i := 0; i < n-1; i++ {
+			if slices.Equal(r.RolledUp[:i+1], make([]bool, i+1)) && !slices.Contains(r.RolledUp[i+1:], false) {
+				at[fmt.Sprint(i)+"|"+tupleKey(r.Groups[:i+1])] = r.Measures[ob]
+			}
+		}
+	}
+	return func(r Row, i int) Value {
+		if slices.Contains(r.RolledUp[:i+1], true) {
+			return nil
+		}
+		return at[fmt.Sprint(i)+"|"+tupleKey(r.Groups[:i+1])]
+	}
 }
 
 func boolCmp(a, b bool) int {
