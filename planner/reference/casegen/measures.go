@@ -100,8 +100,8 @@ func (g *gen) aggregate(f *table) mx {
 	case k <= 8:
 		fn := []string{"min", "max"}[g.pick(2)]
 		if g.chance(30) {
-			c := g.ownColumn(f, func(c *column) bool { return c.typ == "text" || c.typ == "date" })
-			if c.typ == "text" || c.typ == "date" {
+			c := g.ownColumn(f, func(c *column) bool { return c.typ == "text" || c.typ == "date" || c.typ == "timestamp" })
+			if c.typ == "text" || c.typ == "date" || c.typ == "timestamp" {
 				out.kind = c.typ
 				out.text = fn + "(" + c.ref() + ")"
 				return out
@@ -471,11 +471,15 @@ func (g *gen) atom(c *column) string {
 				vals = []string{"'big'", "'small'", "'none'"}
 			case "zone":
 				vals = []string{"'none'", "'North'"}
+			case "region_or":
+				vals = []string{"'?'", "'North'", "'East'"}
 			default:
 				vals = []string{"'k1'", "'k2'", "'zz'"}
 			}
 		case "date":
 			vals = []string{"date '2026-01-01'", "date '2026-02-01'", "date '2026-03-01'"}
+		case "timestamp":
+			vals = []string{"timestamp '2026-01-05 00:00:00'", "timestamp '2026-02-01 00:00:00'"}
 		default:
 			vals = []string{"true"}
 		}
