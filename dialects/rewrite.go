@@ -16,7 +16,8 @@ import (
 // list, one clause a line). keys are the quoted group keys in --by order;
 // sets are the grouping sets as masks of rolled-up keys (planner.Plan.Sets:
 // bit 1<<(n-1-i) is key i, the detail set 0 first); aggs are the rendered
-// aggregate columns ("sum(x) AS y"); from is the (quoted) relation.
+// aggregate columns ("sum(x) AS y"); from is the (quoted) relation. With
+// one set the grouping id is that set's mask (a literal).
 //
 // With GROUPING SETS it is one SELECT with GROUP BY GROUPING SETS and the
 // dialect's grouping id. Without (MySQL/MariaDB have only WITH ROLLUP and
@@ -28,12 +29,12 @@ import (
 func GroupingSetsSQL(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
 	gid := d.Ident(GroupingColumn)
 	if len(keys) == 0 || len(sets) <= 1 {
-		cols := append(append(append([]string{}, keys...), "0 AS "+gid), aggs...)
-		sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from
-		if len(keys) > 0 {
-			sql += "\n  GROUP BY " + strings.Join(keys, ", ")
+		var id uint64
+		if len(sets) == 1 {
+			id = sets[0]
 		}
-		return sql
+		cols := append(append(append([]string{}, keys...), fmt.Sprintf("%d AS %s", id, gid)), aggs...)
+		return selectGrouped(cols, keys, len(aggs) > 0, from)
 	}
 	if d.Caps().GroupingSets {
 		cols := append(append(append([]string{}, keys...), d.GroupingID(keys)+" AS "+gid), aggs...)
@@ -65,13 +66,24 @@ func UnionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []string, f
 		}
 		cols = append(cols, fmt.Sprintf("%d AS %s", mask, gid))
 		cols = append(cols, aggs...)
-		b := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from
-		if kept := keptKeys(keys, mask); len(kept) > 0 {
-			b += "\n  GROUP BY " + strings.Join(kept, ", ")
-		}
-		branches = append(branches, b)
+		branches = append(branches, selectGrouped(cols, keptKeys(keys, mask), len(aggs) > 0, from))
 	}
 	return strings.Join(branches, "\n  UNION ALL\n")
+}
+
+// selectGrouped is SELECT cols FROM from GROUP BY groupBy. Without group
+// keys, the cell is the one row of all of from: an aggregate query gives
+// it (also when from is empty), but a SELECT with no aggregate would give
+// a row per row of from, so it then selects its constants from no table.
+func selectGrouped(cols, groupBy []string, aggregates bool, from string) string {
+	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ")
+	switch {
+	case len(groupBy) > 0:
+		sql += "\n  FROM " + from + "\n  GROUP BY " + strings.Join(groupBy, ", ")
+	case aggregates:
+		sql += "\n  FROM " + from
+	}
+	return sql
 }
 
 // keptKeys lists the keys a grouping set keeps (does not roll up).
@@ -87,10 +99,11 @@ func keptKeys(keys []string, mask uint64) []string {
 }
 
 // FilteredAgg spells an aggregate over the rows where filter (a rendered
-// boolean value, "" for none) holds: agg(x) FILTER (WHERE f) where the
-// engine has the clause, else agg(CASE WHEN f THEN x END), which the
-// aggregates treat alike as they skip NULLs (dialects.md §5); count(*)
-// becomes count(CASE WHEN f THEN 1 END). arg is "" for count(*).
+// predicate, "" for none; a boolean column is made one with d.Truth)
+// holds: agg(x) FILTER (WHERE f) where the engine has the clause, else
+// agg(CASE WHEN f THEN x END), which the aggregates treat alike as they
+// skip NULLs (dialects.md §5); count(*) becomes
+// count(CASE WHEN f THEN 1 END). arg is "" for count(*).
 func FilteredAgg(d Dialect, fn string, distinct bool, arg, filter string) (string, error) {
 	if filter == "" {
 		return d.Agg(fn, distinct, arg)
@@ -100,12 +113,12 @@ func FilteredAgg(d Dialect, fn string, distinct bool, arg, filter string) (strin
 		if err != nil {
 			return "", err
 		}
-		return a + " FILTER (WHERE " + d.Truth(filter) + ")", nil
+		return a + " FILTER (WHERE " + filter + ")", nil
 	}
 	if arg == "" {
 		arg = "1"
 	}
-	return d.Agg(fn, distinct, "CASE WHEN "+d.Truth(filter)+" THEN "+arg+" END")
+	return d.Agg(fn, distinct, "CASE WHEN "+filter+" THEN "+arg+" END")
 }
 
 // OrderKey returns the ORDER BY items that sort by expr, NULLs last:

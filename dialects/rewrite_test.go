@@ -53,6 +53,14 @@ func TestGroupingSetsSQLText(t *testing.T) {
 	if got := GroupingSetsSQL(duck, nil, []uint64{0}, aggs, `"r"`); got != "  SELECT\n    0 AS \"grouping_id\",\n    sum(\"v\") AS \"s\"\n  FROM \"r\"" {
 		t.Errorf("no keys: %q", got)
 	}
+	// A relation computed in one rolled-up set only carries that set's id.
+	if got := GroupingSetsSQL(duck, nil, []uint64{3}, aggs, `"r"`); !strings.Contains(got, "3 AS \"grouping_id\"") {
+		t.Errorf("one rolled-up set: %q", got)
+	}
+	// No keys and no aggregates: one cell, not one row per row of "r".
+	if got := GroupingSetsSQL(duck, nil, []uint64{0}, nil, `"r"`); got != "  SELECT\n    0 AS \"grouping_id\"" {
+		t.Errorf("no keys, no aggregates: %q", got)
+	}
 }
 
 // The UNION ALL form gives exactly the rows of GROUPING SETS: checked by
@@ -84,25 +92,31 @@ func TestUnionGroupingSetsSameRows(t *testing.T) {
 			for _, n := range []int{1, 2, 3} {
 				names := []string{"a", "b", "c"}[:n]
 				sets := planner.GroupingSets(mode, n)
-				q := func(d Dialect, union bool) string {
+				query := func(d Dialect, union, noAggs bool) string {
 					var keys []string
 					for _, k := range names {
 						keys = append(keys, d.Ident(k))
 					}
 					aggs := []string{"sum(" + d.Ident("v") + ") AS " + d.Ident("s"), "count(*) AS " + d.Ident("n")}
+					if noAggs {
+						aggs = nil // the cells alone (a CTE listing the report's rows)
+					}
 					from := "(SELECT * FROM t" + where + ") AS " + d.Ident("r")
 					if union {
 						return UnionGroupingSets(d, keys, sets, aggs, from)
 					}
 					return GroupingSetsSQL(d, keys, sets, aggs, from)
 				}
-				name := fmt.Sprintf("%s/%d keys/%q", mode, n, where)
-				want := rowSet(t, duckDB, q(duck, false))
-				if got := rowSet(t, duckDB, q(duck, true)); got != want {
-					t.Errorf("%s: UNION ALL on DuckDB:\n%s\nGROUPING SETS:\n%s", name, got, want)
-				}
-				if got := rowSet(t, lite, q(sqliteD, false)); got != want {
-					t.Errorf("%s: UNION ALL on SQLite:\n%s\nGROUPING SETS on DuckDB:\n%s", name, got, want)
+				for _, noAggs := range []bool{false, true} {
+					name := fmt.Sprintf("%s/%d keys/%q/no aggregates %v", mode, n, where, noAggs)
+					q := func(d Dialect, union bool) string { return query(d, union, noAggs) }
+					want := rowSet(t, duckDB, q(duck, false))
+					if got := rowSet(t, duckDB, q(duck, true)); got != want {
+						t.Errorf("%s: UNION ALL on DuckDB:\n%s\nGROUPING SETS:\n%s", name, got, want)
+					}
+					if got := rowSet(t, lite, q(sqliteD, false)); got != want {
+						t.Errorf("%s: UNION ALL on SQLite:\n%s\nGROUPING SETS on DuckDB:\n%s", name, got, want)
+					}
 				}
 			}
 		}
@@ -164,8 +178,8 @@ func TestFilteredAgg(t *testing.T) {
 		{"duckdb", "sum", `"x"`, "", `sum("x")`},
 		{"mysql", "sum", "`x`", "`f`", "sum(CASE WHEN `f` THEN `x` END)"},
 		{"mysql", "count", "", "`f`", "count(CASE WHEN `f` THEN 1 END)"},
-		{"sqlserver", "count", "", "[f]", "COUNT_BIG(CASE WHEN ([f] = 1) THEN 1 END)"},
-		{"sqlserver", "avg", "[x]", "[f]", "AVG(CAST(CASE WHEN ([f] = 1) THEN [x] END AS FLOAT))"},
+		{"sqlserver", "count", "", "([f] = 1)", "COUNT_BIG(CASE WHEN ([f] = 1) THEN 1 END)"},
+		{"sqlserver", "avg", "[x]", "[k] IS NOT NULL", "AVG(CAST(CASE WHEN [k] IS NOT NULL THEN [x] END AS FLOAT))"},
 		{"bigquery", "stddev", "`x`", "`f`", "stddev_samp(CAST(CASE WHEN `f` THEN `x` END AS FLOAT64))"},
 	}
 	for _, c := range cases {
