@@ -1,0 +1,186 @@
+// Package livetest gives tests live databases loaded with a model's data:
+// SQLite always (embedded), PostgreSQL and MySQL/MariaDB when
+// ROLLWISE_TEST_POSTGRES and ROLLWISE_TEST_MYSQL hold a server's URL
+// (.ci/databases.sh starts throwaway ones and sets them). Without a
+// server the tests that need it are skipped with a message that says how
+// to run them, except under CI=true, where a missing server fails them:
+// CI must not pass by skipping.
+//
+// The servers are for tests only: each model's data goes into a database
+// of its own (PostgreSQL: a database; MySQL: a default database, plus a
+// database per schema the model's relations name), dropped and created
+// afresh.
+package livetest
+
+import (
+	"context"
+	"fmt"
+	"net/url"
+	"os"
+	"path/filepath"
+	"regexp"
+	"sort"
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// EnvPostgres and EnvMySQL name the environment variables that hold the
+// test servers' URLs.
+const (
+	EnvPostgres = "ROLLWISE_TEST_POSTGRES"
+	EnvMySQL    = "ROLLWISE_TEST_MYSQL"
+)
+
+// Names are the live engines, in the order tests run them.
+var Names = []string{"sqlite", "postgres", "mysql"}
+
+// ServerURL returns the URL of the test server for engine name ("" for
+// SQLite, which needs none), or reports why there is none: a skip, or a
+// failure under CI=true.
+func ServerURL(t testing.TB, name string) string {
+	t.Helper()
+	env := map[string]string{"postgres": EnvPostgres, "mysql": EnvMySQL}[name]
+	if env == "" {
+		return ""
+	}
+	u := os.Getenv(env)
+	if u == "" {
+		msg := fmt.Sprintf("%s is not set: no %s server to test on (start one with `. .ci/databases.sh; start_databases`)", env, name)
+		if os.Getenv("CI") == "true" {
+			t.Fatal(msg + "; under CI=true every engine must run")
+		}
+		t.Skip(msg)
+	}
+	return u
+}
+
+// Engine is a live database holding one model's data.
+type Engine struct {
+	Name string
+	// DSN reaches the database (for run --dsn).
+	DSN  string
+	Live *engine.Live
+}
+
+var unsafeChars = regexp.MustCompile(`[^a-z0-9_]`)
+
+// Open returns engine name loaded with m's data (dataDir as for --data),
+// in databases named after tag (letters, digits and _): two packages that
+// test in parallel must use different tags. The caller closes it.
+func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Engine {
+	t.Helper()
+	server := ServerURL(t, name)
+	ctx := context.Background()
+	tag = unsafeChars.ReplaceAllString(strings.ToLower(tag), "_")
+	var dsn string
+	var err error
+	switch name {
+	case "postgres":
+		dsn, err = freshPostgres(ctx, server, "rollwise_test_"+tag)
+	case "mysql":
+		dsn, err = freshMySQL(ctx, server, "rollwise_test_"+tag, schemas(m))
+	case "sqlite":
+		dsn, err = freshSQLite("rollwise_test_"+tag, schemas(m))
+	default:
+		t.Fatalf("no live engine %q", name)
+	}
+	if err != nil {
+		t.Fatalf("%s: preparing a test database: %v", name, err)
+	}
+	l, err := engine.OpenLive(ctx, dsn)
+	if err != nil {
+		t.Fatalf("%s: %v", name, err)
+	}
+	if err := engine.LoadInto(ctx, l, m, dataDir); err != nil {
+		l.Close()
+		t.Fatalf("%s: %v", name, err)
+	}
+	return &Engine{Name: name, DSN: dsn, Live: l}
+}
+
+// Close closes the connection (the data stays until the next Open).
+func (e *Engine) Close() { e.Live.Close() }
+
+// schemas lists the schemas the model's relations name, sorted.
+func schemas(m *planner.Model) []string {
+	seen := map[string]bool{}
+	for _, t := range m.Tables {
+		if len(t.Relation) == 2 {
+			seen[t.Relation[0]] = true
+		}
+	}
+	var out []string
+	for s := range seen {
+		out = append(out, s)
+	}
+	sort.Strings(out)
+	return out
+}
+
+// freshPostgres drops and creates database db on the server and returns
+// its URL.
+func freshPostgres(ctx context.Context, server, db string) (string, error) {
+	admin, err := engine.OpenLive(ctx, server)
+	if err != nil {
+		return "", err
+	}
+	defer admin.Close()
+	if err := admin.Exec(ctx, `DROP DATABASE IF EXISTS "`+db+`" WITH (FORCE)`); err != nil {
+		return "", err
+	}
+	if err := admin.Exec(ctx, `CREATE DATABASE "`+db+`" ENCODING 'UTF8' TEMPLATE template0`); err != nil {
+		return "", err
+	}
+	u, err := url.Parse(server)
+	if err != nil {
+		return "", err
+	}
+	u.Path = "/" + db
+	return u.String(), nil
+}
+
+// freshMySQL drops and creates database db (the connection's default
+// database) and the model's schemas, and returns the URL of db.
+func freshMySQL(ctx context.Context, server, db string, schemas []string) (string, error) {
+	admin, err := engine.OpenLive(ctx, server)
+	if err != nil {
+		return "", err
+	}
+	defer admin.Close()
+	for _, s := range append([]string{db}, schemas...) {
+		q := "`" + strings.ReplaceAll(s, "`", "``") + "`"
+		if err := admin.Exec(ctx, "DROP DATABASE IF EXISTS "+q); err != nil {
+			return "", err
+		}
+		if err := admin.Exec(ctx, "CREATE DATABASE "+q+" CHARACTER SET utf8mb4"); err != nil {
+			return "", err
+		}
+	}
+	u, err := url.Parse(server)
+	if err != nil {
+		return "", err
+	}
+	u.Path = "/" + db
+	return u.String(), nil
+}
+
+// freshSQLite returns a new SQLite database, with a file attached for each
+// schema, in a folder of the temp dir named after db (emptied first, and
+// kept after the test: the engine may serve later tests of the run).
+func freshSQLite(db string, schemas []string) (string, error) {
+	dir := filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d", db, os.Getuid()))
+	if err := os.RemoveAll(dir); err != nil {
+		return "", err
+	}
+	if err := os.MkdirAll(dir, 0o700); err != nil {
+		return "", err
+	}
+	q := url.Values{"mode": {"rwc"}}
+	for i, s := range schemas {
+		q.Add("attach", fmt.Sprintf("%s=schema%d.db", s, i))
+	}
+	return "sqlite:" + filepath.Join(dir, "main.db") + "?" + q.Encode(), nil
+}
