@@ -64,6 +64,7 @@ func metaKey(r map[string]any, groups []string) string {
 // unfiltered value: sum to sum, count to the sum of counts, min and max
 // to themselves, avg to the sum of the sums over the sum of the counts.
 func TestMetamorphicPartition(t *testing.T) {
+	diffChecks(40)
 	checked := 0
 	rapid.Check(t, func(rt *rapid.T) {
 		p := casegen.PartitionGenerator(casegen.DefaultOptions).Draw(rt, "case")
@@ -192,6 +193,7 @@ func numOrNil(d *decimal.Decimal) any {
 // rolled-up columns removed from --by (and no totals, order or limit):
 // both are the measures evaluated in the same cell.
 func TestMetamorphicTotals(t *testing.T) {
+	diffChecks(40)
 	checked := 0
 	rapid.Check(t, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
