@@ -27,13 +27,13 @@ func TestAggregateRules(t *testing.T) {
 		{"count", false, []Value{nil, nil}, planner.TypeInteger, dec("0")},
 		{"avg", false, nil, planner.TypeFloat, nil},
 		{"sum", false, []Value{dec("2.50"), nil, dec("0.25")}, planner.TypeDecimal, dec("2.75")},
-		{"count", true, []Value{dec("2.50"), dec("2.5"), dec("1")}, planner.TypeInteger, dec("2")}, // 2.50 = 2.5
-		{"median", false, []Value{dec("3"), dec("1"), dec("10"), dec("4")}, planner.TypeFloat, 3.5},  // (3+4)/2
+		{"count", true, []Value{dec("2.50"), dec("2.5"), dec("1")}, planner.TypeInteger, dec("2")},  // 2.50 = 2.5
+		{"median", false, []Value{dec("3"), dec("1"), dec("10"), dec("4")}, planner.TypeFloat, 3.5}, // (3+4)/2
 		{"median", false, []Value{dec("3"), dec("1"), dec("10")}, planner.TypeFloat, 3.0},
-		{"variance", false, []Value{dec("7")}, planner.TypeFloat, nil}, // one value: no sample variance
+		{"variance", false, []Value{dec("7")}, planner.TypeFloat, nil},                                   // one value: no sample variance
 		{"variance", false, []Value{dec("1"), dec("2"), dec("3"), dec("4")}, planner.TypeFloat, 5.0 / 3}, // mean 2.5; 2.25+0.25+0.25+2.25 = 5; 5/3
-		{"stddev", false, []Value{dec("2"), dec("4")}, planner.TypeFloat, math.Sqrt(2)},                // mean 3; 1+1 = 2; 2/1
-		{"min", false, []Value{"b", nil, "B", "a"}, planner.TypeText, "B"},                             // byte order: upper case first
+		{"stddev", false, []Value{dec("2"), dec("4")}, planner.TypeFloat, math.Sqrt(2)},                  // mean 3; 1+1 = 2; 2/1
+		{"min", false, []Value{"b", nil, "B", "a"}, planner.TypeText, "B"},                               // byte order: upper case first
 		{"avg", false, []Value{dec("1"), dec("2")}, planner.TypeFloat, 1.5},
 		{"sum", false, []Value{0.25, 0.5}, planner.TypeFloat, 0.75},
 	}
