@@ -8,6 +8,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 )
@@ -16,7 +17,7 @@ import (
 // plan path: parse, resolve and check (planner.Load), then for each of the
 // first measures a query alone, one grouped by the first columns of the
 // first tables with every total row, a --where filter and an order, and
-// planner.NewPlan on each. Nothing may panic or hang, and every error
+// planner.NewPlan on each (and on each view), rendered as DuckDB SQL. Nothing may panic or hang, and every error
 // must carry a position (file, line and column). Run it with:
 //
 //	go test -run='^$' -fuzz='^FuzzCheckPlan$' -fuzztime=10m ./planner
@@ -88,13 +89,35 @@ func checkPlan(t *testing.T, src string) {
 			if d.HasErrors() || q == nil {
 				continue
 			}
-			_, d = planner.NewPlan(q)
+			p, d := planner.NewPlan(q)
 			positioned(t, d)
+			render(t, p)
 		}
 	}
 	for _, v := range m.Views {
-		_, d := planner.NewPlan(m.ViewQuery(v))
+		p, d := planner.NewPlan(m.ViewQuery(v))
 		positioned(t, d)
+		render(t, p)
+	}
+}
+
+// render prints a plan as DuckDB SQL; a refusal must be an error with a
+// message, never a panic or empty text.
+func render(t *testing.T, p *planner.Plan) {
+	if p == nil {
+		return
+	}
+	d, err := dialects.Get("duckdb")
+	if err != nil {
+		t.Errorf("no duckdb dialect: %v", err)
+		return
+	}
+	sql, err := dialects.Render(p, d)
+	if err == nil && strings.TrimSpace(sql) == "" {
+		t.Errorf("the plan renders as empty SQL")
+	}
+	if err != nil && err.Error() == "" {
+		t.Errorf("a rendering error without a message")
 	}
 }
 
