@@ -29,6 +29,8 @@ type renderer struct {
 	keyRel map[*planner.Context]string
 	// ctx is the context whose expressions are being rendered.
 	ctx *planner.Context
+	// iter is the iteration table of the scan being rendered.
+	iter *planner.Table
 }
 
 func (r *renderer) q(name string) string { return r.d.Ident(name) }
@@ -233,6 +235,8 @@ func (r *renderer) nullsLast() string {
 // cell of its grouping sets).
 func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	s := rel.Scan
+	r.iter = s.Table
+	defer func() { r.iter = nil }()
 	var cols []string
 	for _, k := range s.Keys {
 		e, err := r.expr(&planner.ColRef{Col: k.Col})
@@ -337,6 +341,11 @@ func (r *renderer) grouped(keys []string, sets []uint64, aggs []string, source s
 		cols = append(cols, fmt.Sprintf("%d AS %s", sets[0], r.q(GroupingColumn)))
 	}
 	cols = append(cols, aggs...)
+	if len(keys) == 0 && len(aggs) == 0 {
+		// One cell, whatever the rows: a select with neither keys nor
+		// aggregates would give one row per input row.
+		return "  SELECT\n    " + strings.Join(cols, ",\n    "), nil
+	}
 	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + source
 	switch {
 	case len(keys) == 0:

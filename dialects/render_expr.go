@@ -18,6 +18,12 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			if err != nil {
 				return "", err
 			}
+			t := e.Col.Table
+			if r.iter != nil && t != r.iter && len(t.Key) > 0 {
+				// A row whose link finds no match has NULL for every column
+				// beyond the link, derived ones included.
+				return "CASE WHEN " + r.q(t.Name) + "." + r.q(t.Key[0].Name) + " IS NOT NULL THEN " + x + " END", nil
+			}
 			return "(" + x + ")", nil
 		}
 		return r.q(e.Col.Table.Name) + "." + r.q(e.Col.Name), nil

@@ -55,9 +55,15 @@ func (r *renderer) sorted(body string) string {
 		keys = r.orderBy(true)
 	}
 	where := ""
-	if q.Limit > 0 {
+	if q.Limit > 0 && len(keys) > 0 {
 		next := r.cteName("result_ranked")
-		rank := "ROW_NUMBER() OVER (PARTITION BY " + r.q(GroupingColumn) + " ORDER BY " + strings.Join(keys, ", ") + ") AS " + r.q("detail_rank")
+		// A running count rather than ROW_NUMBER(): DuckDB 1.5's
+		// top_n_window_elimination rewrites "ROW_NUMBER() ... <= N" and
+		// keeps the wrong rows when a sort key has NULLs
+		// (testdata/differential/limit_topn_window). The two are equal
+		// here: the keys make every row of a partition distinct.
+		rank := "count(*) OVER (PARTITION BY " + r.q(GroupingColumn) + " ORDER BY " + strings.Join(keys, ", ") +
+			" ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS " + r.q("detail_rank")
 		r.addCTE(next, "  SELECT\n    "+strings.Join(append(append([]string{}, cols...), rank), ",\n    ")+"\n  FROM "+r.q(prev))
 		cols = append(cols, r.q("detail_rank"))
 		prev = next
@@ -90,8 +96,11 @@ func (r *renderer) sorted(body string) string {
 		where = "\nWHERE " + strings.Join(conds, "\n  OR ")
 	}
 	out := r.resultColumns()
-	return "WITH " + strings.Join(r.ctes, ",\n") + "\nSELECT\n  " + strings.Join(out, ",\n  ") + "\nFROM " + r.q(prev) + where +
-		"\nORDER BY " + strings.Join(keys, ", ")
+	sql := "WITH " + strings.Join(r.ctes, ",\n") + "\nSELECT\n  " + strings.Join(out, ",\n  ") + "\nFROM " + r.q(prev) + where
+	if len(keys) > 0 {
+		sql += "\nORDER BY " + strings.Join(keys, ", ")
+	}
+	return sql
 }
 
 // resultColumns are the report's columns by their plain names.
