@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'visits_n,fees' -b visits.urgent -w 'visits.urgent or visits.minutes > 40' --totals grand -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes' -b 'visits.seen_month,visits.seen_week' --totals rollup -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d mysql
+-- refused: mysql cannot express a median exactly

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes,avg_minutes,per_visit,urgent_share,fees,fee_per_min,sd_score,var_score,notes' -b patients.ward --totals grand -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'fee_share,north_share' -b stores.region --totals all -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,units' -b 'stores.region,sales.item' --order 'revenue desc' --limit 3 --totals rollup -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

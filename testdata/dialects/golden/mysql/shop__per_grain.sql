@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,margin_rate' -b stores.region --totals grand -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,item_share,rose_rev,region_share,store_avg' -b 'stores.region,sales.item' --totals rollup -d mysql
+-- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none

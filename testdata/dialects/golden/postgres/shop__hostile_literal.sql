@@ -1,0 +1,23 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m revenue -b stores.region -w 'stores.region in ('\''O'\'''\''Neil; DROP TABLE x; --'\'', '\''\\'\'', '\''ünï'\'')' -d postgres
+WITH "sales_rows" AS (
+  SELECT
+    "stores"."region" AS "stores.region",
+    ("sales"."price" * "sales"."qty") AS "revenue_arg"
+  FROM "shop"."sales" AS "sales"
+  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
+  WHERE ("stores"."region" IN ('O''Neil; DROP TABLE x; --', E'\\\\', 'ünï'))
+),
+"sales_cells" AS (
+  SELECT
+    "stores.region",
+    0 AS "grouping_id",
+    sum("revenue_arg") AS "revenue"
+  FROM "sales_rows"
+  GROUP BY "stores.region"
+)
+SELECT
+  "stores.region",
+  "revenue",
+  "grouping_id"
+FROM "sales_cells"
+ORDER BY "stores.region" ASC NULLS LAST;

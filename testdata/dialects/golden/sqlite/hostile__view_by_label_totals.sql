@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/hostile.roll --view 'by '\''label'\''' --totals rollup -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

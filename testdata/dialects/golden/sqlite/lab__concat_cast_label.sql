@@ -1,0 +1,20 @@
+-- rollwise sql testdata/dialects/lab.roll -m visits_n -b visits.label -d sqlite
+WITH `visits_rows` AS (
+  SELECT
+    (((upper(`visits`.`note`) || '/') || CAST(`visits`.`minutes` AS TEXT))) AS `visits.label`
+  FROM `lab`.`visits` AS `visits`
+),
+`visits_cells` AS (
+  SELECT
+    `visits.label`,
+    0 AS `grouping_id`,
+    count(*) AS `visits_n`
+  FROM `visits_rows`
+  GROUP BY `visits.label`
+)
+SELECT
+  `visits.label`,
+  `visits_n`,
+  `grouping_id`
+FROM `visits_cells`
+ORDER BY `visits.label` ASC NULLS LAST;

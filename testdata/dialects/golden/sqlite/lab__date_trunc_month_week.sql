@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes' -b 'visits.seen_month,visits.seen_week' --totals rollup -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

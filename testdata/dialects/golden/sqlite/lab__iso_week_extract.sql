@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m visits_n -b 'visits.iso_week,visits.quarter_no' --totals all -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m total_minutes -b visits.seen_month --order 'total_minutes desc' --limit 3 --totals grand -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

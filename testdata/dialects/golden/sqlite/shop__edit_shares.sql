@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,item_share,shown_share,rose_fern' -b 'stores.region,sales.item' --totals rollup -w 'sales.item <> '\''tulip'\''' -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m revenue -b sales.item --order 'revenue desc' --limit 2 --totals grand -d sqlite
+-- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none

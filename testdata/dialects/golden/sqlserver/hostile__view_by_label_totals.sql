@@ -1,0 +1,28 @@
+-- rollwise sql testdata/dialects/hostile.roll --view 'by '\''label'\''' --totals rollup -d sqlserver
+WITH [we"ird'; --_rows] AS (
+  SELECT
+    [gr/*oup*/].[la"bel'] AS [gr/*oup*/.la"bel'],
+    [we"ird'; --].[üñí 名] AS [we"ird'; --.üñí 名],
+    [we"ird'; --].[val\ue] AS [tot'al_arg],
+    [we"ird'; --].[na'me"; DROP] AS [names#_arg]
+  FROM [lab_hostile].[x"y'z`w]]--] AS [we"ird'; --]
+  LEFT JOIN [lab_hostile].[g]]-- #] AS [gr/*oup*/] ON [we"ird'; --].[[grp]]] = [gr/*oup*/].[id]
+),
+[we"ird'; --_cells] AS (
+  SELECT
+    [gr/*oup*/.la"bel'],
+    [we"ird'; --.üñí 名],
+    GROUPING([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名]) AS [grouping_id],
+    SUM([tot'al_arg]) AS [tot'al],
+    COUNT_BIG(DISTINCT [names#_arg]) AS [names#]
+  FROM [we"ird'; --_rows]
+  GROUP BY GROUPING SETS (([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名]), ([gr/*oup*/.la"bel']), ())
+)
+SELECT
+  [gr/*oup*/.la"bel'],
+  [we"ird'; --.üñí 名],
+  [tot'al],
+  [names#],
+  [grouping_id]
+FROM [we"ird'; --_cells]
+ORDER BY ([grouping_id] & 2), [gr/*oup*/.la"bel'] ASC, ([grouping_id] & 1), [we"ird'; --.üñí 名] ASC;

@@ -1,0 +1,2 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d sqlserver
+-- refused: sqlserver cannot express a median exactly
