@@ -3,6 +3,8 @@ package dialects
 import (
 	"fmt"
 	"strings"
+
+	"github.com/rollwise/rollwise/planner"
 )
 
 // The rewrites below replace a construct an engine lacks by one it has,
@@ -151,4 +153,29 @@ func ApplyLimit(d Dialect, stmt string, n int) (string, error) {
 		return "SELECT " + top + rest, nil
 	}
 	return stmt + "\n" + tail, nil
+}
+
+// IsPredicate reports whether e renders as a predicate (a comparison,
+// and/or/not, in, is null, a boolean literal, or a derived column defined
+// as one) rather than as a value. The two are one thing on every engine
+// but SQL Server, which cannot select a predicate or test a value: the
+// renderer puts d.BoolValue around a predicate where a value is due, and
+// d.Truth around a boolean value where a predicate is due.
+func IsPredicate(e planner.Expr) bool {
+	switch e := e.(type) {
+	case *planner.BinOp:
+		switch e.Op {
+		case "and", "or", "=", "<>", "<", "<=", ">", ">=":
+			return true
+		}
+	case *planner.UnOp:
+		return e.Op == "not"
+	case *planner.InExpr, *planner.IsNullExpr:
+		return true
+	case *planner.Lit:
+		return e.T == planner.TypeBoolean
+	case *planner.ColRef:
+		return e.Col.Derived != nil && IsPredicate(e.Col.Derived)
+	}
+	return false
 }

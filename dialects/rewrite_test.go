@@ -235,3 +235,31 @@ func TestApplyLimit(t *testing.T) {
 		t.Errorf("postgres: %q, %v", got, err)
 	}
 }
+
+func TestIsPredicate(t *testing.T) {
+	flag := &planner.Column{Name: "flag", Type: planner.TypeBoolean}
+	n := &planner.Column{Name: "n", Type: planner.TypeInteger}
+	big := &planner.Column{Name: "big", Type: planner.TypeBoolean,
+		Derived: &planner.BinOp{Op: ">", L: &planner.ColRef{Col: n}, R: &planner.Lit{T: planner.TypeInteger, Text: "1"}, T: planner.TypeBoolean}}
+	cases := []struct {
+		e    planner.Expr
+		want bool
+	}{
+		{&planner.ColRef{Col: flag}, false},
+		{&planner.ColRef{Col: big}, true},
+		{&planner.Lit{T: planner.TypeBoolean, Text: "true"}, true},
+		{&planner.Lit{T: planner.TypeInteger, Text: "1"}, false},
+		{&planner.BinOp{Op: "and", L: &planner.ColRef{Col: flag}, R: &planner.ColRef{Col: flag}, T: planner.TypeBoolean}, true},
+		{&planner.BinOp{Op: "+", L: &planner.ColRef{Col: n}, R: &planner.ColRef{Col: n}, T: planner.TypeInteger}, false},
+		{&planner.UnOp{Op: "not", X: &planner.ColRef{Col: flag}}, true},
+		{&planner.UnOp{Op: "-", X: &planner.ColRef{Col: n}}, false},
+		{&planner.IsNullExpr{X: &planner.ColRef{Col: n}}, true},
+		{&planner.InExpr{X: &planner.ColRef{Col: n}}, true},
+		{&planner.CaseExpr{T: planner.TypeBoolean}, false},
+	}
+	for i, c := range cases {
+		if got := IsPredicate(c.e); got != c.want {
+			t.Errorf("case %d (%T): %v, want %v", i, c.e, got, c.want)
+		}
+	}
+}
