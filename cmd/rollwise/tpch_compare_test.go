@@ -51,6 +51,8 @@ func (v cellValue) String() string {
 		return fmt.Sprintf("%q", v.text)
 	case kindExact:
 		return v.num.String()
+	case kindPrinted:
+		return v.text
 	}
 	return fmt.Sprint(v.f)
 }
@@ -115,6 +117,8 @@ func sameCell(got, want cellValue) bool {
 		return got.kind == kindText && got.text == want.text
 	case kindExact:
 		return got.kind == kindExact && got.num.Equal(want.num)
+	case kindPrinted:
+		return samePrinted(got, want)
 	}
 	if got.kind != kindExact && got.kind != kindApprox {
 		return false
