@@ -169,6 +169,9 @@ type gen struct {
 	tables   []*table
 	measures []*measure
 	nameSeq  int
+	// hot are a few columns that edits, per columns, filters and group
+	// columns prefer.
+	hot []*column
 }
 
 // intn draws an integer in [lo, hi]; shrinking moves it to lo.

@@ -348,7 +348,7 @@ func (g *gen) edited(depth int) mx {
 	for n := g.intn(1, 2); len(edits) < n; {
 		switch k := g.intn(0, 9); {
 		case k <= 2 && len(cols) > 0:
-			c := cols[g.pick(len(cols))]
+			c := g.col(cols)
 			// A pin takes literals; the resolver reads -5.00 as an
 			// expression, so negative values are left out.
 			var vals []string
@@ -368,13 +368,13 @@ func (g *gen) edited(depth int) mx {
 				edits = append(edits, "drop "+c.ref())
 			}
 		case k <= 4 && len(cols) > 0:
-			edits = append(edits, "drop "+cols[g.pick(len(cols))].ref())
+			edits = append(edits, "drop "+g.col(cols).ref())
 		case k == 5:
 			edits = append(edits, "drop "+g.tables[g.pick(len(g.tables))].name)
 		case k == 6:
 			edits = append(edits, "drop")
 		case k <= 8 && len(cols) > 0:
-			edits = append(edits, "ungroup "+cols[g.pick(len(cols))].ref())
+			edits = append(edits, "ungroup "+g.col(cols).ref())
 		default:
 			edits = append(edits, "ungroup")
 		}
@@ -418,9 +418,9 @@ func (g *gen) perGrain(depth int) mx {
 	if len(cols) == 0 {
 		return a
 	}
-	per := []string{cols[g.pick(len(cols))].ref()}
+	per := []string{g.col(cols).ref()}
 	if g.chance(30) {
-		if c := cols[g.pick(len(cols))].ref(); c != per[0] {
+		if c := g.col(cols).ref(); c != per[0] {
 			per = append(per, c)
 		}
 	}
@@ -467,12 +467,12 @@ func (g *gen) predicate(ts []*table) string {
 	if len(cols) == 0 {
 		return "1 = 1"
 	}
-	p := g.atom(cols[g.pick(len(cols))])
+	p := g.atom(g.col(cols))
 	switch g.intn(0, 5) {
 	case 0:
 		return "not (" + p + ")"
 	case 1:
-		return "(" + p + " or " + g.atom(cols[g.pick(len(cols))]) + ")"
+		return "(" + p + " or " + g.atom(g.col(cols)) + ")"
 	}
 	return p
 }
@@ -522,4 +522,34 @@ func (g *gen) atom(c *column) string {
 		return c.ref()
 	}
 	return c.ref() + " " + []string{"<", "<=", ">", ">="}[g.pick(4)] + " " + v
+}
+
+// col picks one of cols, half the time among the case's hot columns
+// (when cols holds any), so that edits, per columns, filters and group
+// columns often meet on the same columns.
+func (g *gen) col(cols []*column) *column {
+	if g.hot == nil {
+		for _, t := range g.tables {
+			for _, c := range t.cols {
+				if c.groupable() && !c.key && len(g.hot) < 3 && g.chance(40) {
+					g.hot = append(g.hot, c)
+				}
+			}
+		}
+		if g.hot == nil {
+			g.hot = []*column{}
+		}
+	}
+	if g.chance(50) {
+		var hot []*column
+		for _, c := range cols {
+			if slices.Contains(g.hot, c) {
+				hot = append(hot, c)
+			}
+		}
+		if len(hot) > 0 {
+			return hot[g.pick(len(hot))]
+		}
+	}
+	return cols[g.pick(len(cols))]
 }

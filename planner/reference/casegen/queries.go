@@ -11,8 +11,17 @@ import "slices"
 func (g *gen) drawQuery() (Query, bool) {
 	var q Query
 	var chosen []*measure
+	var advanced []*measure
+	for _, m := range g.measures {
+		if m.advanced {
+			advanced = append(advanced, m)
+		}
+	}
 	for n := g.intn(1, 3); len(chosen) < n; {
 		m := g.measures[g.pick(len(g.measures))]
+		if len(advanced) > 0 && len(chosen) == 0 && g.chance(60) {
+			m = advanced[g.pick(len(advanced))]
+		}
 		if slices.Contains(chosen, m) {
 			if len(chosen) >= len(g.measures) {
 				break
@@ -32,7 +41,7 @@ func (g *gen) drawQuery() (Query, bool) {
 		n = 1
 	}
 	for i := 0; i < n && len(cols) > 0; i++ {
-		c := cols[g.pick(len(cols))]
+		c := g.col(cols)
 		ref := c.ref()
 		if !slices.Contains(q.By, ref) {
 			q.By = append(q.By, ref)
