@@ -1,65 +1,96 @@
 package dialects
 
-import "fmt"
+import (
+	"errors"
+	"fmt"
+	"strings"
+
+	"github.com/rollwise/rollwise/planner"
+)
 
 // approximator is implemented by dialects with an approximate median.
 type approximator interface {
 	approxMedian(arg string) string
 }
 
-// Approximate is a dialect allowed to compute a median approximately
-// where it has no exact one: the user's --approximate. Used reports
-// whether a rendering actually used an approximation, so that the output
-// can say so.
+// callApproximator is implemented by dialects that refuse a scalar
+// function they can only approximate: it returns the approximate spelling
+// and a note that says what is approximate.
+type callApproximator interface {
+	approxCall(name string, args []string, types []planner.Type) (sql, note string, ok bool)
+}
+
+// Approximate is a dialect allowed to answer approximately what it cannot
+// answer exactly (the user's --approximate): a median where the engine
+// has no exact one, a function it computes differently. Approximated
+// tells whether a rendering used an approximation, so that the output can
+// say so.
 type Approximate struct {
 	Dialect
-	used bool
+	median bool
+	notes  []string
 }
 
-// WithApproximate allows d to answer medians approximately. A dialect with
-// an exact median, or with no approximate one, is returned unchanged: it
-// either needs no approximation or still refuses.
+// WithApproximate allows d to answer approximately. A dialect with nothing
+// to approximate is returned unchanged: it either needs no approximation
+// or still refuses.
 func WithApproximate(d Dialect) Dialect {
 	c := d.Caps()
-	if c.ExactMedian || !c.ApproxMedian {
+	_, hasMedian := d.(approximator)
+	median := hasMedian && !c.ExactMedian && c.ApproxMedian
+	_, calls := d.(callApproximator)
+	if !median && !calls {
 		return d
 	}
-	if _, ok := d.(approximator); !ok {
-		return d
-	}
-	return &Approximate{Dialect: d}
+	return &Approximate{Dialect: d, median: median}
 }
 
-// Caps reports an exact median, so that the renderer asks Agg for one.
+// Caps reports an exact median where an approximate one will do, so that
+// the renderer asks Agg for one.
 func (a *Approximate) Caps() Caps {
 	c := a.Dialect.Caps()
-	c.ExactMedian = true
+	c.ExactMedian = c.ExactMedian || a.median
 	return c
 }
 
-// Agg spells the median approximately.
+// Agg spells the median approximately where the engine has no exact one.
 func (a *Approximate) Agg(fn string, distinct bool, arg string) (string, error) {
-	if fn == "median" && !distinct && arg != "" {
-		a.used = true
-		return a.Dialect.(approximator).approxMedian(arg), nil
+	if fn == "median" && a.median && !distinct && arg != "" {
+		ap := a.Dialect.(approximator)
+		a.note(fmt.Sprintf("medians are approximate: %s has no exact median aggregate, and --approximate uses %s",
+			a.Dialect.Name(), ap.approxMedian("x")))
+		return ap.approxMedian(arg), nil
 	}
 	return a.Dialect.Agg(fn, distinct, arg)
 }
 
-// Used reports whether an approximate median was rendered.
-func (a *Approximate) Used() bool { return a.used }
+// Call spells a function the engine refuses approximately, if it can.
+func (a *Approximate) Call(name string, args []string, types []planner.Type) (string, error) {
+	s, err := a.Dialect.Call(name, args, types)
+	var ue *UnsupportedError
+	if ap, ok := a.Dialect.(callApproximator); ok && errors.As(err, &ue) {
+		if sql, note, ok := ap.approxCall(name, args, types); ok {
+			a.note(note)
+			return sql, nil
+		}
+	}
+	return s, err
+}
 
-// Note says what was approximated, for the output.
-func (a *Approximate) Note() string {
-	return fmt.Sprintf("medians are approximate: %s has no exact median aggregate, and --approximate uses %s",
-		a.Dialect.Name(), a.Dialect.(approximator).approxMedian("x"))
+func (a *Approximate) note(n string) {
+	for _, m := range a.notes {
+		if m == n {
+			return
+		}
+	}
+	a.notes = append(a.notes, n)
 }
 
 // Approximated reports whether d rendered an approximation, and the note
-// that says so.
+// that says what is approximate.
 func Approximated(d Dialect) (string, bool) {
-	if a, ok := d.(*Approximate); ok && a.Used() {
-		return a.Note(), true
+	if a, ok := d.(*Approximate); ok && len(a.notes) > 0 {
+		return strings.Join(a.notes, "; "), true
 	}
 	return "", false
 }

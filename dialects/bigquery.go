@@ -143,12 +143,12 @@ func (bigquery) Extract(unit, arg string) string {
 // Call: GREATEST and LEAST return NULL when an argument is NULL
 // (zetasql mathematical_functions.md), so NULLs are stepped over as
 // DuckDB does.
-func (bigquery) Call(name string, args []string, _ []planner.Type) string {
+func (bigquery) Call(name string, args []string, _ []planner.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
-		return nullIgnoring(strings.ToUpper(name), args)
+		return nullIgnoring(strings.ToUpper(name), args), nil
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
 }
 
 // GroupingID: GROUPING takes one argument (§4), so the mask is summed

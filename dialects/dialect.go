@@ -88,8 +88,9 @@ type Dialect interface {
 	Concat(a, b string) string
 	// Call spells a scalar function of the language (coalesce, nullif,
 	// abs, round, least, greatest, lower, upper) with DuckDB's meaning;
-	// types are the arguments' types.
-	Call(name string, args []string, types []planner.Type) string
+	// types are the arguments' types. It refuses, with an
+	// *UnsupportedError, a function the engine cannot compute exactly.
+	Call(name string, args []string, types []planner.Type) (string, error)
 	// GroupingID spells the grouping id of quoted group keys: a bit mask
 	// of the rolled-up keys, the last key the lowest bit.
 	GroupingID(keys []string) string
@@ -181,8 +182,8 @@ func (ansi) Truth(value string) string       { return value }
 
 // Call spells the scalar functions as DuckDB names them; dialects whose
 // functions differ in name or in meaning override it.
-func (ansi) Call(name string, args []string, _ []planner.Type) string {
-	return plainCall(name, args)
+func (ansi) Call(name string, args []string, _ []planner.Type) (string, error) {
+	return plainCall(name, args), nil
 }
 
 func plainCall(name string, args []string) string {

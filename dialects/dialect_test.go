@@ -116,6 +116,14 @@ func aggOrError(d Dialect, fn string) string {
 	return s
 }
 
+func callOrError(d Dialect, name string, args []string, types []planner.Type) string {
+	s, err := d.Call(name, args, types)
+	if err != nil {
+		return "error: " + err.Error()
+	}
+	return s
+}
+
 func TestSpellings(t *testing.T) {
 	if len(spellings) != len(Names()) {
 		t.Fatalf("spellings cover %d dialects; the registry has %v", len(spellings), Names())
@@ -135,8 +143,8 @@ func TestSpellings(t *testing.T) {
 			truncMonth: d.DateTrunc("month", "d", planner.TypeDate), truncWeekTS: d.DateTrunc("week", "d", planner.TypeTimestamp),
 			extractWeek: d.Extract("week", "d"), bitAnd: d.BitAnd("g", "1"), nullSafe: d.NullSafeEqual("a", "b"),
 			concat: d.Concat("a", "b"), grouping2: d.GroupingID([]string{d.Ident("a"), d.Ident("b")}),
-			greatest2:    d.Call("greatest", []string{"a", "b"}, []planner.Type{planner.TypeInteger, planner.TypeInteger}),
-			roundFloat:   d.Call("round", []string{"x"}, []planner.Type{planner.TypeFloat}),
+			greatest2:    callOrError(d, "greatest", []string{"a", "b"}, []planner.Type{planner.TypeInteger, planner.TypeInteger}),
+			roundFloat:   callOrError(d, "round", []string{"x"}, []planner.Type{planner.TypeFloat}),
 			castFloatInt: d.Cast("x", planner.TypeFloat, planner.TypeInteger),
 			count:        aggOrError(d, "count"), limit: top + "|" + tail,
 		}
@@ -215,11 +223,25 @@ func TestApproximate(t *testing.T) {
 			t.Errorf("%s: --approximate changed sum: %s", name, s)
 		}
 	}
-	for _, name := range []string{"duckdb", "postgres", "snowflake", "spark", "mysql", "sqlite"} {
+	for _, name := range []string{"duckdb", "postgres", "snowflake", "spark", "mysql"} {
 		base, _ := Get(name)
 		if d := WithApproximate(base); d != base {
 			t.Errorf("%s: --approximate should change nothing (exact median, or none to approximate)", name)
 		}
+	}
+	// SQLite: no median even approximately; upper and lower for ASCII only.
+	lite := WithApproximate(mustGet(t, "sqlite"))
+	if _, err := lite.Agg("median", false, "x"); err == nil {
+		t.Error("sqlite has no median, not even an approximate one")
+	}
+	if _, err := mustGet(t, "sqlite").Call("upper", []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), "ASCII") {
+		t.Errorf("sqlite upper without --approximate: %v", err)
+	}
+	if s, err := lite.Call("upper", []string{"x"}, nil); err != nil || s != "upper(x)" {
+		t.Errorf("sqlite upper with --approximate: %q, %v", s, err)
+	}
+	if note, used := Approximated(lite); !used || !strings.Contains(note, "ASCII") {
+		t.Errorf("sqlite note %q", note)
 	}
 }
 

@@ -157,19 +157,19 @@ func (mysql) Concat(a, b string) string { return "CONCAT(" + a + ", " + b + ")" 
 // even (checked: ROUND(2.5e0) = 2) while DECIMAL rounds half away from
 // zero, as DuckDB, so a double is rounded as a DECIMAL(65, 30) where it
 // fits (a double of 1e30 or more has no fraction to round).
-func (mysql) Call(name string, args []string, types []planner.Type) string {
+func (mysql) Call(name string, args []string, types []planner.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
-		return nullIgnoring(strings.ToUpper(name), args)
+		return nullIgnoring(strings.ToUpper(name), args), nil
 	case "round":
 		if len(types) > 0 && types[0] == planner.TypeFloat {
 			x := args[0]
 			a := append([]string{"CAST(" + x + " AS DECIMAL(65, 30))"}, args[1:]...)
 			return "CASE WHEN ABS(" + x + ") < 1e30 THEN CAST(ROUND(" + strings.Join(a, ", ") +
-				") AS DOUBLE) ELSE " + plainCall("ROUND", args) + " END"
+				") AS DOUBLE) ELSE " + plainCall("ROUND", args) + " END", nil
 		}
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
 }
 
 // GroupingID is never used: without GROUPING SETS the totals are a UNION

@@ -104,10 +104,10 @@ func (postgres) Extract(unit, arg string) string {
 // form, while DuckDB rounds half away from zero; numeric's round does, so
 // a float is rounded as numeric. greatest and least ignore NULLs as in
 // DuckDB (functions-conditional).
-func (postgres) Call(name string, args []string, types []planner.Type) string {
+func (postgres) Call(name string, args []string, types []planner.Type) (string, error) {
 	if name == "round" && len(types) > 0 && types[0] == planner.TypeFloat {
 		a := append([]string{"CAST(" + args[0] + " AS NUMERIC)"}, args[1:]...)
-		return "CAST(round(" + strings.Join(a, ", ") + ") AS DOUBLE PRECISION)"
+		return "CAST(round(" + strings.Join(a, ", ") + ") AS DOUBLE PRECISION)", nil
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
 }

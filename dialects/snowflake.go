@@ -116,13 +116,13 @@ func (snowflake) BitAnd(a, b string) string { return "BITAND(" + a + ", " + b + 
 // Call: GREATEST and LEAST return NULL when an argument is NULL;
 // GREATEST_IGNORE_NULLS and LEAST_IGNORE_NULLS ignore them as DuckDB does
 // (docs.snowflake.com greatest_ignore_nulls, bundle 2024_03).
-func (snowflake) Call(name string, args []string, _ []planner.Type) string {
+func (snowflake) Call(name string, args []string, _ []planner.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
 		if len(args) == 1 {
-			return args[0]
+			return args[0], nil
 		}
-		return strings.ToUpper(name) + "_IGNORE_NULLS(" + strings.Join(args, ", ") + ")"
+		return strings.ToUpper(name) + "_IGNORE_NULLS(" + strings.Join(args, ", ") + ")", nil
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
 }

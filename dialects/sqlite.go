@@ -128,13 +128,26 @@ func (sqlite) NullSafeEqual(a, b string) string { return a + " IS " + b }
 
 // Call: SQLite spells greatest and least as the scalar max and min, which
 // return NULL when any argument is NULL (lang_corefunc.html), so NULLs
-// are stepped over as DuckDB does.
-func (sqlite) Call(name string, args []string, _ []planner.Type) string {
+// are stepped over as DuckDB does. Its upper and lower change the case of
+// ASCII letters only (lang_corefunc.html#upper; checked: upper('ünï') is
+// 'üNï'), so they are refused, unless --approximate.
+func (d sqlite) Call(name string, args []string, _ []planner.Type) (string, error) {
 	switch name {
+	case "upper", "lower":
+		return "", &UnsupportedError{Dialect: d.Name(), Construct: name + "() of non-ASCII letters",
+			Hint: "SQLite changes the case of ASCII letters only; pass --approximate to accept that"}
 	case "greatest":
-		return nullIgnoring("max", args)
+		return nullIgnoring("max", args), nil
 	case "least":
-		return nullIgnoring("min", args)
+		return nullIgnoring("min", args), nil
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
+}
+
+// approxCall: upper and lower for ASCII letters only.
+func (sqlite) approxCall(name string, args []string, _ []planner.Type) (string, string, bool) {
+	if name == "upper" || name == "lower" {
+		return plainCall(name, args), "SQLite's upper and lower change the case of ASCII letters only", true
+	}
+	return "", "", false
 }

@@ -145,11 +145,11 @@ func (sqlserver) Concat(a, b string) string {
 
 // Call: ROUND needs its length argument; GREATEST and LEAST (2022+)
 // ignore NULLs as DuckDB does.
-func (sqlserver) Call(name string, args []string, _ []planner.Type) string {
+func (sqlserver) Call(name string, args []string, _ []planner.Type) (string, error) {
 	if name == "round" && len(args) == 1 {
 		args = append(args, "0")
 	}
-	return plainCall(strings.ToUpper(name), args)
+	return plainCall(strings.ToUpper(name), args), nil
 }
 
 // GroupingID: GROUPING takes one column in T-SQL; GROUPING_ID takes several

@@ -81,12 +81,12 @@ func (trino) BitAnd(a, b string) string { return "bitwise_and(" + a + ", " + b +
 
 // Call: greatest and least return NULL when an argument is NULL in Trino
 // (functions/comparison.html), so NULLs are stepped over as DuckDB does.
-func (trino) Call(name string, args []string, _ []planner.Type) string {
+func (trino) Call(name string, args []string, _ []planner.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
-		return nullIgnoring(name, args)
+		return nullIgnoring(name, args), nil
 	}
-	return plainCall(name, args)
+	return plainCall(name, args), nil
 }
 
 // GroupingID: grouping(a, b, ...) returns the bit mask (§4).
