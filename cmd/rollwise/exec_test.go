@@ -48,6 +48,7 @@ func runJSON(t *testing.T, args ...string) []map[string]any {
 	if err := dec.Decode(&rows); err != nil {
 		t.Fatalf("bad JSON: %v\n%s", err, out.String())
 	}
+	crossCheck(t, args, rows) // the same run on the live engines (live_test.go)
 	return rows
 }
 

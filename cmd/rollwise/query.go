@@ -22,6 +22,9 @@ type queryOptions struct {
 	limit    int
 	view     string
 	dialect  string
+	// approximate allows a dialect to answer approximately what it
+	// cannot answer exactly; the output then says so.
+	approximate bool
 }
 
 func (o *queryOptions) addFlags(cmd *cobra.Command) {
@@ -34,6 +37,7 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f.IntVar(&o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
 	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
+	f.BoolVar(&o.approximate, "approximate", false, "where the dialect cannot compute a construct exactly (a median on Trino...), compute it approximately and say so")
 }
 
 // compiled is a planned and rendered query.
@@ -49,6 +53,9 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 	d, err := dialects.Get(o.dialect)
 	if err != nil {
 		return nil, &exitError{code: exitUsage, err: err}
+	}
+	if o.approximate {
+		d = dialects.WithApproximate(d)
 	}
 	if o.limit < 0 {
 		return nil, usageErr("--limit must be a positive number, not %d", o.limit)
@@ -97,6 +104,9 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			sql, err := dialects.Render(p, d)
 			if err != nil {
 				return nil, &exitError{code: exitFindings, err: err}
+			}
+			if note, ok := dialects.Approximated(d); ok {
+				p.Cautions = append(p.Cautions, note)
 			}
 			return &compiled{model: m, query: q, plan: p, sql: sql}, nil
 		}

@@ -15,6 +15,9 @@ type runOptions struct {
 	queryOptions
 	data   string
 	format string
+	// dsn names a live database to run on; dialectSet says -d was given.
+	dsn        string
+	dialectSet bool
 }
 
 func newRunCmd(e *env) *cobra.Command {
@@ -32,12 +35,14 @@ read from its 'from' file (or from --data DIR/NAME.csv or NAME.parquet).`,
 				return err
 			}
 			o.models = args
+			o.dialectSet = cmd.Flags().Changed("dialect")
 			return runRun(e, o)
 		},
 	}
 	o.addFlags(cmd)
 	cmd.Flags().StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	cmd.Flags().StringVar(&o.format, "format", "table", "output: table, csv, json or markdown")
+	cmd.Flags().StringVar(&o.dsn, "dsn", "", "run on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	return cmd
 }
 
@@ -45,14 +50,25 @@ func runRun(e *env, o *runOptions) error {
 	if err := report.ValidFormat(o.format); err != nil {
 		return &exitError{code: exitUsage, err: err}
 	}
-	if o.dialect != "duckdb" {
+	if o.dsn != "" {
+		d, err := liveDialect(o.dsn, o.dialect, o.dialectSet, o.data)
+		if err != nil {
+			return err
+		}
+		o.dialect = d
+	} else if o.dialect != "duckdb" {
 		return usageErr("run executes on the embedded DuckDB; -d %s is for 'sql' until live databases are supported", o.dialect)
 	}
 	c, err := compile(e, &o.queryOptions)
 	if err != nil {
 		return err
 	}
-	t, err := execute(context.Background(), c, o.data)
+	var t *report.Table
+	if o.dsn != "" {
+		t, err = executeLive(context.Background(), c, o.dsn)
+	} else {
+		t, err = execute(context.Background(), c, o.data)
+	}
 	if err != nil {
 		return err
 	}

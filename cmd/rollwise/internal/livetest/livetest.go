@@ -131,8 +131,12 @@ func freshPostgres(ctx context.Context, server, db string) (string, error) {
 	if err := admin.Exec(ctx, `DROP DATABASE IF EXISTS "`+db+`" WITH (FORCE)`); err != nil {
 		return "", err
 	}
-	if err := admin.Exec(ctx, `CREATE DATABASE "`+db+`" ENCODING 'UTF8' TEMPLATE template0`); err != nil {
-		return "", err
+	// Byte order for text, as DuckDB sorts, where the server has the
+	// C.UTF-8 locale; its default otherwise.
+	if err := admin.Exec(ctx, `CREATE DATABASE "`+db+`" ENCODING 'UTF8' TEMPLATE template0 LOCALE 'C.UTF-8'`); err != nil {
+		if err := admin.Exec(ctx, `CREATE DATABASE "`+db+`" ENCODING 'UTF8' TEMPLATE template0`); err != nil {
+			return "", err
+		}
 	}
 	u, err := url.Parse(server)
 	if err != nil {

@@ -1,0 +1,63 @@
+package main
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// liveDialect settles the dialect of run --dsn: the one the URL implies,
+// unless -d named one.
+func liveDialect(dsn, dialect string, dialectSet bool, dataDir string) (string, error) {
+	if dataDir != "" {
+		return "", usageErr("--data is for the embedded DuckDB; with --dsn the tables are read from the database")
+	}
+	d, err := engine.DialectOfDSN(dsn)
+	if err != nil {
+		return "", &exitError{code: exitUsage, err: err}
+	}
+	if dialectSet {
+		return dialect, nil
+	}
+	return d, nil
+}
+
+// executeLive runs a compiled query on the database at dsn and shapes
+// the rows for the report exactly as for the embedded engine.
+func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, error) {
+	l, err := engine.OpenLive(ctx, dsn)
+	if err != nil {
+		return nil, &exitError{code: exitFindings, err: err}
+	}
+	defer l.Close()
+	res, err := l.Query(ctx, c.sql, resultTypes(c))
+	if err != nil {
+		return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s rejected the query: %w", l.Server, err)}
+	}
+	if l.Dialect == "sqlite" {
+		for _, o := range c.plan.Outputs {
+			if o.Expr.Type() == planner.TypeDecimal {
+				c.plan.Cautions = append(c.plan.Cautions,
+					"SQLite has no exact decimal type: decimal values were computed as 64-bit floats")
+				break
+			}
+		}
+	}
+	return shape(c, res)
+}
+
+// resultTypes are the logical types of the statement's columns: the
+// groups, the measures, then the grouping id.
+func resultTypes(c *compiled) []planner.Type {
+	var out []planner.Type
+	for _, g := range c.query.Groups {
+		out = append(out, g.Type)
+	}
+	for _, o := range c.plan.Outputs {
+		out = append(out, o.Expr.Type())
+	}
+	return append(out, planner.TypeInteger)
+}
