@@ -90,7 +90,7 @@ func (d sqlserver) Agg(fn string, distinct bool, arg string) (string, error) {
 	case fn == "count":
 		return "COUNT_BIG(" + arg + ")", nil
 	case fn == "median":
-		return "", &UnsupportedError{Dialect: d.Name(), Construct: "an exact median",
+		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
 			Hint: "PERCENTILE_CONT is a window function only in SQL Server; pass --approximate for APPROX_PERCENTILE_CONT"}
 	case fn == "stddev":
 		return "STDEV(CAST(" + arg + " AS FLOAT))", nil

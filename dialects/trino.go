@@ -51,7 +51,7 @@ func (d trino) Agg(fn string, distinct bool, arg string) (string, error) {
 	case distinct:
 		return fn + "(DISTINCT " + arg + ")", nil
 	case fn == "median":
-		return "", &UnsupportedError{Dialect: d.Name(), Construct: "an exact median",
+		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
 			Hint: "Trino has only approx_percentile; pass --approximate to use it"}
 	case isStat(fn):
 		return statName(fn) + "(CAST(" + arg + " AS DOUBLE))", nil
