@@ -37,9 +37,6 @@ type Case struct {
 	// Advanced names the measures that use cell edits or per-grain
 	// aggregates.
 	Advanced map[string]bool
-	// DerivedBeyondLink is set when a table that a link points at has a
-	// derived column (whose value on an unmatched link is in question).
-	DerivedBeyondLink bool
 }
 
 // Query is one query, as the command line gives it.
@@ -201,7 +198,6 @@ func (g *gen) drawCase() *Case {
 			c.Advanced[m.name] = true
 		}
 	}
-	c.DerivedBeyondLink = g.derivedBeyondLink()
 	n := g.o.Queries
 	if n < 1 {
 		n = 1
@@ -212,19 +208,4 @@ func (g *gen) drawCase() *Case {
 		}
 	}
 	return c
-}
-
-// derivedBeyondLink reports whether a table that a link points at has a
-// derived column.
-func (g *gen) derivedBeyondLink() bool {
-	for _, t := range g.tables {
-		for _, l := range t.links {
-			for _, c := range l.to.cols {
-				if c.derived != "" {
-					return true
-				}
-			}
-		}
-	}
-	return false
 }

@@ -56,8 +56,7 @@ func PartitionGenerator(o Options) *rapid.Generator[*Partition] {
 			p.By = append(p.By, ref)
 		}
 		p.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
-		p.Case = &Case{Model: g.modelText(), Data: map[string]string{}, Advanced: map[string]bool{},
-			DerivedBeyondLink: g.derivedBeyondLink()}
+		p.Case = &Case{Model: g.modelText(), Data: map[string]string{}, Advanced: map[string]bool{}}
 		for _, t := range g.tables {
 			p.Case.Data[t.name] = t.csv()
 		}
