@@ -73,7 +73,7 @@ func (r *renderer) render() (string, error) {
 		cols = append(cols, r.keyCol(root, k.Name))
 	}
 	for _, o := range r.p.Outputs {
-		e, err := r.expr(o.Expr)
+		e, err := r.value(o.Expr)
 		if err != nil {
 			return "", err
 		}
@@ -207,27 +207,16 @@ func (r *renderer) orderBy(plain bool) []string {
 		if len(r.p.Sets) > 1 {
 			out = append(out, "CASE WHEN "+gid+" = 0 THEN 0 ELSE 1 END")
 		}
-		dir := "ASC"
-		if q.Desc {
-			dir = "DESC"
-		}
-		out = append(out, r.q(r.p.OrderBy.Name)+" "+dir+r.nullsLast())
+		out = append(out, OrderKey(r.d, r.q(r.p.OrderBy.Name), q.Desc)...)
 	}
 	n := len(q.Groups)
 	for i, g := range q.GroupNames {
 		if len(r.p.Sets) > 1 {
 			out = append(out, r.d.BitAnd(gid, fmt.Sprint(uint64(1)<<(n-1-i))))
 		}
-		out = append(out, col(g)+" ASC"+r.nullsLast())
+		out = append(out, OrderKey(r.d, col(g), false)...)
 	}
 	return out
-}
-
-func (r *renderer) nullsLast() string {
-	if r.d.Caps().NullsLast {
-		return " NULLS LAST"
-	}
-	return ""
 }
 
 // scan renders a scan's rows CTE (group values and aggregate inputs of
@@ -239,14 +228,14 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	defer func() { r.iter = nil }()
 	var cols []string
 	for _, k := range s.Keys {
-		e, err := r.expr(&planner.ColRef{Col: k.Col})
+		e, err := r.value(&planner.ColRef{Col: k.Col})
 		if err != nil {
 			return err
 		}
 		cols = append(cols, e+" AS "+r.q(k.Name))
 	}
 	for _, in := range s.Inputs {
-		e, err := r.expr(in.Expr)
+		e, err := r.value(in.Expr)
 		if err != nil {
 			return err
 		}
@@ -266,7 +255,7 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	if len(s.Where) > 0 {
 		var conds []string
 		for _, w := range s.Where {
-			e, err := r.expr(w)
+			e, err := r.pred(w)
 			if err != nil {
 				return err
 			}
@@ -283,12 +272,9 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		if l.Arg != nil {
 			arg = r.q(l.Arg.Name)
 		}
-		if l.Func == "median" && !r.d.Caps().ExactMedian {
-			return &UnsupportedError{Dialect: r.d.Name(), Construct: "a median"}
-		}
 		filter := ""
 		if l.Filter != nil {
-			filter = r.q(l.Filter.Name)
+			filter = r.d.Truth(r.q(l.Filter.Name))
 		}
 		a, err := r.agg(l.Func, l.Distinct, arg, filter)
 		if err != nil {
@@ -309,63 +295,17 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	return nil
 }
 
-// agg spells an aggregate with an optional filter condition, as a FILTER
+// agg spells an aggregate with an optional filter predicate, as a FILTER
 // clause or, where the dialect has none, a CASE inside the aggregate.
 func (r *renderer) agg(fn string, distinct bool, arg, filter string) (string, error) {
-	if filter != "" && !r.d.Caps().FilterClause {
-		if arg == "" {
-			arg = "1"
-		}
-		arg = "CASE WHEN " + filter + " THEN " + arg + " END"
-	}
-	a, err := r.d.Agg(fn, distinct, arg)
-	if err != nil {
-		return "", err
-	}
-	if filter != "" && r.d.Caps().FilterClause {
-		a += " FILTER (WHERE " + filter + ")"
-	}
-	return a, nil
+	return FilteredAgg(r.d, fn, distinct, arg, filter)
 }
 
 // grouped is SELECT keys, grouping id, aggregates FROM source, grouped
-// over the sets (masks over keys).
+// over the sets (masks over keys): GROUPING SETS, or a UNION ALL of one
+// GROUP BY per set where the dialect has none.
 func (r *renderer) grouped(keys []string, sets []uint64, aggs []string, source string) (string, error) {
-	cols := append([]string{}, keys...)
-	if len(sets) > 1 {
-		if !r.d.Caps().GroupingSets {
-			return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "grouping sets (total rows)", Hint: "ask for --totals none"}
-		}
-		cols = append(cols, "GROUPING("+strings.Join(keys, ", ")+") AS "+r.q(GroupingColumn))
-	} else {
-		cols = append(cols, fmt.Sprintf("%d AS %s", sets[0], r.q(GroupingColumn)))
-	}
-	cols = append(cols, aggs...)
-	if len(keys) == 0 && len(aggs) == 0 {
-		// One cell, whatever the rows: a select with neither keys nor
-		// aggregates would give one row per input row.
-		return "  SELECT\n    " + strings.Join(cols, ",\n    "), nil
-	}
-	sql := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + source
-	switch {
-	case len(keys) == 0:
-	case len(sets) == 1:
-		sql += "\n  GROUP BY " + strings.Join(keys, ", ")
-	default:
-		var parts []string
-		n := len(keys)
-		for _, mask := range sets {
-			var in []string
-			for i, k := range keys {
-				if mask&(1<<(n-1-i)) == 0 {
-					in = append(in, k)
-				}
-			}
-			parts = append(parts, "("+strings.Join(in, ", ")+")")
-		}
-		sql += "\n  GROUP BY GROUPING SETS (" + strings.Join(parts, ", ") + ")"
-	}
-	return sql, nil
+	return GroupingSetsSQL(r.d, keys, sets, aggs, source), nil
 }
 
 // per renders a per-grain relation: its sub-context's CTEs, a CTE with
@@ -385,7 +325,7 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	}
 	cols = append(cols, r.keyCol(sub, GroupingColumn))
 	for _, v := range sub.Values {
-		e, err := r.expr(v.Expr)
+		e, err := r.value(v.Expr)
 		if err != nil {
 			return err
 		}
@@ -403,7 +343,7 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	for _, l := range rel.Per.Leaves {
 		var cond []string
 		if l.Having != nil {
-			cond = append(cond, r.q(l.Having.Name))
+			cond = append(cond, r.d.Truth(r.q(l.Having.Name)))
 		} else {
 			for _, pk := range l.PerKeys {
 				cond = append(cond, r.q(pk.Name)+" IS NOT NULL")

@@ -30,20 +30,31 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 	case *planner.Lit:
 		return r.lit(e), nil
 	case *planner.BinOp:
-		l, err := r.expr(e.L)
+		side := r.value
+		if e.Op == "and" || e.Op == "or" {
+			side = r.pred
+		}
+		l, err := side(e.L)
 		if err != nil {
 			return "", err
 		}
-		rt, err := r.expr(e.R)
+		rt, err := side(e.R)
 		if err != nil {
 			return "", err
 		}
-		if e.Op == "/" {
+		switch e.Op {
+		case "/":
 			return "(" + r.d.Divide(l, rt) + ")", nil
+		case "||":
+			return r.d.Concat(l, rt), nil
 		}
 		return "(" + l + " " + strings.ToUpper(e.Op) + " " + rt + ")", nil
 	case *planner.UnOp:
-		x, err := r.expr(e.X)
+		render := r.expr
+		if e.Op == "not" {
+			render = r.pred
+		}
+		x, err := render(e.X)
 		if err != nil {
 			return "", err
 		}
@@ -56,18 +67,18 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 	case *planner.CaseExpr:
 		s := "CASE"
 		for _, w := range e.Whens {
-			c, err := r.expr(w.Cond)
+			c, err := r.pred(w.Cond)
 			if err != nil {
 				return "", err
 			}
-			t, err := r.expr(w.Then)
+			t, err := r.value(w.Then)
 			if err != nil {
 				return "", err
 			}
 			s += " WHEN " + c + " THEN " + t
 		}
 		if e.Else != nil {
-			x, err := r.expr(e.Else)
+			x, err := r.value(e.Else)
 			if err != nil {
 				return "", err
 			}
@@ -75,7 +86,7 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 		}
 		return s + " END", nil
 	case *planner.InExpr:
-		x, err := r.expr(e.X)
+		x, err := r.value(e.X)
 		if err != nil {
 			return "", err
 		}
@@ -89,7 +100,7 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 		}
 		return "(" + x + " " + not + "IN (" + list + "))", nil
 	case *planner.IsNullExpr:
-		x, err := r.expr(e.X)
+		x, err := r.value(e.X)
 		if err != nil {
 			return "", err
 		}
@@ -114,10 +125,28 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 	return "", fmt.Errorf("internal error: cannot render %T", e)
 }
 
+// pred renders e where a predicate is due, value where a value is due;
+// they differ only where the dialect has no boolean values (SQL Server).
+func (r *renderer) pred(e planner.Expr) (string, error) {
+	s, err := r.expr(e)
+	if err != nil || IsPredicate(e) {
+		return s, err
+	}
+	return r.d.Truth(s), nil
+}
+
+func (r *renderer) value(e planner.Expr) (string, error) {
+	s, err := r.expr(e)
+	if err != nil || !IsPredicate(e) {
+		return s, err
+	}
+	return r.d.BoolValue(s), nil
+}
+
 func (r *renderer) list(es []planner.Expr) (string, error) {
 	var parts []string
 	for _, a := range es {
-		x, err := r.expr(a)
+		x, err := r.value(a)
 		if err != nil {
 			return "", err
 		}
@@ -135,7 +164,7 @@ func (r *renderer) lit(e *planner.Lit) string {
 	case planner.TypeTimestamp:
 		return r.d.Timestamp(e.Text)
 	case planner.TypeBoolean:
-		return strings.ToUpper(e.Text)
+		return r.d.Bool(strings.EqualFold(e.Text, "true"))
 	case planner.TypeNull:
 		return "NULL"
 	}
@@ -143,17 +172,23 @@ func (r *renderer) lit(e *planner.Lit) string {
 }
 
 func (r *renderer) fn(e *planner.Func) (string, error) {
-	args, err := r.list(e.Args)
-	if err != nil {
-		return "", err
+	var args []string
+	var types []planner.Type
+	for _, a := range e.Args {
+		x, err := r.value(a)
+		if err != nil {
+			return "", err
+		}
+		args = append(args, x)
+		types = append(types, a.Type())
 	}
 	switch e.Name {
 	case "cast":
-		return "CAST(" + args + " AS " + r.d.TypeName(e.CastTo) + ")", nil
+		return r.d.Cast(args[0], types[0], e.CastTo), nil
 	case "extract":
-		return r.d.Extract(e.Unit, args), nil
+		return r.d.Extract(e.Unit, args[0]), nil
 	case "date_trunc":
-		return r.d.DateTrunc(e.Unit, args, e.Args[0].Type()), nil
+		return r.d.DateTrunc(e.Unit, args[0], types[0]), nil
 	}
-	return e.Name + "(" + args + ")", nil
+	return r.d.Call(e.Name, args, types)
 }

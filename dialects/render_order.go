@@ -45,11 +45,11 @@ func (r *renderer) sorted(body string) string {
 		for i, g := range q.GroupNames {
 			keys = append(keys, r.d.BitAnd(r.q(GroupingColumn), fmt.Sprint(uint64(1)<<(n-1-i))))
 			if i < n-1 {
-				keys = append(keys, r.q(fmt.Sprintf("sort_%d", i+1))+r.dir())
+				keys = append(keys, OrderKey(r.d, r.q(fmt.Sprintf("sort_%d", i+1)), q.Desc)...)
 			} else {
-				keys = append(keys, r.q(r.p.OrderBy.Name)+r.dir())
+				keys = append(keys, OrderKey(r.d, r.q(r.p.OrderBy.Name), q.Desc)...)
 			}
-			keys = append(keys, r.q(g)+" ASC"+r.nullsLast())
+			keys = append(keys, OrderKey(r.d, r.q(g), false)...)
 		}
 	} else {
 		keys = r.orderBy(true)
@@ -113,13 +113,6 @@ func (r *renderer) resultColumns() []string {
 		cols = append(cols, r.q(o.Name))
 	}
 	return append(cols, r.q(GroupingColumn))
-}
-
-func (r *renderer) dir() string {
-	if r.p.Query.Desc {
-		return " DESC" + r.nullsLast()
-	}
-	return " ASC" + r.nullsLast()
 }
 
 func indent(s string) string { return "  " + strings.ReplaceAll(s, "\n", "\n  ") }

@@ -283,6 +283,9 @@ func TestViewsOnLiveEngines(t *testing.T) {
 			if err != nil {
 				t.Fatal(err)
 			}
+			// The model's upper() meets ASCII letters only, which SQLite
+			// handles exactly: accept its ASCII-only case mapping.
+			d = dialects.WithApproximate(d)
 			var errb bytes.Buffer
 			m, _, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &errb}, []string{viewsModel})
 			if err != nil {
@@ -301,7 +304,11 @@ func TestViewsOnLiveEngines(t *testing.T) {
 				}
 				set, diags := views.Generate(&one, d, views.Options{Schema: l.schema})
 				if set == nil {
-					t.Logf("%s: %v", blocks[i].Name, diags)
+					what := "the row-level views"
+					if i >= 0 {
+						what = "view " + blocks[i].Name
+					}
+					t.Logf("%s: %v", what, diags)
 					continue
 				}
 				for _, v := range set.Views {

@@ -2,8 +2,8 @@
 WITH `visits_rows` AS (
   SELECT
     `visits`.`id` AS `visits.id`,
-    (greatest(`visits`.`score`, CAST(`visits`.`minutes` AS FLOAT64))) AS `top_longest_arg`,
-    (least(`visits`.`score`, CAST(`visits`.`minutes` AS FLOAT64))) AS `low_shortest_arg`
+    (GREATEST(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS FLOAT64)), COALESCE(CAST(`visits`.`minutes` AS FLOAT64), `visits`.`score`))) AS `top_longest_arg`,
+    (LEAST(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS FLOAT64)), COALESCE(CAST(`visits`.`minutes` AS FLOAT64), `visits`.`score`))) AS `low_shortest_arg`
   FROM `lab`.`visits` AS `visits`
 ),
 `visits_cells` AS (

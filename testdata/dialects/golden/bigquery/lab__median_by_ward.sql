@@ -1,2 +1,2 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d bigquery
--- refused: bigquery cannot express a median exactly
+-- refused: bigquery cannot express a median exactly; PERCENTILE_CONT is a window function only in BigQuery; pass --approximate for APPROX_QUANTILES

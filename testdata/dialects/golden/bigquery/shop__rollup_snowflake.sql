@@ -13,7 +13,7 @@ WITH `sales_rows` AS (
   SELECT
     `districts.area`,
     `sales.item`,
-    GROUPING(`districts.area`, `sales.item`) AS `grouping_id`,
+    (GROUPING(`districts.area`) * 2 + GROUPING(`sales.item`)) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(`units_arg`) AS `units`
   FROM `sales_rows`

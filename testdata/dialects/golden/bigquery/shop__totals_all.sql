@@ -11,7 +11,7 @@ WITH `sales_rows` AS (
   SELECT
     `stores.region`,
     `sales.item`,
-    GROUPING(`stores.region`, `sales.item`) AS `grouping_id`,
+    (GROUPING(`stores.region`) * 2 + GROUPING(`sales.item`)) AS `grouping_id`,
     sum(`units_arg`) AS `units`
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores.region`, `sales.item`), (`stores.region`), (`sales.item`), ())

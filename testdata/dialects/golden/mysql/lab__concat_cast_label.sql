@@ -1,7 +1,7 @@
 -- rollwise sql testdata/dialects/lab.roll -m visits_n -b visits.label -d mysql
 WITH `visits_rows` AS (
   SELECT
-    (((upper(`visits`.`note`) || '/') || CAST(`visits`.`minutes` AS CHAR))) AS `visits.label`
+    (CONCAT(CONCAT(upper(`visits`.`note`), '/'), CAST(`visits`.`minutes` AS CHAR))) AS `visits.label`
   FROM `lab`.`visits` AS `visits`
 ),
 `visits_cells` AS (
@@ -17,4 +17,4 @@ SELECT
   `visits_n`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY `visits.label` ASC;
+ORDER BY CASE WHEN `visits.label` IS NULL THEN 1 ELSE 0 END, `visits.label` ASC;

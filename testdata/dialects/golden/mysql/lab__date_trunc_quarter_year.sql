@@ -26,4 +26,4 @@ SELECT
   `last_at`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY `visits.seen_year` ASC, `visits.seen_qtr` ASC;
+ORDER BY CASE WHEN `visits.seen_year` IS NULL THEN 1 ELSE 0 END, `visits.seen_year` ASC, CASE WHEN `visits.seen_qtr` IS NULL THEN 1 ELSE 0 END, `visits.seen_qtr` ASC;

@@ -2,8 +2,8 @@
 WITH `visits_rows` AS (
   SELECT
     `visits`.`id` AS `visits.id`,
-    (greatest(`visits`.`score`, CAST(`visits`.`minutes` AS DOUBLE))) AS `top_longest_arg`,
-    (least(`visits`.`score`, CAST(`visits`.`minutes` AS DOUBLE))) AS `low_shortest_arg`
+    (GREATEST(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS DOUBLE)), COALESCE(CAST(`visits`.`minutes` AS DOUBLE), `visits`.`score`))) AS `top_longest_arg`,
+    (LEAST(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS DOUBLE)), COALESCE(CAST(`visits`.`minutes` AS DOUBLE), `visits`.`score`))) AS `low_shortest_arg`
   FROM `lab`.`visits` AS `visits`
 ),
 `visits_cells` AS (
@@ -21,4 +21,4 @@ SELECT
   `low_shortest`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY `visits.id` ASC;
+ORDER BY CASE WHEN `visits.id` IS NULL THEN 1 ELSE 0 END, `visits.id` ASC;

@@ -21,4 +21,4 @@ SELECT
   (CAST(coalesce(nullif(`total_minutes`, 0), 1) AS DOUBLE) / NULLIF(abs((`visits_n` - 100)), 0)) AS `safe_ratio`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY `visits.note` ASC;
+ORDER BY CASE WHEN `visits.note` IS NULL THEN 1 ELSE 0 END, `visits.note` ASC;

@@ -2,8 +2,8 @@
 WITH `visits_rows` AS (
   SELECT
     `visits`.`id` AS `visits.id`,
-    (round(`visits`.`score`)) AS `rounded_sum_arg`,
-    (round(`visits`.`score`, 2)) AS `rounded2_sum_arg`,
+    (CASE WHEN ABS(`visits`.`score`) < 1e30 THEN CAST(ROUND(CAST(`visits`.`score` AS DECIMAL(65, 30))) AS DOUBLE) ELSE ROUND(`visits`.`score`) END) AS `rounded_sum_arg`,
+    (CASE WHEN ABS(`visits`.`score`) < 1e30 THEN CAST(ROUND(CAST(`visits`.`score` AS DECIMAL(65, 30)), 2) AS DOUBLE) ELSE ROUND(`visits`.`score`, 2) END) AS `rounded2_sum_arg`,
     (CAST(`visits`.`fee` AS SIGNED)) AS `fee_ints_arg`
   FROM `lab`.`visits` AS `visits`
 ),
@@ -24,4 +24,4 @@ SELECT
   `fee_ints`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY `visits.id` ASC;
+ORDER BY CASE WHEN `visits.id` IS NULL THEN 1 ELSE 0 END, `visits.id` ASC;

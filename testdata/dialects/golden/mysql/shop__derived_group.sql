@@ -19,4 +19,4 @@ SELECT
   `lines`,
   `grouping_id`
 FROM `sales_cells`
-ORDER BY `sales.line` ASC;
+ORDER BY CASE WHEN `sales.line` IS NULL THEN 1 ELSE 0 END, `sales.line` ASC;

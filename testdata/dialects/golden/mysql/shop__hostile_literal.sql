@@ -20,4 +20,4 @@ SELECT
   `revenue`,
   `grouping_id`
 FROM `sales_cells`
-ORDER BY `stores.region` ASC;
+ORDER BY CASE WHEN `stores.region` IS NULL THEN 1 ELSE 0 END, `stores.region` ASC;

@@ -25,4 +25,4 @@ SELECT
   (CAST(`roses` AS DOUBLE) / NULLIF(`revenue`, 0)) AS `rose_share`,
   `grouping_id`
 FROM `sales_cells`
-ORDER BY `stores.region` ASC;
+ORDER BY CASE WHEN `stores.region` IS NULL THEN 1 ELSE 0 END, `stores.region` ASC;

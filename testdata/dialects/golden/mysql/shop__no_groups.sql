@@ -1,2 +1,2 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,items,mid_line,line_sd,line_var' -d mysql
--- refused: mysql cannot express a median exactly
+-- refused: mysql cannot express a median exactly; MySQL has no median aggregate and MariaDB's MEDIAN is a window function only

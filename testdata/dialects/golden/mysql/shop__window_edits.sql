@@ -1,2 +1,106 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,item_share,rose_rev,region_share,store_avg' -b 'stores.region,sales.item' --totals rollup -d mysql
--- refused: mysql cannot express grouping sets (total rows) exactly; ask for --totals none
+WITH `sales_rows` AS (
+  SELECT
+    `stores`.`region` AS `stores.region`,
+    `sales`.`item` AS `sales.item`,
+    (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`,
+    (`sales`.`item` = 'rose') AS `rose_rev_revenue_if_2`
+  FROM `shop`.`sales` AS `sales`
+  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
+),
+`sales_cells` AS (
+  SELECT
+    `stores.region`,
+    `sales.item`,
+    0 AS `grouping_id`,
+    sum(`revenue_arg`) AS `revenue`,
+    sum(CASE WHEN `rose_rev_revenue_if_2` THEN `revenue_arg` END) AS `rose_rev_revenue_cell`
+  FROM `sales_rows`
+  GROUP BY `stores.region`, `sales.item`
+  UNION ALL
+  SELECT
+    `stores.region`,
+    NULL AS `sales.item`,
+    1 AS `grouping_id`,
+    sum(`revenue_arg`) AS `revenue`,
+    sum(CASE WHEN `rose_rev_revenue_if_2` THEN `revenue_arg` END) AS `rose_rev_revenue_cell`
+  FROM `sales_rows`
+  GROUP BY `stores.region`
+  UNION ALL
+  SELECT
+    NULL AS `stores.region`,
+    NULL AS `sales.item`,
+    3 AS `grouping_id`,
+    sum(`revenue_arg`) AS `revenue`,
+    sum(CASE WHEN `rose_rev_revenue_if_2` THEN `revenue_arg` END) AS `rose_rev_revenue_cell`
+  FROM `sales_rows`
+),
+`store_avg_per_sales_rows` AS (
+  SELECT
+    `stores`.`region` AS `stores.region`,
+    `sales`.`item` AS `sales.item`,
+    `sales`.`store_id` AS `sales.store_id per`,
+    (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_revenue_arg`
+  FROM `shop`.`sales` AS `sales`
+  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
+),
+`store_avg_per_sales_cells` AS (
+  SELECT
+    `stores.region`,
+    `sales.item`,
+    `sales.store_id per`,
+    0 AS `grouping_id`,
+    sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
+  FROM `store_avg_per_sales_rows`
+  GROUP BY `stores.region`, `sales.item`, `sales.store_id per`
+  UNION ALL
+  SELECT
+    `stores.region`,
+    NULL AS `sales.item`,
+    `sales.store_id per`,
+    2 AS `grouping_id`,
+    sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
+  FROM `store_avg_per_sales_rows`
+  GROUP BY `stores.region`, `sales.store_id per`
+  UNION ALL
+  SELECT
+    NULL AS `stores.region`,
+    NULL AS `sales.item`,
+    `sales.store_id per`,
+    6 AS `grouping_id`,
+    sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
+  FROM `store_avg_per_sales_rows`
+  GROUP BY `sales.store_id per`
+),
+`store_avg_per_groups` AS (
+  SELECT
+    `stores.region`,
+    `sales.item`,
+    `sales.store_id per`,
+    `grouping_id`,
+    `store_avg_per_revenue` AS `store_avg_value`
+  FROM `store_avg_per_sales_cells`
+),
+`store_avg_per` AS (
+  SELECT
+    `stores.region`,
+    `sales.item`,
+    `grouping_id`,
+    avg(CAST(CASE WHEN `sales.store_id per` IS NOT NULL THEN `store_avg_value` END AS DOUBLE)) AS `store_avg`
+  FROM `store_avg_per_groups`
+  GROUP BY `grouping_id`, `stores.region`, `sales.item`
+)
+SELECT
+  `sales_cells`.`stores.region`,
+  `sales_cells`.`sales.item`,
+  `sales_cells`.`revenue` AS `revenue`,
+  (CAST(`sales_cells`.`revenue` AS DOUBLE) / NULLIF(sum(`sales_cells`.`revenue`) OVER (PARTITION BY `sales_cells`.`grouping_id`, `sales_cells`.`stores.region`), 0)) AS `item_share`,
+  sum(`sales_cells`.`rose_rev_revenue_cell`) OVER (PARTITION BY `sales_cells`.`grouping_id`, `sales_cells`.`stores.region`) AS `rose_rev`,
+  (CAST(`sales_cells`.`revenue` AS DOUBLE) / NULLIF(sum(`sales_cells`.`revenue`) OVER (PARTITION BY `sales_cells`.`grouping_id`, `sales_cells`.`sales.item`), 0)) AS `region_share`,
+  `store_avg_per`.`store_avg` AS `store_avg`,
+  `sales_cells`.`grouping_id`
+FROM `sales_cells`
+  LEFT JOIN `store_avg_per` ON `store_avg_per`.`grouping_id` = CASE `sales_cells`.`grouping_id` WHEN 0 THEN 0 WHEN 1 THEN 2 WHEN 3 THEN 6 END
+    AND `store_avg_per`.`stores.region` <=> `sales_cells`.`stores.region`
+    AND `store_avg_per`.`sales.item` <=> `sales_cells`.`sales.item`
+ORDER BY (`sales_cells`.`grouping_id` & 2), CASE WHEN `sales_cells`.`stores.region` IS NULL THEN 1 ELSE 0 END, `sales_cells`.`stores.region` ASC, (`sales_cells`.`grouping_id` & 1), CASE WHEN `sales_cells`.`sales.item` IS NULL THEN 1 ELSE 0 END, `sales_cells`.`sales.item` ASC;

@@ -2,8 +2,8 @@
 WITH "visits_rows" AS (
   SELECT
     "visits"."id" AS "visits.id",
-    (round("visits"."score")) AS "rounded_sum_arg",
-    (round("visits"."score", 2)) AS "rounded2_sum_arg",
+    (CAST(round(CAST("visits"."score" AS NUMERIC)) AS DOUBLE PRECISION)) AS "rounded_sum_arg",
+    (CAST(round(CAST("visits"."score" AS NUMERIC), 2) AS DOUBLE PRECISION)) AS "rounded2_sum_arg",
     (CAST("visits"."fee" AS BIGINT)) AS "fee_ints_arg"
   FROM "lab"."visits" AS "visits"
 ),

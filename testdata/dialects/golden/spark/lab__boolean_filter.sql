@@ -9,7 +9,7 @@ WITH `visits_rows` AS (
 `visits_cells` AS (
   SELECT
     `visits.urgent`,
-    GROUPING(`visits.urgent`) AS `grouping_id`,
+    grouping_id(`visits.urgent`) AS `grouping_id`,
     count(*) AS `visits_n`,
     sum(`fees_arg`) AS `fees`
   FROM `visits_rows`

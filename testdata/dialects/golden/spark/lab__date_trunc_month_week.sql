@@ -10,7 +10,7 @@ WITH `visits_rows` AS (
   SELECT
     `visits.seen_month`,
     `visits.seen_week`,
-    GROUPING(`visits.seen_month`, `visits.seen_week`) AS `grouping_id`,
+    grouping_id(`visits.seen_month`, `visits.seen_week`) AS `grouping_id`,
     count(*) AS `visits_n`,
     sum(`total_minutes_arg`) AS `total_minutes`
   FROM `visits_rows`

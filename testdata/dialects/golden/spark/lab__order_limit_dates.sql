@@ -8,7 +8,7 @@ WITH `visits_rows` AS (
 `visits_cells` AS (
   SELECT
     `visits.seen_month`,
-    GROUPING(`visits.seen_month`) AS `grouping_id`,
+    grouping_id(`visits.seen_month`) AS `grouping_id`,
     sum(`total_minutes_arg`) AS `total_minutes`
   FROM `visits_rows`
   GROUP BY GROUPING SETS ((`visits.seen_month`), ())

@@ -13,7 +13,7 @@ WITH `visits_rows` AS (
 `visits_cells` AS (
   SELECT
     `patients.ward`,
-    GROUPING(`patients.ward`) AS `grouping_id`,
+    grouping_id(`patients.ward`) AS `grouping_id`,
     count(*) AS `visits_n`,
     sum(`total_minutes_arg`) AS `total_minutes`,
     avg(CAST(`total_minutes_arg` AS DOUBLE)) AS `avg_minutes`,

@@ -9,7 +9,7 @@ WITH `repairs_rows` AS (
 `repairs_cells` AS (
   SELECT
     `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`,
+    grouping_id(`stores.region`) AS `grouping_id`,
     sum(`fees_arg`) AS `fees`
   FROM `repairs_rows`
   GROUP BY GROUPING SETS ((`stores.region`), ())
@@ -36,7 +36,7 @@ WITH `repairs_rows` AS (
 `sales_cells` AS (
   SELECT
     `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`,
+    grouping_id(`stores.region`) AS `grouping_id`,
     sum(`north_share_arg`) FILTER (WHERE `north_share_if`) AS `north_share`
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores.region`), ())

@@ -8,7 +8,7 @@ WITH `sales_rows` AS (
 `sales_cells` AS (
   SELECT
     `sales.item`,
-    GROUPING(`sales.item`) AS `grouping_id`,
+    grouping_id(`sales.item`) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`sales.item`), ())

@@ -12,7 +12,7 @@ WITH `sales_rows` AS (
   SELECT
     `stores.region`,
     `sales.item`,
-    GROUPING(`stores.region`, `sales.item`) AS `grouping_id`,
+    grouping_id(`stores.region`, `sales.item`) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(`units_arg`) AS `units`
   FROM `sales_rows`

@@ -10,7 +10,7 @@ WITH `sales_rows` AS (
 `sales_cells` AS (
   SELECT
     `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`,
+    grouping_id(`stores.region`) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(`cost_arg`) AS `cost`
   FROM `sales_rows`

@@ -9,7 +9,7 @@ WITH `sales_rows` AS (
 `sales_cells` AS (
   SELECT
     `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`,
+    grouping_id(`stores.region`) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores.region`), ())
@@ -25,7 +25,7 @@ WITH `sales_rows` AS (
 `repairs_cells` AS (
   SELECT
     `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`,
+    grouping_id(`stores.region`) AS `grouping_id`,
     sum(`fees_arg`) AS `fees`,
     count(`jobs_arg`) AS `jobs`
   FROM `repairs_rows`

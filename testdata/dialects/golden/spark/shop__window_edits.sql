@@ -12,7 +12,7 @@ WITH `sales_rows` AS (
   SELECT
     `stores.region`,
     `sales.item`,
-    GROUPING(`stores.region`, `sales.item`) AS `grouping_id`,
+    grouping_id(`stores.region`, `sales.item`) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(`revenue_arg`) FILTER (WHERE `rose_rev_revenue_if_2`) AS `rose_rev_revenue_cell`
   FROM `sales_rows`
@@ -32,7 +32,7 @@ WITH `sales_rows` AS (
     `stores.region`,
     `sales.item`,
     `sales.store_id per`,
-    GROUPING(`stores.region`, `sales.item`, `sales.store_id per`) AS `grouping_id`,
+    grouping_id(`stores.region`, `sales.item`, `sales.store_id per`) AS `grouping_id`,
     sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
   FROM `store_avg_per_sales_rows`
   GROUP BY GROUPING SETS ((`stores.region`, `sales.item`, `sales.store_id per`), (`stores.region`, `sales.store_id per`), (`sales.store_id per`))

@@ -1,2 +1,45 @@
 -- rollwise sql testdata/dialects/hostile.roll --view 'by '\''label'\''' --totals rollup -d sqlite
--- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none
+WITH `we"ird'; --_rows` AS (
+  SELECT
+    `gr/*oup*/`.`la"bel'` AS `gr/*oup*/.la"bel'`,
+    `we"ird'; --`.`üñí 名` AS `we"ird'; --.üñí 名`,
+    `we"ird'; --`.`val\ue` AS `tot'al_arg`,
+    `we"ird'; --`.`na'me"; DROP` AS `names#_arg`
+  FROM `lab_hostile`.`x"y'z``w]--` AS `we"ird'; --`
+  LEFT JOIN `lab_hostile`.`g]-- #` AS `gr/*oup*/` ON `we"ird'; --`.`[grp]` = `gr/*oup*/`.`id`
+),
+`we"ird'; --_cells` AS (
+  SELECT
+    `gr/*oup*/.la"bel'`,
+    `we"ird'; --.üñí 名`,
+    0 AS `grouping_id`,
+    sum(`tot'al_arg`) AS `tot'al`,
+    count(DISTINCT `names#_arg`) AS `names#`
+  FROM `we"ird'; --_rows`
+  GROUP BY `gr/*oup*/.la"bel'`, `we"ird'; --.üñí 名`
+  UNION ALL
+  SELECT
+    `gr/*oup*/.la"bel'`,
+    NULL AS `we"ird'; --.üñí 名`,
+    1 AS `grouping_id`,
+    sum(`tot'al_arg`) AS `tot'al`,
+    count(DISTINCT `names#_arg`) AS `names#`
+  FROM `we"ird'; --_rows`
+  GROUP BY `gr/*oup*/.la"bel'`
+  UNION ALL
+  SELECT
+    NULL AS `gr/*oup*/.la"bel'`,
+    NULL AS `we"ird'; --.üñí 名`,
+    3 AS `grouping_id`,
+    sum(`tot'al_arg`) AS `tot'al`,
+    count(DISTINCT `names#_arg`) AS `names#`
+  FROM `we"ird'; --_rows`
+)
+SELECT
+  `gr/*oup*/.la"bel'`,
+  `we"ird'; --.üñí 名`,
+  `tot'al`,
+  `names#`,
+  `grouping_id`
+FROM `we"ird'; --_cells`
+ORDER BY (`grouping_id` & 2), `gr/*oup*/.la"bel'` ASC NULLS LAST, (`grouping_id` & 1), `we"ird'; --.üñí 名` ASC NULLS LAST;

@@ -1,2 +1,43 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes' -b 'visits.seen_month,visits.seen_week' --totals rollup -d sqlite
--- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none
+WITH `visits_rows` AS (
+  SELECT
+    (date(`visits`.`seen_on`, 'start of month')) AS `visits.seen_month`,
+    (date(`visits`.`seen_on`, 'start of day', '-6 days', 'weekday 1')) AS `visits.seen_week`,
+    `visits`.`minutes` AS `total_minutes_arg`
+  FROM `lab`.`visits` AS `visits`
+),
+`visits_cells` AS (
+  SELECT
+    `visits.seen_month`,
+    `visits.seen_week`,
+    0 AS `grouping_id`,
+    count(*) AS `visits_n`,
+    sum(`total_minutes_arg`) AS `total_minutes`
+  FROM `visits_rows`
+  GROUP BY `visits.seen_month`, `visits.seen_week`
+  UNION ALL
+  SELECT
+    `visits.seen_month`,
+    NULL AS `visits.seen_week`,
+    1 AS `grouping_id`,
+    count(*) AS `visits_n`,
+    sum(`total_minutes_arg`) AS `total_minutes`
+  FROM `visits_rows`
+  GROUP BY `visits.seen_month`
+  UNION ALL
+  SELECT
+    NULL AS `visits.seen_month`,
+    NULL AS `visits.seen_week`,
+    3 AS `grouping_id`,
+    count(*) AS `visits_n`,
+    sum(`total_minutes_arg`) AS `total_minutes`
+  FROM `visits_rows`
+)
+SELECT
+  `visits.seen_month`,
+  `visits.seen_week`,
+  `visits_n`,
+  `total_minutes`,
+  `grouping_id`
+FROM `visits_cells`
+ORDER BY (`grouping_id` & 2), `visits.seen_month` ASC NULLS LAST, (`grouping_id` & 1), `visits.seen_week` ASC NULLS LAST;

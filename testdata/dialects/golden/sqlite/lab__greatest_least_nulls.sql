@@ -2,8 +2,8 @@
 WITH `visits_rows` AS (
   SELECT
     `visits`.`id` AS `visits.id`,
-    (greatest(`visits`.`score`, CAST(`visits`.`minutes` AS REAL))) AS `top_longest_arg`,
-    (least(`visits`.`score`, CAST(`visits`.`minutes` AS REAL))) AS `low_shortest_arg`
+    (max(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS REAL)), COALESCE(CAST(`visits`.`minutes` AS REAL), `visits`.`score`))) AS `top_longest_arg`,
+    (min(COALESCE(`visits`.`score`, CAST(`visits`.`minutes` AS REAL)), COALESCE(CAST(`visits`.`minutes` AS REAL), `visits`.`score`))) AS `low_shortest_arg`
   FROM `lab`.`visits` AS `visits`
 ),
 `visits_cells` AS (

@@ -1,2 +1,2 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d sqlite
--- refused: sqlite cannot express a median exactly
+-- refused: sqlite cannot express a median exactly; SQLite has no median aggregate (its percentile extension is not built in by default)

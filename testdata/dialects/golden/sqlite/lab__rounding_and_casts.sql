@@ -4,7 +4,7 @@ WITH `visits_rows` AS (
     `visits`.`id` AS `visits.id`,
     (round(`visits`.`score`)) AS `rounded_sum_arg`,
     (round(`visits`.`score`, 2)) AS `rounded2_sum_arg`,
-    (CAST(`visits`.`fee` AS INTEGER)) AS `fee_ints_arg`
+    (CAST(round(`visits`.`fee`) AS INTEGER)) AS `fee_ints_arg`
   FROM `lab`.`visits` AS `visits`
 ),
 `visits_cells` AS (

@@ -1,2 +1,44 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m revenue -b sales.item --order 'revenue desc' --limit 2 --totals grand -d sqlite
--- refused: sqlite cannot express grouping sets (total rows) exactly; ask for --totals none
+WITH `sales_rows` AS (
+  SELECT
+    `sales`.`item` AS `sales.item`,
+    (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`
+  FROM `shop`.`sales` AS `sales`
+),
+`sales_cells` AS (
+  SELECT
+    `sales.item`,
+    0 AS `grouping_id`,
+    sum(`revenue_arg`) AS `revenue`
+  FROM `sales_rows`
+  GROUP BY `sales.item`
+  UNION ALL
+  SELECT
+    NULL AS `sales.item`,
+    1 AS `grouping_id`,
+    sum(`revenue_arg`) AS `revenue`
+  FROM `sales_rows`
+),
+`result` AS (
+  SELECT
+    `sales.item`,
+    `revenue`,
+    `grouping_id`
+  FROM `sales_cells`
+),
+`result_ranked` AS (
+  SELECT
+    `sales.item`,
+    `revenue`,
+    `grouping_id`,
+    count(*) OVER (PARTITION BY `grouping_id` ORDER BY CASE WHEN `grouping_id` = 0 THEN 0 ELSE 1 END, `revenue` DESC NULLS LAST, (`grouping_id` & 1), `sales.item` ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS `detail_rank`
+  FROM `result`
+)
+SELECT
+  `sales.item`,
+  `revenue`,
+  `grouping_id`
+FROM `result_ranked`
+WHERE (`grouping_id` = 0 AND `detail_rank` <= 2)
+  OR `grouping_id` = 1
+ORDER BY CASE WHEN `grouping_id` = 0 THEN 0 ELSE 1 END, `revenue` DESC NULLS LAST, (`grouping_id` & 1), `sales.item` ASC NULLS LAST;

@@ -12,7 +12,7 @@ WITH [we"ird'; --_rows] AS (
   SELECT
     [gr/*oup*/.la"bel'],
     [we"ird'; --.üñí 名],
-    GROUPING([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名]) AS [grouping_id],
+    GROUPING_ID([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名]) AS [grouping_id],
     SUM([tot'al_arg]) AS [tot'al],
     COUNT_BIG(DISTINCT [names#_arg]) AS [names#]
   FROM [we"ird'; --_rows]
@@ -25,4 +25,4 @@ SELECT
   [names#],
   [grouping_id]
 FROM [we"ird'; --_cells]
-ORDER BY ([grouping_id] & 2), [gr/*oup*/.la"bel'] ASC, ([grouping_id] & 1), [we"ird'; --.üñí 名] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [gr/*oup*/.la"bel'] IS NULL THEN 1 ELSE 0 END, [gr/*oup*/.la"bel'] ASC, ([grouping_id] & 1), CASE WHEN [we"ird'; --.üñí 名] IS NULL THEN 1 ELSE 0 END, [we"ird'; --.üñí 名] ASC;

@@ -22,4 +22,4 @@ SELECT
   (CAST([tot'al] AS FLOAT) / NULLIF([n ]]--], 0)) AS [avg/*x*/],
   [grouping_id]
 FROM [we"ird'; --_cells]
-ORDER BY [we"ird'; --.na'me"; DROP] ASC;
+ORDER BY CASE WHEN [we"ird'; --.na'me"; DROP] IS NULL THEN 1 ELSE 0 END, [we"ird'; --.na'me"; DROP] ASC;

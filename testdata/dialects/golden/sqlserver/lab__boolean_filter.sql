@@ -4,12 +4,12 @@ WITH [visits_rows] AS (
     [visits].[urgent] AS [visits.urgent],
     [visits].[fee] AS [fees_arg]
   FROM [lab].[visits] AS [visits]
-  WHERE ([visits].[urgent] OR ([visits].[minutes] > 40))
+  WHERE (([visits].[urgent] = 1) OR ([visits].[minutes] > 40))
 ),
 [visits_cells] AS (
   SELECT
     [visits.urgent],
-    GROUPING([visits.urgent]) AS [grouping_id],
+    GROUPING_ID([visits.urgent]) AS [grouping_id],
     COUNT_BIG(*) AS [visits_n],
     SUM([fees_arg]) AS [fees]
   FROM [visits_rows]
@@ -21,4 +21,4 @@ SELECT
   [fees],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY ([grouping_id] & 1), [visits.urgent] ASC;
+ORDER BY ([grouping_id] & 1), CASE WHEN [visits.urgent] IS NULL THEN 1 ELSE 0 END, [visits.urgent] ASC;

@@ -10,7 +10,7 @@ WITH [visits_rows] AS (
   SELECT
     [visits.seen_month],
     [visits.seen_week],
-    GROUPING([visits.seen_month], [visits.seen_week]) AS [grouping_id],
+    GROUPING_ID([visits.seen_month], [visits.seen_week]) AS [grouping_id],
     COUNT_BIG(*) AS [visits_n],
     SUM([total_minutes_arg]) AS [total_minutes]
   FROM [visits_rows]
@@ -23,4 +23,4 @@ SELECT
   [total_minutes],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY ([grouping_id] & 2), [visits.seen_month] ASC, ([grouping_id] & 1), [visits.seen_week] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [visits.seen_month] IS NULL THEN 1 ELSE 0 END, [visits.seen_month] ASC, ([grouping_id] & 1), CASE WHEN [visits.seen_week] IS NULL THEN 1 ELSE 0 END, [visits.seen_week] ASC;

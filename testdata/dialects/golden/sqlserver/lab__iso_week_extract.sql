@@ -9,7 +9,7 @@ WITH [visits_rows] AS (
   SELECT
     [visits.iso_week],
     [visits.quarter_no],
-    GROUPING([visits.iso_week], [visits.quarter_no]) AS [grouping_id],
+    GROUPING_ID([visits.iso_week], [visits.quarter_no]) AS [grouping_id],
     COUNT_BIG(*) AS [visits_n]
   FROM [visits_rows]
   GROUP BY GROUPING SETS (([visits.iso_week], [visits.quarter_no]), ([visits.iso_week]), ([visits.quarter_no]), ())
@@ -20,4 +20,4 @@ SELECT
   [visits_n],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY ([grouping_id] & 2), [visits.iso_week] ASC, ([grouping_id] & 1), [visits.quarter_no] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [visits.iso_week] IS NULL THEN 1 ELSE 0 END, [visits.iso_week] ASC, ([grouping_id] & 1), CASE WHEN [visits.quarter_no] IS NULL THEN 1 ELSE 0 END, [visits.quarter_no] ASC;

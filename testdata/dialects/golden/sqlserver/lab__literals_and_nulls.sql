@@ -18,7 +18,7 @@ WITH [visits_rows] AS (
 SELECT
   [visits.note],
   [visits_n],
-  (CAST(coalesce(nullif([total_minutes], 0), 1) AS FLOAT) / NULLIF(abs(([visits_n] - 100)), 0)) AS [safe_ratio],
+  (CAST(COALESCE(NULLIF([total_minutes], 0), 1) AS FLOAT) / NULLIF(ABS(([visits_n] - 100)), 0)) AS [safe_ratio],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY [visits.note] ASC;
+ORDER BY CASE WHEN [visits.note] IS NULL THEN 1 ELSE 0 END, [visits.note] ASC;

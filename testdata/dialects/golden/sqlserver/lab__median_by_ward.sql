@@ -1,2 +1,2 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d sqlserver
--- refused: sqlserver cannot express a median exactly
+-- refused: sqlserver cannot express a median exactly; PERCENTILE_CONT is a window function only in SQL Server; pass --approximate for APPROX_PERCENTILE_CONT

@@ -8,7 +8,7 @@ WITH [visits_rows] AS (
 [visits_cells] AS (
   SELECT
     [visits.seen_month],
-    GROUPING([visits.seen_month]) AS [grouping_id],
+    GROUPING_ID([visits.seen_month]) AS [grouping_id],
     SUM([total_minutes_arg]) AS [total_minutes]
   FROM [visits_rows]
   GROUP BY GROUPING SETS (([visits.seen_month]), ())
@@ -25,7 +25,7 @@ WITH [visits_rows] AS (
     [visits.seen_month],
     [total_minutes],
     [grouping_id],
-    count(*) OVER (PARTITION BY [grouping_id] ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, [total_minutes] DESC, ([grouping_id] & 1), [visits.seen_month] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
+    count(*) OVER (PARTITION BY [grouping_id] ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, CASE WHEN [total_minutes] IS NULL THEN 1 ELSE 0 END, [total_minutes] DESC, ([grouping_id] & 1), CASE WHEN [visits.seen_month] IS NULL THEN 1 ELSE 0 END, [visits.seen_month] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
   FROM [result]
 )
 SELECT
@@ -35,4 +35,4 @@ SELECT
 FROM [result_ranked]
 WHERE ([grouping_id] = 0 AND [detail_rank] <= 3)
   OR [grouping_id] = 1
-ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, [total_minutes] DESC, ([grouping_id] & 1), [visits.seen_month] ASC;
+ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, CASE WHEN [total_minutes] IS NULL THEN 1 ELSE 0 END, [total_minutes] DESC, ([grouping_id] & 1), CASE WHEN [visits.seen_month] IS NULL THEN 1 ELSE 0 END, [visits.seen_month] ASC;

@@ -13,11 +13,11 @@ WITH [visits_rows] AS (
 [visits_cells] AS (
   SELECT
     [patients.ward],
-    GROUPING([patients.ward]) AS [grouping_id],
+    GROUPING_ID([patients.ward]) AS [grouping_id],
     COUNT_BIG(*) AS [visits_n],
     SUM([total_minutes_arg]) AS [total_minutes],
     AVG(CAST([total_minutes_arg] AS FLOAT)) AS [avg_minutes],
-    COUNT_BIG(CASE WHEN [urgent_n_if] THEN 1 END) AS [urgent_n],
+    COUNT_BIG(CASE WHEN ([urgent_n_if] = 1) THEN 1 END) AS [urgent_n],
     SUM([fees_arg]) AS [fees],
     STDEV(CAST([sd_score_arg] AS FLOAT)) AS [sd_score],
     VAR(CAST([sd_score_arg] AS FLOAT)) AS [var_score],
@@ -39,4 +39,4 @@ SELECT
   [notes],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY ([grouping_id] & 1), [patients.ward] ASC;
+ORDER BY ([grouping_id] & 1), CASE WHEN [patients.ward] IS NULL THEN 1 ELSE 0 END, [patients.ward] ASC;

@@ -2,9 +2,9 @@
 WITH [visits_rows] AS (
   SELECT
     [visits].[id] AS [visits.id],
-    (round([visits].[score])) AS [rounded_sum_arg],
-    (round([visits].[score], 2)) AS [rounded2_sum_arg],
-    (CAST([visits].[fee] AS BIGINT)) AS [fee_ints_arg]
+    (ROUND([visits].[score], 0)) AS [rounded_sum_arg],
+    (ROUND([visits].[score], 2)) AS [rounded2_sum_arg],
+    (CAST(ROUND([visits].[fee], 0) AS BIGINT)) AS [fee_ints_arg]
   FROM [lab].[visits] AS [visits]
 ),
 [visits_cells] AS (
@@ -24,4 +24,4 @@ SELECT
   [fee_ints],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY [visits.id] ASC;
+ORDER BY CASE WHEN [visits.id] IS NULL THEN 1 ELSE 0 END, [visits.id] ASC;

@@ -21,4 +21,4 @@ SELECT
   [last_at],
   [grouping_id]
 FROM [visits_cells]
-ORDER BY [visits.seen_day] ASC;
+ORDER BY CASE WHEN [visits.seen_day] IS NULL THEN 1 ELSE 0 END, [visits.seen_day] ASC;

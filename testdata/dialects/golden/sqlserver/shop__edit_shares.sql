@@ -12,7 +12,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.item],
-    GROUPING([stores.region], [sales.item]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item]), ([stores.region]), ())
@@ -21,16 +21,16 @@ WITH [sales_rows] AS (
   SELECT
     [stores].[region] AS [stores.region],
     ([sales].[price] * [sales].[qty]) AS [item_share_revenue_arg],
-    ([sales].[item] IN (N'rose', N'fern')) AS [rose_fern_revenue_if]
+    CASE WHEN ([sales].[item] IN (N'rose', N'fern')) THEN 1 WHEN NOT (([sales].[item] IN (N'rose', N'fern'))) THEN 0 END AS [rose_fern_revenue_if]
   FROM [shop].[sales] AS [sales]
   LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
 ),
 [item_share_sales_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
+    GROUPING_ID([stores.region]) AS [grouping_id],
     SUM([item_share_revenue_arg]) AS [item_share_revenue],
-    SUM(CASE WHEN [rose_fern_revenue_if] THEN [item_share_revenue_arg] END) AS [rose_fern_revenue]
+    SUM(CASE WHEN ([rose_fern_revenue_if] = 1) THEN [item_share_revenue_arg] END) AS [rose_fern_revenue]
   FROM [item_share_sales_rows]
   GROUP BY GROUPING SETS (([stores.region]), ())
 )
@@ -45,4 +45,4 @@ SELECT
 FROM [sales_cells]
   LEFT JOIN [item_share_sales_cells] ON [item_share_sales_cells].[grouping_id] = CASE [sales_cells].[grouping_id] WHEN 0 THEN 0 WHEN 1 THEN 0 WHEN 3 THEN 1 END
     AND [item_share_sales_cells].[stores.region] IS NOT DISTINCT FROM [sales_cells].[stores.region]
-ORDER BY ([sales_cells].[grouping_id] & 2), [sales_cells].[stores.region] ASC, ([sales_cells].[grouping_id] & 1), [sales_cells].[sales.item] ASC;
+ORDER BY ([sales_cells].[grouping_id] & 2), CASE WHEN [sales_cells].[stores.region] IS NULL THEN 1 ELSE 0 END, [sales_cells].[stores.region] ASC, ([sales_cells].[grouping_id] & 1), CASE WHEN [sales_cells].[sales.item] IS NULL THEN 1 ELSE 0 END, [sales_cells].[sales.item] ASC;

@@ -9,7 +9,7 @@ WITH [repairs_rows] AS (
 [repairs_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
+    GROUPING_ID([stores.region]) AS [grouping_id],
     SUM([fees_arg]) AS [fees]
   FROM [repairs_rows]
   GROUP BY GROUPING SETS (([stores.region]), ())
@@ -29,15 +29,15 @@ WITH [repairs_rows] AS (
   SELECT
     [stores].[region] AS [stores.region],
     ([sales].[price] * [sales].[qty]) AS [north_share_arg],
-    ([stores].[region] = N'North') AS [north_share_if]
+    CASE WHEN ([stores].[region] = N'North') THEN 1 WHEN NOT (([stores].[region] = N'North')) THEN 0 END AS [north_share_if]
   FROM [shop].[sales] AS [sales]
   LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
 ),
 [sales_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
-    SUM(CASE WHEN [north_share_if] THEN [north_share_arg] END) AS [north_share]
+    GROUPING_ID([stores.region]) AS [grouping_id],
+    SUM(CASE WHEN ([north_share_if] = 1) THEN [north_share_arg] END) AS [north_share]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region]), ())
 ),
@@ -69,4 +69,4 @@ FROM [cells]
   LEFT JOIN [sales_cells] ON [sales_cells].[grouping_id] = [cells].[grouping_id]
     AND [sales_cells].[stores.region] IS NOT DISTINCT FROM [cells].[stores.region]
   LEFT JOIN [north_share_sales_cells] ON 1 = 1
-ORDER BY ([cells].[grouping_id] & 1), [cells].[stores.region] ASC;
+ORDER BY ([cells].[grouping_id] & 1), CASE WHEN [cells].[stores.region] IS NULL THEN 1 ELSE 0 END, [cells].[stores.region] ASC;

@@ -3,7 +3,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores].[region] AS [stores.region],
     ([sales].[price] * [sales].[qty]) AS [revenue_arg],
-    ([sales].[item] = N'rose') AS [roses_if]
+    CASE WHEN ([sales].[item] = N'rose') THEN 1 WHEN NOT (([sales].[item] = N'rose')) THEN 0 END AS [roses_if]
   FROM [shop].[sales] AS [sales]
   LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
   WHERE ([stores].[region] = N'North')
@@ -14,7 +14,7 @@ WITH [sales_rows] AS (
     [stores.region],
     0 AS [grouping_id],
     SUM([revenue_arg]) AS [revenue],
-    SUM(CASE WHEN [roses_if] THEN [revenue_arg] END) AS [roses]
+    SUM(CASE WHEN ([roses_if] = 1) THEN [revenue_arg] END) AS [roses]
   FROM [sales_rows]
   GROUP BY [stores.region]
 )
@@ -25,4 +25,4 @@ SELECT
   (CAST([roses] AS FLOAT) / NULLIF([revenue], 0)) AS [rose_share],
   [grouping_id]
 FROM [sales_cells]
-ORDER BY [stores.region] ASC;
+ORDER BY CASE WHEN [stores.region] IS NULL THEN 1 ELSE 0 END, [stores.region] ASC;

@@ -1,2 +1,2 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,items,mid_line,line_sd,line_var' -d sqlserver
--- refused: sqlserver cannot express a median exactly
+-- refused: sqlserver cannot express a median exactly; PERCENTILE_CONT is a window function only in SQL Server; pass --approximate for APPROX_PERCENTILE_CONT

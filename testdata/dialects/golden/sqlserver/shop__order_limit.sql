@@ -8,7 +8,7 @@ WITH [sales_rows] AS (
 [sales_cells] AS (
   SELECT
     [sales.item],
-    GROUPING([sales.item]) AS [grouping_id],
+    GROUPING_ID([sales.item]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([sales.item]), ())
@@ -25,7 +25,7 @@ WITH [sales_rows] AS (
     [sales.item],
     [revenue],
     [grouping_id],
-    count(*) OVER (PARTITION BY [grouping_id] ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, [revenue] DESC, ([grouping_id] & 1), [sales.item] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
+    count(*) OVER (PARTITION BY [grouping_id] ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, CASE WHEN [revenue] IS NULL THEN 1 ELSE 0 END, [revenue] DESC, ([grouping_id] & 1), CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
   FROM [result]
 )
 SELECT
@@ -35,4 +35,4 @@ SELECT
 FROM [result_ranked]
 WHERE ([grouping_id] = 0 AND [detail_rank] <= 2)
   OR [grouping_id] = 1
-ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, [revenue] DESC, ([grouping_id] & 1), [sales.item] ASC;
+ORDER BY CASE WHEN [grouping_id] = 0 THEN 0 ELSE 1 END, CASE WHEN [revenue] IS NULL THEN 1 ELSE 0 END, [revenue] DESC, ([grouping_id] & 1), CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC;

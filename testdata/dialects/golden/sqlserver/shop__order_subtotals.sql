@@ -12,7 +12,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.item],
-    GROUPING([stores.region], [sales.item]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue],
     SUM([units_arg]) AS [units]
   FROM [sales_rows]
@@ -45,7 +45,7 @@ WITH [sales_rows] AS (
     [units],
     [grouping_id],
     [sort_1],
-    count(*) OVER (PARTITION BY [grouping_id] ORDER BY ([grouping_id] & 2), [sort_1] DESC, [stores.region] ASC, ([grouping_id] & 1), [revenue] DESC, [sales.item] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
+    count(*) OVER (PARTITION BY [grouping_id] ORDER BY ([grouping_id] & 2), CASE WHEN [sort_1] IS NULL THEN 1 ELSE 0 END, [sort_1] DESC, CASE WHEN [stores.region] IS NULL THEN 1 ELSE 0 END, [stores.region] ASC, ([grouping_id] & 1), CASE WHEN [revenue] IS NULL THEN 1 ELSE 0 END, [revenue] DESC, CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS [detail_rank]
   FROM [result_sorted]
 ),
 [result_kept] AS (
@@ -70,4 +70,4 @@ FROM [result_kept]
 WHERE ([grouping_id] = 0 AND [detail_rank] <= 3)
   OR ([grouping_id] = 1 AND [first_rank_1] <= 3)
   OR [grouping_id] = 3
-ORDER BY ([grouping_id] & 2), [sort_1] DESC, [stores.region] ASC, ([grouping_id] & 1), [revenue] DESC, [sales.item] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [sort_1] IS NULL THEN 1 ELSE 0 END, [sort_1] DESC, CASE WHEN [stores.region] IS NULL THEN 1 ELSE 0 END, [stores.region] ASC, ([grouping_id] & 1), CASE WHEN [revenue] IS NULL THEN 1 ELSE 0 END, [revenue] DESC, CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC;

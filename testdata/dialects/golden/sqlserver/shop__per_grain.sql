@@ -8,7 +8,7 @@ WITH [sales_rows] AS (
 [sales_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id]
+    GROUPING_ID([stores.region]) AS [grouping_id]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region]), ())
 ),
@@ -24,7 +24,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.store_id per],
-    GROUPING([stores.region], [sales.store_id per]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.store_id per]) AS [grouping_id],
     SUM([store_avg_per_revenue_arg]) AS [store_avg_per_revenue]
   FROM [store_avg_per_sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.store_id per]), ([sales.store_id per]))
@@ -57,7 +57,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.item per],
-    GROUPING([stores.region], [sales.item per]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item per]) AS [grouping_id],
     SUM([big_items_per_revenue_arg]) AS [big_items_per_revenue]
   FROM [big_items_per_sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item per]), ([sales.item per]))
@@ -67,14 +67,14 @@ WITH [sales_rows] AS (
     [stores.region],
     [sales.item per],
     [grouping_id],
-    ([big_items_per_revenue] > 16) AS [big_items_keep]
+    CASE WHEN ([big_items_per_revenue] > 16) THEN 1 WHEN NOT (([big_items_per_revenue] > 16)) THEN 0 END AS [big_items_keep]
   FROM [big_items_per_sales_cells]
 ),
 [big_items_per] AS (
   SELECT
     [stores.region],
     [grouping_id],
-    COUNT_BIG(CASE WHEN [big_items_keep] THEN 1 END) AS [big_items]
+    COUNT_BIG(CASE WHEN ([big_items_keep] = 1) THEN 1 END) AS [big_items]
   FROM [big_items_per_groups]
   GROUP BY [grouping_id], [stores.region]
 ),
@@ -118,4 +118,4 @@ FROM [sales_cells]
   LEFT JOIN [big_items_per] ON [big_items_per].[grouping_id] = CASE [sales_cells].[grouping_id] WHEN 0 THEN 0 WHEN 1 THEN 2 END
     AND [big_items_per].[stores.region] IS NOT DISTINCT FROM [sales_cells].[stores.region]
   LEFT JOIN [store_avg_per_2] ON 1 = 1
-ORDER BY ([sales_cells].[grouping_id] & 1), [sales_cells].[stores.region] ASC;
+ORDER BY ([sales_cells].[grouping_id] & 1), CASE WHEN [sales_cells].[stores.region] IS NULL THEN 1 ELSE 0 END, [sales_cells].[stores.region] ASC;

@@ -10,7 +10,7 @@ WITH [sales_rows] AS (
 [sales_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
+    GROUPING_ID([stores.region]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue],
     SUM([cost_arg]) AS [cost]
   FROM [sales_rows]
@@ -22,4 +22,4 @@ SELECT
   (CAST(([revenue] - [cost]) AS FLOAT) / NULLIF([revenue], 0)) AS [margin_rate],
   [grouping_id]
 FROM [sales_cells]
-ORDER BY ([grouping_id] & 1), [stores.region] ASC;
+ORDER BY ([grouping_id] & 1), CASE WHEN [stores.region] IS NULL THEN 1 ELSE 0 END, [stores.region] ASC;

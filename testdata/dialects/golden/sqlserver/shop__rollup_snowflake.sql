@@ -13,7 +13,7 @@ WITH [sales_rows] AS (
   SELECT
     [districts.area],
     [sales.item],
-    GROUPING([districts.area], [sales.item]) AS [grouping_id],
+    GROUPING_ID([districts.area], [sales.item]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue],
     SUM([units_arg]) AS [units]
   FROM [sales_rows]
@@ -26,4 +26,4 @@ SELECT
   [units],
   [grouping_id]
 FROM [sales_cells]
-ORDER BY ([grouping_id] & 2), [districts.area] ASC, ([grouping_id] & 1), [sales.item] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [districts.area] IS NULL THEN 1 ELSE 0 END, [districts.area] ASC, ([grouping_id] & 1), CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC;

@@ -11,7 +11,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.item],
-    GROUPING([stores.region], [sales.item]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item]) AS [grouping_id],
     SUM([units_arg]) AS [units]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item]), ([stores.region]), ([sales.item]), ())
@@ -22,4 +22,4 @@ SELECT
   [units],
   [grouping_id]
 FROM [sales_cells]
-ORDER BY ([grouping_id] & 2), [stores.region] ASC, ([grouping_id] & 1), [sales.item] ASC;
+ORDER BY ([grouping_id] & 2), CASE WHEN [stores.region] IS NULL THEN 1 ELSE 0 END, [stores.region] ASC, ([grouping_id] & 1), CASE WHEN [sales.item] IS NULL THEN 1 ELSE 0 END, [sales.item] ASC;

@@ -9,7 +9,7 @@ WITH [sales_rows] AS (
 [sales_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
+    GROUPING_ID([stores.region]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region]), ())
@@ -25,7 +25,7 @@ WITH [sales_rows] AS (
 [repairs_cells] AS (
   SELECT
     [stores.region],
-    GROUPING([stores.region]) AS [grouping_id],
+    GROUPING_ID([stores.region]) AS [grouping_id],
     SUM([fees_arg]) AS [fees],
     COUNT_BIG([jobs_arg]) AS [jobs]
   FROM [repairs_rows]
@@ -41,11 +41,11 @@ SELECT
   [sales_cells].[revenue] AS [revenue],
   [repairs_cells].[fees] AS [fees],
   COALESCE([repairs_cells].[jobs], 0) AS [jobs],
-  (coalesce([sales_cells].[revenue], 0) + coalesce([repairs_cells].[fees], 0)) AS [takings],
+  (COALESCE([sales_cells].[revenue], 0) + COALESCE([repairs_cells].[fees], 0)) AS [takings],
   [cells].[grouping_id]
 FROM [cells]
   LEFT JOIN [sales_cells] ON [sales_cells].[grouping_id] = [cells].[grouping_id]
     AND [sales_cells].[stores.region] IS NOT DISTINCT FROM [cells].[stores.region]
   LEFT JOIN [repairs_cells] ON [repairs_cells].[grouping_id] = [cells].[grouping_id]
     AND [repairs_cells].[stores.region] IS NOT DISTINCT FROM [cells].[stores.region]
-ORDER BY ([cells].[grouping_id] & 1), [cells].[stores.region] ASC;
+ORDER BY ([cells].[grouping_id] & 1), CASE WHEN [cells].[stores.region] IS NULL THEN 1 ELSE 0 END, [cells].[stores.region] ASC;

@@ -4,7 +4,7 @@ WITH [sales_rows] AS (
     [stores].[region] AS [stores.region],
     [sales].[item] AS [sales.item],
     ([sales].[price] * [sales].[qty]) AS [revenue_arg],
-    ([sales].[item] = N'rose') AS [rose_rev_revenue_if_2]
+    CASE WHEN ([sales].[item] = N'rose') THEN 1 WHEN NOT (([sales].[item] = N'rose')) THEN 0 END AS [rose_rev_revenue_if_2]
   FROM [shop].[sales] AS [sales]
   LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
 ),
@@ -12,9 +12,9 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [sales.item],
-    GROUPING([stores.region], [sales.item]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item]) AS [grouping_id],
     SUM([revenue_arg]) AS [revenue],
-    SUM(CASE WHEN [rose_rev_revenue_if_2] THEN [revenue_arg] END) AS [rose_rev_revenue_cell]
+    SUM(CASE WHEN ([rose_rev_revenue_if_2] = 1) THEN [revenue_arg] END) AS [rose_rev_revenue_cell]
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item]), ([stores.region]), ())
 ),
@@ -32,7 +32,7 @@ WITH [sales_rows] AS (
     [stores.region],
     [sales.item],
     [sales.store_id per],
-    GROUPING([stores.region], [sales.item], [sales.store_id per]) AS [grouping_id],
+    GROUPING_ID([stores.region], [sales.item], [sales.store_id per]) AS [grouping_id],
     SUM([store_avg_per_revenue_arg]) AS [store_avg_per_revenue]
   FROM [store_avg_per_sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item], [sales.store_id per]), ([stores.region], [sales.store_id per]), ([sales.store_id per]))
@@ -68,4 +68,4 @@ FROM [sales_cells]
   LEFT JOIN [store_avg_per] ON [store_avg_per].[grouping_id] = CASE [sales_cells].[grouping_id] WHEN 0 THEN 0 WHEN 1 THEN 2 WHEN 3 THEN 6 END
     AND [store_avg_per].[stores.region] IS NOT DISTINCT FROM [sales_cells].[stores.region]
     AND [store_avg_per].[sales.item] IS NOT DISTINCT FROM [sales_cells].[sales.item]
-ORDER BY ([sales_cells].[grouping_id] & 2), [sales_cells].[stores.region] ASC, ([sales_cells].[grouping_id] & 1), [sales_cells].[sales.item] ASC;
+ORDER BY ([sales_cells].[grouping_id] & 2), CASE WHEN [sales_cells].[stores.region] IS NULL THEN 1 ELSE 0 END, [sales_cells].[stores.region] ASC, ([sales_cells].[grouping_id] & 1), CASE WHEN [sales_cells].[sales.item] IS NULL THEN 1 ELSE 0 END, [sales_cells].[sales.item] ASC;

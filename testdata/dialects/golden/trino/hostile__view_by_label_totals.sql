@@ -12,7 +12,7 @@ WITH "we""ird'; --_rows" AS (
   SELECT
     "gr/*oup*/.la""bel'",
     "we""ird'; --.üñí 名",
-    GROUPING("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名") AS "grouping_id",
+    grouping("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名") AS "grouping_id",
     sum("tot'al_arg") AS "tot'al",
     count(DISTINCT "names#_arg") AS "names#"
   FROM "we""ird'; --_rows"

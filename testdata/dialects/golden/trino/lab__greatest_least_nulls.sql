@@ -2,8 +2,8 @@
 WITH "visits_rows" AS (
   SELECT
     "visits"."id" AS "visits.id",
-    (greatest("visits"."score", CAST("visits"."minutes" AS DOUBLE))) AS "top_longest_arg",
-    (least("visits"."score", CAST("visits"."minutes" AS DOUBLE))) AS "low_shortest_arg"
+    (greatest(COALESCE("visits"."score", CAST("visits"."minutes" AS DOUBLE)), COALESCE(CAST("visits"."minutes" AS DOUBLE), "visits"."score"))) AS "top_longest_arg",
+    (least(COALESCE("visits"."score", CAST("visits"."minutes" AS DOUBLE)), COALESCE(CAST("visits"."minutes" AS DOUBLE), "visits"."score"))) AS "low_shortest_arg"
   FROM "lab"."visits" AS "visits"
 ),
 "visits_cells" AS (

@@ -9,7 +9,7 @@ WITH "visits_rows" AS (
   SELECT
     "visits.iso_week",
     "visits.quarter_no",
-    GROUPING("visits.iso_week", "visits.quarter_no") AS "grouping_id",
+    grouping("visits.iso_week", "visits.quarter_no") AS "grouping_id",
     count(*) AS "visits_n"
   FROM "visits_rows"
   GROUP BY GROUPING SETS (("visits.iso_week", "visits.quarter_no"), ("visits.iso_week"), ("visits.quarter_no"), ())

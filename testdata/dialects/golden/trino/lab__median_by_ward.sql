@@ -1,2 +1,2 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,visits_n' -b patients.ward -d trino
--- refused: trino cannot express a median exactly
+-- refused: trino cannot express a median exactly; Trino has only approx_percentile; pass --approximate to use it

@@ -12,7 +12,7 @@ WITH "sales_rows" AS (
   SELECT
     "stores.region",
     "sales.item",
-    GROUPING("stores.region", "sales.item") AS "grouping_id",
+    grouping("stores.region", "sales.item") AS "grouping_id",
     sum("revenue_arg") AS "revenue"
   FROM "sales_rows"
   GROUP BY GROUPING SETS (("stores.region", "sales.item"), ("stores.region"), ())
@@ -28,7 +28,7 @@ WITH "sales_rows" AS (
 "item_share_sales_cells" AS (
   SELECT
     "stores.region",
-    GROUPING("stores.region") AS "grouping_id",
+    grouping("stores.region") AS "grouping_id",
     sum("item_share_revenue_arg") AS "item_share_revenue",
     sum("item_share_revenue_arg") FILTER (WHERE "rose_fern_revenue_if") AS "rose_fern_revenue"
   FROM "item_share_sales_rows"

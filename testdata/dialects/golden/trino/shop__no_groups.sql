@@ -1,2 +1,2 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,items,mid_line,line_sd,line_var' -d trino
--- refused: trino cannot express a median exactly
+-- refused: trino cannot express a median exactly; Trino has only approx_percentile; pass --approximate to use it

@@ -8,7 +8,7 @@ WITH "sales_rows" AS (
 "sales_cells" AS (
   SELECT
     "stores.region",
-    GROUPING("stores.region") AS "grouping_id"
+    grouping("stores.region") AS "grouping_id"
   FROM "sales_rows"
   GROUP BY GROUPING SETS (("stores.region"), ())
 ),
@@ -24,7 +24,7 @@ WITH "sales_rows" AS (
   SELECT
     "stores.region",
     "sales.store_id per",
-    GROUPING("stores.region", "sales.store_id per") AS "grouping_id",
+    grouping("stores.region", "sales.store_id per") AS "grouping_id",
     sum("store_avg_per_revenue_arg") AS "store_avg_per_revenue"
   FROM "store_avg_per_sales_rows"
   GROUP BY GROUPING SETS (("stores.region", "sales.store_id per"), ("sales.store_id per"))
@@ -57,7 +57,7 @@ WITH "sales_rows" AS (
   SELECT
     "stores.region",
     "sales.item per",
-    GROUPING("stores.region", "sales.item per") AS "grouping_id",
+    grouping("stores.region", "sales.item per") AS "grouping_id",
     sum("big_items_per_revenue_arg") AS "big_items_per_revenue"
   FROM "big_items_per_sales_rows"
   GROUP BY GROUPING SETS (("stores.region", "sales.item per"), ("sales.item per"))
