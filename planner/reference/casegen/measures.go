@@ -520,6 +520,11 @@ func (g *gen) atom(c *column) string {
 		return c.ref() + " is not null"
 	case c.typ == "boolean":
 		return c.ref()
+	case k == 7 && c.typ == "text":
+		return "lower(" + c.ref() + ") = lower(" + v + ")"
+	case k == 7:
+		lo, hi := v, vals[g.pick(len(vals))]
+		return c.ref() + " between " + lo + " and " + hi
 	}
 	return c.ref() + " " + []string{"<", "<=", ">", ">="}[g.pick(4)] + " " + v
 }
