@@ -3,6 +3,7 @@ package dialects
 import (
 	"fmt"
 	"strings"
+	"unicode"
 
 	"github.com/rollwise/rollwise/planner"
 )
@@ -55,6 +56,27 @@ func bqEscape(s string, quote byte) string {
 
 // Ident quotes with backquotes, escaping as in strings (§1).
 func (bigquery) Ident(name string) string { return bqEscape(name, '`') }
+
+// ColumnName: BigQuery column names hold letters, digits and underscores
+// only (cloud.google.com/bigquery/docs/schemas), so the report's key
+// columns, named after references such as plants.family or
+// "sales.receipt_id per", are spelled plants__family and
+// sales__receipt_id_per. The JSON and table output keep the names as
+// written: only the SQL spells them so.
+func (bigquery) ColumnName(name string) string {
+	var b strings.Builder
+	for _, r := range name {
+		switch {
+		case r == '.':
+			b.WriteString("__")
+		case r == '_' || unicode.IsLetter(r) || unicode.IsDigit(r):
+			b.WriteRune(r)
+		default:
+			b.WriteByte('_')
+		}
+	}
+	return b.String()
+}
 
 // String: ” is not an escape in GoogleSQL (two adjacent literals), \' is
 // (§2).

@@ -14,7 +14,9 @@ const GroupingColumn = "grouping_id"
 
 // Render prints a plan as one SQL statement for the dialect.
 func Render(p *planner.Plan, d Dialect) (string, error) {
-	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{}}
+	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
+		rename: map[string]string{}}
+	r.renameKeys(p.Root)
 	return r.render()
 }
 
@@ -31,9 +33,38 @@ type renderer struct {
 	ctx *planner.Context
 	// iter is the iteration table of the scan being rendered.
 	iter *planner.Table
+	// rename spells key columns for dialects that need it (ColumnNamer).
+	rename map[string]string
 }
 
-func (r *renderer) q(name string) string { return r.d.Ident(name) }
+func (r *renderer) q(name string) string {
+	if n, ok := r.rename[name]; ok {
+		name = n
+	}
+	return r.d.Ident(name)
+}
+
+// ColumnNamer is a dialect whose column names cannot hold the report's key
+// names as written (table.column): it spells them otherwise.
+type ColumnNamer interface {
+	ColumnName(name string) string
+}
+
+// renameKeys spells every key column of the plan as the dialect needs.
+func (r *renderer) renameKeys(ctx *planner.Context) {
+	cn, ok := r.d.(ColumnNamer)
+	if !ok {
+		return
+	}
+	for _, k := range ctx.Keys {
+		r.rename[k.Name] = cn.ColumnName(k.Name)
+	}
+	for _, rel := range ctx.Rels {
+		if rel.Per != nil {
+			r.renameKeys(rel.Per.Sub)
+		}
+	}
+}
 
 // cteName picks a CTE name that no relation of the model uses.
 func (r *renderer) cteName(base string) string {

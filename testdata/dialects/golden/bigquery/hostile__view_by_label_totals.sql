@@ -1,8 +1,8 @@
 -- rollwise sql testdata/dialects/hostile.roll --view 'by '\''label'\''' --totals rollup -d bigquery
 WITH `we"ird'; --_rows` AS (
   SELECT
-    `gr/*oup*/`.`la"bel'` AS `gr/*oup*/.la"bel'`,
-    `we"ird'; --`.`üñí 名` AS `we"ird'; --.üñí 名`,
+    `gr/*oup*/`.`la"bel'` AS `gr__oup____la_bel_`,
+    `we"ird'; --`.`üñí 名` AS `we_ird_______üñí_名`,
     `we"ird'; --`.`val\\ue` AS `tot'al_arg`,
     `we"ird'; --`.`na'me"; DROP` AS `names#_arg`
   FROM `lab_hostile`.`x"y'z\`w]--` AS `we"ird'; --`
@@ -10,19 +10,19 @@ WITH `we"ird'; --_rows` AS (
 ),
 `we"ird'; --_cells` AS (
   SELECT
-    `gr/*oup*/.la"bel'`,
-    `we"ird'; --.üñí 名`,
-    (GROUPING(`gr/*oup*/.la"bel'`) * 2 + GROUPING(`we"ird'; --.üñí 名`)) AS `grouping_id`,
+    `gr__oup____la_bel_`,
+    `we_ird_______üñí_名`,
+    (GROUPING(`gr__oup____la_bel_`) * 2 + GROUPING(`we_ird_______üñí_名`)) AS `grouping_id`,
     sum(`tot'al_arg`) AS `tot'al`,
     count(DISTINCT `names#_arg`) AS `names#`
   FROM `we"ird'; --_rows`
-  GROUP BY GROUPING SETS ((`gr/*oup*/.la"bel'`, `we"ird'; --.üñí 名`), (`gr/*oup*/.la"bel'`), ())
+  GROUP BY GROUPING SETS ((`gr__oup____la_bel_`, `we_ird_______üñí_名`), (`gr__oup____la_bel_`), ())
 )
 SELECT
-  `gr/*oup*/.la"bel'`,
-  `we"ird'; --.üñí 名`,
+  `gr__oup____la_bel_`,
+  `we_ird_______üñí_名`,
   `tot'al`,
   `names#`,
   `grouping_id`
 FROM `we"ird'; --_cells`
-ORDER BY (`grouping_id` & 2), `gr/*oup*/.la"bel'` ASC NULLS LAST, (`grouping_id` & 1), `we"ird'; --.üñí 名` ASC NULLS LAST;
+ORDER BY (`grouping_id` & 2), `gr__oup____la_bel_` ASC NULLS LAST, (`grouping_id` & 1), `we_ird_______üñí_名` ASC NULLS LAST;

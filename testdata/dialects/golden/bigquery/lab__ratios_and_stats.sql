@@ -1,7 +1,7 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes,avg_minutes,per_visit,urgent_share,fees,fee_per_min,sd_score,var_score,notes' -b patients.ward --totals grand -d bigquery
 WITH `visits_rows` AS (
   SELECT
-    `patients`.`ward` AS `patients.ward`,
+    `patients`.`ward` AS `patients__ward`,
     `visits`.`minutes` AS `total_minutes_arg`,
     `visits`.`urgent` AS `urgent_n_if`,
     `visits`.`fee` AS `fees_arg`,
@@ -12,8 +12,8 @@ WITH `visits_rows` AS (
 ),
 `visits_cells` AS (
   SELECT
-    `patients.ward`,
-    GROUPING(`patients.ward`) AS `grouping_id`,
+    `patients__ward`,
+    GROUPING(`patients__ward`) AS `grouping_id`,
     count(*) AS `visits_n`,
     sum(`total_minutes_arg`) AS `total_minutes`,
     avg(CAST(`total_minutes_arg` AS FLOAT64)) AS `avg_minutes`,
@@ -23,10 +23,10 @@ WITH `visits_rows` AS (
     var_samp(CAST(`sd_score_arg` AS FLOAT64)) AS `var_score`,
     count(DISTINCT `notes_arg`) AS `notes`
   FROM `visits_rows`
-  GROUP BY GROUPING SETS ((`patients.ward`), ())
+  GROUP BY GROUPING SETS ((`patients__ward`), ())
 )
 SELECT
-  `patients.ward`,
+  `patients__ward`,
   `visits_n`,
   `total_minutes`,
   `avg_minutes`,
@@ -39,4 +39,4 @@ SELECT
   `notes`,
   `grouping_id`
 FROM `visits_cells`
-ORDER BY (`grouping_id` & 1), `patients.ward` ASC NULLS LAST;
+ORDER BY (`grouping_id` & 1), `patients__ward` ASC NULLS LAST;

@@ -1,7 +1,7 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m revenue -b stores.region -w 'stores.region in ('\''O'\'''\''Neil; DROP TABLE x; --'\'', '\''\\'\'', '\''ünï'\'')' -d bigquery
 WITH `sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`,
+    `stores`.`region` AS `stores__region`,
     (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
@@ -9,15 +9,15 @@ WITH `sales_rows` AS (
 ),
 `sales_cells` AS (
   SELECT
-    `stores.region`,
+    `stores__region`,
     0 AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`
   FROM `sales_rows`
-  GROUP BY `stores.region`
+  GROUP BY `stores__region`
 )
 SELECT
-  `stores.region`,
+  `stores__region`,
   `revenue`,
   `grouping_id`
 FROM `sales_cells`
-ORDER BY `stores.region` ASC NULLS LAST;
+ORDER BY `stores__region` ASC NULLS LAST;

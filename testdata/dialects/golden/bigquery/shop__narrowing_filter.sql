@@ -1,7 +1,7 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,roses,rose_share' -b stores.region -w 'stores.region = '\''North'\'' and sales.qty >= 2' -d bigquery
 WITH `sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`,
+    `stores`.`region` AS `stores__region`,
     (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`,
     (`sales`.`item` = 'rose') AS `roses_if`
   FROM `shop`.`sales` AS `sales`
@@ -11,18 +11,18 @@ WITH `sales_rows` AS (
 ),
 `sales_cells` AS (
   SELECT
-    `stores.region`,
+    `stores__region`,
     0 AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(CASE WHEN `roses_if` THEN `revenue_arg` END) AS `roses`
   FROM `sales_rows`
-  GROUP BY `stores.region`
+  GROUP BY `stores__region`
 )
 SELECT
-  `stores.region`,
+  `stores__region`,
   `revenue`,
   `roses`,
   (CAST(`roses` AS FLOAT64) / NULLIF(`revenue`, 0)) AS `rose_share`,
   `grouping_id`
 FROM `sales_cells`
-ORDER BY `stores.region` ASC NULLS LAST;
+ORDER BY `stores__region` ASC NULLS LAST;

@@ -1,8 +1,8 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,units' -b 'stores.region,sales.item' --order 'revenue desc' --limit 3 --totals rollup -d bigquery
 WITH `sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`,
-    `sales`.`item` AS `sales.item`,
+    `stores`.`region` AS `stores__region`,
+    `sales`.`item` AS `sales__item`,
     (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`,
     `sales`.`qty` AS `units_arg`
   FROM `shop`.`sales` AS `sales`
@@ -10,18 +10,18 @@ WITH `sales_rows` AS (
 ),
 `sales_cells` AS (
   SELECT
-    `stores.region`,
-    `sales.item`,
-    (GROUPING(`stores.region`) * 2 + GROUPING(`sales.item`)) AS `grouping_id`,
+    `stores__region`,
+    `sales__item`,
+    (GROUPING(`stores__region`) * 2 + GROUPING(`sales__item`)) AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
     sum(`units_arg`) AS `units`
   FROM `sales_rows`
-  GROUP BY GROUPING SETS ((`stores.region`, `sales.item`), (`stores.region`), ())
+  GROUP BY GROUPING SETS ((`stores__region`, `sales__item`), (`stores__region`), ())
 ),
 `result` AS (
   SELECT
-    `stores.region`,
-    `sales.item`,
+    `stores__region`,
+    `sales__item`,
     `revenue`,
     `units`,
     `grouping_id`
@@ -29,40 +29,40 @@ WITH `sales_rows` AS (
 ),
 `result_sorted` AS (
   SELECT
-    `stores.region`,
-    `sales.item`,
+    `stores__region`,
+    `sales__item`,
     `revenue`,
     `units`,
     `grouping_id`,
-    max(CASE WHEN `grouping_id` = 1 THEN `revenue` END) OVER (PARTITION BY (`grouping_id` & 2), `stores.region`) AS `sort_1`
+    max(CASE WHEN `grouping_id` = 1 THEN `revenue` END) OVER (PARTITION BY (`grouping_id` & 2), `stores__region`) AS `sort_1`
   FROM `result`
 ),
 `result_ranked` AS (
   SELECT
-    `stores.region`,
-    `sales.item`,
+    `stores__region`,
+    `sales__item`,
     `revenue`,
     `units`,
     `grouping_id`,
     `sort_1`,
-    count(*) OVER (PARTITION BY `grouping_id` ORDER BY (`grouping_id` & 2), `sort_1` DESC NULLS LAST, `stores.region` ASC NULLS LAST, (`grouping_id` & 1), `revenue` DESC NULLS LAST, `sales.item` ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS `detail_rank`
+    count(*) OVER (PARTITION BY `grouping_id` ORDER BY (`grouping_id` & 2), `sort_1` DESC NULLS LAST, `stores__region` ASC NULLS LAST, (`grouping_id` & 1), `revenue` DESC NULLS LAST, `sales__item` ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW) AS `detail_rank`
   FROM `result_sorted`
 ),
 `result_kept` AS (
   SELECT
-    `stores.region`,
-    `sales.item`,
+    `stores__region`,
+    `sales__item`,
     `revenue`,
     `units`,
     `grouping_id`,
     `sort_1`,
     `detail_rank`,
-    min(CASE WHEN `grouping_id` = 0 THEN `detail_rank` END) OVER (PARTITION BY `stores.region`) AS `first_rank_1`
+    min(CASE WHEN `grouping_id` = 0 THEN `detail_rank` END) OVER (PARTITION BY `stores__region`) AS `first_rank_1`
   FROM `result_ranked`
 )
 SELECT
-  `stores.region`,
-  `sales.item`,
+  `stores__region`,
+  `sales__item`,
   `revenue`,
   `units`,
   `grouping_id`
@@ -70,4 +70,4 @@ FROM `result_kept`
 WHERE (`grouping_id` = 0 AND `detail_rank` <= 3)
   OR (`grouping_id` = 1 AND `first_rank_1` <= 3)
   OR `grouping_id` = 3
-ORDER BY (`grouping_id` & 2), `sort_1` DESC NULLS LAST, `stores.region` ASC NULLS LAST, (`grouping_id` & 1), `revenue` DESC NULLS LAST, `sales.item` ASC NULLS LAST;
+ORDER BY (`grouping_id` & 2), `sort_1` DESC NULLS LAST, `stores__region` ASC NULLS LAST, (`grouping_id` & 1), `revenue` DESC NULLS LAST, `sales__item` ASC NULLS LAST;

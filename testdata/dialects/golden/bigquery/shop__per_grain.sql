@@ -1,100 +1,100 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d bigquery
 WITH `sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`
+    `stores`.`region` AS `stores__region`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
 ),
 `sales_cells` AS (
   SELECT
-    `stores.region`,
-    GROUPING(`stores.region`) AS `grouping_id`
+    `stores__region`,
+    GROUPING(`stores__region`) AS `grouping_id`
   FROM `sales_rows`
-  GROUP BY GROUPING SETS ((`stores.region`), ())
+  GROUP BY GROUPING SETS ((`stores__region`), ())
 ),
 `store_avg_per_sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`,
-    `sales`.`store_id` AS `sales.store_id per`,
+    `stores`.`region` AS `stores__region`,
+    `sales`.`store_id` AS `sales__store_id_per`,
     (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_revenue_arg`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
 ),
 `store_avg_per_sales_cells` AS (
   SELECT
-    `stores.region`,
-    `sales.store_id per`,
-    (GROUPING(`stores.region`) * 2 + GROUPING(`sales.store_id per`)) AS `grouping_id`,
+    `stores__region`,
+    `sales__store_id_per`,
+    (GROUPING(`stores__region`) * 2 + GROUPING(`sales__store_id_per`)) AS `grouping_id`,
     sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
   FROM `store_avg_per_sales_rows`
-  GROUP BY GROUPING SETS ((`stores.region`, `sales.store_id per`), (`sales.store_id per`))
+  GROUP BY GROUPING SETS ((`stores__region`, `sales__store_id_per`), (`sales__store_id_per`))
 ),
 `store_avg_per_groups` AS (
   SELECT
-    `stores.region`,
-    `sales.store_id per`,
+    `stores__region`,
+    `sales__store_id_per`,
     `grouping_id`,
     `store_avg_per_revenue` AS `store_avg_value`
   FROM `store_avg_per_sales_cells`
 ),
 `store_avg_per` AS (
   SELECT
-    `stores.region`,
+    `stores__region`,
     `grouping_id`,
-    avg(CAST(CASE WHEN `sales.store_id per` IS NOT NULL THEN `store_avg_value` END AS FLOAT64)) AS `store_avg`
+    avg(CAST(CASE WHEN `sales__store_id_per` IS NOT NULL THEN `store_avg_value` END AS FLOAT64)) AS `store_avg`
   FROM `store_avg_per_groups`
-  GROUP BY `grouping_id`, `stores.region`
+  GROUP BY `grouping_id`, `stores__region`
 ),
 `big_items_per_sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores.region`,
-    `sales`.`item` AS `sales.item per`,
+    `stores`.`region` AS `stores__region`,
+    `sales`.`item` AS `sales__item_per`,
     (`sales`.`price` * `sales`.`qty`) AS `big_items_per_revenue_arg`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
 ),
 `big_items_per_sales_cells` AS (
   SELECT
-    `stores.region`,
-    `sales.item per`,
-    (GROUPING(`stores.region`) * 2 + GROUPING(`sales.item per`)) AS `grouping_id`,
+    `stores__region`,
+    `sales__item_per`,
+    (GROUPING(`stores__region`) * 2 + GROUPING(`sales__item_per`)) AS `grouping_id`,
     sum(`big_items_per_revenue_arg`) AS `big_items_per_revenue`
   FROM `big_items_per_sales_rows`
-  GROUP BY GROUPING SETS ((`stores.region`, `sales.item per`), (`sales.item per`))
+  GROUP BY GROUPING SETS ((`stores__region`, `sales__item_per`), (`sales__item_per`))
 ),
 `big_items_per_groups` AS (
   SELECT
-    `stores.region`,
-    `sales.item per`,
+    `stores__region`,
+    `sales__item_per`,
     `grouping_id`,
     (`big_items_per_revenue` > 16) AS `big_items_keep`
   FROM `big_items_per_sales_cells`
 ),
 `big_items_per` AS (
   SELECT
-    `stores.region`,
+    `stores__region`,
     `grouping_id`,
     count(CASE WHEN `big_items_keep` THEN 1 END) AS `big_items`
   FROM `big_items_per_groups`
-  GROUP BY `grouping_id`, `stores.region`
+  GROUP BY `grouping_id`, `stores__region`
 ),
 `store_avg_per_2_sales_rows` AS (
   SELECT
-    `sales`.`store_id` AS `sales.store_id per`,
+    `sales`.`store_id` AS `sales__store_id_per`,
     (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_2_revenue_arg`
   FROM `shop`.`sales` AS `sales`
 ),
 `store_avg_per_2_sales_cells` AS (
   SELECT
-    `sales.store_id per`,
+    `sales__store_id_per`,
     0 AS `grouping_id`,
     sum(`store_avg_per_2_revenue_arg`) AS `store_avg_per_2_revenue`
   FROM `store_avg_per_2_sales_rows`
-  GROUP BY `sales.store_id per`
+  GROUP BY `sales__store_id_per`
 ),
 `store_avg_per_2_groups` AS (
   SELECT
-    `sales.store_id per`,
+    `sales__store_id_per`,
     `grouping_id`,
     `store_avg_per_2_revenue` AS `store_avg_value_2`
   FROM `store_avg_per_2_sales_cells`
@@ -102,20 +102,20 @@ WITH `sales_rows` AS (
 `store_avg_per_2` AS (
   SELECT
     `grouping_id`,
-    avg(CAST(CASE WHEN `sales.store_id per` IS NOT NULL THEN `store_avg_value_2` END AS FLOAT64)) AS `store_avg_2`
+    avg(CAST(CASE WHEN `sales__store_id_per` IS NOT NULL THEN `store_avg_value_2` END AS FLOAT64)) AS `store_avg_2`
   FROM `store_avg_per_2_groups`
   GROUP BY `grouping_id`
 )
 SELECT
-  `sales_cells`.`stores.region`,
+  `sales_cells`.`stores__region`,
   `store_avg_per`.`store_avg` AS `store_avg`,
   COALESCE(`big_items_per`.`big_items`, 0) AS `big_items`,
   `store_avg_per_2`.`store_avg_2` AS `chain_store_avg`,
   `sales_cells`.`grouping_id`
 FROM `sales_cells`
   LEFT JOIN `store_avg_per` ON `store_avg_per`.`grouping_id` = CASE `sales_cells`.`grouping_id` WHEN 0 THEN 0 WHEN 1 THEN 2 END
-    AND `store_avg_per`.`stores.region` IS NOT DISTINCT FROM `sales_cells`.`stores.region`
+    AND `store_avg_per`.`stores__region` IS NOT DISTINCT FROM `sales_cells`.`stores__region`
   LEFT JOIN `big_items_per` ON `big_items_per`.`grouping_id` = CASE `sales_cells`.`grouping_id` WHEN 0 THEN 0 WHEN 1 THEN 2 END
-    AND `big_items_per`.`stores.region` IS NOT DISTINCT FROM `sales_cells`.`stores.region`
+    AND `big_items_per`.`stores__region` IS NOT DISTINCT FROM `sales_cells`.`stores__region`
   LEFT JOIN `store_avg_per_2` ON 1 = 1
-ORDER BY (`sales_cells`.`grouping_id` & 1), `sales_cells`.`stores.region` ASC NULLS LAST;
+ORDER BY (`sales_cells`.`grouping_id` & 1), `sales_cells`.`stores__region` ASC NULLS LAST;
