@@ -65,3 +65,13 @@ func (duckdb) DateTrunc(unit, arg string, t planner.Type) string {
 
 // approxMedian: approx_quantile(x, 0.5) (duckdb.org/docs aggregates, §7).
 func (duckdb) approxMedian(arg string) string { return "approx_quantile(" + arg + ", 0.5)" }
+
+// UnifyDecimal widens one branch of a CASE (or an argument of coalesce,
+// least, greatest) whose result is a decimal. DuckDB gives such a union the
+// most integer digits of its branches and whatever scale is left of 38, so
+// a branch typed DECIMAL(38,1), say round(x, 1), silently rounds the
+// others to one place (testdata/differential/decimal_scale_round_case).
+// DECIMAL(38,18) holds every decimal of a column (scale 6) and of a
+// product of up to three; a value too large for its 20 integer digits is
+// an overflow error, never a rounding.
+func (duckdb) UnifyDecimal(x string) string { return "CAST(" + x + " AS DECIMAL(38, 18))" }

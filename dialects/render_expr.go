@@ -75,14 +75,14 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			if err != nil {
 				return "", err
 			}
-			s += " WHEN " + c + " THEN " + t
+			s += " WHEN " + c + " THEN " + r.unify(t, e.T)
 		}
 		if e.Else != nil {
 			x, err := r.value(e.Else)
 			if err != nil {
 				return "", err
 			}
-			s += " ELSE " + x
+			s += " ELSE " + r.unify(x, e.T)
 		}
 		return s + " END", nil
 	case *planner.InExpr:
@@ -183,6 +183,12 @@ func (r *renderer) fn(e *planner.Func) (string, error) {
 		types = append(types, a.Type())
 	}
 	switch e.Name {
+	case "coalesce", "least", "greatest":
+		for i := range args {
+			args[i] = r.unify(args[i], e.T)
+		}
+	}
+	switch e.Name {
 	case "cast":
 		return r.d.Cast(args[0], types[0], e.CastTo), nil
 	case "extract":
@@ -191,4 +197,18 @@ func (r *renderer) fn(e *planner.Func) (string, error) {
 		return r.d.DateTrunc(e.Unit, args[0], types[0]), nil
 	}
 	return r.d.Call(e.Name, args, types)
+}
+
+// DecimalUnifier is a dialect whose union of decimal branches can lose
+// digits: it widens each branch first.
+type DecimalUnifier interface {
+	UnifyDecimal(x string) string
+}
+
+// unify widens a branch of a decimal-typed union where the dialect needs it.
+func (r *renderer) unify(x string, t planner.Type) string {
+	if u, ok := r.d.(DecimalUnifier); ok && t == planner.TypeDecimal {
+		return u.UnifyDecimal(x)
+	}
+	return x
 }

@@ -66,9 +66,6 @@ var diffKnownBugs = []struct {
 	name string
 	hits func(c *casegen.Case, q casegen.Query, msg string) bool
 }{
-	{"decimal_scale_round_case", func(c *casegen.Case, _ casegen.Query, msg string) bool {
-		return strings.Contains(c.Model, "round(") && strings.HasPrefix(msg, "row ")
-	}},
 	{"limit_drops_subtotals", func(_ *casegen.Case, q casegen.Query, msg string) bool {
 		return q.Limit > 0 && len(q.By) > 1 && (q.Totals == "rollup" || q.Totals == "all") &&
 			(strings.HasPrefix(msg, "run gives") || strings.Contains(msg, "total rows roll up"))
