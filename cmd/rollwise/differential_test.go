@@ -60,16 +60,11 @@ type diffStats struct {
 // failing query that shows a known bug's signature (hits looks at the
 // case, the query and the failure message) is counted, not failed, so
 // that a campaign goes on finding other bugs. Delete an entry once its
-// regression case passes. A failing --limit query that agrees without
-// its limit is counted too (limitOnly).
+// regression case passes.
 var diffKnownBugs = []struct {
 	name string
 	hits func(c *casegen.Case, q casegen.Query, msg string) bool
 }{
-	{"limit_drops_subtotals", func(_ *casegen.Case, q casegen.Query, msg string) bool {
-		return q.Limit > 0 && len(q.By) > 1 && (q.Totals == "rollup" || q.Totals == "all") &&
-			(strings.HasPrefix(msg, "run gives") || strings.Contains(msg, "total rows roll up"))
-	}},
 }
 
 // diffKnownBug names the known bug a failing query shows, or "".
@@ -135,7 +130,7 @@ func diffRun(t *testing.T, o casegen.Options) {
 		defer dc.close()
 		for _, q := range c.Queries {
 			if msg := dc.compare(q, &st); msg != "" {
-				if bug := diffKnownBug(c, q, msg); bug != "" || dc.limitOnly(q) {
+				if bug := diffKnownBug(c, q, msg); bug != "" {
 					st.known.Add(1)
 					continue
 				}
@@ -150,18 +145,6 @@ func diffRun(t *testing.T, o casegen.Options) {
 	if st.compared.Load() == 0 {
 		t.Errorf("no query was compared")
 	}
-}
-
-// limitOnly reports whether a failing query with --limit agrees without
-// it: the failure is then in cutting rows, where two known bugs are
-// (limit_drops_subtotals, limit_topn_window).
-func (dc *diffOpened) limitOnly(q casegen.Query) bool {
-	if q.Limit == 0 {
-		return false
-	}
-	q.Limit = 0
-	var scratch diffStats
-	return dc.compare(q, &scratch) == ""
 }
 
 // diffSave writes a failing case to $ROLLWISE_DIFF_SAVE/<test name>/

@@ -281,11 +281,16 @@ func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Mea
 		case *planner.PerAgg:
 			// The per-grain's own tables (measure references already
 			// seen elsewhere count again here).
+			// Its groups come from the rows of X's iteration tables; a
+			// having clause only keeps or drops groups. count(* per ...)
+			// has no X: then the having's tables, or the per columns'.
 			var own []*planner.Table
-			for _, sub := range []planner.Expr{x.X, x.Having} {
-				if sub != nil && err == nil {
-					own, err = iterationTables(sub, own, map[*planner.Measure]bool{})
-				}
+			src := x.X
+			if src == nil {
+				src = x.Having
+			}
+			if src != nil {
+				own, err = iterationTables(src, own, map[*planner.Measure]bool{})
 			}
 			if err == nil && len(own) == 0 {
 				var t *planner.Table

@@ -218,8 +218,8 @@ func popcount(x int) int {
 //     (the grand total, at most one), each by M (NULLs last in either
 //     direction), then by the group values.
 //
-// --limit N keeps the first N detail rows, in that order, and every total
-// row (language.md: --limit cuts the detail rows).
+// --limit N keeps the first N detail rows, in that order, the total rows of
+// the groups they belong to, and the grand total (docs/language.md).
 func order(q *planner.Query, rows []Row) ([]Row, error) {
 	ob := -1
 	for i, m := range q.Measures {
@@ -273,14 +273,42 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 		return nil, err
 	}
 	if q.Limit > 0 {
-		var out []Row
-		kept := 0
+		var kept []Row
 		for _, r := range rows {
-			if slices.Contains(r.RolledUp, true) {
+			if !slices.Contains(r.RolledUp, true) && len(kept) < q.Limit {
+				kept = append(kept, r)
+			}
+		}
+		// A total row stays when it is the grand total or when one of the
+		// kept detail rows belongs to its group.
+		covers := func(total Row) bool {
+			if !slices.Contains(total.RolledUp, false) {
+				return true
+			}
+			for _, d := range kept {
+				match := true
+				for i := range total.Groups {
+					if !total.RolledUp[i] && tupleKey(total.Groups[i:i+1]) != tupleKey(d.Groups[i:i+1]) {
+						match = false
+					}
+				}
+				if match {
+					return true
+				}
+			}
+			return false
+		}
+		var out []Row
+		n := 0
+		for _, r := range rows {
+			switch {
+			case !slices.Contains(r.RolledUp, true):
+				if n < q.Limit {
+					out = append(out, r)
+				}
+				n++
+			case covers(r):
 				out = append(out, r)
-			} else if kept < q.Limit {
-				out = append(out, r)
-				kept++
 			}
 		}
 		rows = out
