@@ -64,8 +64,7 @@ type diffStats struct {
 var diffKnownBugs = []struct {
 	name string
 	hits func(c *casegen.Case, q casegen.Query, msg string) bool
-}{
-}
+}{}
 
 // diffKnownBug names the known bug a failing query shows, or "".
 func diffKnownBug(c *casegen.Case, q casegen.Query, msg string) string {
