@@ -64,11 +64,7 @@ type diffStats struct {
 var diffKnownBugs = []struct {
 	name string
 	hits func(c *casegen.Case, q casegen.Query, msg string) bool
-}{
-	{"decimal_case_product_overflow", func(_ *casegen.Case, _ casegen.Query, msg string) bool {
-		return strings.Contains(msg, "Overflow in multiplication of DECIMAL")
-	}},
-}
+}{}
 
 // diffKnownBug names the known bug a failing query shows, or "".
 func diffKnownBug(c *casegen.Case, q casegen.Query, msg string) string {

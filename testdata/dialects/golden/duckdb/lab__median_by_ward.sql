@@ -10,7 +10,7 @@ WITH "visits_rows" AS (
   SELECT
     "patients.ward",
     0 AS "grouping_id",
-    median("mid_minutes_arg") AS "mid_minutes",
+    median(CAST("mid_minutes_arg" AS DOUBLE)) AS "mid_minutes",
     count(*) AS "visits_n"
   FROM "visits_rows"
   GROUP BY "patients.ward"

@@ -11,7 +11,7 @@ WITH "sales_rows" AS (
     0 AS "grouping_id",
     sum("revenue_arg") AS "revenue",
     count(DISTINCT "items_arg") AS "items",
-    median("mid_line_arg") AS "mid_line",
+    median(CAST("mid_line_arg" AS DOUBLE)) AS "mid_line",
     stddev_samp("mid_line_arg") AS "line_sd",
     var_samp("mid_line_arg") AS "line_var"
   FROM "sales_rows"

@@ -41,7 +41,7 @@ SELECT
   "sales_cells"."revenue" AS "revenue",
   "repairs_cells"."fees" AS "fees",
   COALESCE("repairs_cells"."jobs", 0) AS "jobs",
-  (coalesce(CAST("sales_cells"."revenue" AS DECIMAL(38, 18)), CAST(0 AS DECIMAL(38, 18))) + coalesce(CAST("repairs_cells"."fees" AS DECIMAL(38, 18)), CAST(0 AS DECIMAL(38, 18)))) AS "takings",
+  (coalesce(CAST("sales_cells"."revenue" AS DECIMAL(38, 12)), CAST(0 AS DECIMAL(38, 12))) + coalesce(CAST("repairs_cells"."fees" AS DECIMAL(38, 12)), CAST(0 AS DECIMAL(38, 12)))) AS "takings",
   "cells"."grouping_id"
 FROM "cells"
   LEFT JOIN "sales_cells" ON "sales_cells"."grouping_id" = "cells"."grouping_id"
