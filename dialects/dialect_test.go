@@ -19,7 +19,7 @@ type spelling struct {
 var spellings = map[string]spelling{
 	"duckdb": {
 		ident: `"a""b"`, str: `'it''s \ ok'`, date: `DATE '2026-03-01'`, ts: `TIMESTAMP '2026-03-01 10:00:00'`,
-		divide: `x / NULLIF(y, 0)`, stddev: `stddev_samp(x)`, variance: `var_samp(x)`, avg: `avg(x)`, median: `median(x)`,
+		divide: `x / NULLIF(y, 0)`, stddev: `stddev_samp(x)`, variance: `var_samp(x)`, avg: `avg(x)`, median: `median(CAST(x AS DOUBLE))`,
 		truncMonth: `CAST(date_trunc('month', d) AS DATE)`, truncWeekTS: `date_trunc('week', d)`,
 		extractWeek: `EXTRACT(WEEK FROM d)`, bitAnd: `(g & 1)`, nullSafe: `a IS NOT DISTINCT FROM b`,
 		concat: `(a || b)`, grouping2: `GROUPING("a", "b")`, greatest2: `greatest(a, b)`, roundFloat: `round(x)`,
