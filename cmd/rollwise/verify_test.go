@@ -265,7 +265,7 @@ func TestVerifyUsageErrors(t *testing.T) {
 		{[]string{"-m", "revenue"}, "name the handwritten SQL with --sql FILE.sql"},
 		{[]string{"--sql", right, "-m", "revenue", "--format", "csv"}, `unknown format "csv"`},
 		{[]string{"--sql", right, "-m", "revenue", "-d", "nosuch"}, "unknown dialect"},
-		{[]string{"--sql", right, "-m", "revenue", "-d", "postgres"}, "needs a live database"},
+		{[]string{"--sql", right, "-m", "revenue", "-d", "postgres"}, "needs --dsn"},
 		{[]string{"--sql", right, "-m", "revenue", "-b", "sales.item", "--tolerance", "-1"}, "--tolerance must be a number of 0 or more"},
 	}
 	for _, c := range cases {

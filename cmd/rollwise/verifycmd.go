@@ -29,6 +29,9 @@ type verifyOptions struct {
 	maps      []string
 	tolerance float64
 	grouping  string
+	// dsn names a live database to verify on; dialectSet says -d was given.
+	dsn        string
+	dialectSet bool
 }
 
 func newVerifyCmd(e *env) *cobra.Command {
@@ -67,6 +70,7 @@ fails), 2 for usage errors.`,
 				return err
 			}
 			o.models = args
+			o.dialectSet = cmd.Flags().Changed("dialect")
 			return runVerify(e, o)
 		},
 	}
@@ -80,6 +84,7 @@ fails), 2 for usage errors.`,
 	f.Float64Var(&o.tolerance, "tolerance", verify.DefaultTolerance, "relative tolerance for values that are not both exact")
 	f.StringVar(&o.grouping, "grouping-column", "", "the SQL's GROUPING(...) column, which tells total rows from NULL groups")
 	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	f.StringVar(&o.dsn, "dsn", "", "verify on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
 	f.StringVar(&o.format, "format", "table", "output: table or json")
 	return cmd
@@ -91,13 +96,19 @@ func runVerify(e *env, o *verifyOptions) error {
 	if o.format != "table" && o.format != "json" {
 		return usageErr("unknown format %q: verify writes table or json", o.format)
 	}
+	if o.dsn != "" {
+		name, err := liveDialect(o.dsn, o.dialect, o.dialectSet, o.data)
+		if err != nil {
+			return err
+		}
+		o.dialect = name
+	}
 	d, err := dialects.Get(o.dialect)
 	if err != nil {
 		return &exitError{code: exitUsage, err: err}
 	}
-	if d.Name() != "duckdb" {
-		// Live databases (--dsn) will bring their own Runner and dialect.
-		return usageErr("verify runs on the embedded DuckDB; -d %s needs a live database, which verify does not reach yet", o.dialect)
+	if d.Name() != "duckdb" && o.dsn == "" {
+		return usageErr("verify runs on the embedded DuckDB unless --dsn names a live database; -d %s needs --dsn", o.dialect)
 	}
 	if o.sqlFile == "" {
 		return usageErr("name the handwritten SQL with --sql FILE.sql")
@@ -128,18 +139,29 @@ func runVerify(e *env, o *verifyOptions) error {
 		return err
 	}
 	ctx := context.Background()
-	db, err := engine.OpenDuckDB(ctx, c.model, o.data)
-	if err != nil {
-		return &exitError{code: exitFindings, err: err}
+	var runner verify.Runner
+	if o.dsn != "" {
+		l, err := engine.OpenLive(ctx, o.dsn)
+		if err != nil {
+			return &exitError{code: exitFindings, err: err}
+		}
+		defer l.Close()
+		runner = liveRunner{l: l}
+	} else {
+		db, err := engine.OpenDuckDB(ctx, c.model, o.data)
+		if err != nil {
+			return &exitError{code: exitFindings, err: err}
+		}
+		defer db.Close()
+		runner = verify.DB(db)
 	}
-	defer db.Close()
 	in := &verify.Input{
 		Spec: verify.Spec{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals, Map: maps,
 			GroupingColumn: o.grouping, Tolerance: o.tolerance},
 		Model: c.model, Query: c.query, Plan: c.plan, Compiled: c.sql,
 		Handwritten: string(text), SQLName: o.sqlFile, Sources: sources, Dialect: d,
 	}
-	rep, err := verify.Run(ctx, in, verify.DB(db))
+	rep, err := verify.Run(ctx, in, runner)
 	if err != nil {
 		var ie *verify.InputError
 		if errors.As(err, &ie) {
@@ -160,6 +182,14 @@ func runVerify(e *env, o *verifyOptions) error {
 		return &exitError{code: exitFindings}
 	}
 	return nil
+}
+
+// liveRunner runs verify's queries on a live database; the types of each
+// result column come from the server.
+type liveRunner struct{ l *engine.Live }
+
+func (r liveRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
+	return r.l.Query(ctx, q, nil)
 }
 
 // modelSources reads the model files (a folder stands for the .roll files

@@ -12,6 +12,30 @@ import (
 	"github.com/shopspring/decimal"
 )
 
+// typeOfColumn reads a result column's logical type from the type the
+// server reports, for a query whose types nobody else knows (a handwritten
+// SQL file): TypeNull keeps the driver's value.
+func typeOfColumn(name string) planner.Type {
+	n := strings.ToUpper(name)
+	switch {
+	case strings.Contains(n, "INT"):
+		return planner.TypeInteger
+	case strings.Contains(n, "NUMERIC"), strings.Contains(n, "DECIMAL"):
+		return planner.TypeDecimal
+	case strings.Contains(n, "FLOAT"), strings.Contains(n, "DOUBLE"), strings.Contains(n, "REAL"):
+		return planner.TypeFloat
+	case n == "DATE":
+		return planner.TypeDate
+	case strings.Contains(n, "TIMESTAMP"), n == "DATETIME":
+		return planner.TypeTimestamp
+	case strings.Contains(n, "BOOL"):
+		return planner.TypeBoolean
+	case strings.Contains(n, "CHAR"), strings.Contains(n, "TEXT"):
+		return planner.TypeText
+	}
+	return planner.TypeNull
+}
+
 // Query runs a query on the live database and returns its rows with the
 // values normalised as on the embedded DuckDB (see Result): want gives
 // the logical type of each result column, which decides the Go type of
@@ -49,8 +73,11 @@ func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*R
 		row := make([]any, len(cols))
 		for i, v := range raw {
 			t := planner.TypeNull
-			if i < len(want) {
+			switch {
+			case i < len(want):
 				t = want[i]
+			case want == nil:
+				t = typeOfColumn(types[i].DatabaseTypeName())
 			}
 			n, err := liveValue(v, types[i].DatabaseTypeName(), t)
 			if err != nil {
