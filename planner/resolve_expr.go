@@ -9,7 +9,7 @@ import (
 	"github.com/rollwise/rollwise/grammar"
 )
 
-// exprResolver resolves one expression. In a row context (row = true)
+// exprResolver resolves one expression. In a row expression (row = true)
 // names are columns; in a measure context bare names are measures and
 // columns appear only inside aggregates.
 type exprResolver struct {

@@ -32,7 +32,7 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compute, comma-separated")
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
 	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
-	f.StringVar(&o.totals, "totals", "", "total rows: none, grand, rollup or all (default none; with --view, the view's own)")
+	f.StringVar(&o.totals, "totals", "", "total rows: none, grand, rollup or all; default none, or with --view the view's own")
 	f.StringVar(&o.order, "order", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
 	f.IntVar(&o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
