@@ -204,7 +204,9 @@ func numOrNil(d *decimal.Decimal) any {
 
 // TestMetamorphicTotals: a total row equals the same query with the
 // rolled-up columns removed from --by (and no totals, order or limit):
-// both are the measures evaluated in the same cell.
+// both are the measures evaluated in the same cell. Without --limit the
+// total rows of each level are exactly the rows of that query; with it,
+// some of them.
 func TestMetamorphicTotals(t *testing.T) {
 	diffChecks(40)
 	checked := 0
@@ -275,7 +277,9 @@ func checkTotals(dc *diffOpened, q casegen.Query) (string, casegen.Query) {
 		if err != nil {
 			return err.Error(), sub
 		}
-		if len(subRows) != len(totals) {
+		// --limit keeps only the totals of the kept detail rows' groups
+		// (and the grand total): then the totals are a subset.
+		if len(subRows) != len(totals) && (q.Limit == 0 || len(totals) > len(subRows)) {
 			return fmt.Sprintf("%d total rows roll up %s, but the query by %v has %d rows", len(totals), rolled, sub.By, len(subRows)), sub
 		}
 		byKey := map[string]map[string]any{}
