@@ -3,12 +3,11 @@ package main
 import (
 	"bytes"
 	"encoding/json"
-	"fmt"
 	"math"
 	"strings"
 	"testing"
 
-	"github.com/shopspring/decimal"
+	"github.com/rollwise/rollwise/planner/reference/expect"
 )
 
 // Execution tests: the generated SQL runs on the embedded DuckDB over the
@@ -30,9 +29,15 @@ import (
 
 const shopModel = "../../testdata/exec/shop.roll"
 
-// row is an expected result row: numbers as strings are exact decimals,
-// float64 are compared within 1e-9 (relative), nil is null.
-type row map[string]any
+// row, expectRows, sameValue, dump and none: see package expect.
+type row = expect.Row
+
+var (
+	expectRows = expect.Rows
+	sameValue  = expect.Same
+	dump       = expect.Dump
+	none       = expect.None
+)
 
 // runJSON runs the CLI in-process and decodes its JSON output.
 func runJSON(t *testing.T, args ...string) []map[string]any {
@@ -51,69 +56,6 @@ func runJSON(t *testing.T, args ...string) []map[string]any {
 	crossCheck(t, args, rows) // the same run on the live engines (live_test.go)
 	return rows
 }
-
-func expectRows(t *testing.T, got []map[string]any, want []row) {
-	t.Helper()
-	if len(got) != len(want) {
-		t.Fatalf("got %d rows, want %d:\n%s", len(got), len(want), dump(got))
-	}
-	for i := range want {
-		for k, w := range want[i] {
-			g, ok := got[i][k]
-			if !ok {
-				t.Errorf("row %d has no %q: %v", i, k, got[i])
-				continue
-			}
-			if !sameValue(g, w) {
-				t.Errorf("row %d %s = %v, want %v\n%s", i, k, g, w, dump(got))
-			}
-		}
-	}
-}
-
-func sameValue(g, w any) bool {
-	switch w := w.(type) {
-	case nil:
-		return g == nil
-	case string:
-		n, ok := g.(json.Number)
-		if !ok {
-			return g == w
-		}
-		a, err1 := decimal.NewFromString(n.String())
-		b, err2 := decimal.NewFromString(w)
-		return err1 == nil && err2 == nil && a.Equal(b)
-	case float64:
-		n, ok := g.(json.Number)
-		if !ok {
-			return false
-		}
-		f, err := n.Float64()
-		return err == nil && math.Abs(f-w) <= 1e-9*math.Max(1, math.Abs(w))
-	case int:
-		n, ok := g.(json.Number)
-		return ok && n.String() == fmt.Sprint(w)
-	case []string:
-		l, ok := g.([]any)
-		if !ok || len(l) != len(w) {
-			return false
-		}
-		for i := range w {
-			if l[i] != w[i] {
-				return false
-			}
-		}
-		return true
-	}
-	return fmt.Sprint(g) == fmt.Sprint(w)
-}
-
-func dump(rows []map[string]any) string {
-	b, _ := json.MarshalIndent(rows, "", " ")
-	return string(b)
-}
-
-var none = []string{}
 
 // The total of a ratio is the ratio of the totals: not the sum (1.52) nor
 // the average (0.5067) of the rows' ratios.

@@ -1,18 +1,15 @@
 package reference_test
 
 import (
-	"encoding/json"
-	"fmt"
 	"math"
 	"os"
 	"strings"
 	"testing"
 
-	"github.com/shopspring/decimal"
-
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 	"github.com/rollwise/rollwise/planner/reference"
+	"github.com/rollwise/rollwise/planner/reference/expect"
 )
 
 // The hand-worked expectations of cmd/rollwise/exec_test.go, computed by
@@ -76,72 +73,10 @@ func evaluateOn(t *testing.T, m *planner.Model, spec planner.QuerySpec) []map[st
 	return res.JSON()
 }
 
-// row is an expected row: strings are exact decimals (or text for group
-// values), float64 within 1e-9 relative, int exact, nil null.
-type row map[string]any
+// The same expectations as the SQL path's tests (package expect).
+type row = expect.Row
 
-var none = []string{}
-
-func expectRows(t *testing.T, got []map[string]any, want []row) {
-	t.Helper()
-	if len(got) != len(want) {
-		t.Fatalf("got %d rows, want %d:\n%s", len(got), len(want), dump(got))
-	}
-	for i := range want {
-		for k, w := range want[i] {
-			g, ok := got[i][k]
-			if !ok {
-				t.Errorf("row %d has no %q: %v", i, k, got[i])
-				continue
-			}
-			if !sameValue(g, w) {
-				t.Errorf("row %d %s = %v, want %v\n%s", i, k, g, w, dump(got))
-			}
-		}
-	}
-}
-
-func sameValue(g, w any) bool {
-	switch w := w.(type) {
-	case nil:
-		return g == nil
-	case string:
-		n, ok := g.(json.Number)
-		if !ok {
-			return g == w
-		}
-		a, err1 := decimal.NewFromString(n.String())
-		b, err2 := decimal.NewFromString(w)
-		return err1 == nil && err2 == nil && a.Equal(b)
-	case float64:
-		n, ok := g.(json.Number)
-		if !ok {
-			return false
-		}
-		f, err := n.Float64()
-		return err == nil && math.Abs(f-w) <= 1e-9*math.Max(1, math.Abs(w))
-	case int:
-		n, ok := g.(json.Number)
-		return ok && n.String() == fmt.Sprint(w)
-	case []string:
-		l, ok := g.([]any)
-		if !ok || len(l) != len(w) {
-			return false
-		}
-		for i := range w {
-			if l[i] != w[i] {
-				return false
-			}
-		}
-		return true
-	}
-	return fmt.Sprint(g) == fmt.Sprint(w)
-}
-
-func dump(rows []map[string]any) string {
-	b, _ := json.MarshalIndent(rows, "", " ")
-	return string(b)
-}
+var expectRows, none = expect.Rows, expect.None
 
 func spec(measures, by string, totals string) planner.QuerySpec {
 	s := planner.QuerySpec{Measures: strings.Split(measures, ","), Totals: totals}
