@@ -71,6 +71,12 @@ func TestParquetValuesThatWouldChangeAreRefused(t *testing.T) {
 			[]string{"row 2", "column t.x (decimal)", "0.1234567", "more than 6 decimal places"}},
 		{"too precise decimal", "SELECT 1.12345678::DECIMAL(18,8) AS x", planner.TypeDecimal,
 			[]string{"row 1", "1.12345678", "more than 6 decimal places"}},
+		// 34 integer digits: more than DECIMAL(38,6) holds, so a wide
+		// DECIMAL column is still read and checked.
+		{"too large decimal", "SELECT 1234567890123456789012345678901234.5::DECIMAL(38,2) AS x", planner.TypeDecimal,
+			[]string{"row 1", "1234567890123456789012345678901234.5"}},
+		{"unsigned beyond integer", "SELECT 18446744073709551615::UBIGINT AS x", planner.TypeInteger,
+			[]string{"row 1", "18446744073709551615"}},
 		{"too precise text", "SELECT '2.0000001' AS x", planner.TypeDecimal, []string{"row 1", `"2.0000001"`}},
 		{"fraction in integer", "SELECT * FROM (VALUES (1.0::DOUBLE), (2.5::DOUBLE)) v(x)", planner.TypeInteger,
 			[]string{"row 2", `"2.5"`, "not a whole number"}},
@@ -151,5 +157,41 @@ func TestQueryRefusesUnsupportedTypes(t *testing.T) {
 	}
 	if _, err := Query(context.Background(), nil, "SELECT 1"); err == nil {
 		t.Error("nil db: no error")
+	}
+}
+
+// Casts that cannot fail or change a value are not checked by reading the
+// column; every other one is.
+func TestExactCast(t *testing.T) {
+	cases := []struct {
+		src, dst string
+		exact    bool
+	}{
+		{"DECIMAL(15,2)", DecimalType, true},
+		{"DECIMAL(38,6)", DecimalType, true},
+		{"DECIMAL(34,2)", DecimalType, true}, // 32 integer digits, as many as DECIMAL(38,6)
+		{"DECIMAL(35,2)", DecimalType, false},
+		{"DECIMAL(18,8)", DecimalType, false},
+		{"INTEGER", DecimalType, true},
+		{"UBIGINT", DecimalType, true},
+		{"DOUBLE", DecimalType, false},
+		{"SMALLINT", "BIGINT", true},
+		{"UINTEGER", "BIGINT", true},
+		{"UBIGINT", "BIGINT", false},
+		{"DECIMAL(18,0)", "BIGINT", true},
+		{"DECIMAL(19,0)", "BIGINT", false},
+		{"DECIMAL(10,2)", "BIGINT", false},
+		{"DATE", "TIMESTAMP", true},
+		{"TIMESTAMP", "DATE", false},
+		{"TIMESTAMP_NS", "TIMESTAMP", false},
+		{"FLOAT", "DOUBLE", true},
+		{"INTEGER", "VARCHAR", true},
+		{"BLOB", "VARCHAR", false},
+		{"DECIMAL(15,2", DecimalType, false},
+	}
+	for _, c := range cases {
+		if got := exactCast(c.src, c.dst); got != c.exact {
+			t.Errorf("exactCast(%s, %s) = %v, want %v", c.src, c.dst, got, c.exact)
+		}
 	}
 }
