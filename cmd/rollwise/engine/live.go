@@ -13,8 +13,9 @@ import (
 	"time"
 
 	gomysql "github.com/go-sql-driver/mysql"
-	_ "github.com/jackc/pgx/v5/stdlib" // registers the "pgx" driver
-	_ "modernc.org/sqlite"             // registers the "sqlite" driver
+	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/stdlib"
+	_ "modernc.org/sqlite" // registers the "sqlite" driver
 )
 
 // Live is a connection to a live database named by a URL: PostgreSQL
@@ -108,10 +109,17 @@ func newLive(ctx context.Context, dialect string, db *sql.DB, setup ...string) (
 }
 
 func openPostgres(ctx context.Context, dsn string) (*Live, error) {
-	db, err := sql.Open("pgx", dsn)
+	cfg, err := pgx.ParseConfig(dsn)
 	if err != nil {
 		return nil, err
 	}
+	// Every statement is described afresh (pgx's default caches the
+	// prepared statement by its text): a Live runs one-off statements,
+	// and a cached INSERT kept the parameter types of a table that
+	// LoadInto has since dropped and created again with other column
+	// types (an integer column that became a decimal refused 1.5).
+	cfg.DefaultQueryExecMode = pgx.QueryExecModeDescribeExec
+	db := stdlib.OpenDB(*cfg)
 	// UTC, so that timestamps with a time zone read the same everywhere.
 	l, err := newLive(ctx, "postgres", db, "SET TIME ZONE 'UTC'")
 	if err != nil {
@@ -182,10 +190,23 @@ func openMySQL(ctx context.Context, dsn string) (*Live, error) {
 		l.Close()
 		return nil, err
 	}
+	// Text the statement makes itself (a literal, a case over literals)
+	// takes the session's collation, by default one that ignores case and
+	// trailing spaces, so 'A', 'a' and 'a ' would be one group, unlike on
+	// DuckDB. A binary, NO PAD collation compares them byte by byte; a
+	// column keeps its own collation, which wins over a literal's
+	// (dev.mysql.com/doc/refman/8.0/en/charset-collation-coercibility.html).
+	// utf8mb4_0900_bin: MySQL 8.0.17+ (dev.mysql.com/doc/refman/8.0/en/charset-unicode-sets.html).
+	collation := "utf8mb4_0900_bin"
 	if strings.Contains(strings.ToLower(l.Server), "mariadb") {
 		l.Server = "MariaDB " + l.Server
+		collation = "utf8mb4_nopad_bin" // MariaDB 10.2+
 	} else {
 		l.Server = "MySQL " + l.Server
+	}
+	if err := l.Exec(ctx, "SET collation_connection = '"+collation+"'"); err != nil {
+		l.Close()
+		return nil, err
 	}
 	return l, nil
 }

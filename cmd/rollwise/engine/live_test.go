@@ -157,6 +157,18 @@ func liveEngine(t *testing.T, name string) *Live {
 	return l
 }
 
+// dropAtEnd drops the schema (a MySQL database) the test loaded into
+// when it ends.
+func dropAtEnd(t *testing.T, l *Live, schema string) {
+	t.Cleanup(func() {
+		if l.Dialect == "postgres" {
+			l.Exec(context.Background(), `DROP SCHEMA "`+schema+`" CASCADE`) //nolint:errcheck // best effort
+		} else {
+			l.Exec(context.Background(), "DROP DATABASE `"+schema+"`") //nolint:errcheck // best effort
+		}
+	})
+}
+
 // Every type, every awkward value: loaded into each live engine and read
 // back, the values must be DuckDB's.
 func TestLoadIntoAndReadBack(t *testing.T) {
@@ -187,13 +199,7 @@ func TestLoadIntoAndReadBack(t *testing.T) {
 				things.Relation = []string{"lab", "things"}
 				defer func() { things.Relation = []string{schema, "things"} }()
 			} else {
-				t.Cleanup(func() {
-					if name == "postgres" {
-						l.Exec(context.Background(), `DROP SCHEMA "`+schema+`" CASCADE`) //nolint:errcheck // best effort
-					} else {
-						l.Exec(context.Background(), "DROP DATABASE `"+schema+"`") //nolint:errcheck // best effort
-					}
-				})
+				dropAtEnd(t, l, schema)
 			}
 			if err := LoadInto(ctx, l, m, ""); err != nil {
 				t.Fatal(err)
@@ -241,5 +247,48 @@ func TestLoadIntoSQLiteNeedsAttachedSchema(t *testing.T) {
 	err = LoadInto(context.Background(), l, m, "")
 	if err == nil || !strings.Contains(err.Error(), "attach=shop=FILE") {
 		t.Errorf("error %v should say how to attach schema shop", err)
+	}
+}
+
+// A table loaded again on the same connection with other column types
+// (the differential tests load case after case into one database): the
+// second load must not reuse what the first prepared.
+func TestLoadIntoTwiceOnOneConnection(t *testing.T) {
+	dir := t.TempDir()
+	schema := fmt.Sprintf("rw_engine_%d", rand.Uint32())
+	writeFile(t, dir, "a.csv", "id,v\n1,2\n2,3\n")
+	writeFile(t, dir, "b.csv", "id,v\n1,1.5\n2,3.25\n")
+	for _, name := range []string{"sqlite", "postgres", "mysql"} {
+		t.Run(name, func(t *testing.T) {
+			l := liveEngine(t, name)
+			ctx := context.Background()
+			rel := []string{schema, "t"}
+			if name == "sqlite" {
+				rel = []string{"lab", "t"}
+			} else {
+				dropAtEnd(t, l, schema)
+			}
+			for _, c := range []struct {
+				file string
+				typ  planner.Type
+				want string
+			}{{"a.csv", planner.TypeInteger, "5"}, {"b.csv", planner.TypeDecimal, "4.75"}} {
+				m := model(table("t", rel, filepath.Join(dir, c.file), col("id", planner.TypeInteger), col("v", c.typ)))
+				if err := LoadInto(ctx, l, m, ""); err != nil {
+					t.Fatalf("loading %s: %v", c.file, err)
+				}
+				q := "SELECT sum(`v`) FROM `" + strings.Join(rel, "`.`") + "`"
+				if name == "postgres" {
+					q = strings.ReplaceAll(q, "`", `"`)
+				}
+				got, err := l.Query(ctx, q, []planner.Type{c.typ})
+				if err != nil {
+					t.Fatal(err)
+				}
+				if g := fmt.Sprint(got.Rows[0][0]); g != c.want {
+					t.Errorf("after loading %s: sum(v) = %s, want %s", c.file, g, c.want)
+				}
+			}
+		})
 	}
 }
