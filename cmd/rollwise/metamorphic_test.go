@@ -38,11 +38,12 @@ func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *plann
 		}
 		return nil, pq, false, fmt.Errorf("the planner rejects the query: %v", pd)
 	}
-	text, err := dialects.Render(plan, dc.duck)
+	tg := dc.duckdb()
+	text, err := dialects.Render(plan, tg.d)
 	if err != nil {
 		return nil, pq, false, err
 	}
-	rows, err = dc.runSQL(pq, plan, text)
+	rows, err = dc.runSQL(tg, pq, plan, text)
 	return rows, pq, false, err
 }
 

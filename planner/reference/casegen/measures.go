@@ -470,7 +470,7 @@ func (g *gen) atom(c *column) string {
 		case "text":
 			switch c.name {
 			case "band":
-				vals = []string{"'big'", "'small'", "'none'"}
+				vals = []string{"'big'", "'small'", "'none'", "'Big'", "'big '"}
 			case "zone":
 				vals = []string{"'none'", "'North'"}
 			case "region_or":

@@ -216,7 +216,7 @@ func (g *gen) factColumns(f *table) {
 		f.add(attr("score", "float", 10, plainVals("-2.5", "0.25", "0.5", "1", "3.75", "8")))
 	}
 	if g.chance(70) {
-		f.add(attr("tag", "text", 15, textVals("a", "b", "c", "x y")))
+		f.add(attr("tag", "text", 15, textVals("a", "b", "c", "x y", "A", "a ")))
 	}
 	day := (*column)(nil)
 	if g.chance(60) {
@@ -235,7 +235,9 @@ func (g *gen) factColumns(f *table) {
 		f.add(&column{name: "line", typ: "decimal", derived: "price * qty"})
 	}
 	if g.chance(40) {
-		f.add(&column{name: "band", typ: "text", derived: "case when qty >= 5 then 'big' when qty is null then 'none' else 'small' end"})
+		// 'Big' and 'big ' differ from 'big' only by case and a trailing
+		// space: text is compared byte by byte, literals included.
+		f.add(&column{name: "band", typ: "text", derived: "case when qty >= 5 then 'big' when qty = 0 then 'Big' when qty = 1 then 'big ' when qty is null then 'none' else 'small' end"})
 	}
 	if day != nil && g.chance(40) {
 		f.add(&column{name: "month", typ: "date", derived: "date_trunc(month, day)"})

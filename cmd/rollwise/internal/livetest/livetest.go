@@ -9,7 +9,8 @@
 // The servers are for tests only: each model's data goes into a database
 // of its own (PostgreSQL: a database; MySQL: a default database, plus a
 // database per schema the model's relations name), dropped and created
-// afresh.
+// afresh; Empty's databases, which tests load case after case, are
+// dropped again when the test ends.
 package livetest
 
 import (
@@ -72,18 +73,49 @@ var unsafeChars = regexp.MustCompile(`[^a-z0-9_]`)
 // test in parallel must use different tags. The caller closes it.
 func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Engine {
 	t.Helper()
+	e := connect(t, name, "rollwise_test_"+safeName(tag), schemas(m))
+	if err := engine.LoadInto(context.Background(), e.Live, m, dataDir); err != nil {
+		e.Close()
+		t.Fatalf("%s: %v", name, err)
+	}
+	return e
+}
+
+// Empty returns engine name with an empty database of its own, named
+// after tag and the process (so that concurrent runs never share one),
+// for a test that loads data itself, case after case
+// (engine.LoadInto). The database is dropped when the test ends.
+func Empty(t testing.TB, name, tag string) *Engine {
+	t.Helper()
+	db := fmt.Sprintf("rollwise_test_%s_%d", safeName(tag), os.Getpid())
+	e := connect(t, name, db, nil)
+	server := ServerURL(t, name)
+	t.Cleanup(func() {
+		e.Close()
+		if err := drop(context.Background(), name, server, db); err != nil {
+			t.Errorf("%s: dropping the test database %s: %v", name, db, err)
+		}
+	})
+	return e
+}
+
+func safeName(tag string) string { return unsafeChars.ReplaceAllString(strings.ToLower(tag), "_") }
+
+// connect creates database db afresh (with the given schemas) on engine
+// name and connects to it.
+func connect(t testing.TB, name, db string, schemas []string) *Engine {
+	t.Helper()
 	server := ServerURL(t, name)
 	ctx := context.Background()
-	tag = unsafeChars.ReplaceAllString(strings.ToLower(tag), "_")
 	var dsn string
 	var err error
 	switch name {
 	case "postgres":
-		dsn, err = freshPostgres(ctx, server, "rollwise_test_"+tag)
+		dsn, err = freshPostgres(ctx, server, db)
 	case "mysql":
-		dsn, err = freshMySQL(ctx, server, "rollwise_test_"+tag, schemas(m))
+		dsn, err = freshMySQL(ctx, server, db, schemas)
 	case "sqlite":
-		dsn, err = freshSQLite("rollwise_test_"+tag, schemas(m))
+		dsn, err = freshSQLite(db, schemas)
 	default:
 		t.Fatalf("no live engine %q", name)
 	}
@@ -92,10 +124,6 @@ func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Eng
 	}
 	l, err := engine.OpenLive(ctx, dsn)
 	if err != nil {
-		t.Fatalf("%s: %v", name, err)
-	}
-	if err := engine.LoadInto(ctx, l, m, dataDir); err != nil {
-		l.Close()
 		t.Fatalf("%s: %v", name, err)
 	}
 	return &Engine{Name: name, DSN: dsn, Live: l}
@@ -118,6 +146,22 @@ func schemas(m *planner.Model) []string {
 	}
 	sort.Strings(out)
 	return out
+}
+
+// drop drops database db of engine name (SQLite: its folder).
+func drop(ctx context.Context, name, server, db string) error {
+	if name == "sqlite" {
+		return os.RemoveAll(sqliteDir(db))
+	}
+	admin, err := engine.OpenLive(ctx, server)
+	if err != nil {
+		return err
+	}
+	defer admin.Close()
+	if name == "postgres" {
+		return admin.Exec(ctx, `DROP DATABASE IF EXISTS "`+db+`" WITH (FORCE)`)
+	}
+	return admin.Exec(ctx, "DROP DATABASE IF EXISTS `"+db+"`")
 }
 
 // freshPostgres drops and creates database db on the server and returns
@@ -175,7 +219,7 @@ func freshMySQL(ctx context.Context, server, db string, schemas []string) (strin
 // schema, in a folder of the temp dir named after db (emptied first, and
 // kept after the test: the engine may serve later tests of the run).
 func freshSQLite(db string, schemas []string) (string, error) {
-	dir := filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d", db, os.Getuid()))
+	dir := sqliteDir(db)
 	if err := os.RemoveAll(dir); err != nil {
 		return "", err
 	}
@@ -187,4 +231,9 @@ func freshSQLite(db string, schemas []string) (string, error) {
 		q.Add("attach", fmt.Sprintf("%s=schema%d.db", s, i))
 	}
 	return "sqlite:" + filepath.Join(dir, "main.db") + "?" + q.Encode(), nil
+}
+
+// sqliteDir is the folder of SQLite database db.
+func sqliteDir(db string) string {
+	return filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d", db, os.Getuid()))
 }
