@@ -37,16 +37,30 @@ func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, e
 	if err != nil {
 		return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s rejected the query: %w", l.Server, err)}
 	}
-	if l.Dialect == "sqlite" {
-		for _, o := range c.plan.Outputs {
-			if o.Expr.Type() == planner.TypeDecimal {
-				c.plan.Cautions = append(c.plan.Cautions,
-					"SQLite has no exact decimal type: decimal values were computed as 64-bit floats")
-				break
-			}
+	addLiveCautions(ctx, l, c)
+	return shape(c, res)
+}
+
+// addLiveCautions adds to c's plan what may make the live engine's
+// numbers differ from the embedded engine's: SQLite's float decimals, and
+// MySQL/MariaDB group columns whose collation merges values that differ
+// in case or trailing spaces.
+func addLiveCautions(ctx context.Context, l *engine.Live, c *compiled) {
+	loose, err := l.LooseGroupCollations(ctx, c.query.Groups)
+	if err != nil {
+		loose = append(loose, fmt.Sprintf("%s: could not check that the group columns compare text exactly (%v): groups may merge values that differ in case or trailing spaces", l.Server, err))
+	}
+	c.plan.Cautions = append(c.plan.Cautions, loose...)
+	if l.Dialect != "sqlite" {
+		return
+	}
+	for _, o := range c.plan.Outputs {
+		if o.Expr.Type() == planner.TypeDecimal {
+			c.plan.Cautions = append(c.plan.Cautions,
+				"SQLite has no exact decimal type: decimal values were computed as 64-bit floats")
+			return
 		}
 	}
-	return shape(c, res)
 }
 
 // resultTypes are the logical types of the statement's columns: the

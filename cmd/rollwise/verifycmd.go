@@ -146,6 +146,7 @@ func runVerify(e *env, o *verifyOptions) error {
 			return &exitError{code: exitFindings, err: err}
 		}
 		defer l.Close()
+		addLiveCautions(ctx, l, c)
 		runner = liveRunner{l: l}
 	} else {
 		db, err := engine.OpenDuckDB(ctx, c.model, o.data)
