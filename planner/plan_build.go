@@ -63,6 +63,9 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 		pl.useWindows(root)
 		for _, s := range pl.p.Scans {
 			pl.checkReach(s)
+		}
+		pl.hoistNarrowings(root)
+		for _, s := range pl.p.Scans {
 			pl.joins(s)
 		}
 		pl.cautions()
