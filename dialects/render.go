@@ -124,7 +124,7 @@ func (r *renderer) render() (string, error) {
 		}
 		return sql, nil
 	}
-	return r.sorted(body), nil
+	return r.sorted(body)
 }
 
 // context renders the CTEs of every relation of ctx, and of its key

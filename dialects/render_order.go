@@ -14,8 +14,11 @@ import (
 //     stays after its group; without, detail rows are sorted by the measure
 //     and total rows follow;
 //   - --limit N keeps the first N detail rows in that order, the total rows
-//     of the groups they belong to, and the grand total.
-func (r *renderer) sorted(body string) string {
+//     of the groups they belong to, and the grand total. Without total rows
+//     that is the first N rows: a LIMIT (TOP on SQL Server) on the final
+//     SELECT, which an engine runs as a top-N (keeping N rows) rather than
+//     sorting every row to number them.
+func (r *renderer) sorted(body string) (string, error) {
 	q := r.p.Query
 	n := len(q.Groups)
 	cols := r.resultColumns()
@@ -55,7 +58,8 @@ func (r *renderer) sorted(body string) string {
 		keys = r.orderBy(true)
 	}
 	where := ""
-	if q.Limit > 0 && len(keys) > 0 {
+	top := q.Limit > 0 && len(keys) > 0 && len(r.p.Sets) == 1
+	if q.Limit > 0 && len(keys) > 0 && !top {
 		next := r.cteName("result_ranked")
 		// A running count rather than ROW_NUMBER(): DuckDB 1.5's
 		// top_n_window_elimination rewrites "ROW_NUMBER() ... <= N" and
@@ -96,11 +100,19 @@ func (r *renderer) sorted(body string) string {
 		where = "\nWHERE " + strings.Join(conds, "\n  OR ")
 	}
 	out := r.resultColumns()
-	sql := "WITH " + strings.Join(r.ctes, ",\n") + "\nSELECT\n  " + strings.Join(out, ",\n  ") + "\nFROM " + r.q(prev) + where
+	final := "SELECT\n  " + strings.Join(out, ",\n  ") + "\nFROM " + r.q(prev) + where
 	if len(keys) > 0 {
-		sql += "\nORDER BY " + strings.Join(keys, ", ")
+		final += "\nORDER BY " + strings.Join(keys, ", ")
 	}
-	return sql
+	if top {
+		// The keys order the rows totally (the group values tell any two
+		// apart), so the first N are the ones the window form keeps.
+		var err error
+		if final, err = ApplyLimit(r.d, final, q.Limit); err != nil {
+			return "", err
+		}
+	}
+	return "WITH " + strings.Join(r.ctes, ",\n") + "\n" + final, nil
 }
 
 // resultColumns are the report's columns by their plain names.

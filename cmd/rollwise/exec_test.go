@@ -184,6 +184,44 @@ func TestOrderAndLimit(t *testing.T) {
 	})
 }
 
+// Without total rows --limit keeps the first N rows of the order: ties on
+// the measure are broken by the group values, NULLs last, in the measure
+// and in the groups alike. Lines per store: 1: 2, 2: 1, 3: 2, 9: 1.
+func TestLimitTiesAndNulls(t *testing.T) {
+	got := runJSON(t, "run", shopModel, "-m", "lines", "-b", "sales.store_id", "--order", "lines desc", "--limit", "3")
+	expectRows(t, got, []row{
+		{"sales.store_id": 1, "lines": 2}, // tie with store 3, which comes after
+		{"sales.store_id": 3, "lines": 2},
+		{"sales.store_id": 2, "lines": 1}, // tie with store 9, cut
+	})
+	got = runJSON(t, "run", shopModel, "-m", "lines", "-b", "sales.store_id", "--order", "lines desc", "--limit", "3", "--totals", "grand")
+	expectRows(t, got, []row{
+		{"sales.store_id": 1, "lines": 2},
+		{"sales.store_id": 3, "lines": 2},
+		{"sales.store_id": 2, "lines": 1},
+		{"sales.store_id": nil, "lines": 6, "rolled_up": []string{"sales.store_id"}}, // over every row
+	})
+	// South has the most fees, North 30, the unmatched line's row none.
+	got = runJSON(t, "run", shopModel, "-m", "revenue,fees", "-b", "stores.region", "--order", "fees", "--limit", "2")
+	expectRows(t, got, []row{
+		{"stores.region": "North", "fees": "30.00"},
+		{"stores.region": "South", "fees": "75.50"},
+	})
+	got = runJSON(t, "run", shopModel, "-m", "revenue,fees", "-b", "stores.region", "--order", "fees desc", "--limit", "1")
+	expectRows(t, got, []row{{"stores.region": "South", "fees": "75.50"}})
+	// Without --order, by the group values: the NULL region comes last.
+	got = runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region", "--limit", "2")
+	expectRows(t, got, []row{
+		{"stores.region": "North", "revenue": "25.00"},
+		{"stores.region": "South", "revenue": "15.00"},
+	})
+	got = runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region", "--order", "revenue", "--limit", "2")
+	expectRows(t, got, []row{
+		{"stores.region": "South", "revenue": "15.00"},
+		{"stores.region": nil, "revenue": "20.00"},
+	})
+}
+
 // A filter that keeps no row leaves the grand total cell: sum of nothing is
 // null, count of nothing is 0.
 func TestEmptyCell(t *testing.T) {
