@@ -2,6 +2,7 @@ package dialects
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 
 	"github.com/rollwise/rollwise/planner"
@@ -15,7 +16,7 @@ const GroupingColumn = "grouping_id"
 // Render prints a plan as one SQL statement for the dialect.
 func Render(p *planner.Plan, d Dialect) (string, error) {
 	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
-		rename: map[string]string{}}
+		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}}
 	r.renameKeys(p.Root)
 	return r.render()
 }
@@ -29,6 +30,8 @@ type renderer struct {
 	// holding each context's rows.
 	cte    map[*planner.Rel]string
 	keyRel map[*planner.Context]string
+	// froms holds each context's FROM clause, built once its CTEs are.
+	froms map[*planner.Context]fromClause
 	// ctx is the context whose expressions are being rendered.
 	ctx *planner.Context
 	// iter is the iteration table of the scan being rendered.
@@ -146,6 +149,7 @@ func (r *renderer) context(ctx *planner.Context) error {
 	}
 	if len(ctx.Bases) == 1 {
 		r.keyRel[ctx] = r.cte[ctx.Bases[0]]
+		r.froms[ctx] = r.joinRels(ctx)
 		return nil
 	}
 	name := r.cteName(prefix(ctx.Name, "cells"))
@@ -159,6 +163,7 @@ func (r *renderer) context(ctx *planner.Context) error {
 	}
 	r.addCTE(name, strings.Join(parts, "\n  UNION\n"))
 	r.keyRel[ctx] = name
+	r.froms[ctx] = r.joinRels(ctx)
 	return nil
 }
 
@@ -169,9 +174,22 @@ func prefix(ctx, name string) string {
 	return ctx + "_" + name
 }
 
-// from joins every relation of ctx to its key relation. single reports
-// that there is only the key relation, whose columns need no qualifier.
+// fromClause is a context's FROM clause. single reports that there is
+// only the key relation, whose columns need no qualifier.
+type fromClause struct {
+	sql    string
+	single bool
+}
+
+// from is ctx's FROM clause (and whether it is single), as context built
+// it: every expression of ctx asks for it.
 func (r *renderer) from(ctx *planner.Context) (string, bool) {
+	f := r.froms[ctx]
+	return f.sql, f.single
+}
+
+// joinRels joins every relation of ctx to its key relation.
+func (r *renderer) joinRels(ctx *planner.Context) fromClause {
 	key := r.q(r.keyRel[ctx])
 	from := key
 	joined := 0
@@ -195,7 +213,7 @@ func (r *renderer) from(ctx *planner.Context) (string, bool) {
 		}
 		from += "\n  LEFT JOIN " + c + " ON " + strings.Join(conds, "\n    AND ")
 	}
-	return from, joined == 0 && len(ctx.Bases) == 1
+	return fromClause{sql: from, single: joined == 0 && len(ctx.Bases) == 1}
 }
 
 // gidMap spells the relation's grouping id for the context's grouping id.
@@ -207,11 +225,12 @@ func (r *renderer) gidMap(ctx *planner.Context, rel *planner.Rel, gid string) st
 	if identity {
 		return gid
 	}
-	s := "CASE " + gid
+	b := append(make([]byte, 0, len(gid)+16*len(ctx.Sets)+9), "CASE "+gid...)
 	for _, set := range ctx.Sets {
-		s += fmt.Sprintf(" WHEN %d THEN %d", set, rel.GidOf[set])
+		b = strconv.AppendUint(append(b, " WHEN "...), set, 10)
+		b = strconv.AppendUint(append(b, " THEN "...), rel.GidOf[set], 10)
 	}
-	return s + " END"
+	return string(append(b, " END"...))
 }
 
 // keyCol is a key column (or the grouping column) of ctx's rows.

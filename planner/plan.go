@@ -278,11 +278,22 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 	return out
 }
 
-func filterKey(fs []cellFilter, rows bool) string {
+// text is Text(e), remembered: the plan's keys print the same
+// expressions over and over (an expression never changes once built).
+func (pl *planner) text(e Expr) string {
+	if t, ok := pl.texts[e]; ok {
+		return t
+	}
+	t := Text(e)
+	pl.texts[e] = t
+	return t
+}
+
+func (pl *planner) filterKey(fs []cellFilter, rows bool) string {
 	var t []string
 	for _, f := range fs {
 		if f.rows == rows {
-			t = append(t, Text(f.e))
+			t = append(t, pl.text(f.e))
 		}
 	}
 	sort.Strings(t)

@@ -24,6 +24,7 @@ type planner struct {
 	rels         map[string]*Rel
 	values       map[string]*ValueRef
 	inputs       map[*Scan]map[string]*Input
+	texts        map[Expr]string
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
@@ -31,7 +32,7 @@ type planner struct {
 // the measure's (possibly edited) cell, or by a per-grain sub-context.
 func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
-		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}}
+		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
 		pl.measureNames[m.Name] = true
@@ -261,12 +262,7 @@ func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[ui
 // scanRel finds or adds the scan of t in ctx for a cell with the given
 // removed keys and row filters.
 func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, nameBase string) *Rel {
-	var texts []string
-	for _, w := range where {
-		texts = append(texts, Text(w))
-	}
-	slices.Sort(texts)
-	key := fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, strings.Join(texts, " and "))
+	key := fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, pl.whereKey(where))
 	if r, ok := pl.rels[key]; ok {
 		return r
 	}
@@ -302,11 +298,11 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 	if ctx.Name != "" {
 		nameBase = ctx.Name + "_" + a.Table.Name
 	}
-	if c.removed != 0 || filterKey(c.filters, true) != filterKey(cellFiltersOf(ctx.Filters), true) {
+	if c.removed != 0 || pl.filterKey(c.filters, true) != pl.whereKey(ctx.Filters) {
 		nameBase = pl.editedBy + "_" + a.Table.Name
 	}
 	r := pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), nameBase)
-	key := r.Name + "|" + Text(a) + "|" + filterKey(c.filters, false)
+	key := r.Name + "|" + pl.text(a) + "|" + pl.filterKey(c.filters, false)
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: a.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}
@@ -334,17 +330,9 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 	return v
 }
 
-func cellFiltersOf(fs []Expr) []cellFilter {
-	var out []cellFilter
-	for _, f := range fs {
-		out = append(out, cellFilter{e: f, rows: true})
-	}
-	return out
-}
-
 // input finds or adds a row-level value of the scan.
 func (pl *planner) input(s *Scan, name string, e Expr) *Input {
-	key := Text(e)
+	key := pl.text(e)
 	if in, ok := pl.inputs[s][key]; ok {
 		return in
 	}
@@ -360,10 +348,10 @@ func (pl *planner) input(s *Scan, name string, e Expr) *Input {
 func (pl *planner) per(ctx *Context, pa *PerAgg, c cell) Expr {
 	var texts []string
 	for _, f := range c.filters {
-		texts = append(texts, fmt.Sprint(f.rows)+Text(f.e))
+		texts = append(texts, fmt.Sprint(f.rows)+pl.text(f.e))
 	}
 	slices.Sort(texts)
-	key := fmt.Sprintf("%p|per|%s|%d|%s", ctx, Text(pa), c.removed, strings.Join(texts, " and "))
+	key := fmt.Sprintf("%p|per|%s|%d|%s", ctx, pl.text(pa), c.removed, strings.Join(texts, " and "))
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: pa.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}

@@ -44,17 +44,17 @@ func (pl *planner) hoist(s *Scan) {
 		}
 		texts := map[string]bool{}
 		for _, c := range Conjuncts(l.Filter.Expr) {
-			texts[Text(c)] = true
+			texts[pl.text(c)] = true
 		}
 		if i == 0 {
 			for _, c := range Conjuncts(l.Filter.Expr) {
-				if !slices.ContainsFunc(shared, func(x Expr) bool { return Text(x) == Text(c) }) {
+				if !slices.ContainsFunc(shared, func(x Expr) bool { return pl.text(x) == pl.text(c) }) {
 					shared = append(shared, c)
 				}
 			}
 			continue
 		}
-		shared = slices.DeleteFunc(shared, func(c Expr) bool { return !texts[Text(c)] })
+		shared = slices.DeleteFunc(shared, func(c Expr) bool { return !texts[pl.text(c)] })
 		if len(shared) == 0 {
 			return
 		}
@@ -62,9 +62,9 @@ func (pl *planner) hoist(s *Scan) {
 	moved := map[string]bool{}
 	where := slices.Clone(s.Where) // s.Where may be the context's own Filters
 	for _, c := range shared {
-		t := Text(c)
+		t := pl.text(c)
 		moved[t] = true
-		if !slices.ContainsFunc(where, func(w Expr) bool { return Text(w) == t }) {
+		if !slices.ContainsFunc(where, func(w Expr) bool { return pl.text(w) == t }) {
 			where = append(where, c)
 		}
 	}
@@ -79,7 +79,7 @@ func (pl *planner) hoist(s *Scan) {
 		if !done {
 			var e Expr
 			for _, c := range Conjuncts(l.Filter.Expr) {
-				if moved[Text(c)] {
+				if moved[pl.text(c)] {
 					continue
 				}
 				if e == nil {
@@ -106,14 +106,14 @@ func (pl *planner) hoist(s *Scan) {
 // the scan has already, or else old itself, recomputed (keeping its name),
 // unless a leaf reads old as its argument.
 func (pl *planner) reuse(s *Scan, old *Input, e Expr, isArg bool) *Input {
-	t := Text(e)
+	t := pl.text(e)
 	if in, ok := pl.inputs[s][t]; ok {
 		return in
 	}
 	if isArg {
 		return pl.input(s, old.Name, e)
 	}
-	delete(pl.inputs[s], Text(old.Expr))
+	delete(pl.inputs[s], pl.text(old.Expr))
 	old.Expr = e
 	pl.inputs[s][t] = old
 	return old

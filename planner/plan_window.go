@@ -35,10 +35,10 @@ func (pl *planner) useWindows(ctx *Context) {
 		return
 	}
 	base := ctx.Bases[0]
-	want := whereKey(ctx.Filters)
+	want := pl.whereKey(ctx.Filters)
 	for _, r := range ctx.Rels {
 		s := r.Scan
-		if r == base || s == nil || s.Table != base.Scan.Table || whereKey(s.Where) != want || len(s.Leaves) == 0 {
+		if r == base || s == nil || s.Table != base.Scan.Table || pl.whereKey(s.Where) != want || len(s.Leaves) == 0 {
 			continue
 		}
 		ok := true
@@ -67,7 +67,7 @@ func (pl *planner) baseLeaf(base, s *Scan, l *Leaf) *Leaf {
 		if in == nil {
 			return ""
 		}
-		return Text(in.Expr)
+		return pl.text(in.Expr)
 	}
 	for _, b := range base.Leaves {
 		if b.Func == l.Func && b.Distinct == l.Distinct && text(b.Arg) == text(l.Arg) && text(b.Filter) == text(l.Filter) {
@@ -85,10 +85,11 @@ func (pl *planner) baseLeaf(base, s *Scan, l *Leaf) *Leaf {
 	return nl
 }
 
-func whereKey(ws []Expr) string {
+// whereKey identifies a set of row filters, whatever their order.
+func (pl *planner) whereKey(ws []Expr) string {
 	var t []string
 	for _, w := range ws {
-		t = append(t, Text(w))
+		t = append(t, pl.text(w))
 	}
 	sort.Strings(t)
 	return strings.Join(t, " and ")
