@@ -300,7 +300,11 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		for i := range l.FromCols {
 			conds = append(conds, r.q(l.From.Name)+"."+r.q(l.FromCols[i].Name)+" = "+r.q(l.To.Name)+"."+r.q(l.ToCols[i].Name))
 		}
-		rows += "\n  LEFT JOIN " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
+		join := "LEFT JOIN"
+		if s.Inner[l] {
+			join = "JOIN"
+		}
+		rows += "\n  " + join + " " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
 	}
 	if len(s.Where) > 0 {
 		var conds []string

@@ -88,9 +88,13 @@ type WindowPart struct {
 // Scan reads one iteration table (joined along links to what it needs),
 // keeps the rows that pass the filters, and computes its leaves per cell.
 type Scan struct {
-	Name   string
-	Table  *Table
-	Joins  []*Link
+	Name  string
+	Table *Table
+	Joins []*Link
+	// Inner marks the joins that may drop a row whose link finds no
+	// match, rendered as inner joins: a row filter rejects such rows
+	// anyway (see innerJoins).
+	Inner  map[*Link]bool
 	Where  []Expr
 	Keys   []Key
 	Inputs []*Input

@@ -110,6 +110,7 @@ func (pl *planner) joins(s *Scan) {
 		return links[i].To.Name < links[j].To.Name
 	})
 	s.Joins = links
+	s.Inner = innerJoins(s)
 }
 
 // cautions notes results that could mislead.

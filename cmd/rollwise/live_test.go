@@ -36,6 +36,7 @@ var liveModels = map[string]string{
 	shopModel:                              "cli_shop",
 	"../../testdata/dialects/lab.roll":     "cli_lab",
 	"../../testdata/dialects/hostile.roll": "cli_hostile",
+	joinsModel:                             "cli_joins",
 }
 
 // liveCache holds the engines loaded so far, by engine and model; a load

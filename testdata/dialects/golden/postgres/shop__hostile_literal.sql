@@ -4,7 +4,7 @@ WITH "sales_rows" AS (
     "stores"."region" AS "stores.region",
     ("sales"."price" * "sales"."qty") AS "revenue_arg"
   FROM "shop"."sales" AS "sales"
-  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
+  JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
   WHERE ("stores"."region" IN ('O''Neil; DROP TABLE x; --', E'\\\\', 'ünï'))
 ),
 "sales_cells" AS (

@@ -20,7 +20,7 @@ WITH `sales_rows` AS (
   SELECT
     (`sales`.`price` * `sales`.`qty`) AS `north_everywhere_revenue_arg`
   FROM `shop`.`sales` AS `sales`
-  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
+  JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
   WHERE (`stores`.`region` = 'North')
 ),
 `north_everywhere_sales_cells` AS (

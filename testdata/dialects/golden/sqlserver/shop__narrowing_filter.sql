@@ -5,7 +5,7 @@ WITH [sales_rows] AS (
     ([sales].[price] * [sales].[qty]) AS [revenue_arg],
     CASE WHEN ([sales].[item] = N'rose') THEN 1 WHEN NOT (([sales].[item] = N'rose')) THEN 0 END AS [roses_if]
   FROM [shop].[sales] AS [sales]
-  LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
+  JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
   WHERE ([stores].[region] = N'North')
     AND ([sales].[qty] >= 2)
 ),

@@ -5,7 +5,7 @@ WITH "sales_rows" AS (
     ("sales"."price" * "sales"."qty") AS "revenue_arg",
     ("sales"."item" = 'rose') AS "roses_if"
   FROM "shop"."sales" AS "sales"
-  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
+  JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
   WHERE ("stores"."region" = 'North')
     AND ("sales"."qty" >= 2)
 ),

@@ -1,0 +1,114 @@
+package planner
+
+import "slices"
+
+// Inner joins. A scan joins the tables it reads along links with LEFT
+// JOIN, so that a row whose link finds no match is kept and reads NULL
+// beyond the link. Where a row filter of the scan (a conjunct of
+// Scan.Where) can never hold on such a row, the LEFT JOIN may as well be
+// an inner join: the rows it would drop are the rows the WHERE drops. An
+// inner join lets the engine reorder the joins and start from the most
+// selective table, which a chain of LEFT JOINs forbids.
+//
+// Only row filters count: the FILTER predicate of a leaf (a narrowing, a
+// pin) removes rows from that one aggregate, not from the scan's other
+// leaves or from the rows that make the scan's cells.
+
+// innerJoins marks the joins of s that may be inner joins: every join on
+// the path to a table T for which a row filter of s rejects the rows
+// where T is missing.
+func innerJoins(s *Scan) map[*Link]bool {
+	into := map[*Table]*Link{}
+	for _, l := range s.Joins {
+		into[l.To] = l
+	}
+	// path lists the joins from the iteration table to t.
+	path := func(t *Table) []*Link {
+		var out []*Link
+		for l := into[t]; l != nil; l = into[l.From] {
+			out = append(out, l)
+		}
+		return out
+	}
+	inner := map[*Link]bool{}
+	for _, l := range s.Joins {
+		// gone: the tables that read NULL when l finds no match, l's
+		// target and everything joined through it.
+		gone := func(t *Table) bool {
+			return slices.Contains(path(t), l)
+		}
+		for _, w := range s.Where {
+			if rejects(w, gone) {
+				for _, p := range path(l.To) {
+					inner[p] = true
+				}
+				break
+			}
+		}
+	}
+	return inner
+}
+
+// rejects reports whether predicate p is false or NULL on every row where
+// the tables for which gone holds read NULL (their link found no match).
+func rejects(p Expr, gone func(*Table) bool) bool {
+	switch p := p.(type) {
+	case *BinOp:
+		switch p.Op {
+		case "and":
+			return rejects(p.L, gone) || rejects(p.R, gone)
+		case "or":
+			return rejects(p.L, gone) && rejects(p.R, gone)
+		}
+	case *UnOp:
+		if p.Op == "not" {
+			return nullOn(p.X, gone)
+		}
+	case *IsNullExpr:
+		return p.Not && nullOn(p.X, gone)
+	}
+	return nullOn(p, gone)
+}
+
+// nullOn reports whether e is NULL on every row where the tables for
+// which gone holds read NULL. It answers false when unsure.
+func nullOn(e Expr, gone func(*Table) bool) bool {
+	switch e := e.(type) {
+	case *ColRef:
+		if gone(e.Col.Table) {
+			// Stored columns are NULL; so are derived ones, which the
+			// SQL computes only where the row's link found a match.
+			return true
+		}
+		return e.Col.Derived != nil && nullOn(e.Col.Derived, gone)
+	case *Lit:
+		return e.T == TypeNull
+	case *BinOp:
+		if e.Op == "and" || e.Op == "or" {
+			// NULL and false is false; NULL or true is true.
+			return nullOn(e.L, gone) && nullOn(e.R, gone)
+		}
+		// Arithmetic, comparisons and || are NULL when a side is.
+		return nullOn(e.L, gone) || nullOn(e.R, gone)
+	case *UnOp:
+		return nullOn(e.X, gone)
+	case *InExpr:
+		return nullOn(e.X, gone)
+	case *Func:
+		switch e.Name {
+		case "coalesce", "least", "greatest":
+			// NULL only when every argument is (least and greatest skip
+			// NULL arguments).
+			for _, a := range e.Args {
+				if !nullOn(a, gone) {
+					return false
+				}
+			}
+			return true
+		case "nullif", "abs", "round", "lower", "upper", "cast", "extract", "date_trunc":
+			return nullOn(e.Args[0], gone)
+		}
+	}
+	// is [not] null, case, and anything else: unsure.
+	return false
+}

@@ -1,0 +1,135 @@
+package planner_test
+
+import (
+	"slices"
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+const snowflake = `table sales {
+  key id
+  id         integer
+  store_id   integer -> stores.id
+  qty        integer
+  region_or  = coalesce(stores.region, '?')
+}
+table stores {
+  key id
+  id           integer
+  region       text
+  district_id  integer -> districts.id
+  area_or      = coalesce(districts.area, 'none')
+}
+table districts {
+  key id
+  id    integer
+  area  text
+}
+measure units       = sum(sales.qty)
+measure north_units = units where stores.region = 'North'
+measure all_units   = units[drop stores.region]
+measure region_avg  = avg(units per stores.region) where districts.area = 'Hills'
+`
+
+// planQuery plans a query on the model src.
+func planQuery(t *testing.T, src, measures, by, where string) *planner.Plan {
+	t.Helper()
+	f, d := grammar.Parse("m.roll", src)
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	m, d := planner.Load([]*grammar.File{f})
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	spec := planner.QuerySpec{Measures: strings.Split(measures, ","), Where: where}
+	if by != "" {
+		spec.By = strings.Split(by, ",")
+	}
+	q, d := m.NewQuery(spec)
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	p, d := planner.NewPlan(q)
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	return p
+}
+
+// innerTargets plans the query and lists, per scan, the tables its inner
+// joins lead to, sorted ("scan: t1 t2").
+func innerTargets(t *testing.T, measures, by, where string) []string {
+	t.Helper()
+	p := planQuery(t, snowflake, measures, by, where)
+	var out []string
+	for _, s := range p.Scans {
+		var to []string
+		for _, l := range s.Joins {
+			if s.Inner[l] {
+				to = append(to, l.To.Name)
+			}
+		}
+		slices.Sort(to)
+		out = append(out, strings.TrimSpace(s.Name+": "+strings.Join(to, " ")))
+	}
+	return out
+}
+
+// A row filter that cannot hold where a link finds no match makes the
+// joins on the way to that table inner joins; one that can hold there
+// (is null, coalesce, case) leaves them LEFT JOINs.
+func TestInnerJoinsFromRowFilters(t *testing.T) {
+	for _, c := range []struct{ where, want string }{
+		{"", "sales:"},
+		{"stores.region = 'North'", "sales: stores"},
+		{"districts.area = 'Hills'", "sales: districts stores"},
+		{"stores.region in ('North', 'South') and sales.qty > 1", "sales: stores"},
+		{"districts.area between 'A' and 'K'", "sales: districts stores"},
+		{"not (stores.region = 'North')", "sales: stores"},
+		{"stores.region is not null", "sales: stores"},
+		{"stores.region = 'North' or districts.area = 'Hills'", "sales: stores"},
+		{"lower(stores.region) = 'north' or stores.id > 2", "sales: stores"},
+		{"sales.qty > 1", "sales:"},
+		{"sales.store_id = 1", "sales:"},
+		{"stores.region is null", "sales:"},
+		{"not (stores.region is null)", "sales:"}, // exact, but not recognised
+		{"stores.region = 'North' or stores.region is null", "sales:"},
+		{"stores.region = 'North' or sales.qty > 1", "sales:"},
+		{"coalesce(stores.region, 'x') = 'x'", "sales:"},
+		{"coalesce(stores.region, districts.area) = 'x'", "sales: stores"},
+		{"least(stores.region, 'a') = 'a'", "sales:"},
+		{"case when stores.region = 'North' then true else false end", "sales:"},
+		// A derived column of stores is NULL where the store is missing,
+		// but its coalesce holds where only the district is.
+		{"stores.area_or = 'none'", "sales: stores"},
+		{"sales.region_or = '?'", "sales:"},
+	} {
+		got := innerTargets(t, "units", "", c.where)
+		if len(got) != 1 || got[0] != c.want {
+			t.Errorf("-w %q: inner joins %q, want %q", c.where, got, c.want)
+		}
+	}
+}
+
+// Narrowings and pins filter one aggregate, not the scan's rows; an edit
+// that drops the filter reads rows the filter rejects; a per-grain
+// sub-context's rows are filtered by its narrowing.
+func TestInnerJoinsOnlyForTheScansRows(t *testing.T) {
+	for _, c := range []struct {
+		measures, by, where string
+		want                []string
+	}{
+		{"units,north_units", "", "", []string{"sales:"}},
+		{"units,all_units", "stores.region", "stores.region = 'North'", []string{"sales: stores", "all_units_sales:"}},
+		{"region_avg", "", "", []string{"sales:", "region_avg_per_sales: districts stores"}},
+	} {
+		got := innerTargets(t, c.measures, c.by, c.where)
+		if !slices.Equal(got, c.want) {
+			t.Errorf("-m %s -b %q -w %q: inner joins %q, want %q", c.measures, c.by, c.where, got, c.want)
+		}
+	}
+}
