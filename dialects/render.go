@@ -34,8 +34,10 @@ type renderer struct {
 	froms map[*planner.Context]fromClause
 	// ctx is the context whose expressions are being rendered.
 	ctx *planner.Context
-	// iter is the iteration table of the scan being rendered.
-	iter *planner.Table
+	// iter is the iteration table of the scan being rendered; found are
+	// the tables its inner joins reach, which every row finds.
+	iter  *planner.Table
+	found map[*planner.Table]bool
 	// rename spells key columns for dialects that need it (ColumnNamer).
 	rename map[string]string
 }
@@ -274,8 +276,11 @@ func (r *renderer) orderBy(plain bool) []string {
 // cell of its grouping sets).
 func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	s := rel.Scan
-	r.iter = s.Table
-	defer func() { r.iter = nil }()
+	r.iter, r.found = s.Table, map[*planner.Table]bool{}
+	defer func() { r.iter, r.found = nil, nil }()
+	for _, l := range s.Joins {
+		r.found[l.To] = s.Inner[l]
+	}
 	var cols []string
 	for _, k := range s.Keys {
 		e, err := r.value(&planner.ColRef{Col: k.Col})

@@ -19,9 +19,10 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 				return "", err
 			}
 			t := e.Col.Table
-			if r.iter != nil && t != r.iter && len(t.Key) > 0 {
+			if r.iter != nil && t != r.iter && len(t.Key) > 0 && !r.found[t] {
 				// A row whose link finds no match has NULL for every column
-				// beyond the link, derived ones included.
+				// beyond the link, derived ones included (an inner join
+				// keeps no such row).
 				return "CASE WHEN " + r.q(t.Name) + "." + r.q(t.Key[0].Name) + " IS NOT NULL THEN " + x + " END", nil
 			}
 			return "(" + x + ")", nil
