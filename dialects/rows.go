@@ -85,3 +85,18 @@ func rowJoins(t *planner.Table) ([]*planner.Link, error) {
 	})
 	return links, nil
 }
+
+// UnmatchedRows is the statement that counts the rows of l's table whose
+// link l finds no row of its target (a NULL link column finds none): 0
+// where a link declared required keeps its promise.
+func UnmatchedRows(l *planner.Link, d Dialect) string {
+	r := &renderer{d: d}
+	from, to := r.q("source"), r.q("target")
+	var conds []string
+	for i := range l.FromCols {
+		conds = append(conds, from+"."+r.q(l.FromCols[i].Name)+" = "+to+"."+r.q(l.ToCols[i].Name))
+	}
+	return "SELECT count(*) FROM " + r.relation(l.From) + " AS " + from +
+		" LEFT JOIN " + r.relation(l.To) + " AS " + to + " ON " + strings.Join(conds, " AND ") +
+		" WHERE " + to + "." + r.q(l.ToCols[0].Name) + " IS NULL"
+}

@@ -55,20 +55,23 @@ type ColumnDecl struct {
 	Name Ident
 	Type *Ident
 	Expr Expr
-	// Link is the target of a `-> TABLE.KEYCOL` option.
+	// Link is the target of a `-> TABLE.KEYCOL` option; LinkRequired
+	// says it is written `required`.
 	Link          *Ref
+	LinkRequired  bool
 	Additivity    Additivity
 	AdditivityPos Pos
 	// SemiDate is the date column of `semiadditive(TABLE.DATECOL)`.
 	SemiDate *Ref
 }
 
-// LinkDecl is `link (COL, ...) -> TABLE (KEYCOL, ...)`.
+// LinkDecl is `link (COL, ...) -> TABLE (KEYCOL, ...) [required]`.
 type LinkDecl struct {
-	Pos   Pos
-	From  []Ident
-	Table Ident
-	To    []Ident
+	Pos      Pos
+	From     []Ident
+	Table    Ident
+	To       []Ident
+	Required bool
 }
 
 // MeasureDecl is `measure NAME = EXPR [format F] ["doc"]`.

@@ -107,7 +107,7 @@ func (t *syntaxTable) decl() *TableDecl {
 			td.KeyPos = pos(it.Pos)
 		case it.Link != nil:
 			td.Links = append(td.Links, &LinkDecl{Pos: pos(it.Link.Pos), From: names(it.Link.From),
-				Table: it.Link.Table.ident(), To: names(it.Link.To)})
+				Table: it.Link.Table.ident(), To: names(it.Link.To), Required: it.Link.Required})
 		case it.Column != nil:
 			td.Columns = append(td.Columns, it.Column.decl())
 		}
@@ -127,7 +127,7 @@ func (c *syntaxColumn) decl() *ColumnDecl {
 	for _, o := range c.Options {
 		switch {
 		case o.Link != nil:
-			cd.Link = o.Link.ref()
+			cd.Link, cd.LinkRequired = o.Link.Target.ref(), o.Link.Required
 		case o.Additive:
 			cd.Additivity, cd.AdditivityPos = Additive, pos(o.Pos)
 		case o.Nonadditive:

@@ -80,7 +80,9 @@ table t at "s.t" {
   ` + "`order`" + ` date
   c decimal semiadditive(t.` + "`order`" + `)
   d = case when a > 1 then 'x' else 'y' end
-  link (a, b) -> u (x, y)
+  link (a, b) -> u (x, y) required
+  e integer -> v.k REQUIRED nonadditive
+  f integer -> w.k
 }
 measure m1 = sum(t.c)[t.order = date '2026-01-31'; drop u.z; ungroup t.b; ungroup; drop]
 measure m2 = avg(m1 per t.a, t.b having m1 > 0) format Percent "doc ""quoted"""
@@ -95,6 +97,12 @@ view v = m1, m2 by t.a where t.b not in ('q') with totals all
 	}
 	if got := f.Tables[0].Columns[2].Name.Name; got != "order" {
 		t.Errorf("backquoted name = %q", got)
+	}
+	if l := f.Tables[0].Links[0]; !l.Required || l.Table.Name != "u" {
+		t.Errorf("required link = %+v", l)
+	}
+	if e, g := f.Tables[0].Columns[5], f.Tables[0].Columns[6]; !e.LinkRequired || e.Link.Table != "v" || e.Additivity != NonAdditive || g.LinkRequired {
+		t.Errorf("required link options = %+v, %+v", e, g)
 	}
 	m1 := f.Measures[0].Expr.(*Edited)
 	if len(m1.Edits) != 5 || m1.Edits[3].Target != nil || m1.Edits[4].Kind != EditDrop {

@@ -16,7 +16,7 @@ var keywords = []string{
 	"with", "totals", "format", "per", "having", "distinct", "and", "or",
 	"not", "in", "between", "is", "null", "case", "when", "then", "else",
 	"end", "drop", "ungroup", "as", "true", "false", "additive",
-	"nonadditive", "semiadditive", "date", "timestamp",
+	"nonadditive", "semiadditive", "date", "timestamp", "required",
 }
 
 func keywordPattern() string {
@@ -105,12 +105,13 @@ type syntaxItem struct {
 	Column *syntaxColumn `parser:"| @@"`
 }
 
-// Link = "link" "(" Name ("," Name)* ")" "->" Name "(" Name ("," Name)* ")" .
+// Link = "link" "(" Name ("," Name)* ")" "->" Name "(" Name ("," Name)* ")" "required"? .
 type syntaxLink struct {
-	Pos   lexer.Position
-	From  []*syntaxName `parser:"\"link\" \"(\" @@ (\",\" @@)* \")\""`
-	Table *syntaxName   `parser:"\"->\" @@"`
-	To    []*syntaxName `parser:"\"(\" @@ (\",\" @@)* \")\""`
+	Pos      lexer.Position
+	From     []*syntaxName `parser:"\"link\" \"(\" @@ (\",\" @@)* \")\""`
+	Table    *syntaxName   `parser:"\"->\" @@"`
+	To       []*syntaxName `parser:"\"(\" @@ (\",\" @@)* \")\""`
+	Required bool          `parser:"@\"required\"?"`
 }
 
 // Column = Name ("=" Expr | Type) Option* .
@@ -122,13 +123,20 @@ type syntaxColumn struct {
 	Options []*syntaxOption `parser:"@@*"`
 }
 
-// Option = "->" Ref | "additive" | "nonadditive" | "semiadditive" "(" Ref ")" .
+// Option = LinkOption | "additive" | "nonadditive" | "semiadditive" "(" Ref ")" .
 type syntaxOption struct {
 	Pos         lexer.Position
-	Link        *syntaxRef `parser:"  \"->\" @@"`
-	Additive    bool       `parser:"| @\"additive\""`
-	Nonadditive bool       `parser:"| @\"nonadditive\""`
-	Semi        *syntaxRef `parser:"| \"semiadditive\" \"(\" @@ \")\""`
+	Link        *syntaxLinkOption `parser:"  @@"`
+	Additive    bool              `parser:"| @\"additive\""`
+	Nonadditive bool              `parser:"| @\"nonadditive\""`
+	Semi        *syntaxRef        `parser:"| \"semiadditive\" \"(\" @@ \")\""`
+}
+
+// LinkOption = "->" Ref "required"? .
+type syntaxLinkOption struct {
+	Pos      lexer.Position
+	Target   *syntaxRef `parser:"\"->\" @@"`
+	Required bool       `parser:"@\"required\"?"`
 }
 
 // Measure = "measure" Name "=" Expr ("format" Name)? DString? .

@@ -111,6 +111,11 @@ type Link struct {
 	To       *Table
 	ToCols   []*Column
 	Pos      grammar.Pos
+	// Required is the model's promise that every row of From finds its
+	// row of To (so its link columns are never NULL), written `required`.
+	// rollwise does not check it when it plans; results are wrong where
+	// the data breaks it (`rollwise check --required` checks the data).
+	Required bool
 }
 
 // String renders the link as "sales.store_id -> stores.store_id".

@@ -102,6 +102,10 @@ func (pl *planner) joins(s *Scan) {
 			}
 		}
 	}
+	links = shortcut(links, need)
+	// A shortcut joins a table from an earlier one on its path, so the
+	// depth along the model's links still puts every join after the one
+	// that reaches its own table.
 	depth := func(l *Link) int { return len(reach[l.To]) }
 	sort.Slice(links, func(i, j int) bool {
 		if depth(links[i]) != depth(links[j]) {

@@ -13,10 +13,18 @@ import "slices"
 // Only row filters count: the FILTER predicate of a leaf (a narrowing, a
 // pin) removes rows from that one aggregate, not from the scan's other
 // leaves or from the rows that make the scan's cells.
+//
+// A link declared required promises that every row finds its row: it is
+// an inner join wherever the table it leaves is always there, and a table
+// read only to go further along a required composite link can be left
+// out (shortcut). Both are exact only under the promise; the reference
+// evaluator ignores it.
 
 // innerJoins marks the joins of s that may be inner joins: every join on
 // the path to a table T for which a row filter of s rejects the rows
-// where T is missing.
+// where T is missing, and every required link whose own table is always
+// there (the iteration table, or a table joined by an inner join).
+// s.Joins lists parents before children.
 func innerJoins(s *Scan) map[*Link]bool {
 	into := map[*Table]*Link{}
 	for _, l := range s.Joins {
@@ -46,7 +54,58 @@ func innerJoins(s *Scan) map[*Link]bool {
 			}
 		}
 	}
+	for _, l := range s.Joins {
+		if l.Required && (l.From == s.Table || inner[into[l.From]]) {
+			inner[l] = true
+		}
+	}
 	return inner
+}
+
+// shortcut leaves out of a scan's joins a table B that the scan reads
+// nothing of, when B is joined by a required link L1 from A and every
+// link from B onwards, B -(b...)-> C, uses only columns that L1 matches:
+// C is joined on A's columns directly (A.a = C.key instead of A.a = B.b
+// and B.b = C.key). Exact because L1 is required: every row of A finds
+// its row of B, whose columns b equal A's columns a. (Without the
+// promise, a row of A with no row of B would read NULL for C too.)
+// TPC-H: lineitem -(l_partkey, l_suppkey)-> partsupp -(ps_partkey)-> part
+// becomes lineitem.l_partkey = part.p_partkey.
+func shortcut(links []*Link, read map[*Table]bool) []*Link {
+	for {
+		changed := false
+		for _, l1 := range links {
+			if !l1.Required || read[l1.To] {
+				continue
+			}
+			var next []*Link
+			ok := true
+			for _, l2 := range links {
+				if l2.From != l1.To {
+					next = append(next, l2)
+					continue
+				}
+				via := &Link{From: l1.From, To: l2.To, ToCols: l2.ToCols, Pos: l2.Pos, Required: l2.Required}
+				for _, b := range l2.FromCols {
+					i := slices.Index(l1.ToCols, b)
+					if i < 0 {
+						ok = false
+						break
+					}
+					via.FromCols = append(via.FromCols, l1.FromCols[i])
+				}
+				next = append(next, via)
+			}
+			if ok {
+				links = slices.DeleteFunc(next, func(l *Link) bool { return l == l1 })
+				changed = true
+				break
+			}
+		}
+		if !changed {
+			return links
+		}
+	}
 }
 
 // rejects reports whether predicate p is false or NULL on every row where

@@ -133,3 +133,106 @@ func TestInnerJoinsOnlyForTheScansRows(t *testing.T) {
 		}
 	}
 }
+
+const required = `table lines {
+  key id
+  id        integer
+  order_id  integer -> orders.id required
+  part_id   integer
+  supp_id   integer
+  link (part_id, supp_id) -> offers (part_id, supp_id) required
+  qty       integer
+}
+table orders {
+  key id
+  id       integer
+  cust_id  integer -> customers.id
+}
+table customers {
+  key id
+  id         integer
+  name       text
+  nation_id  integer -> nations.id required
+}
+table offers {
+  key part_id, supp_id
+  part_id  integer -> parts.id required
+  supp_id  integer -> suppliers.id
+  cost     decimal
+}
+table parts {
+  key id
+  id    integer
+  kind  text
+}
+table suppliers {
+  key id
+  id    integer
+  name  text
+}
+table nations {
+  key id
+  id    integer
+  name  text
+}
+measure qty = sum(lines.qty)
+`
+
+// planJoins plans a query on the model src and prints each scan's joins,
+// "JOIN a.x -> b.y" or "LEFT a.x -> b.y", in the order they are rendered.
+func planJoins(t *testing.T, src, measures, by, where string) []string {
+	t.Helper()
+	p := planQuery(t, src, measures, by, where)
+	var out []string
+	for _, s := range p.Scans {
+		for _, l := range s.Joins {
+			kind := "LEFT "
+			if s.Inner[l] {
+				kind = "JOIN "
+			}
+			out = append(out, kind+l.String())
+		}
+	}
+	return out
+}
+
+// A required link is an inner join where its own table is always there;
+// a table read only for the columns a required composite link matches is
+// left out, and the next table joined on the first table's column.
+func TestRequiredLinks(t *testing.T) {
+	for _, c := range []struct {
+		by, where string
+		want      []string
+	}{
+		{"parts.kind", "", []string{"JOIN lines.part_id -> parts.id"}},
+		// offers -> suppliers is not required.
+		{"suppliers.name", "", []string{"LEFT lines.supp_id -> suppliers.id"}},
+		{"parts.kind,suppliers.name", "suppliers.name <> 'x'",
+			[]string{"JOIN lines.part_id -> parts.id", "JOIN lines.supp_id -> suppliers.id"}},
+		// offers is read: no shortcut.
+		{"parts.kind,offers.cost", "", []string{
+			"JOIN lines.part_id, lines.supp_id -> offers.part_id, offers.supp_id", "JOIN offers.part_id -> parts.id"}},
+		// customers is reached through a link that is not required, so
+		// its required link to nations cannot drop rows either.
+		{"nations.name", "", []string{"JOIN lines.order_id -> orders.id", "LEFT orders.cust_id -> customers.id",
+			"LEFT customers.nation_id -> nations.id"}},
+		{"nations.name", "customers.name = 'x'", []string{"JOIN lines.order_id -> orders.id", "JOIN orders.cust_id -> customers.id",
+			"JOIN customers.nation_id -> nations.id"}},
+	} {
+		got := planJoins(t, required, "qty", c.by, c.where)
+		if !slices.Equal(got, c.want) {
+			t.Errorf("-b %s -w %q: joins\n%q\nwant\n%q", c.by, c.where, got, c.want)
+		}
+	}
+}
+
+// Without the promise the composite link is kept: a line with no offer
+// reads NULL for the part.
+func TestNoShortcutWithoutRequired(t *testing.T) {
+	src := strings.Replace(required, "(part_id, supp_id) required", "(part_id, supp_id)", 1)
+	got := planJoins(t, src, "qty", "parts.kind", "")
+	want := []string{"LEFT lines.part_id, lines.supp_id -> offers.part_id, offers.supp_id", "LEFT offers.part_id -> parts.id"}
+	if !slices.Equal(got, want) {
+		t.Errorf("joins %q, want %q", got, want)
+	}
+}

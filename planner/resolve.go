@@ -208,7 +208,7 @@ func (r *resolver) resolveLinks(t *Table, td *grammar.TableDecl) {
 			r.unknownColumn(cd.Link.NamePos, to, cd.Link.Name)
 			continue
 		}
-		r.addLink(&Link{From: t, FromCols: []*Column{c}, To: to, ToCols: []*Column{tc}, Pos: cd.Link.Pos})
+		r.addLink(&Link{From: t, FromCols: []*Column{c}, To: to, ToCols: []*Column{tc}, Pos: cd.Link.Pos, Required: cd.LinkRequired})
 	}
 	for _, ld := range td.Links {
 		to := r.lookupTable(ld.Table.Pos, ld.Table.Name)
@@ -220,7 +220,7 @@ func (r *resolver) resolveLinks(t *Table, td *grammar.TableDecl) {
 				len(ld.From), t.Name, len(ld.To), to.Name).Suggestion = "list as many key columns as link columns, in the same order"
 			continue
 		}
-		l := &Link{From: t, To: to, Pos: ld.Pos}
+		l := &Link{From: t, To: to, Pos: ld.Pos, Required: ld.Required}
 		ok := true
 		for i := range ld.From {
 			fc, tc := t.Column(ld.From[i].Name), to.Column(ld.To[i].Name)

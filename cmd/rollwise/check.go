@@ -1,6 +1,7 @@
 package main
 
 import (
+	"context"
 	"fmt"
 
 	"github.com/rollwise/rollwise/grammar"
@@ -11,23 +12,38 @@ import (
 
 type checkOptions struct {
 	models []string
+	// required asks to check the links declared required on the data,
+	// read from the tables' files, data, or the database at dsn.
+	required  bool
+	data, dsn string
 }
 
 func newCheckCmd(e *env) *cobra.Command {
 	o := &checkOptions{}
-	return &cobra.Command{
-		Use:   "check MODEL...",
+	cmd := &cobra.Command{
+		Use:   "check MODEL... [--required [--data DIR | --dsn URL]]",
 		Short: "Check model files and report every error and warning",
 		Example: `  rollwise check garden.roll
-  rollwise check models/`,
+  rollwise check models/
+  rollwise check tpch.roll --data /data/tpch   # also: do the links declared required hold?`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := modelArgs(args); err != nil {
 				return err
 			}
 			o.models = args
+			if o.dsn != "" {
+				if _, err := liveDialect(o.dsn, "", false, o.data); err != nil {
+					return err
+				}
+			}
+			o.required = o.required || o.data != "" || o.dsn != ""
 			return runCheck(e, o)
 		},
 	}
+	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data that every link declared required finds its row (tables read as run reads them)")
+	cmd.Flags().StringVar(&o.data, "data", "", "with --required (implied): read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	cmd.Flags().StringVar(&o.dsn, "dsn", "", "with --required (implied): read the tables from a live database: postgres://..., mysql://... or sqlite:PATH")
+	return cmd
 }
 
 func runCheck(e *env, o *checkOptions) error {
@@ -45,12 +61,24 @@ func runCheck(e *env, o *checkOptions) error {
 		}
 		diags.Append(d)
 	}
+	held := ""
+	if o.required && !diags.HasErrors() {
+		d, err := checkRequired(context.Background(), m, o.data, o.dsn)
+		if err != nil {
+			return err
+		}
+		diags.Append(d)
+		held = fmt.Sprintf("; %d required links hold on the data", len(requiredLinks(m)))
+		if len(requiredLinks(m)) == 0 {
+			held = "; no link is declared required"
+		}
+	}
 	if len(diags) > 0 {
 		printDiags(e, diags, src)
 	}
 	if diags.HasErrors() {
 		return &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
 	}
-	fmt.Fprintf(e.stderr, "ok: %d tables, %d measures, %d views\n", len(m.Tables), len(m.Measures), len(m.Views))
+	fmt.Fprintf(e.stderr, "ok: %d tables, %d measures, %d views%s\n", len(m.Tables), len(m.Measures), len(m.Views), held)
 	return nil
 }

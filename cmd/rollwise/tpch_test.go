@@ -308,6 +308,11 @@ func TestTPCHEquivalence(t *testing.T) {
 	if ran < 9 {
 		t.Errorf("only %d checks ran; queries.json maps at least the nine TPC-H queries", ran)
 	}
+	// The results above rely on the links tpch.roll declares required.
+	code, msg := checkCmd(filepath.Join(tpchDir, "tpch.roll"), "--data", dir)
+	if code != 0 || !strings.Contains(msg, "; 9 required links hold on the data") {
+		t.Errorf("rollwise check tpch.roll --data %s: exit %d\n%s", dir, code, msg)
+	}
 }
 
 // runTPCHCheck runs one check, with run computing rollwise's rows, and

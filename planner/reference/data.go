@@ -333,3 +333,18 @@ func (d *Data) row(td *tableData, i int, e planner.Expr) (Value, error) {
 	}
 	return v, err
 }
+
+// Unmatched counts the rows of l's table whose link l finds no row (a NULL
+// link column included): none where a link declared required keeps its
+// promise.
+func (d *Data) Unmatched(l *planner.Link) int {
+	n := 0
+	if td := d.tables[l.From]; td != nil {
+		for _, reach := range td.reach {
+			if reach[l.To] < 0 {
+				n++
+			}
+		}
+	}
+	return n
+}

@@ -43,6 +43,14 @@ func TestCasesAreValid(t *testing.T) {
 				rt.Fatalf("a query without groups has one row\n%s", c)
 			}
 		}
+		// The data keeps the promise of every link declared required.
+		for _, tb := range m.Tables {
+			for _, l := range tb.Links {
+				if n := d.Unmatched(l); l.Required && n > 0 {
+					rt.Fatalf("link %s is declared required, but %d rows find nothing\n%s", l, n, c)
+				}
+			}
+		}
 	})
 }
 

@@ -44,6 +44,13 @@ type link struct {
 	from     *column
 	to       *table
 	fromCols []*column
+	// required links are declared `required`, and every row's link
+	// finds its row (the data is drawn so).
+	required bool
+	// undeclared: the column holds keys of to, but the model reaches to
+	// another way (the first iteration table reaches stores through
+	// shelves), so the link is not written.
+	undeclared bool
 }
 
 func (c *column) ref() string { return c.t.name + "." + c.name }
@@ -134,17 +141,27 @@ func (g *gen) drawSchema() {
 			districts.add(attr("area", "text", 15, textVals("Hills", "Coast", "Lake, Upper")))
 			districts.add(attr("tier", "integer", 0, plainVals("1", "2")))
 			dc := stores.add(attr("district_id", "integer", 15, pool{}))
-			dc.link = &link{from: dc, to: districts}
+			dc.link = &link{from: dc, to: districts, required: g.chance(30)}
 			stores.links = append(stores.links, dc.link)
 			dims = append(dims, districts)
 		}
 	}
-	if len(dims) > 0 && dims[0].name == "stores" && g.chance(30) {
+	var shelves *table
+	if len(dims) > 0 && dims[0].name == "stores" && g.chance(45) {
 		// A composite key: one row per store and aisle (1 and 2).
-		shelves := &table{name: "shelves", nkey: 2}
+		shelves = &table{name: "shelves", nkey: 2}
 		shelves.add(&column{name: "store_id", typ: "integer", key: true})
 		shelves.add(&column{name: "aisle", typ: "integer", key: true})
 		shelves.add(attr("label", "text", 15, textVals("top", "bottom", "end")))
+		if g.chance(60) {
+			// Shelves reach stores, and the first iteration table reaches
+			// stores only through shelves (one path to a table), as
+			// TPC-H's lineitem reaches part through partsupp. Every store
+			// has its shelves, so the link always finds its row.
+			sc := shelves.cols[0]
+			sc.link = &link{from: sc, to: dims[0], required: g.chance(50)}
+			shelves.links = append(shelves.links, sc.link)
+		}
 		dims = append(dims, shelves)
 	}
 	if g.chance(60) {
@@ -181,7 +198,11 @@ func (g *gen) drawSchema() {
 				if i == 0 || g.chance(70) {
 					key := d.cols[0]
 					fk := f.add(attr(strings.TrimSuffix(d.name, "s")+"_"+key.name, key.typ, 10, pool{}))
-					fk.link = &link{from: fk, to: d}
+					fk.link = &link{from: fk, to: d, required: g.chance(30)}
+					if i == 0 && shelves != nil && reaches(shelves, d) {
+						fk.link.undeclared = true
+						continue
+					}
 					f.links = append(f.links, fk.link)
 				}
 			}
@@ -189,8 +210,15 @@ func (g *gen) drawSchema() {
 		if sc := f.col("store_id"); sc != nil && i == 0 {
 			for _, d := range dims {
 				if d.name == "shelves" {
-					aisle := f.add(attr("aisle", "integer", 10, plainVals("1", "2", "3")))
-					f.links = append(f.links, &link{to: d, fromCols: []*column{sc, aisle}})
+					l := &link{to: d, required: g.chance(60)}
+					aisle := attr("aisle", "integer", 10, plainVals("1", "2", "3"))
+					if l.required {
+						// Every sale finds its shelf: a store's aisle 1 or 2.
+						aisle = attr("aisle", "integer", 0, plainVals("1", "2"))
+						sc.link.required = true
+					}
+					l.fromCols = []*column{sc, f.add(aisle)}
+					f.links = append(f.links, l)
 				}
 			}
 		}
@@ -319,6 +347,8 @@ func (g *gen) field(c *column, r int) string {
 	switch {
 	case c.key:
 		return keyValue(c, r)
+	case c.link != nil && c.link.required:
+		return keyValue(c.link.to.cols[0], g.pick(c.link.to.nrows))
 	case c.link != nil:
 		to := c.link.to
 		switch k := g.intn(0, 19); {
@@ -438,8 +468,11 @@ func (g *gen) modelText() string {
 				continue
 			}
 			fmt.Fprintf(&b, "  %s %s", c.name, c.typ)
-			if c.link != nil {
+			if c.link != nil && !c.link.undeclared {
 				fmt.Fprintf(&b, " -> %s", c.link.to.cols[0].ref())
+				if c.link.required {
+					b.WriteString(" required")
+				}
 			}
 			if c.nonadditive {
 				b.WriteString(" nonadditive")
@@ -448,8 +481,12 @@ func (g *gen) modelText() string {
 		}
 		for _, l := range t.links {
 			if l.fromCols != nil {
-				fmt.Fprintf(&b, "  link (%s, %s) -> %s (%s, %s)\n", l.fromCols[0].name, l.fromCols[1].name,
+				fmt.Fprintf(&b, "  link (%s, %s) -> %s (%s, %s)", l.fromCols[0].name, l.fromCols[1].name,
 					l.to.name, l.to.cols[0].name, l.to.cols[1].name)
+				if l.required {
+					b.WriteString(" required")
+				}
+				b.WriteByte('\n')
 			}
 		}
 		b.WriteString("}\n")

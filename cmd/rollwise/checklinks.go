@@ -1,0 +1,81 @@
+package main
+
+import (
+	"context"
+	"fmt"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner"
+)
+
+// requiredLinks lists the links of m declared required, in declaration
+// order.
+func requiredLinks(m *planner.Model) []*planner.Link {
+	var out []*planner.Link
+	for _, t := range m.Tables {
+		for _, l := range t.Links {
+			if l.Required {
+				out = append(out, l)
+			}
+		}
+	}
+	return out
+}
+
+// checkRequired counts, on the data (the embedded engine over the model's
+// files or dataDir, or the live database at dsn), the rows whose link
+// declared required finds no row, and reports each link that has some as
+// an error at its declaration.
+func checkRequired(ctx context.Context, m *planner.Model, dataDir, dsn string) (grammar.Diagnostics, error) {
+	links := requiredLinks(m)
+	if len(links) == 0 {
+		return nil, nil
+	}
+	var count func(sql string) (*engine.Result, error)
+	dialect := "duckdb"
+	if dsn != "" {
+		l, err := engine.OpenLive(ctx, dsn)
+		if err != nil {
+			return nil, &exitError{code: exitFindings, err: err}
+		}
+		defer l.Close()
+		dialect = l.Dialect
+		count = func(sql string) (*engine.Result, error) {
+			return l.Query(ctx, sql, []planner.Type{planner.TypeInteger})
+		}
+	} else {
+		db, err := engine.OpenDuckDB(ctx, m, dataDir)
+		if err != nil {
+			return nil, &exitError{code: exitFindings, err: err}
+		}
+		defer db.Close()
+		count = func(sql string) (*engine.Result, error) { return engine.Query(ctx, db, sql) }
+	}
+	d, err := dialects.Get(dialect)
+	if err != nil {
+		return nil, &exitError{code: exitInternal, err: err}
+	}
+	var diags grammar.Diagnostics
+	for _, l := range links {
+		res, err := count(dialects.UnmatchedRows(l, d))
+		if err != nil {
+			return nil, &exitError{code: exitFindings, err: fmt.Errorf("counting the rows of %s that link %s misses: %w", l.From.Name, l, err)}
+		}
+		if len(res.Rows) != 1 || len(res.Rows[0]) != 1 {
+			return nil, &exitError{code: exitInternal, err: fmt.Errorf("internal error: counting unmatched rows gave %v", res.Rows)}
+		}
+		if n := fmt.Sprint(res.Rows[0][0]); n != "0" {
+			rows := n + " rows of " + l.From.Name + " find"
+			if n == "1" {
+				rows = "1 row of " + l.From.Name + " finds"
+			}
+			x := diags.Errorf(l.Pos, "required-unmatched", "link %s is declared required, but %s no row of %s", l, rows, l.To.Name)
+			x.Notes = []string{"a row whose link columns are NULL finds no row either"}
+			x.Suggestion = "fix the data, or remove `required`: while the data breaks the promise, results that read " +
+				l.To.Name + " through this link are wrong"
+		}
+	}
+	return diags, nil
+}
