@@ -25,6 +25,9 @@ type planner struct {
 	values       map[string]*ValueRef
 	inputs       map[*Scan]map[string]*Input
 	texts        map[Expr]string
+	// distinct maps the per-grain counts planned for distinct counts to
+	// the aggregates they stand for (see plan_distinct.go).
+	distinct map[*PerLeaf]distinctOrigin
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
@@ -32,7 +35,8 @@ type planner struct {
 // the measure's (possibly edited) cell, or by a per-grain sub-context.
 func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
-		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{}}
+		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{},
+		distinct: map[*PerLeaf]distinctOrigin{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
 		pl.measureNames[m.Name] = true
@@ -62,6 +66,7 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	}
 	if !pl.diags.HasErrors() {
 		pl.useWindows(root)
+		pl.distinctLeaves(root)
 		for _, s := range pl.p.Scans {
 			pl.checkReach(s)
 		}
@@ -174,7 +179,7 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 	case *Agg:
 		return pl.leaf(ctx, e, c)
 	case *PerAgg:
-		return pl.per(ctx, e, c)
+		return pl.per(ctx, e, c, pl.owner.Name)
 	case *BinOp:
 		l, r := pl.compile(ctx, e.L, c), pl.compile(ctx, e.R, c)
 		if l == nil || r == nil {
@@ -262,7 +267,7 @@ func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[ui
 // scanRel finds or adds the scan of t in ctx for a cell with the given
 // removed keys and row filters.
 func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, nameBase string) *Rel {
-	key := fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, pl.whereKey(where))
+	key := pl.scanKey(ctx, t, removed, where)
 	if r, ok := pl.rels[key]; ok {
 		return r
 	}
@@ -280,6 +285,12 @@ func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr,
 	return r
 }
 
+// scanKey identifies the scan of t in ctx for a cell with the given
+// removed keys and row filters.
+func (pl *planner) scanKey(ctx *Context, t *Table, removed uint64, where []Expr) string {
+	return fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, pl.whereKey(where))
+}
+
 // base adds t's scan to the scans whose cells are ctx's rows.
 func (pl *planner) base(ctx *Context, t *Table) {
 	name := t.Name
@@ -294,6 +305,9 @@ func (pl *planner) base(ctx *Context, t *Table) {
 
 // leaf finds or adds the scan leaf computing a in cell c.
 func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
+	if pa := distinctAsPer(a); pa != nil {
+		return pl.distinctPer(ctx, a, pa, c)
+	}
 	nameBase := a.Table.Name
 	if ctx.Name != "" {
 		nameBase = ctx.Name + "_" + a.Table.Name
@@ -307,17 +321,7 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 		return &ValueRef{Pos: a.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}
 	s := r.Scan
-	base := pl.owner.Name
-	if ctx.Name != "" {
-		base = ctx.Name + "_" + base
-	}
-	switch {
-	case pl.editedBy != "" && pl.editedBy != pl.owner.Name:
-		base = pl.editedBy + "_" + pl.owner.Name
-	case pl.narrowedBy != "" && conj(c.filters, false) != nil:
-		base = pl.narrowedBy
-	}
-	l := &Leaf{Name: pl.name(base), Func: a.Func, Distinct: a.Distinct, T: a.T}
+	l := &Leaf{Name: pl.name(pl.aggName(ctx, c)), Func: a.Func, Distinct: a.Distinct, T: a.T}
 	if a.Arg != nil {
 		l.Arg = pl.input(s, l.Name+"_arg", a.Arg)
 	}
@@ -328,6 +332,23 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count"}
 	pl.values[key] = v
 	return v
+}
+
+// aggName is the readable name of an aggregate of the measure being
+// compiled, in cell c of ctx: the measure's, or that of the measure whose
+// edit or narrowing is in force.
+func (pl *planner) aggName(ctx *Context, c cell) string {
+	base := pl.owner.Name
+	if ctx.Name != "" {
+		base = ctx.Name + "_" + base
+	}
+	switch {
+	case pl.editedBy != "" && pl.editedBy != pl.owner.Name:
+		base = pl.editedBy + "_" + pl.owner.Name
+	case pl.narrowedBy != "" && conj(c.filters, false) != nil:
+		base = pl.narrowedBy
+	}
+	return base
 }
 
 // input finds or adds a row-level value of the scan.
@@ -344,8 +365,11 @@ func (pl *planner) input(s *Scan, name string, e Expr) *Input {
 
 // per plans AGG(X per P having H) in cell c: a sub-context keyed by the
 // cell's remaining keys plus the per columns, whose value X (and H) are
-// aggregated back to the cell's keys.
-func (pl *planner) per(ctx *Context, pa *PerAgg, c cell) Expr {
+// aggregated back to the cell's keys. Per-grain aggregates over the same
+// groups (the same per columns, iteration tables and cell) share one
+// sub-context, each a leaf of its relation. name is the base of the
+// leaf's name and of a new sub-context's.
+func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
 	var texts []string
 	for _, f := range c.filters {
 		texts = append(texts, fmt.Sprint(f.rows)+pl.text(f.e))
@@ -355,37 +379,15 @@ func (pl *planner) per(ctx *Context, pa *PerAgg, c cell) Expr {
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: pa.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}
-	k := len(pa.Per)
-	keep, sets, gid := localKeys(ctx, c.removed, k)
-	sub := &Context{Name: pl.name(pl.owner.Name + "_per")}
-	names := map[string]bool{}
-	for _, i := range keep {
-		sub.Keys = append(sub.Keys, ctx.Keys[i])
-		names[ctx.Keys[i].Name] = true
-	}
-	var perKeys []Key
-	for _, col := range pa.Per {
-		name := col.String() + " per"
-		for names[name] {
-			name += " per"
-		}
-		names[name] = true
-		pk := Key{Name: name, Col: col, Pos: pa.Pos}
-		perKeys = append(perKeys, pk)
-		sub.Keys = append(sub.Keys, pk)
-	}
-	sub.Sets = sets
+	r, fresh := pl.perRel(ctx, pa, c, name)
+	sub := r.Per.Sub
 	start := cell{}
-	for _, f := range c.filters {
-		sub.Filters = append(sub.Filters, f.e)
-		start.filters = append(start.filters, cellFilter{e: f.e, rows: true})
-	}
-	for _, t := range pl.perTables(pa) {
-		pl.base(sub, t)
+	for _, f := range sub.Filters {
+		start.filters = append(start.filters, cellFilter{e: f, rows: true})
 	}
 	outerNarrow, outerEdit := pl.narrowedBy, pl.editedBy
 	pl.narrowedBy, pl.editedBy = "", ""
-	leaf := &PerLeaf{Func: pa.Func, PerKeys: perKeys, T: pa.T}
+	leaf := &PerLeaf{Func: pa.Func, PerKeys: sub.Keys[len(r.Keys):], T: pa.T}
 	if pa.X != nil {
 		x := pl.compile(sub, pa.X, start)
 		if x == nil {
@@ -403,10 +405,62 @@ func (pl *planner) per(ctx *Context, pa *PerAgg, c cell) Expr {
 		sub.Values = append(sub.Values, leaf.Having)
 	}
 	pl.narrowedBy, pl.editedBy = outerNarrow, outerEdit
-	leaf.Name = pl.name(pl.owner.Name)
-	r := &Rel{Name: sub.Name, Keys: keep, Sets: sets, GidOf: gid, Per: &PerRel{Sub: sub, Leaves: []*PerLeaf{leaf}}}
-	ctx.Rels = append(ctx.Rels, r)
+	leaf.Name = pl.name(name)
+	r.Per.Leaves = append(r.Per.Leaves, leaf)
+	if fresh {
+		ctx.Rels = append(ctx.Rels, r)
+	}
 	v := &ValueRef{Pos: pa.Pos, Rel: r, Column: leaf.Name, T: pa.T, ZeroIfMissing: pa.Func == "count"}
 	pl.values[key] = v
 	return v
+}
+
+// perRel finds or adds the per-grain relation whose sub-context forms the
+// groups of pa in cell c: the cell's remaining keys plus the per columns,
+// over the rows of pa's iteration tables that pass every filter of the
+// cell. fresh reports a new relation, not yet among ctx's.
+func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel, fresh bool) {
+	tables := pl.perTables(pa)
+	var texts, names, cols []string
+	for _, f := range c.filters {
+		texts = append(texts, pl.text(f.e))
+	}
+	slices.Sort(texts)
+	for _, t := range tables {
+		names = append(names, t.Name)
+	}
+	slices.Sort(names)
+	for _, col := range pa.Per {
+		cols = append(cols, col.String())
+	}
+	key := fmt.Sprintf("per|%p|%s|%s|%d|%s", ctx, strings.Join(cols, ","), strings.Join(names, ","), c.removed, strings.Join(texts, " and "))
+	if r, ok := pl.rels[key]; ok {
+		return r, false
+	}
+	k := len(pa.Per)
+	keep, sets, gid := localKeys(ctx, c.removed, k)
+	sub := &Context{Name: pl.name(name + "_per")}
+	names = nil
+	for _, i := range keep {
+		sub.Keys = append(sub.Keys, ctx.Keys[i])
+		names = append(names, ctx.Keys[i].Name)
+	}
+	for _, col := range pa.Per {
+		name := col.String() + " per"
+		for slices.Contains(names, name) {
+			name += " per"
+		}
+		names = append(names, name)
+		sub.Keys = append(sub.Keys, Key{Name: name, Col: col, Pos: pa.Pos})
+	}
+	sub.Sets = sets
+	for _, f := range c.filters {
+		sub.Filters = append(sub.Filters, f.e)
+	}
+	for _, t := range tables {
+		pl.base(sub, t)
+	}
+	r = &Rel{Name: sub.Name, Keys: keep, Sets: sets, GidOf: gid, Per: &PerRel{Sub: sub}}
+	pl.rels[key] = r
+	return r, true
 }

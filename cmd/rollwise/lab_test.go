@@ -1,7 +1,9 @@
 package main
 
 import (
+	"bytes"
 	"math"
+	"strings"
 	"testing"
 )
 
@@ -57,4 +59,84 @@ func TestLabDatesAndRounding(t *testing.T) {
 	})
 	got = runJSON(t, "run", labModel, "-m", "rounded2_sum", "-b", "visits.id", "-w", "visits.id = 8")
 	expectRows(t, got, []row{{"visits.id": 8, "rounded2_sum": "-2.63"}}) // half away from zero, not to even (-2.62)
+}
+
+// count(distinct visits.patient) is planned as the per-grain count of
+// patients: next to avg(total_minutes per visits.patient) both come from
+// one grouping by patient; narrowed (urgent visits) and pinned (ward
+// North) it has its own; alone, or where the scan of visits computes
+// nothing else, it stays a DISTINCT aggregate. The values are the same
+// every way. Per patient: 1 (North) 30 + 45 minutes on visits 1 and 2, 2
+// (South) 15 + NULL, 3 (North) 60 + 20, 4 (East) 1; visit 7 has no
+// patient: its group is not counted, and its minutes average nothing.
+func TestLabDistinctCountsAsPerGrain(t *testing.T) {
+	year := func(y string) string { return y + "-01-01" }
+	want := []row{
+		{"patients.ward": "East", "visits.seen_year": year("2024"), "visits_n": 1, "patients_seen": 1, "patient_minutes": 1.0,
+			"urgent_patients": 1, "north_patients": 2}, // North in 2024: patients 1 and 3
+		{"patients.ward": "East", "visits.seen_year": nil, "visits_n": 1, "patients_seen": 1, "patient_minutes": 1.0,
+			"urgent_patients": 1, "north_patients": 2},
+		{"patients.ward": "North", "visits.seen_year": year("2021"), "visits_n": 1, "patients_seen": 1, "patient_minutes": 45.0,
+			"urgent_patients": 0, "north_patients": 1},
+		{"patients.ward": "North", "visits.seen_year": year("2023"), "visits_n": 1, "patients_seen": 1, "patient_minutes": 20.0,
+			"urgent_patients": 1, "north_patients": 1},
+		// patient 1 (30) and 3 (60); only visit 1 (patient 1) is urgent.
+		{"patients.ward": "North", "visits.seen_year": year("2024"), "visits_n": 2, "patients_seen": 2, "patient_minutes": 45.0,
+			"urgent_patients": 1, "north_patients": 2},
+		// the subtotal regroups: patient 1 75, patient 3 80; urgent visits 1 and 6.
+		{"patients.ward": "North", "visits.seen_year": nil, "visits_n": 4, "patients_seen": 2, "patient_minutes": 77.5,
+			"urgent_patients": 2, "north_patients": 2},
+		// visit 4's urgent is NULL: only visit 3 counts.
+		{"patients.ward": "South", "visits.seen_year": year("2024"), "visits_n": 2, "patients_seen": 1, "patient_minutes": 15.0,
+			"urgent_patients": 1, "north_patients": 2},
+		{"patients.ward": "South", "visits.seen_year": nil, "visits_n": 2, "patients_seen": 1, "patient_minutes": 15.0,
+			"urgent_patients": 1, "north_patients": 2},
+		// visit 7 alone: a NULL patient is no patient.
+		{"patients.ward": nil, "visits.seen_year": year("2024"), "visits_n": 1, "patients_seen": 0, "patient_minutes": nil,
+			"urgent_patients": 0, "north_patients": 2},
+		{"patients.ward": nil, "visits.seen_year": nil, "visits_n": 1, "patients_seen": 0, "patient_minutes": nil,
+			"urgent_patients": 0, "north_patients": 2, "rolled_up": []string{"visits.seen_year"}},
+		// patients 1 to 4, not the NULL one: (75 + 15 + 80 + 1) / 4.
+		{"patients.ward": nil, "visits.seen_year": nil, "visits_n": 8, "patients_seen": 4, "patient_minutes": 42.75,
+			"urgent_patients": 4, "north_patients": 2, "rolled_up": []string{"patients.ward", "visits.seen_year"}},
+	}
+	// distinctAggs counts the DISTINCT aggregates of the query's SQL.
+	distinctAggs := func(args ...string) int {
+		t.Helper()
+		var out, errb bytes.Buffer
+		if code := Main(append([]string{"sql", labModel}, args...), nil, &out, &errb); code != 0 {
+			t.Fatalf("rollwise sql: exit %d: %s", code, errb.String())
+		}
+		return strings.Count(out.String(), "count(DISTINCT")
+	}
+	args := []string{"-b", "patients.ward,visits.seen_year", "--totals", "rollup"}
+	all := append([]string{"-m", "visits_n,patients_seen,patient_minutes,urgent_patients,north_patients"}, args...)
+	if n := distinctAggs(all...); n != 0 {
+		t.Errorf("%d DISTINCT aggregates beside visits_n, want 0 (three per-grain counts)", n)
+	}
+	got := runJSON(t, append([]string{"run", labModel}, all...)...)
+	expectRows(t, got, want)
+	// Without visits_n the scan of visits only forms the rows: the narrowed
+	// count goes back into it as count(DISTINCT ...) FILTER (...).
+	for _, w := range want {
+		delete(w, "visits_n")
+	}
+	four := append([]string{"-m", "patients_seen,patient_minutes,urgent_patients,north_patients"}, args...)
+	if n := distinctAggs(four...); n != 1 {
+		t.Errorf("%d DISTINCT aggregates without visits_n, want 1 (urgent_patients)", n)
+	}
+	got = runJSON(t, append([]string{"run", labModel}, four...)...)
+	expectRows(t, got, want)
+	alone := []string{"-m", "patients_seen,urgent_patients", "-b", "patients.ward", "--totals", "grand"}
+	if n := distinctAggs(alone...); n != 2 {
+		t.Errorf("%d DISTINCT aggregates alone, want 2", n)
+	}
+	got = runJSON(t, append([]string{"run", labModel}, alone...)...)
+	expectRows(t, got, []row{
+		{"patients.ward": "East", "patients_seen": 1, "urgent_patients": 1},
+		{"patients.ward": "North", "patients_seen": 2, "urgent_patients": 2},
+		{"patients.ward": "South", "patients_seen": 1, "urgent_patients": 1},
+		{"patients.ward": nil, "patients_seen": 0, "urgent_patients": 0, "rolled_up": none},
+		{"patients.ward": nil, "patients_seen": 4, "urgent_patients": 4, "rolled_up": []string{"patients.ward"}},
+	})
 }

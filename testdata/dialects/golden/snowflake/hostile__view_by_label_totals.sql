@@ -3,8 +3,7 @@ WITH "we""ird'; --_rows" AS (
   SELECT
     "gr/*oup*/"."la""bel'" AS "gr/*oup*/.la""bel'",
     "we""ird'; --"."üñí 名" AS "we""ird'; --.üñí 名",
-    "we""ird'; --"."val\ue" AS "tot'al_arg",
-    "we""ird'; --"."na'me""; DROP" AS "names#_arg"
+    "we""ird'; --"."val\ue" AS "tot'al_arg"
   FROM "LAB_HOSTILE"."x""y'z`w]--" AS "we""ird'; --"
   LEFT JOIN "LAB_HOSTILE"."g]-- #" AS "gr/*oup*/" ON "we""ird'; --"."[grp]" = "gr/*oup*/"."ID"
 ),
@@ -13,16 +12,52 @@ WITH "we""ird'; --_rows" AS (
     "gr/*oup*/.la""bel'",
     "we""ird'; --.üñí 名",
     GROUPING("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名") AS "GROUPING_ID",
-    sum("tot'al_arg") AS "tot'al",
-    count(DISTINCT "names#_arg") AS "names#"
+    sum("tot'al_arg") AS "tot'al"
   FROM "we""ird'; --_rows"
   GROUP BY GROUPING SETS (("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名"), ("gr/*oup*/.la""bel'"), ())
+),
+"names#_per_we""ird'; --_rows" AS (
+  SELECT
+    "gr/*oup*/"."la""bel'" AS "gr/*oup*/.la""bel'",
+    "we""ird'; --"."üñí 名" AS "we""ird'; --.üñí 名",
+    "we""ird'; --"."na'me""; DROP" AS "we""ird'; --.na'me""; DROP per"
+  FROM "LAB_HOSTILE"."x""y'z`w]--" AS "we""ird'; --"
+  LEFT JOIN "LAB_HOSTILE"."g]-- #" AS "gr/*oup*/" ON "we""ird'; --"."[grp]" = "gr/*oup*/"."ID"
+),
+"names#_per_we""ird'; --_cells" AS (
+  SELECT
+    "gr/*oup*/.la""bel'",
+    "we""ird'; --.üñí 名",
+    "we""ird'; --.na'me""; DROP per",
+    GROUPING("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名", "we""ird'; --.na'me""; DROP per") AS "GROUPING_ID"
+  FROM "names#_per_we""ird'; --_rows"
+  GROUP BY GROUPING SETS (("gr/*oup*/.la""bel'", "we""ird'; --.üñí 名", "we""ird'; --.na'me""; DROP per"), ("gr/*oup*/.la""bel'", "we""ird'; --.na'me""; DROP per"), ("we""ird'; --.na'me""; DROP per"))
+),
+"names#_per_groups" AS (
+  SELECT
+    "gr/*oup*/.la""bel'",
+    "we""ird'; --.üñí 名",
+    "we""ird'; --.na'me""; DROP per",
+    "GROUPING_ID"
+  FROM "names#_per_we""ird'; --_cells"
+),
+"names#_per" AS (
+  SELECT
+    "gr/*oup*/.la""bel'",
+    "we""ird'; --.üñí 名",
+    "GROUPING_ID",
+    count(CASE WHEN "we""ird'; --.na'me""; DROP per" IS NOT NULL THEN 1 END) AS "names#"
+  FROM "names#_per_groups"
+  GROUP BY "GROUPING_ID", "gr/*oup*/.la""bel'", "we""ird'; --.üñí 名"
 )
 SELECT
-  "gr/*oup*/.la""bel'",
-  "we""ird'; --.üñí 名",
-  "tot'al",
-  "names#",
-  "GROUPING_ID"
+  "we""ird'; --_cells"."gr/*oup*/.la""bel'",
+  "we""ird'; --_cells"."we""ird'; --.üñí 名",
+  "we""ird'; --_cells"."tot'al" AS "tot'al",
+  COALESCE("names#_per"."names#", 0) AS "names#",
+  "we""ird'; --_cells"."GROUPING_ID"
 FROM "we""ird'; --_cells"
-ORDER BY BITAND("GROUPING_ID", 2), "gr/*oup*/.la""bel'" ASC NULLS LAST, BITAND("GROUPING_ID", 1), "we""ird'; --.üñí 名" ASC NULLS LAST;
+  LEFT JOIN "names#_per" ON "names#_per"."GROUPING_ID" = CASE "we""ird'; --_cells"."GROUPING_ID" WHEN 0 THEN 0 WHEN 1 THEN 2 WHEN 3 THEN 6 END
+    AND "names#_per"."gr/*oup*/.la""bel'" IS NOT DISTINCT FROM "we""ird'; --_cells"."gr/*oup*/.la""bel'"
+    AND "names#_per"."we""ird'; --.üñí 名" IS NOT DISTINCT FROM "we""ird'; --_cells"."we""ird'; --.üñí 名"
+ORDER BY BITAND("we""ird'; --_cells"."GROUPING_ID", 2), "we""ird'; --_cells"."gr/*oup*/.la""bel'" ASC NULLS LAST, BITAND("we""ird'; --_cells"."GROUPING_ID", 1), "we""ird'; --_cells"."we""ird'; --.üñí 名" ASC NULLS LAST;

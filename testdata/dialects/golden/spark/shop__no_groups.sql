@@ -2,7 +2,6 @@
 WITH `sales_rows` AS (
   SELECT
     (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`,
-    `sales`.`item` AS `items_arg`,
     ((`sales`.`price` * `sales`.`qty`)) AS `mid_line_arg`
   FROM `shop`.`sales` AS `sales`
 ),
@@ -10,17 +9,42 @@ WITH `sales_rows` AS (
   SELECT
     0 AS `grouping_id`,
     sum(`revenue_arg`) AS `revenue`,
-    count(DISTINCT `items_arg`) AS `items`,
     percentile(CAST(`mid_line_arg` AS DOUBLE), 0.5) AS `mid_line`,
     stddev_samp(CAST(`mid_line_arg` AS DOUBLE)) AS `line_sd`,
     var_samp(CAST(`mid_line_arg` AS DOUBLE)) AS `line_var`
   FROM `sales_rows`
+),
+`items_per_sales_rows` AS (
+  SELECT
+    `sales`.`item` AS `sales.item per`
+  FROM `shop`.`sales` AS `sales`
+),
+`items_per_sales_cells` AS (
+  SELECT
+    `sales.item per`,
+    0 AS `grouping_id`
+  FROM `items_per_sales_rows`
+  GROUP BY `sales.item per`
+),
+`items_per_groups` AS (
+  SELECT
+    `sales.item per`,
+    `grouping_id`
+  FROM `items_per_sales_cells`
+),
+`items_per` AS (
+  SELECT
+    `grouping_id`,
+    count(*) FILTER (WHERE `sales.item per` IS NOT NULL) AS `items`
+  FROM `items_per_groups`
+  GROUP BY `grouping_id`
 )
 SELECT
-  `revenue`,
-  `items`,
-  `mid_line`,
-  `line_sd`,
-  `line_var`,
-  `grouping_id`
-FROM `sales_cells`;
+  `sales_cells`.`revenue` AS `revenue`,
+  COALESCE(`items_per`.`items`, 0) AS `items`,
+  `sales_cells`.`mid_line` AS `mid_line`,
+  `sales_cells`.`line_sd` AS `line_sd`,
+  `sales_cells`.`line_var` AS `line_var`,
+  `sales_cells`.`grouping_id`
+FROM `sales_cells`
+  LEFT JOIN `items_per` ON 1 = 1;

@@ -5,8 +5,7 @@ WITH "visits_rows" AS (
     "visits"."minutes" AS "total_minutes_arg",
     "visits"."urgent" AS "urgent_n_if",
     "visits"."fee" AS "fees_arg",
-    "visits"."score" AS "sd_score_arg",
-    "visits"."note" AS "notes_arg"
+    "visits"."score" AS "sd_score_arg"
   FROM "lab"."visits" AS "visits"
   LEFT JOIN "lab"."patients" AS "patients" ON "visits"."patient" = "patients"."id"
 ),
@@ -20,23 +19,54 @@ WITH "visits_rows" AS (
     count(*) FILTER (WHERE "urgent_n_if") AS "urgent_n",
     sum("fees_arg") AS "fees",
     stddev_samp(CAST("sd_score_arg" AS DOUBLE)) AS "sd_score",
-    var_samp(CAST("sd_score_arg" AS DOUBLE)) AS "var_score",
-    count(DISTINCT "notes_arg") AS "notes"
+    var_samp(CAST("sd_score_arg" AS DOUBLE)) AS "var_score"
   FROM "visits_rows"
   GROUP BY GROUPING SETS (("patients.ward"), ())
+),
+"notes_per_visits_rows" AS (
+  SELECT
+    "patients"."ward" AS "patients.ward",
+    "visits"."note" AS "visits.note per"
+  FROM "lab"."visits" AS "visits"
+  LEFT JOIN "lab"."patients" AS "patients" ON "visits"."patient" = "patients"."id"
+),
+"notes_per_visits_cells" AS (
+  SELECT
+    "patients.ward",
+    "visits.note per",
+    grouping("patients.ward", "visits.note per") AS "grouping_id"
+  FROM "notes_per_visits_rows"
+  GROUP BY GROUPING SETS (("patients.ward", "visits.note per"), ("visits.note per"))
+),
+"notes_per_groups" AS (
+  SELECT
+    "patients.ward",
+    "visits.note per",
+    "grouping_id"
+  FROM "notes_per_visits_cells"
+),
+"notes_per" AS (
+  SELECT
+    "patients.ward",
+    "grouping_id",
+    count(*) FILTER (WHERE "visits.note per" IS NOT NULL) AS "notes"
+  FROM "notes_per_groups"
+  GROUP BY "grouping_id", "patients.ward"
 )
 SELECT
-  "patients.ward",
-  "visits_n",
-  "total_minutes",
-  "avg_minutes",
-  (CAST("total_minutes" AS DOUBLE) / NULLIF("visits_n", 0)) AS "per_visit",
-  (CAST("urgent_n" AS DOUBLE) / NULLIF("visits_n", 0)) AS "urgent_share",
-  "fees",
-  (CAST("fees" AS DOUBLE) / NULLIF("total_minutes", 0)) AS "fee_per_min",
-  "sd_score",
-  "var_score",
-  "notes",
-  "grouping_id"
+  "visits_cells"."patients.ward",
+  "visits_cells"."visits_n" AS "visits_n",
+  "visits_cells"."total_minutes" AS "total_minutes",
+  "visits_cells"."avg_minutes" AS "avg_minutes",
+  (CAST("visits_cells"."total_minutes" AS DOUBLE) / NULLIF("visits_cells"."visits_n", 0)) AS "per_visit",
+  (CAST("visits_cells"."urgent_n" AS DOUBLE) / NULLIF("visits_cells"."visits_n", 0)) AS "urgent_share",
+  "visits_cells"."fees" AS "fees",
+  (CAST("visits_cells"."fees" AS DOUBLE) / NULLIF("visits_cells"."total_minutes", 0)) AS "fee_per_min",
+  "visits_cells"."sd_score" AS "sd_score",
+  "visits_cells"."var_score" AS "var_score",
+  COALESCE("notes_per"."notes", 0) AS "notes",
+  "visits_cells"."grouping_id"
 FROM "visits_cells"
-ORDER BY bitwise_and("grouping_id", 1), "patients.ward" ASC NULLS LAST;
+  LEFT JOIN "notes_per" ON "notes_per"."grouping_id" = CASE "visits_cells"."grouping_id" WHEN 0 THEN 0 WHEN 1 THEN 2 END
+    AND "notes_per"."patients.ward" IS NOT DISTINCT FROM "visits_cells"."patients.ward"
+ORDER BY bitwise_and("visits_cells"."grouping_id", 1), "visits_cells"."patients.ward" ASC NULLS LAST;

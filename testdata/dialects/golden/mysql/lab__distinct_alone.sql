@@ -1,0 +1,32 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'patients_seen,urgent_patients' -b patients.ward --totals grand -d mysql
+WITH `visits_rows` AS (
+  SELECT
+    `patients`.`ward` AS `patients.ward`,
+    `visits`.`patient` AS `patients_seen_arg`,
+    `visits`.`urgent` AS `urgent_patients_if`
+  FROM `lab`.`visits` AS `visits`
+  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
+),
+`visits_cells` AS (
+  SELECT
+    `patients.ward`,
+    0 AS `grouping_id`,
+    count(DISTINCT `patients_seen_arg`) AS `patients_seen`,
+    count(DISTINCT CASE WHEN `urgent_patients_if` THEN `patients_seen_arg` END) AS `urgent_patients`
+  FROM `visits_rows`
+  GROUP BY `patients.ward`
+  UNION ALL
+  SELECT
+    NULL AS `patients.ward`,
+    1 AS `grouping_id`,
+    count(DISTINCT `patients_seen_arg`) AS `patients_seen`,
+    count(DISTINCT CASE WHEN `urgent_patients_if` THEN `patients_seen_arg` END) AS `urgent_patients`
+  FROM `visits_rows`
+)
+SELECT
+  `patients.ward`,
+  `patients_seen`,
+  `urgent_patients`,
+  `grouping_id`
+FROM `visits_cells`
+ORDER BY (`grouping_id` & 1), CASE WHEN `patients.ward` IS NULL THEN 1 ELSE 0 END, `patients.ward` ASC;
