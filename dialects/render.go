@@ -16,7 +16,7 @@ const GroupingColumn = "grouping_id"
 // Render prints a plan as one SQL statement for the dialect.
 func Render(p *planner.Plan, d Dialect) (string, error) {
 	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
-		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}}
+		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{}}
 	r.renameKeys(p.Root)
 	return r.render()
 }
@@ -40,6 +40,8 @@ type renderer struct {
 	found map[*planner.Table]bool
 	// rename spells key columns for dialects that need it (ColumnNamer).
 	rename map[string]string
+	// rows holds the rows CTEs of each FROM clause (see rowsOf).
+	rows map[string][]*sharedRows
 }
 
 func (r *renderer) q(name string) string {
@@ -281,25 +283,23 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	for _, l := range s.Joins {
 		r.found[l.To] = s.Inner[l]
 	}
-	var cols []string
+	var cols []rowCol
 	for _, k := range s.Keys {
 		e, err := r.value(&planner.ColRef{Col: k.Col})
 		if err != nil {
 			return err
 		}
-		cols = append(cols, e+" AS "+r.q(k.Name))
+		cols = append(cols, rowCol{name: k.Name, expr: e, key: true})
 	}
 	for _, in := range s.Inputs {
 		e, err := r.value(in.Expr)
 		if err != nil {
 			return err
 		}
-		cols = append(cols, e+" AS "+r.q(in.Name))
+		c, ok := in.Expr.(*planner.ColRef)
+		cols = append(cols, rowCol{name: in.Name, expr: e, computed: !ok || !c.Col.Stored()})
 	}
-	if len(cols) == 0 {
-		cols = append(cols, "1 AS "+r.q("one"))
-	}
-	rows := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.relation(s.Table) + " AS " + r.q(s.Table.Name)
+	rows := "\n  FROM " + r.relation(s.Table) + " AS " + r.q(s.Table.Name)
 	for _, l := range s.Joins {
 		var conds []string
 		for i := range l.FromCols {
@@ -322,18 +322,17 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		}
 		rows += "\n  WHERE " + strings.Join(conds, "\n    AND ")
 	}
-	rowsName := r.cteName(rel.Name + "_rows")
-	r.addCTE(rowsName, rows)
+	rowsName, col := r.rowsOf(rel.Name, rows, len(s.Joins) > 0, cols)
 
 	var aggs []string
 	for _, l := range s.Leaves {
 		arg := ""
 		if l.Arg != nil {
-			arg = r.q(l.Arg.Name)
+			arg = r.q(col(l.Arg.Name))
 		}
 		filter := ""
 		if l.Filter != nil {
-			filter = r.d.Truth(r.q(l.Filter.Name))
+			filter = r.d.Truth(r.q(col(l.Filter.Name)))
 		}
 		a, err := r.agg(l.Func, l.Distinct, arg, filter)
 		if err != nil {

@@ -3,7 +3,8 @@ WITH `we"ird'; --_rows` AS (
   SELECT
     `gr/*oup*/`.`la"bel'` AS `gr__oup____la_bel_`,
     `we"ird'; --`.`üñí 名` AS `we_ird_______üñí_名`,
-    `we"ird'; --`.`val\\ue` AS `tot'al_arg`
+    `we"ird'; --`.`val\\ue` AS `tot'al_arg`,
+    `we"ird'; --`.`na'me"; DROP` AS `we_ird_______na_me___DROP_per`
   FROM `lab_hostile`.`x"y'z\`w]--` AS `we"ird'; --`
   LEFT JOIN `lab_hostile`.`g]-- #` AS `gr/*oup*/` ON `we"ird'; --`.`[grp]` = `gr/*oup*/`.`id`
 ),
@@ -16,21 +17,13 @@ WITH `we"ird'; --_rows` AS (
   FROM `we"ird'; --_rows`
   GROUP BY GROUPING SETS ((`gr__oup____la_bel_`, `we_ird_______üñí_名`), (`gr__oup____la_bel_`), ())
 ),
-`names#_per_we"ird'; --_rows` AS (
-  SELECT
-    `gr/*oup*/`.`la"bel'` AS `gr__oup____la_bel_`,
-    `we"ird'; --`.`üñí 名` AS `we_ird_______üñí_名`,
-    `we"ird'; --`.`na'me"; DROP` AS `we_ird_______na_me___DROP_per`
-  FROM `lab_hostile`.`x"y'z\`w]--` AS `we"ird'; --`
-  LEFT JOIN `lab_hostile`.`g]-- #` AS `gr/*oup*/` ON `we"ird'; --`.`[grp]` = `gr/*oup*/`.`id`
-),
 `names#_per_we"ird'; --_cells` AS (
   SELECT
     `gr__oup____la_bel_`,
     `we_ird_______üñí_名`,
     `we_ird_______na_me___DROP_per`,
     (GROUPING(`gr__oup____la_bel_`) * 4 + GROUPING(`we_ird_______üñí_名`) * 2 + GROUPING(`we_ird_______na_me___DROP_per`)) AS `grouping_id`
-  FROM `names#_per_we"ird'; --_rows`
+  FROM `we"ird'; --_rows`
   GROUP BY GROUPING SETS ((`gr__oup____la_bel_`, `we_ird_______üñí_名`, `we_ird_______na_me___DROP_per`), (`gr__oup____la_bel_`, `we_ird_______na_me___DROP_per`), (`we_ird_______na_me___DROP_per`))
 ),
 `names#_per_groups` AS (

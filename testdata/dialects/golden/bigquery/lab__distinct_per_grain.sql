@@ -2,7 +2,9 @@
 WITH `visits_rows` AS (
   SELECT
     `patients`.`ward` AS `patients__ward`,
-    (DATE_TRUNC(`visits`.`seen_on`, YEAR)) AS `visits__seen_year`
+    (DATE_TRUNC(`visits`.`seen_on`, YEAR)) AS `visits__seen_year`,
+    `visits`.`patient` AS `visits__patient_per`,
+    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
   FROM `lab`.`visits` AS `visits`
   LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
 ),
@@ -15,15 +17,6 @@ WITH `visits_rows` AS (
   FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients__ward`, `visits__seen_year`), (`patients__ward`), ())
 ),
-`patients_seen_per_visits_rows` AS (
-  SELECT
-    `patients`.`ward` AS `patients__ward`,
-    (DATE_TRUNC(`visits`.`seen_on`, YEAR)) AS `visits__seen_year`,
-    `visits`.`patient` AS `visits__patient_per`,
-    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
-  FROM `lab`.`visits` AS `visits`
-  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
-),
 `patients_seen_per_visits_cells` AS (
   SELECT
     `patients__ward`,
@@ -31,7 +24,7 @@ WITH `visits_rows` AS (
     `visits__patient_per`,
     (GROUPING(`patients__ward`) * 4 + GROUPING(`visits__seen_year`) * 2 + GROUPING(`visits__patient_per`)) AS `grouping_id`,
     sum(`patients_seen_per_total_minutes_arg`) AS `patients_seen_per_total_minutes`
-  FROM `patients_seen_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients__ward`, `visits__seen_year`, `visits__patient_per`), (`patients__ward`, `visits__patient_per`), (`visits__patient_per`))
 ),
 `patients_seen_per_groups` AS (

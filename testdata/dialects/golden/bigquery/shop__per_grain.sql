@@ -1,7 +1,10 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d bigquery
 WITH `sales_rows` AS (
   SELECT
-    `stores`.`region` AS `stores__region`
+    `stores`.`region` AS `stores__region`,
+    `sales`.`store_id` AS `sales__store_id_per`,
+    (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_revenue_arg`,
+    `sales`.`item` AS `sales__item_per`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
 ),
@@ -12,21 +15,13 @@ WITH `sales_rows` AS (
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores__region`), ())
 ),
-`store_avg_per_sales_rows` AS (
-  SELECT
-    `stores`.`region` AS `stores__region`,
-    `sales`.`store_id` AS `sales__store_id_per`,
-    (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_revenue_arg`
-  FROM `shop`.`sales` AS `sales`
-  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
-),
 `store_avg_per_sales_cells` AS (
   SELECT
     `stores__region`,
     `sales__store_id_per`,
     (GROUPING(`stores__region`) * 2 + GROUPING(`sales__store_id_per`)) AS `grouping_id`,
     sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
-  FROM `store_avg_per_sales_rows`
+  FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores__region`, `sales__store_id_per`), (`sales__store_id_per`))
 ),
 `store_avg_per_groups` AS (
@@ -45,21 +40,13 @@ WITH `sales_rows` AS (
   FROM `store_avg_per_groups`
   GROUP BY `grouping_id`, `stores__region`
 ),
-`big_items_per_sales_rows` AS (
-  SELECT
-    `stores`.`region` AS `stores__region`,
-    `sales`.`item` AS `sales__item_per`,
-    (`sales`.`price` * `sales`.`qty`) AS `big_items_per_revenue_arg`
-  FROM `shop`.`sales` AS `sales`
-  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
-),
 `big_items_per_sales_cells` AS (
   SELECT
     `stores__region`,
     `sales__item_per`,
     (GROUPING(`stores__region`) * 2 + GROUPING(`sales__item_per`)) AS `grouping_id`,
-    sum(`big_items_per_revenue_arg`) AS `big_items_per_revenue`
-  FROM `big_items_per_sales_rows`
+    sum(`store_avg_per_revenue_arg`) AS `big_items_per_revenue`
+  FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores__region`, `sales__item_per`), (`sales__item_per`))
 ),
 `big_items_per_groups` AS (

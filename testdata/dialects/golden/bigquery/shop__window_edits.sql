@@ -4,7 +4,8 @@ WITH `sales_rows` AS (
     `stores`.`region` AS `stores__region`,
     `sales`.`item` AS `sales__item`,
     (`sales`.`price` * `sales`.`qty`) AS `revenue_arg`,
-    (`sales`.`item` = 'rose') AS `rose_rev_revenue_if_2`
+    (`sales`.`item` = 'rose') AS `rose_rev_revenue_if_2`,
+    `sales`.`store_id` AS `sales__store_id_per`
   FROM `shop`.`sales` AS `sales`
   LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
 ),
@@ -18,23 +19,14 @@ WITH `sales_rows` AS (
   FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores__region`, `sales__item`), (`stores__region`), ())
 ),
-`store_avg_per_sales_rows` AS (
-  SELECT
-    `stores`.`region` AS `stores__region`,
-    `sales`.`item` AS `sales__item`,
-    `sales`.`store_id` AS `sales__store_id_per`,
-    (`sales`.`price` * `sales`.`qty`) AS `store_avg_per_revenue_arg`
-  FROM `shop`.`sales` AS `sales`
-  LEFT JOIN `shop`.`stores` AS `stores` ON `sales`.`store_id` = `stores`.`id`
-),
 `store_avg_per_sales_cells` AS (
   SELECT
     `stores__region`,
     `sales__item`,
     `sales__store_id_per`,
     (GROUPING(`stores__region`) * 4 + GROUPING(`sales__item`) * 2 + GROUPING(`sales__store_id_per`)) AS `grouping_id`,
-    sum(`store_avg_per_revenue_arg`) AS `store_avg_per_revenue`
-  FROM `store_avg_per_sales_rows`
+    sum(`revenue_arg`) AS `store_avg_per_revenue`
+  FROM `sales_rows`
   GROUP BY GROUPING SETS ((`stores__region`, `sales__item`, `sales__store_id_per`), (`stores__region`, `sales__store_id_per`), (`sales__store_id_per`))
 ),
 `store_avg_per_groups` AS (

@@ -5,7 +5,8 @@ WITH `visits_rows` AS (
     `visits`.`minutes` AS `total_minutes_arg`,
     `visits`.`urgent` AS `urgent_n_if`,
     `visits`.`fee` AS `fees_arg`,
-    `visits`.`score` AS `sd_score_arg`
+    `visits`.`score` AS `sd_score_arg`,
+    `visits`.`note` AS `visits.note per`
   FROM `lab`.`visits` AS `visits`
   LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
 ),
@@ -35,26 +36,19 @@ WITH `visits_rows` AS (
     var_samp(CAST(`sd_score_arg` AS DOUBLE)) AS `var_score`
   FROM `visits_rows`
 ),
-`notes_per_visits_rows` AS (
-  SELECT
-    `patients`.`ward` AS `patients.ward`,
-    `visits`.`note` AS `visits.note per`
-  FROM `lab`.`visits` AS `visits`
-  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
-),
 `notes_per_visits_cells` AS (
   SELECT
     `patients.ward`,
     `visits.note per`,
     0 AS `grouping_id`
-  FROM `notes_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY `patients.ward`, `visits.note per`
   UNION ALL
   SELECT
     NULL AS `patients.ward`,
     `visits.note per`,
     2 AS `grouping_id`
-  FROM `notes_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY `visits.note per`
 ),
 `notes_per_groups` AS (

@@ -2,7 +2,9 @@
 WITH "VISITS_ROWS" AS (
   SELECT
     "PATIENTS"."WARD" AS "patients.ward",
-    (DATE_TRUNC('YEAR', "VISITS"."SEEN_ON")) AS "visits.seen_year"
+    (DATE_TRUNC('YEAR', "VISITS"."SEEN_ON")) AS "visits.seen_year",
+    "VISITS"."PATIENT" AS "visits.patient per",
+    "VISITS"."MINUTES" AS "PATIENTS_SEEN_PER_TOTAL_MINUTES_ARG"
   FROM "LAB"."VISITS" AS "VISITS"
   LEFT JOIN "LAB"."PATIENTS" AS "PATIENTS" ON "VISITS"."PATIENT" = "PATIENTS"."ID"
 ),
@@ -15,15 +17,6 @@ WITH "VISITS_ROWS" AS (
   FROM "VISITS_ROWS"
   GROUP BY GROUPING SETS (("patients.ward", "visits.seen_year"), ("patients.ward"), ())
 ),
-"PATIENTS_SEEN_PER_VISITS_ROWS" AS (
-  SELECT
-    "PATIENTS"."WARD" AS "patients.ward",
-    (DATE_TRUNC('YEAR', "VISITS"."SEEN_ON")) AS "visits.seen_year",
-    "VISITS"."PATIENT" AS "visits.patient per",
-    "VISITS"."MINUTES" AS "PATIENTS_SEEN_PER_TOTAL_MINUTES_ARG"
-  FROM "LAB"."VISITS" AS "VISITS"
-  LEFT JOIN "LAB"."PATIENTS" AS "PATIENTS" ON "VISITS"."PATIENT" = "PATIENTS"."ID"
-),
 "PATIENTS_SEEN_PER_VISITS_CELLS" AS (
   SELECT
     "patients.ward",
@@ -31,7 +24,7 @@ WITH "VISITS_ROWS" AS (
     "visits.patient per",
     GROUPING("patients.ward", "visits.seen_year", "visits.patient per") AS "GROUPING_ID",
     sum("PATIENTS_SEEN_PER_TOTAL_MINUTES_ARG") AS "PATIENTS_SEEN_PER_TOTAL_MINUTES"
-  FROM "PATIENTS_SEEN_PER_VISITS_ROWS"
+  FROM "VISITS_ROWS"
   GROUP BY GROUPING SETS (("patients.ward", "visits.seen_year", "visits.patient per"), ("patients.ward", "visits.patient per"), ("visits.patient per"))
 ),
 "PATIENTS_SEEN_PER_GROUPS" AS (

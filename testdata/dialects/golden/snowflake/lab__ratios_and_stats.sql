@@ -5,7 +5,8 @@ WITH "VISITS_ROWS" AS (
     "VISITS"."MINUTES" AS "TOTAL_MINUTES_ARG",
     "VISITS"."URGENT" AS "URGENT_N_IF",
     "VISITS"."FEE" AS "FEES_ARG",
-    "VISITS"."SCORE" AS "SD_SCORE_ARG"
+    "VISITS"."SCORE" AS "SD_SCORE_ARG",
+    "VISITS"."NOTE" AS "visits.note per"
   FROM "LAB"."VISITS" AS "VISITS"
   LEFT JOIN "LAB"."PATIENTS" AS "PATIENTS" ON "VISITS"."PATIENT" = "PATIENTS"."ID"
 ),
@@ -23,19 +24,12 @@ WITH "VISITS_ROWS" AS (
   FROM "VISITS_ROWS"
   GROUP BY GROUPING SETS (("patients.ward"), ())
 ),
-"NOTES_PER_VISITS_ROWS" AS (
-  SELECT
-    "PATIENTS"."WARD" AS "patients.ward",
-    "VISITS"."NOTE" AS "visits.note per"
-  FROM "LAB"."VISITS" AS "VISITS"
-  LEFT JOIN "LAB"."PATIENTS" AS "PATIENTS" ON "VISITS"."PATIENT" = "PATIENTS"."ID"
-),
 "NOTES_PER_VISITS_CELLS" AS (
   SELECT
     "patients.ward",
     "visits.note per",
     GROUPING("patients.ward", "visits.note per") AS "GROUPING_ID"
-  FROM "NOTES_PER_VISITS_ROWS"
+  FROM "VISITS_ROWS"
   GROUP BY GROUPING SETS (("patients.ward", "visits.note per"), ("visits.note per"))
 ),
 "NOTES_PER_GROUPS" AS (

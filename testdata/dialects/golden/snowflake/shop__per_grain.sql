@@ -1,7 +1,10 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d snowflake
 WITH "SALES_ROWS" AS (
   SELECT
-    "STORES"."REGION" AS "stores.region"
+    "STORES"."REGION" AS "stores.region",
+    "SALES"."STORE_ID" AS "sales.store_id per",
+    ("SALES"."PRICE" * "SALES"."QTY") AS "STORE_AVG_PER_REVENUE_ARG",
+    "SALES"."ITEM" AS "sales.item per"
   FROM "SHOP"."SALES" AS "SALES"
   LEFT JOIN "SHOP"."STORES" AS "STORES" ON "SALES"."STORE_ID" = "STORES"."ID"
 ),
@@ -12,21 +15,13 @@ WITH "SALES_ROWS" AS (
   FROM "SALES_ROWS"
   GROUP BY GROUPING SETS (("stores.region"), ())
 ),
-"STORE_AVG_PER_SALES_ROWS" AS (
-  SELECT
-    "STORES"."REGION" AS "stores.region",
-    "SALES"."STORE_ID" AS "sales.store_id per",
-    ("SALES"."PRICE" * "SALES"."QTY") AS "STORE_AVG_PER_REVENUE_ARG"
-  FROM "SHOP"."SALES" AS "SALES"
-  LEFT JOIN "SHOP"."STORES" AS "STORES" ON "SALES"."STORE_ID" = "STORES"."ID"
-),
 "STORE_AVG_PER_SALES_CELLS" AS (
   SELECT
     "stores.region",
     "sales.store_id per",
     GROUPING("stores.region", "sales.store_id per") AS "GROUPING_ID",
     sum("STORE_AVG_PER_REVENUE_ARG") AS "STORE_AVG_PER_REVENUE"
-  FROM "STORE_AVG_PER_SALES_ROWS"
+  FROM "SALES_ROWS"
   GROUP BY GROUPING SETS (("stores.region", "sales.store_id per"), ("sales.store_id per"))
 ),
 "STORE_AVG_PER_GROUPS" AS (
@@ -45,21 +40,13 @@ WITH "SALES_ROWS" AS (
   FROM "STORE_AVG_PER_GROUPS"
   GROUP BY "GROUPING_ID", "stores.region"
 ),
-"BIG_ITEMS_PER_SALES_ROWS" AS (
-  SELECT
-    "STORES"."REGION" AS "stores.region",
-    "SALES"."ITEM" AS "sales.item per",
-    ("SALES"."PRICE" * "SALES"."QTY") AS "BIG_ITEMS_PER_REVENUE_ARG"
-  FROM "SHOP"."SALES" AS "SALES"
-  LEFT JOIN "SHOP"."STORES" AS "STORES" ON "SALES"."STORE_ID" = "STORES"."ID"
-),
 "BIG_ITEMS_PER_SALES_CELLS" AS (
   SELECT
     "stores.region",
     "sales.item per",
     GROUPING("stores.region", "sales.item per") AS "GROUPING_ID",
-    sum("BIG_ITEMS_PER_REVENUE_ARG") AS "BIG_ITEMS_PER_REVENUE"
-  FROM "BIG_ITEMS_PER_SALES_ROWS"
+    sum("STORE_AVG_PER_REVENUE_ARG") AS "BIG_ITEMS_PER_REVENUE"
+  FROM "SALES_ROWS"
   GROUP BY GROUPING SETS (("stores.region", "sales.item per"), ("sales.item per"))
 ),
 "BIG_ITEMS_PER_GROUPS" AS (

@@ -4,7 +4,8 @@ WITH "SALES_ROWS" AS (
     "STORES"."REGION" AS "stores.region",
     "SALES"."ITEM" AS "sales.item",
     ("SALES"."PRICE" * "SALES"."QTY") AS "REVENUE_ARG",
-    ("SALES"."ITEM" = 'rose') AS "ROSE_REV_REVENUE_IF_2"
+    ("SALES"."ITEM" = 'rose') AS "ROSE_REV_REVENUE_IF_2",
+    "SALES"."STORE_ID" AS "sales.store_id per"
   FROM "SHOP"."SALES" AS "SALES"
   LEFT JOIN "SHOP"."STORES" AS "STORES" ON "SALES"."STORE_ID" = "STORES"."ID"
 ),
@@ -18,23 +19,14 @@ WITH "SALES_ROWS" AS (
   FROM "SALES_ROWS"
   GROUP BY GROUPING SETS (("stores.region", "sales.item"), ("stores.region"), ())
 ),
-"STORE_AVG_PER_SALES_ROWS" AS (
-  SELECT
-    "STORES"."REGION" AS "stores.region",
-    "SALES"."ITEM" AS "sales.item",
-    "SALES"."STORE_ID" AS "sales.store_id per",
-    ("SALES"."PRICE" * "SALES"."QTY") AS "STORE_AVG_PER_REVENUE_ARG"
-  FROM "SHOP"."SALES" AS "SALES"
-  LEFT JOIN "SHOP"."STORES" AS "STORES" ON "SALES"."STORE_ID" = "STORES"."ID"
-),
 "STORE_AVG_PER_SALES_CELLS" AS (
   SELECT
     "stores.region",
     "sales.item",
     "sales.store_id per",
     GROUPING("stores.region", "sales.item", "sales.store_id per") AS "GROUPING_ID",
-    sum("STORE_AVG_PER_REVENUE_ARG") AS "STORE_AVG_PER_REVENUE"
-  FROM "STORE_AVG_PER_SALES_ROWS"
+    sum("REVENUE_ARG") AS "STORE_AVG_PER_REVENUE"
+  FROM "SALES_ROWS"
   GROUP BY GROUPING SETS (("stores.region", "sales.item", "sales.store_id per"), ("stores.region", "sales.store_id per"), ("sales.store_id per"))
 ),
 "STORE_AVG_PER_GROUPS" AS (

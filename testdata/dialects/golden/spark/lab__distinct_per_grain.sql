@@ -2,7 +2,9 @@
 WITH `visits_rows` AS (
   SELECT
     `patients`.`ward` AS `patients.ward`,
-    (CAST(date_trunc('YEAR', `visits`.`seen_on`) AS DATE)) AS `visits.seen_year`
+    (CAST(date_trunc('YEAR', `visits`.`seen_on`) AS DATE)) AS `visits.seen_year`,
+    `visits`.`patient` AS `visits.patient per`,
+    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
   FROM `lab`.`visits` AS `visits`
   LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
 ),
@@ -15,15 +17,6 @@ WITH `visits_rows` AS (
   FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients.ward`, `visits.seen_year`), (`patients.ward`), ())
 ),
-`patients_seen_per_visits_rows` AS (
-  SELECT
-    `patients`.`ward` AS `patients.ward`,
-    (CAST(date_trunc('YEAR', `visits`.`seen_on`) AS DATE)) AS `visits.seen_year`,
-    `visits`.`patient` AS `visits.patient per`,
-    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
-  FROM `lab`.`visits` AS `visits`
-  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
-),
 `patients_seen_per_visits_cells` AS (
   SELECT
     `patients.ward`,
@@ -31,7 +24,7 @@ WITH `visits_rows` AS (
     `visits.patient per`,
     grouping_id(`patients.ward`, `visits.seen_year`, `visits.patient per`) AS `grouping_id`,
     sum(`patients_seen_per_total_minutes_arg`) AS `patients_seen_per_total_minutes`
-  FROM `patients_seen_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients.ward`, `visits.seen_year`, `visits.patient per`), (`patients.ward`, `visits.patient per`), (`visits.patient per`))
 ),
 `patients_seen_per_groups` AS (

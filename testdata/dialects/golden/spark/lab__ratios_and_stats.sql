@@ -5,7 +5,8 @@ WITH `visits_rows` AS (
     `visits`.`minutes` AS `total_minutes_arg`,
     `visits`.`urgent` AS `urgent_n_if`,
     `visits`.`fee` AS `fees_arg`,
-    `visits`.`score` AS `sd_score_arg`
+    `visits`.`score` AS `sd_score_arg`,
+    `visits`.`note` AS `visits.note per`
   FROM `lab`.`visits` AS `visits`
   LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
 ),
@@ -23,19 +24,12 @@ WITH `visits_rows` AS (
   FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients.ward`), ())
 ),
-`notes_per_visits_rows` AS (
-  SELECT
-    `patients`.`ward` AS `patients.ward`,
-    `visits`.`note` AS `visits.note per`
-  FROM `lab`.`visits` AS `visits`
-  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
-),
 `notes_per_visits_cells` AS (
   SELECT
     `patients.ward`,
     `visits.note per`,
     grouping_id(`patients.ward`, `visits.note per`) AS `grouping_id`
-  FROM `notes_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY GROUPING SETS ((`patients.ward`, `visits.note per`), (`visits.note per`))
 ),
 `notes_per_groups` AS (

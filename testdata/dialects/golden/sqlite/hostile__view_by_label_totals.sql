@@ -3,7 +3,8 @@ WITH `we"ird'; --_rows` AS (
   SELECT
     `gr/*oup*/`.`la"bel'` AS `gr/*oup*/.la"bel'`,
     `we"ird'; --`.`üñí 名` AS `we"ird'; --.üñí 名`,
-    `we"ird'; --`.`val\ue` AS `tot'al_arg`
+    `we"ird'; --`.`val\ue` AS `tot'al_arg`,
+    `we"ird'; --`.`na'me"; DROP` AS `we"ird'; --.na'me"; DROP per`
   FROM `lab_hostile`.`x"y'z``w]--` AS `we"ird'; --`
   LEFT JOIN `lab_hostile`.`g]-- #` AS `gr/*oup*/` ON `we"ird'; --`.`[grp]` = `gr/*oup*/`.`id`
 ),
@@ -31,21 +32,13 @@ WITH `we"ird'; --_rows` AS (
     sum(`tot'al_arg`) AS `tot'al`
   FROM `we"ird'; --_rows`
 ),
-`names#_per_we"ird'; --_rows` AS (
-  SELECT
-    `gr/*oup*/`.`la"bel'` AS `gr/*oup*/.la"bel'`,
-    `we"ird'; --`.`üñí 名` AS `we"ird'; --.üñí 名`,
-    `we"ird'; --`.`na'me"; DROP` AS `we"ird'; --.na'me"; DROP per`
-  FROM `lab_hostile`.`x"y'z``w]--` AS `we"ird'; --`
-  LEFT JOIN `lab_hostile`.`g]-- #` AS `gr/*oup*/` ON `we"ird'; --`.`[grp]` = `gr/*oup*/`.`id`
-),
 `names#_per_we"ird'; --_cells` AS (
   SELECT
     `gr/*oup*/.la"bel'`,
     `we"ird'; --.üñí 名`,
     `we"ird'; --.na'me"; DROP per`,
     0 AS `grouping_id`
-  FROM `names#_per_we"ird'; --_rows`
+  FROM `we"ird'; --_rows`
   GROUP BY `gr/*oup*/.la"bel'`, `we"ird'; --.üñí 名`, `we"ird'; --.na'me"; DROP per`
   UNION ALL
   SELECT
@@ -53,7 +46,7 @@ WITH `we"ird'; --_rows` AS (
     NULL AS `we"ird'; --.üñí 名`,
     `we"ird'; --.na'me"; DROP per`,
     2 AS `grouping_id`
-  FROM `names#_per_we"ird'; --_rows`
+  FROM `we"ird'; --_rows`
   GROUP BY `gr/*oup*/.la"bel'`, `we"ird'; --.na'me"; DROP per`
   UNION ALL
   SELECT
@@ -61,7 +54,7 @@ WITH `we"ird'; --_rows` AS (
     NULL AS `we"ird'; --.üñí 名`,
     `we"ird'; --.na'me"; DROP per`,
     6 AS `grouping_id`
-  FROM `names#_per_we"ird'; --_rows`
+  FROM `we"ird'; --_rows`
   GROUP BY `we"ird'; --.na'me"; DROP per`
 ),
 `names#_per_groups` AS (

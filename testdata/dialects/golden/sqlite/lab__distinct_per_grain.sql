@@ -2,7 +2,9 @@
 WITH `visits_rows` AS (
   SELECT
     `patients`.`ward` AS `patients.ward`,
-    (date(`visits`.`seen_on`, 'start of year')) AS `visits.seen_year`
+    (date(`visits`.`seen_on`, 'start of year')) AS `visits.seen_year`,
+    `visits`.`patient` AS `visits.patient per`,
+    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
   FROM `lab`.`visits` AS `visits`
   LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
 ),
@@ -30,15 +32,6 @@ WITH `visits_rows` AS (
     count(*) AS `visits_n`
   FROM `visits_rows`
 ),
-`patients_seen_per_visits_rows` AS (
-  SELECT
-    `patients`.`ward` AS `patients.ward`,
-    (date(`visits`.`seen_on`, 'start of year')) AS `visits.seen_year`,
-    `visits`.`patient` AS `visits.patient per`,
-    `visits`.`minutes` AS `patients_seen_per_total_minutes_arg`
-  FROM `lab`.`visits` AS `visits`
-  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
-),
 `patients_seen_per_visits_cells` AS (
   SELECT
     `patients.ward`,
@@ -46,7 +39,7 @@ WITH `visits_rows` AS (
     `visits.patient per`,
     0 AS `grouping_id`,
     sum(`patients_seen_per_total_minutes_arg`) AS `patients_seen_per_total_minutes`
-  FROM `patients_seen_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY `patients.ward`, `visits.seen_year`, `visits.patient per`
   UNION ALL
   SELECT
@@ -55,7 +48,7 @@ WITH `visits_rows` AS (
     `visits.patient per`,
     2 AS `grouping_id`,
     sum(`patients_seen_per_total_minutes_arg`) AS `patients_seen_per_total_minutes`
-  FROM `patients_seen_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY `patients.ward`, `visits.patient per`
   UNION ALL
   SELECT
@@ -64,7 +57,7 @@ WITH `visits_rows` AS (
     `visits.patient per`,
     6 AS `grouping_id`,
     sum(`patients_seen_per_total_minutes_arg`) AS `patients_seen_per_total_minutes`
-  FROM `patients_seen_per_visits_rows`
+  FROM `visits_rows`
   GROUP BY `visits.patient per`
 ),
 `patients_seen_per_groups` AS (

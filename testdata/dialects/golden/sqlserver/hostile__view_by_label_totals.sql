@@ -3,7 +3,8 @@ WITH [we"ird'; --_rows] AS (
   SELECT
     [gr/*oup*/].[la"bel'] AS [gr/*oup*/.la"bel'],
     [we"ird'; --].[üñí 名] AS [we"ird'; --.üñí 名],
-    [we"ird'; --].[val\ue] AS [tot'al_arg]
+    [we"ird'; --].[val\ue] AS [tot'al_arg],
+    [we"ird'; --].[na'me"; DROP] AS [we"ird'; --.na'me"; DROP per]
   FROM [lab_hostile].[x"y'z`w]]--] AS [we"ird'; --]
   LEFT JOIN [lab_hostile].[g]]-- #] AS [gr/*oup*/] ON [we"ird'; --].[[grp]]] = [gr/*oup*/].[id]
 ),
@@ -16,21 +17,13 @@ WITH [we"ird'; --_rows] AS (
   FROM [we"ird'; --_rows]
   GROUP BY GROUPING SETS (([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名]), ([gr/*oup*/.la"bel']), ())
 ),
-[names#_per_we"ird'; --_rows] AS (
-  SELECT
-    [gr/*oup*/].[la"bel'] AS [gr/*oup*/.la"bel'],
-    [we"ird'; --].[üñí 名] AS [we"ird'; --.üñí 名],
-    [we"ird'; --].[na'me"; DROP] AS [we"ird'; --.na'me"; DROP per]
-  FROM [lab_hostile].[x"y'z`w]]--] AS [we"ird'; --]
-  LEFT JOIN [lab_hostile].[g]]-- #] AS [gr/*oup*/] ON [we"ird'; --].[[grp]]] = [gr/*oup*/].[id]
-),
 [names#_per_we"ird'; --_cells] AS (
   SELECT
     [gr/*oup*/.la"bel'],
     [we"ird'; --.üñí 名],
     [we"ird'; --.na'me"; DROP per],
     GROUPING_ID([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名], [we"ird'; --.na'me"; DROP per]) AS [grouping_id]
-  FROM [names#_per_we"ird'; --_rows]
+  FROM [we"ird'; --_rows]
   GROUP BY GROUPING SETS (([gr/*oup*/.la"bel'], [we"ird'; --.üñí 名], [we"ird'; --.na'me"; DROP per]), ([gr/*oup*/.la"bel'], [we"ird'; --.na'me"; DROP per]), ([we"ird'; --.na'me"; DROP per]))
 ),
 [names#_per_groups] AS (

@@ -4,7 +4,8 @@ WITH [sales_rows] AS (
     [stores].[region] AS [stores.region],
     [sales].[item] AS [sales.item],
     ([sales].[price] * [sales].[qty]) AS [revenue_arg],
-    CASE WHEN ([sales].[item] = N'rose') THEN 1 WHEN NOT (([sales].[item] = N'rose')) THEN 0 END AS [rose_rev_revenue_if_2]
+    CASE WHEN ([sales].[item] = N'rose') THEN 1 WHEN NOT (([sales].[item] = N'rose')) THEN 0 END AS [rose_rev_revenue_if_2],
+    [sales].[store_id] AS [sales.store_id per]
   FROM [shop].[sales] AS [sales]
   LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
 ),
@@ -18,23 +19,14 @@ WITH [sales_rows] AS (
   FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item]), ([stores.region]), ())
 ),
-[store_avg_per_sales_rows] AS (
-  SELECT
-    [stores].[region] AS [stores.region],
-    [sales].[item] AS [sales.item],
-    [sales].[store_id] AS [sales.store_id per],
-    ([sales].[price] * [sales].[qty]) AS [store_avg_per_revenue_arg]
-  FROM [shop].[sales] AS [sales]
-  LEFT JOIN [shop].[stores] AS [stores] ON [sales].[store_id] = [stores].[id]
-),
 [store_avg_per_sales_cells] AS (
   SELECT
     [stores.region],
     [sales.item],
     [sales.store_id per],
     GROUPING_ID([stores.region], [sales.item], [sales.store_id per]) AS [grouping_id],
-    SUM([store_avg_per_revenue_arg]) AS [store_avg_per_revenue]
-  FROM [store_avg_per_sales_rows]
+    SUM([revenue_arg]) AS [store_avg_per_revenue]
+  FROM [sales_rows]
   GROUP BY GROUPING SETS (([stores.region], [sales.item], [sales.store_id per]), ([stores.region], [sales.store_id per]), ([sales.store_id per]))
 ),
 [store_avg_per_groups] AS (

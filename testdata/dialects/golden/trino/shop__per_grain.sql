@@ -1,7 +1,10 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d trino
 WITH "sales_rows" AS (
   SELECT
-    "stores"."region" AS "stores.region"
+    "stores"."region" AS "stores.region",
+    "sales"."store_id" AS "sales.store_id per",
+    ("sales"."price" * "sales"."qty") AS "store_avg_per_revenue_arg",
+    "sales"."item" AS "sales.item per"
   FROM "shop"."sales" AS "sales"
   LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
 ),
@@ -12,21 +15,13 @@ WITH "sales_rows" AS (
   FROM "sales_rows"
   GROUP BY GROUPING SETS (("stores.region"), ())
 ),
-"store_avg_per_sales_rows" AS (
-  SELECT
-    "stores"."region" AS "stores.region",
-    "sales"."store_id" AS "sales.store_id per",
-    ("sales"."price" * "sales"."qty") AS "store_avg_per_revenue_arg"
-  FROM "shop"."sales" AS "sales"
-  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
-),
 "store_avg_per_sales_cells" AS (
   SELECT
     "stores.region",
     "sales.store_id per",
     grouping("stores.region", "sales.store_id per") AS "grouping_id",
     sum("store_avg_per_revenue_arg") AS "store_avg_per_revenue"
-  FROM "store_avg_per_sales_rows"
+  FROM "sales_rows"
   GROUP BY GROUPING SETS (("stores.region", "sales.store_id per"), ("sales.store_id per"))
 ),
 "store_avg_per_groups" AS (
@@ -45,21 +40,13 @@ WITH "sales_rows" AS (
   FROM "store_avg_per_groups"
   GROUP BY "grouping_id", "stores.region"
 ),
-"big_items_per_sales_rows" AS (
-  SELECT
-    "stores"."region" AS "stores.region",
-    "sales"."item" AS "sales.item per",
-    ("sales"."price" * "sales"."qty") AS "big_items_per_revenue_arg"
-  FROM "shop"."sales" AS "sales"
-  LEFT JOIN "shop"."stores" AS "stores" ON "sales"."store_id" = "stores"."id"
-),
 "big_items_per_sales_cells" AS (
   SELECT
     "stores.region",
     "sales.item per",
     grouping("stores.region", "sales.item per") AS "grouping_id",
-    sum("big_items_per_revenue_arg") AS "big_items_per_revenue"
-  FROM "big_items_per_sales_rows"
+    sum("store_avg_per_revenue_arg") AS "big_items_per_revenue"
+  FROM "sales_rows"
   GROUP BY GROUPING SETS (("stores.region", "sales.item per"), ("sales.item per"))
 ),
 "big_items_per_groups" AS (
