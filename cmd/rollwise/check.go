@@ -68,9 +68,9 @@ func runCheck(e *env, o *checkOptions) error {
 			return err
 		}
 		diags.Append(d)
-		held = fmt.Sprintf("; %d required links hold on the data", len(requiredLinks(m)))
-		if len(requiredLinks(m)) == 0 {
-			held = "; no link is declared required"
+		held = "; no link is declared required"
+		if n := len(requiredLinks(m)); n > 0 {
+			held = fmt.Sprintf("; %d required links hold on the data", n)
 		}
 	}
 	if len(diags) > 0 {

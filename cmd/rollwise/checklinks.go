@@ -4,7 +4,6 @@ import (
 	"context"
 	"fmt"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
@@ -33,25 +32,14 @@ func checkRequired(ctx context.Context, m *planner.Model, dataDir, dsn string) (
 	if len(links) == 0 {
 		return nil, nil
 	}
-	var count func(sql string) (*engine.Result, error)
+	runner, live, closeData, err := openData(ctx, m, dataDir, dsn)
+	if err != nil {
+		return nil, err
+	}
+	defer closeData()
 	dialect := "duckdb"
-	if dsn != "" {
-		l, err := engine.OpenLive(ctx, dsn)
-		if err != nil {
-			return nil, &exitError{code: exitFindings, err: err}
-		}
-		defer l.Close()
-		dialect = l.Dialect
-		count = func(sql string) (*engine.Result, error) {
-			return l.Query(ctx, sql, []planner.Type{planner.TypeInteger})
-		}
-	} else {
-		db, err := engine.OpenDuckDB(ctx, m, dataDir)
-		if err != nil {
-			return nil, &exitError{code: exitFindings, err: err}
-		}
-		defer db.Close()
-		count = func(sql string) (*engine.Result, error) { return engine.Query(ctx, db, sql) }
+	if live != nil {
+		dialect = live.Dialect
 	}
 	d, err := dialects.Get(dialect)
 	if err != nil {
@@ -59,7 +47,7 @@ func checkRequired(ctx context.Context, m *planner.Model, dataDir, dsn string) (
 	}
 	var diags grammar.Diagnostics
 	for _, l := range links {
-		res, err := count(dialects.UnmatchedRows(l, d))
+		res, err := runner.Query(ctx, dialects.UnmatchedRows(l, d))
 		if err != nil {
 			return nil, &exitError{code: exitFindings, err: fmt.Errorf("counting the rows of %s that link %s misses: %w", l.From.Name, l, err)}
 		}

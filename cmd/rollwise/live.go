@@ -6,6 +6,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/verify"
 	"github.com/rollwise/rollwise/planner"
 )
 
@@ -39,6 +40,32 @@ func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, e
 	}
 	addLiveCautions(ctx, l, c)
 	return shape(c, res)
+}
+
+// openData opens the data a command reads: the live database at dsn, or
+// else the embedded DuckDB over m's files (or dataDir). live is nil on
+// the embedded engine; closeData releases what was opened.
+func openData(ctx context.Context, m *planner.Model, dataDir, dsn string) (run verify.Runner, live *engine.Live, closeData func(), err error) {
+	if dsn != "" {
+		l, err := engine.OpenLive(ctx, dsn)
+		if err != nil {
+			return nil, nil, nil, &exitError{code: exitFindings, err: err}
+		}
+		return liveRunner{l: l}, l, func() { l.Close() }, nil
+	}
+	db, err := engine.OpenDuckDB(ctx, m, dataDir)
+	if err != nil {
+		return nil, nil, nil, &exitError{code: exitFindings, err: err}
+	}
+	return verify.DB(db), nil, func() { db.Close() }, nil
+}
+
+// liveRunner runs queries on a live database; the types of each result
+// column come from the server.
+type liveRunner struct{ l *engine.Live }
+
+func (r liveRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
+	return r.l.Query(ctx, q, nil)
 }
 
 // addLiveCautions adds to c's plan what may make the live engine's

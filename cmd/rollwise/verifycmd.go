@@ -10,7 +10,6 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/verify"
 	"github.com/rollwise/rollwise/dialects"
 )
@@ -139,22 +138,13 @@ func runVerify(e *env, o *verifyOptions) error {
 		return err
 	}
 	ctx := context.Background()
-	var runner verify.Runner
-	if o.dsn != "" {
-		l, err := engine.OpenLive(ctx, o.dsn)
-		if err != nil {
-			return &exitError{code: exitFindings, err: err}
-		}
-		defer l.Close()
-		addLiveCautions(ctx, l, c)
-		runner = liveRunner{l: l}
-	} else {
-		db, err := engine.OpenDuckDB(ctx, c.model, o.data)
-		if err != nil {
-			return &exitError{code: exitFindings, err: err}
-		}
-		defer db.Close()
-		runner = verify.DB(db)
+	runner, live, closeData, err := openData(ctx, c.model, o.data, o.dsn)
+	if err != nil {
+		return err
+	}
+	defer closeData()
+	if live != nil {
+		addLiveCautions(ctx, live, c)
 	}
 	in := &verify.Input{
 		Spec: verify.Spec{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals, Map: maps,
@@ -183,14 +173,6 @@ func runVerify(e *env, o *verifyOptions) error {
 		return &exitError{code: exitFindings}
 	}
 	return nil
-}
-
-// liveRunner runs verify's queries on a live database; the types of each
-// result column come from the server.
-type liveRunner struct{ l *engine.Live }
-
-func (r liveRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
-	return r.l.Query(ctx, q, nil)
 }
 
 // modelSources reads the model files (a folder stands for the .roll files

@@ -28,8 +28,11 @@ type Live struct {
 	Dialect string
 	// Server names the engine and its version, as it reports them.
 	Server string
-	db     *sql.DB
-	conn   *sql.Conn
+	// textCollation is the binary NO PAD collation of a MySQL/MariaDB
+	// session, which the text columns LoadInto creates take too.
+	textCollation string
+	db            *sql.DB
+	conn          *sql.Conn
 }
 
 // mysqlMode is the SQL mode rollwise's MySQL sessions run in: the string
@@ -204,6 +207,7 @@ func openMySQL(ctx context.Context, dsn string) (*Live, error) {
 	} else {
 		l.Server = "MySQL " + l.Server
 	}
+	l.textCollation = collation
 	if err := l.Exec(ctx, "SET collation_connection = '"+collation+"'"); err != nil {
 		l.Close()
 		return nil, err

@@ -81,18 +81,13 @@ func (l *Live) createNamespaceLive(ctx context.Context, d dialects.Dialect, r *r
 	return err
 }
 
-// columnType is the column's type in the live database. Text takes the
-// binary NO PAD collation of the session (openMySQL), which compares like
-// DuckDB also at trailing spaces: MariaDB's utf8mb4_nopad_bin, MySQL's
-// utf8mb4_0900_bin.
+// columnType is the column's type in the live database. On MySQL and
+// MariaDB text takes the session's binary NO PAD collation (openMySQL),
+// which compares like DuckDB also at trailing spaces.
 func (l *Live) columnType(d dialects.Dialect, t planner.Type) string {
 	s := d.ColumnType(t)
-	switch {
-	case t != planner.TypeText || l.Dialect != "mysql":
-	case strings.HasPrefix(l.Server, "MariaDB"):
-		s = strings.Replace(s, "utf8mb4_bin", "utf8mb4_nopad_bin", 1)
-	default:
-		s = strings.Replace(s, "utf8mb4_bin", "utf8mb4_0900_bin", 1)
+	if t == planner.TypeText && l.textCollation != "" {
+		s = strings.Replace(s, "utf8mb4_bin", l.textCollation, 1)
 	}
 	return s
 }
