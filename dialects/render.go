@@ -95,7 +95,12 @@ func (r *renderer) cteName(base string) string {
 }
 
 func (r *renderer) addCTE(name, body string) {
-	r.ctes = append(r.ctes, r.q(name)+" AS (\n"+body+"\n)")
+	r.ctes = append(r.ctes, r.cteSQL(name, body))
+}
+
+// cteSQL is one entry of the WITH list: name AS (body).
+func (r *renderer) cteSQL(name, body string) string {
+	return r.q(name) + " AS (\n" + body + "\n)"
 }
 
 func (r *renderer) render() (string, error) {
@@ -334,7 +339,7 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		if l.Filter != nil {
 			filter = r.d.Truth(r.q(col(l.Filter.Name)))
 		}
-		a, err := r.agg(l.Func, l.Distinct, arg, filter)
+		a, err := FilteredAgg(r.d, l.Func, l.Distinct, arg, filter)
 		if err != nil {
 			return err
 		}
@@ -344,26 +349,9 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	for _, k := range s.Keys {
 		keys = append(keys, r.q(k.Name))
 	}
-	cells, err := r.grouped(keys, rel.Sets, aggs, r.q(rowsName))
-	if err != nil {
-		return err
-	}
 	r.cte[rel] = r.cteName(rel.Name + "_cells")
-	r.addCTE(r.cte[rel], cells)
+	r.addCTE(r.cte[rel], GroupingSetsSQL(r.d, keys, rel.Sets, aggs, r.q(rowsName)))
 	return nil
-}
-
-// agg spells an aggregate with an optional filter predicate, as a FILTER
-// clause or, where the dialect has none, a CASE inside the aggregate.
-func (r *renderer) agg(fn string, distinct bool, arg, filter string) (string, error) {
-	return FilteredAgg(r.d, fn, distinct, arg, filter)
-}
-
-// grouped is SELECT keys, grouping id, aggregates FROM source, grouped
-// over the sets (masks over keys): GROUPING SETS, or a UNION ALL of one
-// GROUP BY per set where the dialect has none.
-func (r *renderer) grouped(keys []string, sets []uint64, aggs []string, source string) (string, error) {
-	return GroupingSetsSQL(r.d, keys, sets, aggs, source), nil
 }
 
 // per renders a per-grain relation: its sub-context's CTEs, a CTE with
@@ -411,7 +399,7 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 		if l.Value != nil {
 			arg = r.q(l.Value.Name)
 		}
-		a, err := r.agg(l.Func, false, arg, strings.Join(cond, " AND "))
+		a, err := FilteredAgg(r.d, l.Func, false, arg, strings.Join(cond, " AND "))
 		if err != nil {
 			return err
 		}

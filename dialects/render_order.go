@@ -58,8 +58,9 @@ func (r *renderer) sorted(body string) (string, error) {
 		keys = r.orderBy(true)
 	}
 	where := ""
-	top := q.Limit > 0 && len(keys) > 0 && len(r.p.Sets) == 1
-	if q.Limit > 0 && len(keys) > 0 && !top {
+	limited := q.Limit > 0 && len(keys) > 0
+	top := limited && len(r.p.Sets) == 1
+	if limited && !top {
 		next := r.cteName("result_ranked")
 		// A running count rather than ROW_NUMBER(): DuckDB 1.5's
 		// top_n_window_elimination rewrites "ROW_NUMBER() ... <= N" and

@@ -49,7 +49,7 @@ func (r *renderer) rowsOf(base, from string, joined bool, cols []rowCol) (string
 	}
 	for _, sr := range r.rows[from] {
 		if (joined || sr.computes(cols)) && sr.merge(cols, as) {
-			r.ctes[sr.at] = r.q(sr.name) + " AS (\n" + sr.body(r) + "\n)"
+			r.ctes[sr.at] = r.cteSQL(sr.name, sr.body(r))
 			return sr.name, col
 		}
 	}
