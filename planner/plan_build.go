@@ -421,37 +421,37 @@ func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
 // cell. fresh reports a new relation, not yet among ctx's.
 func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel, fresh bool) {
 	tables := pl.perTables(pa)
-	var texts, names, cols []string
+	var texts, tnames, cols []string
 	for _, f := range c.filters {
 		texts = append(texts, pl.text(f.e))
 	}
 	slices.Sort(texts)
 	for _, t := range tables {
-		names = append(names, t.Name)
+		tnames = append(tnames, t.Name)
 	}
-	slices.Sort(names)
+	slices.Sort(tnames)
 	for _, col := range pa.Per {
 		cols = append(cols, col.String())
 	}
-	key := fmt.Sprintf("per|%p|%s|%s|%d|%s", ctx, strings.Join(cols, ","), strings.Join(names, ","), c.removed, strings.Join(texts, " and "))
+	key := fmt.Sprintf("per|%p|%s|%s|%d|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "))
 	if r, ok := pl.rels[key]; ok {
 		return r, false
 	}
 	k := len(pa.Per)
 	keep, sets, gid := localKeys(ctx, c.removed, k)
 	sub := &Context{Name: pl.name(name + "_per")}
-	names = nil
+	var keyNames []string
 	for _, i := range keep {
 		sub.Keys = append(sub.Keys, ctx.Keys[i])
-		names = append(names, ctx.Keys[i].Name)
+		keyNames = append(keyNames, ctx.Keys[i].Name)
 	}
 	for _, col := range pa.Per {
-		name := col.String() + " per"
-		for slices.Contains(names, name) {
-			name += " per"
+		kn := col.String() + " per"
+		for slices.Contains(keyNames, kn) {
+			kn += " per"
 		}
-		names = append(names, name)
-		sub.Keys = append(sub.Keys, Key{Name: name, Col: col, Pos: pa.Pos})
+		keyNames = append(keyNames, kn)
+		sub.Keys = append(sub.Keys, Key{Name: kn, Col: col, Pos: pa.Pos})
 	}
 	sub.Sets = sets
 	for _, f := range c.filters {

@@ -42,17 +42,14 @@ func (pl *planner) hoist(s *Scan) {
 		if l.Filter == nil {
 			return
 		}
+		if i == 0 {
+			// Repeats are harmless: they go into the WHERE once (below).
+			shared = Conjuncts(l.Filter.Expr)
+			continue
+		}
 		texts := map[string]bool{}
 		for _, c := range Conjuncts(l.Filter.Expr) {
 			texts[pl.text(c)] = true
-		}
-		if i == 0 {
-			for _, c := range Conjuncts(l.Filter.Expr) {
-				if !slices.ContainsFunc(shared, func(x Expr) bool { return pl.text(x) == pl.text(c) }) {
-					shared = append(shared, c)
-				}
-			}
-			continue
 		}
 		shared = slices.DeleteFunc(shared, func(c Expr) bool { return !texts[pl.text(c)] })
 		if len(shared) == 0 {
