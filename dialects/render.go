@@ -17,7 +17,13 @@ const GroupingColumn = "grouping_id"
 func Render(p *planner.Plan, d Dialect) (string, error) {
 	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
 		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{}}
-	r.renameKeys(p.Root)
+	spelled := map[string]string{}
+	for _, o := range p.Outputs {
+		spelled[o.Name] = o.Name
+	}
+	if err := r.renameKeys(p.Root, spelled); err != nil {
+		return "", err
+	}
 	return r.render()
 }
 
@@ -58,19 +64,32 @@ type ColumnNamer interface {
 }
 
 // renameKeys spells every key column of the plan as the dialect needs.
-func (r *renderer) renameKeys(ctx *planner.Context) {
+// Two names the dialect would spell alike (plants.family and
+// plants__family on BigQuery) are refused: the SQL could not tell them
+// apart, nor a key spelled as a measure is named. spelled maps each
+// spelling to the name it stands for.
+func (r *renderer) renameKeys(ctx *planner.Context, spelled map[string]string) error {
 	cn, ok := r.d.(ColumnNamer)
 	if !ok {
-		return
+		return nil
 	}
 	for _, k := range ctx.Keys {
-		r.rename[k.Name] = cn.ColumnName(k.Name)
+		n := cn.ColumnName(k.Name)
+		if prev, ok := spelled[n]; ok && prev != k.Name {
+			return &UnsupportedError{Dialect: r.d.Name(), Construct: fmt.Sprintf("both %s and %s", prev, k.Name),
+				Hint: fmt.Sprintf("its column names hold letters, digits and _ only, and both are spelled %s; rename one of them", n)}
+		}
+		spelled[n] = k.Name
+		r.rename[k.Name] = n
 	}
 	for _, rel := range ctx.Rels {
 		if rel.Per != nil {
-			r.renameKeys(rel.Per.Sub)
+			if err := r.renameKeys(rel.Per.Sub, spelled); err != nil {
+				return err
+			}
 		}
 	}
+	return nil
 }
 
 // cteName picks a CTE name that no relation of the model uses.
