@@ -138,8 +138,15 @@ func diffRun(t *testing.T, o casegen.Options, live *livetest.Engine) *diffStats 
 				rt.Fatalf("%v\n\nthe case:\n%s", err, c)
 			}
 		}
+		viaMain := live == nil
 		for _, q := range c.Queries {
-			if msg := dc.compare(tg, q, &st); msg != "" {
+			msg := dc.compare(tg, q, &st)
+			if msg == "" && viaMain && len(q.Filters) > 1 {
+				// Once per case, the command line itself: its -w flags.
+				viaMain = false
+				msg = dc.viaMain(q)
+			}
+			if msg != "" {
 				if bug := diffKnownBug(c, q, msg); bug != "" {
 					st.known.Add(1)
 					continue

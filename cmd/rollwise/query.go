@@ -31,12 +31,12 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f := cmd.Flags()
 	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compute, comma-separated")
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
-	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
-	f.StringVar(&o.totals, "totals", "", "total rows: none, grand, rollup or all; default none, or with --view the view's own")
-	f.StringVar(&o.order, "order", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
-	f.IntVar(&o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
+	whereVar(f, &o.where)
+	onceStringVarP(f, &o.totals, "totals", "", "", "total rows: none, grand, rollup or all; default none, or with --view the view's own")
+	onceStringVarP(f, &o.order, "order", "", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
+	onceIntVar(f, &o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
-	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
+	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect")
 	f.BoolVar(&o.approximate, "approximate", false, "where the dialect cannot compute a construct exactly (a median on Trino...), compute it approximately and say so")
 }
 

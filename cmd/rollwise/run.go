@@ -41,7 +41,7 @@ read from its 'from' file (or from --data DIR/NAME.csv or NAME.parquet).`,
 	}
 	o.addFlags(cmd)
 	cmd.Flags().StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
-	cmd.Flags().StringVar(&o.format, "format", "table", "output: table, csv, json or markdown")
+	onceStringVarP(cmd.Flags(), &o.format, "format", "", "table", "output: table, csv, json or markdown")
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "run on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	return cmd
 }

@@ -77,15 +77,15 @@ fails), 2 for usage errors.`,
 	f.StringVar(&o.sqlFile, "sql", "", "the handwritten SQL file to check")
 	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compare, comma-separated")
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
-	f.StringVarP(&o.where, "where", "w", "", "filter, a row predicate such as \"stores.region = 'North'\"")
-	f.StringVar(&o.totals, "totals", "none", "total rows: none, grand, rollup or all")
+	whereVar(f, &o.where)
+	onceStringVarP(f, &o.totals, "totals", "", "none", "total rows: none, grand, rollup or all")
 	f.StringSliceVar(&o.maps, "map", nil, "MEASURE=COLUMN: the SQL's column that holds a measure (repeatable)")
 	f.Float64Var(&o.tolerance, "tolerance", verify.DefaultTolerance, "relative tolerance for values that are not both exact")
 	f.StringVar(&o.grouping, "grouping-column", "", "the SQL's GROUPING(...) column, which tells total rows from NULL groups")
 	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	f.StringVar(&o.dsn, "dsn", "", "verify on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
-	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect")
-	f.StringVar(&o.format, "format", "table", "output: table or json")
+	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect")
+	onceStringVarP(f, &o.format, "format", "", "table", "output: table or json")
 	return cmd
 }
 

@@ -46,7 +46,7 @@ would write and exits 1 if they differ, listing each view that does.`,
 		},
 	}
 	f := cmd.Flags()
-	f.StringVarP(&o.dialect, "dialect", "d", "duckdb", "SQL dialect: "+strings.Join(dialects.Names(), ", "))
+	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect: "+strings.Join(dialects.Names(), ", "))
 	f.StringVar(&o.out, "out", "", "write one file per view and a manifest into DIR")
 	f.StringVar(&o.check, "check", "", "compare DIR with what --out would write; exit 1 if they differ")
 	f.StringVar(&o.schema, "schema", "", "create the views in schema NAME (which must exist)")

@@ -43,10 +43,14 @@ type Case struct {
 type Query struct {
 	Measures []string
 	By       []string
-	Where    string
-	Totals   string
-	Order    string
-	Limit    int
+	// Where is the whole filter; Filters, when set, are its conjuncts as
+	// the command line gives them, one -w each (Where is then their and,
+	// each in parentheses, as the command line combines them).
+	Where   string
+	Filters []string `json:",omitempty"`
+	Totals  string
+	Order   string
+	Limit   int
 }
 
 // ModelFile is the name a written case gives its model.
@@ -58,7 +62,10 @@ func (q Query) Args() []string {
 	if len(q.By) > 0 {
 		args = append(args, "-b", strings.Join(q.By, ","))
 	}
-	if q.Where != "" {
+	for _, w := range q.Filters {
+		args = append(args, "-w", w)
+	}
+	if q.Where != "" && len(q.Filters) == 0 {
 		args = append(args, "-w", q.Where)
 	}
 	if q.Totals != "" && q.Totals != "none" {

@@ -1,6 +1,9 @@
 package casegen
 
-import "slices"
+import (
+	"slices"
+	"strings"
+)
 
 // drawQuery draws a query over the model's measures: one to three
 // measures, group columns every measure's iteration tables reach (none
@@ -51,11 +54,14 @@ func (g *gen) drawQuery() (Query, bool) {
 	for i, nf := 0, g.intn(0, 2); i < nf; i++ {
 		where = append(where, g.predicate(tables))
 	}
-	for i, w := range where {
-		if i > 0 {
-			q.Where += " and "
-		}
-		q.Where += w
+	switch {
+	case len(where) == 1:
+		q.Where = where[0]
+	case len(where) > 1:
+		// Each conjunct is its own -w: the command line must combine them
+		// (it once kept only the last).
+		q.Filters = where
+		q.Where = "(" + strings.Join(where, ") and (") + ")"
 	}
 	q.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
 	if g.chance(30) {
