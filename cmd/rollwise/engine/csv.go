@@ -19,11 +19,13 @@ import (
 // double quotes, a header row naming the columns. Only the stored columns
 // are kept, in their declared types; empty fields are NULL.
 //
-// Timestamps with a time zone offset are converted to UTC. Integer and
-// decimal fields are read as text and cast after a check that the cast
-// does not round (DuckDB would read 3.5 as the integer 4, and
-// 1.2345678 as 1.234568). Any failure is diagnosed by diagnoseCSV, which
-// names the file, line, column and value.
+// Numbers and timestamps are read as text and cast after a check
+// (textRefused) that the text is spelled as one and the cast does not
+// round: DuckDB would read 3.5 as the integer 4, 1.2345678 as 1.234568,
+// 0x10 as 16, 1e400 as an infinity, and its CSV reader an unreadable
+// timestamp as NULL. Timestamps with a time zone offset are converted to
+// UTC. Any failure is diagnosed by diagnoseCSV, which names the file,
+// line, column and value.
 func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 	header, err := readHeader(r.file)
 	if err != nil {
@@ -40,17 +42,13 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 	selects := make([]string, len(r.columns))
 	for i, c := range r.columns {
 		field := fieldName(at[i])
-		switch c.typ {
-		case planner.TypeInteger, planner.TypeDecimal:
-			selects[i] = fmt.Sprintf("CASE WHEN %s THEN error('rollwise: value would be rounded') ELSE CAST(%s AS %s) END AS %s",
-				lossyExpr(field, scaleOf(c.typ)), field, c.duckType, quoteIdent(c.name))
-		case planner.TypeTimestamp:
-			readTypes[at[i]] = parseType(c)
-			selects[i] = fmt.Sprintf("CAST(%s AS TIMESTAMP) AS %s", field, quoteIdent(c.name))
-		default:
-			readTypes[at[i]] = c.duckType
-			selects[i] = field + " AS " + quoteIdent(c.name)
+		if readsAsText(c.typ) {
+			selects[i] = fmt.Sprintf("CASE WHEN %s THEN error('rollwise: value refused') ELSE %s END AS %s",
+				textRefused(field, c), textParsed(field, c), quoteIdent(c.name))
+			continue
 		}
+		readTypes[at[i]] = c.duckType
+		selects[i] = field + " AS " + quoteIdent(c.name)
 	}
 	q := fmt.Sprintf("CREATE TABLE %s AS SELECT %s FROM %s", r.sqlName(), strings.Join(selects, ", "), csvReader(r.file, readTypes))
 	if _, err := conn.ExecContext(ctx, q); err != nil {
@@ -117,9 +115,6 @@ func readHeader(path string) ([]string, error) {
 	}
 	if err != nil {
 		return nil, fmt.Errorf("%s: reading the header row: %v", path, err)
-	}
-	for i := range rec {
-		rec[i] = strings.TrimSpace(rec[i])
 	}
 	return rec, nil
 }
@@ -191,12 +186,8 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 			continue
 		}
 		k := fmt.Sprintf("k%d", i)
-		cond := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", k, parseType(c))
-		if c.typ == planner.TypeInteger || c.typ == planner.TypeDecimal {
-			cond += " OR " + lossyExpr(k, scaleOf(c.typ))
-		}
-		q := fmt.Sprintf("SELECT rowid, %[1]s, TRY_CAST(%[1]s AS %[2]s) IS NULL, TRY_CAST(%[1]s AS DOUBLE) IS NOT NULL FROM %[3]s WHERE %[1]s IS NOT NULL AND (%[4]s) ORDER BY rowid LIMIT 1",
-			k, parseType(c), check, cond)
+		q := fmt.Sprintf("SELECT rowid, %s, %s, %s FROM %s WHERE %s IS NOT NULL AND (%s) ORDER BY rowid LIMIT 1",
+			k, textUnreadable(k, c), textNumeric(k), check, k, textRefused(k, c))
 		b := badValue{col: c}
 		err := conn.QueryRowContext(ctx, q).Scan(&b.row, &b.value, &b.unreadable, &b.numeric)
 		if errors.Is(err, sql.ErrNoRows) {
@@ -222,8 +213,8 @@ type badValue struct {
 	col        column
 	row        int64
 	value      string
-	unreadable bool // the cast fails (rather than rounds)
-	numeric    bool // the value reads as a floating-point number
+	unreadable bool // not a value of the type as written (textUnreadable)
+	numeric    bool // spelled as a number (textNumeric)
 }
 
 // explain says what is wrong with the value and what to do.
@@ -237,34 +228,30 @@ func (b *badValue) explain() string {
 		case planner.TypeDecimal:
 			return fmt.Sprintf("%q has more than %d decimal places; decimal columns hold exactly %d (%s) and rollwise does not round data (declare the column float if approximate values will do)",
 				v, DecimalScale, DecimalScale, DecimalType)
+		case planner.TypeFloat:
+			return fmt.Sprintf("%q is out of range for float (64-bit, at most about 1.8e308); write inf if an infinity is meant", v)
 		}
 		return fmt.Sprintf("%q would change when stored as %s", v, b.col.typ)
 	}
-	finite := b.numeric && !nonFinite(v)
 	switch b.col.typ {
 	case planner.TypeInteger:
-		if finite {
+		if b.numeric {
 			return fmt.Sprintf("%q is out of range for integer (64 bits); declare the column decimal", v)
 		}
+		return fmt.Sprintf("cannot read %q as a whole number (write decimal digits, as 1000)", v)
 	case planner.TypeDecimal:
-		if finite {
+		if b.numeric {
 			return fmt.Sprintf("%q is out of range for decimal (at most %d digits before the point)", v, DecimalWidth-DecimalScale)
 		}
+		return fmt.Sprintf("cannot read %q as a decimal (write digits with an optional point, as 1234.50)", v)
+	case planner.TypeFloat:
+		return fmt.Sprintf("cannot read %q as a float (write digits with an optional point and exponent, as 1.5e3)", v)
 	case planner.TypeDate:
 		return fmt.Sprintf("cannot read %q as a date (write YYYY-MM-DD)", v)
 	case planner.TypeTimestamp:
-		return fmt.Sprintf("cannot read %q as a timestamp (write YYYY-MM-DD HH:MM:SS)", v)
+		return fmt.Sprintf("cannot read %q as a timestamp (write YYYY-MM-DD HH:MM:SS, optionally with an offset from +14:00 to -14:00)", v)
 	case planner.TypeBoolean:
 		return fmt.Sprintf("cannot read %q as a boolean (write true or false)", v)
 	}
 	return fmt.Sprintf("cannot read %q as %s", v, b.col.typ)
-}
-
-// nonFinite reports whether v spells NaN or an infinity.
-func nonFinite(v string) bool {
-	switch strings.TrimLeft(strings.ToLower(strings.TrimSpace(v)), "+-") {
-	case "nan", "inf", "infinity":
-		return true
-	}
-	return false
 }

@@ -91,27 +91,24 @@ func describe(ctx context.Context, conn *sql.Conn, reader string) ([]sourceColum
 // c cannot hold exactly.
 func checkParquetColumn(ctx context.Context, conn *sql.Conn, r *relation, c column, s sourceColumn) error {
 	x := quoteIdent(s.name)
-	target := c.duckType
-	if s.typ == "VARCHAR" {
-		target = parseType(c)
-	}
-	cond := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", x, target)
+	var cond, unreadable string
 	switch {
+	case s.typ == "VARCHAR":
+		// Text is checked as a CSV field is.
+		cond, unreadable = textRefused(x, c), textUnreadable(x, c)
 	case c.typ == planner.TypeText || c.typ == planner.TypeFloat:
 		// Any value has a text form; a float column is approximate by
 		// declaration.
-	case s.typ == "VARCHAR":
-		// Parsing text loses nothing, except digits a number rounds off.
-		if c.typ == planner.TypeInteger || c.typ == planner.TypeDecimal {
-			cond += " OR " + lossyExpr(x, scaleOf(c.typ))
-		}
+		unreadable = fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", x, c.duckType)
+		cond = unreadable
 	default:
 		// Exact when the value survives the round trip to the declared
 		// type and back.
-		cond += fmt.Sprintf(" OR TRY_CAST(TRY_CAST(%[1]s AS %[2]s) AS %[3]s) IS DISTINCT FROM %[1]s", x, c.duckType, s.typ)
+		unreadable = fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", x, c.duckType)
+		cond = unreadable + fmt.Sprintf(" OR TRY_CAST(TRY_CAST(%[1]s AS %[2]s) AS %[3]s) IS DISTINCT FROM %[1]s", x, c.duckType, s.typ)
 	}
-	q := fmt.Sprintf("SELECT file_row_number, CAST(%[1]s AS VARCHAR), TRY_CAST(%[1]s AS %[2]s) IS NULL, TRY_CAST(%[1]s AS DOUBLE) IS NOT NULL FROM read_parquet(%[3]s, file_row_number = true) WHERE %[1]s IS NOT NULL AND (%[4]s) ORDER BY file_row_number LIMIT 1",
-		x, target, quoteString(r.file), cond)
+	q := fmt.Sprintf("SELECT file_row_number, CAST(%[1]s AS VARCHAR), %[2]s, %[3]s FROM read_parquet(%[4]s, file_row_number = true) WHERE %[1]s IS NOT NULL AND (%[5]s) ORDER BY file_row_number LIMIT 1",
+		x, unreadable, textNumeric("CAST("+x+" AS VARCHAR)"), quoteString(r.file), cond)
 	b := badValue{col: c}
 	err := conn.QueryRowContext(ctx, q).Scan(&b.row, &b.value, &b.unreadable, &b.numeric)
 	if errors.Is(err, sql.ErrNoRows) {
