@@ -33,11 +33,11 @@ func newCheckCmd(e *env) *cobra.Command {
 			o.models = args
 			if o.dsn != "" {
 				if _, err := liveDialect(o.dsn, "", false, o.data); err != nil {
-					return err
+					return scrubDSN(o.dsn, err)
 				}
 			}
 			o.required = o.required || o.data != "" || o.dsn != ""
-			return runCheck(e, o)
+			return scrubDSN(o.dsn, runCheck(e, o))
 		},
 	}
 	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data that every link declared required finds its row (tables read as run reads them)")

@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
@@ -24,6 +25,20 @@ func liveDialect(dsn, dialect string, dialectSet bool, dataDir string) (string, 
 		return dialect, nil
 	}
 	return d, nil
+}
+
+// scrubDSN removes from err's message every password dsn may hold, in
+// whatever form the driver shows it (see engine.ScrubError), keeping the
+// exit code.
+func scrubDSN(dsn string, err error) error {
+	var ee *exitError
+	switch {
+	case err == nil || dsn == "":
+		return err
+	case errors.As(err, &ee):
+		return &exitError{code: ee.code, err: engine.ScrubError(dsn, ee.err)}
+	}
+	return engine.ScrubError(dsn, err)
 }
 
 // executeLive runs a compiled query on the database at dsn and shapes

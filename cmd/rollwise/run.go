@@ -36,7 +36,7 @@ read from its 'from' file (or from --data DIR/NAME.csv or NAME.parquet).`,
 			}
 			o.models = args
 			o.dialectSet = cmd.Flags().Changed("dialect")
-			return runRun(e, o)
+			return scrubDSN(o.dsn, runRun(e, o))
 		},
 	}
 	o.addFlags(cmd)

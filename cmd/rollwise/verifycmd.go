@@ -70,7 +70,7 @@ fails), 2 for usage errors.`,
 			}
 			o.models = args
 			o.dialectSet = cmd.Flags().Changed("dialect")
-			return runVerify(e, o)
+			return scrubDSN(o.dsn, runVerify(e, o))
 		},
 	}
 	f := cmd.Flags()
