@@ -3,6 +3,7 @@ package main
 import (
 	"context"
 	"fmt"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
@@ -70,7 +71,7 @@ func runCheck(e *env, o *checkOptions) error {
 		diags.Append(d)
 		held = "; no link is declared required"
 		if n := len(requiredLinks(m)); n > 0 {
-			held = fmt.Sprintf("; %d required links hold on the data", n)
+			held = fmt.Sprintf("; %s hold on the data", report.Count(n, "required link"))
 		}
 	}
 	if len(diags) > 0 {
@@ -79,6 +80,6 @@ func runCheck(e *env, o *checkOptions) error {
 	if diags.HasErrors() {
 		return &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
 	}
-	fmt.Fprintf(e.stderr, "ok: %d tables, %d measures, %d views%s\n", len(m.Tables), len(m.Measures), len(m.Views), held)
+	fmt.Fprintf(e.stderr, "ok: %s, %s, %s%s\n", report.Count(len(m.Tables), "table"), report.Count(len(m.Measures), "measure"), report.Count(len(m.Views), "view"), held)
 	return nil
 }

@@ -72,7 +72,7 @@ func TestCheckRequiredLinks(t *testing.T) {
 		t.Errorf("the broken promise: exit %d\n%s", code, msg)
 	}
 	code, msg = checkCmd(kept, "--data", data)
-	if code != 0 || !strings.Contains(msg, "ok: 4 tables, 1 measures, 0 views; 2 required links hold on the data") {
+	if code != 0 || !strings.Contains(msg, "ok: 4 tables, 1 measure, 0 views; 2 required links hold on the data") {
 		t.Errorf("promises kept: exit %d\n%s", code, msg)
 	}
 	// Without --required (or --data, --dsn), check reads no data.

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"os"
 	"path/filepath"
 	"sort"
@@ -59,11 +60,7 @@ func printDiags(e *env, d grammar.Diagnostics, src grammar.Sources) {
 }
 
 func countErrors(d grammar.Diagnostics) string {
-	n := len(d.Errors())
-	if n == 1 {
-		return "1 error"
-	}
-	return fmt.Sprintf("%d errors", n)
+	return report.Count(len(d.Errors()), "error")
 }
 
 // modelArgs checks that at least one model path was given.

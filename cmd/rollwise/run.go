@@ -57,7 +57,7 @@ func runRun(e *env, o *runOptions) error {
 		}
 		o.dialect = d
 	} else if o.dialect != "duckdb" {
-		return usageErr("run executes on the embedded DuckDB; -d %s is for 'sql' until live databases are supported", o.dialect)
+		return usageErr("-d %s needs a live database: run executes on the embedded DuckDB unless --dsn URL names a database of that engine (rollwise sql -d %s prints the SQL without running it)", o.dialect, o.dialect)
 	}
 	c, err := compile(e, &o.queryOptions)
 	if err != nil {

@@ -2,6 +2,7 @@ package main
 
 import (
 	"fmt"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -83,21 +84,21 @@ func runViews(e *env, o *viewsOptions) error {
 			return &exitError{code: exitInternal, err: err}
 		}
 		if len(drifts) == 0 {
-			fmt.Fprintf(e.stderr, "%s is up to date: %d views\n", o.check, len(set.Views))
+			fmt.Fprintf(e.stderr, "%s is up to date: %s\n", o.check, report.Count(len(set.Views), "view"))
 			return nil
 		}
 		for _, dr := range drifts {
 			fmt.Fprintln(e.stdout, dr)
 		}
-		return &exitError{code: exitFindings, err: fmt.Errorf("%s differs from the model in %d places; run 'rollwise views %s --out %s' to update it",
-			o.check, len(drifts), strings.Join(o.models, " ")+viewsFlags(o), o.check)}
+		return &exitError{code: exitFindings, err: fmt.Errorf("%s differs from the model in %s; run 'rollwise views %s --out %s' to update it",
+			o.check, report.Count(len(drifts), "place"), strings.Join(o.models, " ")+viewsFlags(o), o.check)}
 	case o.out != "":
 		rep, err := views.Write(o.out, set)
 		if err != nil {
 			return &exitError{code: exitInternal, err: err}
 		}
-		fmt.Fprintf(e.stderr, "%s: %d views; %d files written, %d unchanged, %d removed\n",
-			o.out, len(set.Views), len(rep.Written), len(rep.Unchanged), len(rep.Removed))
+		fmt.Fprintf(e.stderr, "%s: %s; %s written, %d unchanged, %d removed\n",
+			o.out, report.Count(len(set.Views), "view"), report.Count(len(rep.Written), "file"), len(rep.Unchanged), len(rep.Removed))
 		for _, f := range rep.Foreign {
 			fmt.Fprintf(e.stderr, "note: %s was not written by rollwise; it is left alone, and --check reports it\n", f)
 		}

@@ -204,3 +204,12 @@ func checkKeys(cols []Column) error {
 
 // rolledUpKey is the name of the rolled-up list in CSV and JSON.
 const rolledUpKey = "rolled_up"
+
+// Count spells a count for people: "1 view", "2 views". noun is the
+// singular and takes an "s" in the plural.
+func Count(n int, noun string) string {
+	if n == 1 {
+		return "1 " + noun
+	}
+	return fmt.Sprintf("%d %ss", n, noun)
+}

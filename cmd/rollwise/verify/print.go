@@ -4,6 +4,7 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"io"
 	"strconv"
 	"strings"
@@ -49,7 +50,7 @@ func (r *Report) valueList(vals []Value) string {
 // Summary is the one-line outcome.
 func (r *Report) Summary() string {
 	s := fmt.Sprintf("%s matched, %s compared, %d differ; %s only in the SQL, %d only in rollwise",
-		plural(r.Matched, "row"), plural(r.Compared, "value"), len(r.Differences), plural(len(r.SQLOnly), "row"), len(r.RollwiseOnly))
+		report.Count(r.Matched, "row"), report.Count(r.Compared, "value"), len(r.Differences), report.Count(len(r.SQLOnly), "row"), len(r.RollwiseOnly))
 	if len(r.Ambiguous) > 0 {
 		s += fmt.Sprintf(", %d ambiguous", len(r.Ambiguous))
 	}
@@ -256,11 +257,4 @@ func WriteJSON(w io.Writer, r *Report) error {
 	enc.SetEscapeHTML(false)
 	enc.SetIndent("", "  ")
 	return enc.Encode(out)
-}
-
-func plural(n int, what string) string {
-	if n == 1 {
-		return "1 " + what
-	}
-	return fmt.Sprintf("%d %ss", n, what)
 }
