@@ -2,6 +2,7 @@ package dialects
 
 import (
 	"fmt"
+	"regexp"
 	"slices"
 	"strings"
 
@@ -154,6 +155,12 @@ func Script(d Dialect, stmts []string) (string, error) {
 	}
 	var b strings.Builder
 	for _, s := range stmts {
+		if ddl.BatchEnd != "" {
+			if line, ok := batchSeparatorLine(s); ok {
+				return "", &UnsupportedError{Dialect: d.Name(), Construct: fmt.Sprintf("a name holding the line %q", line),
+					Hint: "sqlcmd and SSMS end a batch at such a line, even inside brackets: rename it without line breaks"}
+			}
+		}
 		b.WriteString(s)
 		b.WriteString(";\n")
 		if ddl.BatchEnd != "" {
@@ -161,6 +168,23 @@ func Script(d Dialect, stmts []string) (string, error) {
 		}
 	}
 	return b.String(), nil
+}
+
+// batchSeparator is a line that sqlcmd and SSMS take as the end of a batch
+// wherever it stands, even inside a quoted literal or name: GO in any case,
+// an optional repeat count, blanks and a trailing comment
+// (learn.microsoft.com/sql/t-sql/language-elements/sql-server-utilities-statements-go).
+var batchSeparator = regexp.MustCompile(`(?i)^[ \t]*go(?:[ \t]+[0-9]+)?[ \t]*(?:--.*)?$`)
+
+// batchSeparatorLine returns the first line of stmt that is a batch
+// separator, counting a lone carriage return as a line break too.
+func batchSeparatorLine(stmt string) (string, bool) {
+	for _, line := range strings.FieldsFunc(stmt, func(r rune) bool { return r == '\n' || r == '\r' }) {
+		if batchSeparator.MatchString(line) {
+			return line, true
+		}
+	}
+	return "", false
 }
 
 // withoutOrderBy cuts the final ORDER BY of a statement that Render

@@ -124,6 +124,46 @@ func TestScriptEndsBatches(t *testing.T) {
 	}
 }
 
+// No line of a SQL Server literal is a batch separator, and no backslash
+// stands before a line break (T-SQL would drop both); a long text is
+// concatenated from an NVARCHAR(MAX) so it is not cut at 4,000
+// characters. A name with a separator line is refused by Script.
+func TestSQLServerLiteralsHaveNoBatchLines(t *testing.T) {
+	d, _ := Get("sqlserver")
+	texts := append([]string{"a\nGO\nb", "x\n  go  \ny", "\nGo 5\n", "a\\\nb", "a\r\nGO\r\nb", "GO -- x\rgo"}, hostile...)
+	for _, v := range texts {
+		out := d.String(v)
+		if strings.ContainsAny(out, "\n\r") {
+			t.Errorf("String(%q) = %q holds a line break", v, out)
+		}
+		if line, ok := batchSeparatorLine("SELECT\n" + out); ok {
+			t.Errorf("String(%q) = %q has the batch line %q", v, out, line)
+		}
+	}
+	if got := d.String("a\nGO\\\n"); got != `(N'a' + NCHAR(10) + N'GO\' + NCHAR(10))` {
+		t.Errorf("rendering %s", got)
+	}
+	long := strings.Repeat("x", 4001) + "\n"
+	if got := d.String(long); !strings.HasPrefix(got, "(CAST(N'' AS NVARCHAR(MAX)) + N'x") {
+		t.Errorf("a long text must start from NVARCHAR(MAX): %.60s", got)
+	}
+	for _, line := range []string{"GO", " go ", "Go 12", "GO -- done", "\tgO\t"} {
+		if !batchSeparator.MatchString(line) {
+			t.Errorf("%q is a batch separator", line)
+		}
+	}
+	for _, line := range []string{"GOTO", "N'GO'", "go x", "-- GO"} {
+		if batchSeparator.MatchString(line) {
+			t.Errorf("%q is no batch separator", line)
+		}
+	}
+	_, err := Script(d, []string{"CREATE OR ALTER VIEW [a\rGO\rb] AS SELECT 1"})
+	var ue *UnsupportedError
+	if !errors.As(err, &ue) || !strings.Contains(err.Error(), "batch separator") {
+		t.Errorf("a name holding a GO line: want a refusal, got %v", err)
+	}
+}
+
 // A view keeps Render's ORDER BY where the engine allows one in a view,
 // and loses exactly that clause where it does not.
 func TestRenderViewOrderBy(t *testing.T) {

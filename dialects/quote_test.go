@@ -147,7 +147,7 @@ func readString(dialect, s string) (string, string, error) {
 	case "spark":
 		return lexQuoted(s, `'`, '\'', false, escBackslashQuote)
 	case "sqlserver":
-		return lexQuoted(s, `N'`, '\'', true, nil)
+		return readSQLServerString(s)
 	case "bigquery":
 		if strings.ContainsAny(s, "\n\r") {
 			return "", "", fmt.Errorf("a raw line break in a quoted string")
@@ -155,6 +155,49 @@ func readString(dialect, s string) (string, string, error) {
 		return lexQuoted(s, `'`, '\'', false, escBigQuery)
 	}
 	return "", "", fmt.Errorf("no lexer for %s", dialect)
+}
+
+// readSQLServerString reads N'...' or, for a text with line breaks, the
+// parenthesised concatenation of N'...' pieces and NCHAR(10) or NCHAR(13)
+// (optionally led by CAST(N'' AS NVARCHAR(MAX))); a raw line break
+// anywhere is refused, since a line of it could be a batch separator.
+func readSQLServerString(s string) (string, string, error) {
+	if !strings.HasPrefix(s, "(") {
+		v, rest, err := lexQuoted(s, `N'`, '\'', true, nil)
+		if err == nil && strings.ContainsAny(v, "\n\r") {
+			return "", "", fmt.Errorf("a raw line break in a literal")
+		}
+		return v, rest, err
+	}
+	var b strings.Builder
+	rest := strings.TrimPrefix(s[1:], "CAST(N'' AS NVARCHAR(MAX)) + ")
+	for {
+		switch {
+		case strings.HasPrefix(rest, "NCHAR(10)"):
+			b.WriteByte('\n')
+			rest = rest[len("NCHAR(10)"):]
+		case strings.HasPrefix(rest, "NCHAR(13)"):
+			b.WriteByte('\r')
+			rest = rest[len("NCHAR(13)"):]
+		default:
+			v, r, err := lexQuoted(rest, `N'`, '\'', true, nil)
+			if err != nil {
+				return "", "", err
+			}
+			if strings.ContainsAny(v, "\n\r") {
+				return "", "", fmt.Errorf("a raw line break in a piece")
+			}
+			b.WriteString(v)
+			rest = r
+		}
+		if strings.HasPrefix(rest, ")") {
+			return b.String(), rest[1:], nil
+		}
+		if !strings.HasPrefix(rest, " + ") {
+			return "", "", fmt.Errorf("pieces not joined by +")
+		}
+		rest = rest[3:]
+	}
 }
 
 // wantIdent is the name an identifier must read back as: Snowflake's

@@ -29,7 +29,41 @@ func (sqlserver) Ident(name string) string { return "[" + strings.ReplaceAll(nam
 
 // String: N'...' keeps every Unicode character (a plain '...' literal is
 // converted to the database's code page); a quote inside is doubled (§2).
-func (sqlserver) String(s string) string { return "N'" + strings.ReplaceAll(s, "'", "''") + "'" }
+//
+// A text with line breaks is written as pieces joined by + NCHAR(10) + (or
+// NCHAR(13)), so no line of the SQL is inside a literal: sqlcmd and SSMS
+// split a script at every line that is only GO, even inside a string
+// (learn.microsoft.com/sql/t-sql/language-elements/sql-server-utilities-statements-go),
+// and a backslash just before a line break inside a literal is a line
+// continuation that T-SQL removes together with the break
+// (learn.microsoft.com/sql/t-sql/language-elements/sql-server-utilities-statements-backslash).
+// Concatenation of non-MAX strings is truncated at 8,000 bytes
+// (learn.microsoft.com/sql/t-sql/language-elements/string-concatenation-transact-sql),
+// so a long text starts from an NVARCHAR(MAX).
+func (sqlserver) String(s string) string {
+	if !strings.ContainsAny(s, "\r\n") {
+		return "N'" + strings.ReplaceAll(s, "'", "''") + "'"
+	}
+	var parts []string
+	if len(s) > 4000 { // UTF-8 bytes are never fewer than UTF-16 code units
+		parts = append(parts, "CAST(N'' AS NVARCHAR(MAX))")
+	}
+	for s != "" {
+		i := strings.IndexAny(s, "\r\n")
+		if i < 0 {
+			i = len(s)
+		}
+		if i > 0 {
+			parts = append(parts, "N'"+strings.ReplaceAll(s[:i], "'", "''")+"'")
+		}
+		if i < len(s) {
+			parts = append(parts, fmt.Sprintf("NCHAR(%d)", s[i]))
+			i++
+		}
+		s = s[i:]
+	}
+	return "(" + strings.Join(parts, " + ") + ")"
+}
 
 // Date and Timestamp: T-SQL has no typed literals; 'YYYY-MM-DD' converts to
 // date and datetime2 whatever the session's DATEFORMAT and language.

@@ -125,12 +125,36 @@ func displayArgs(args []string) []string {
 	out := make([]string, len(args))
 	for i, a := range args {
 		a = strings.TrimPrefix(a, "../../")
-		if a == "" || strings.ContainsAny(a, " '\"`\\$*;#[]()<>=,|&\n") {
+		if strings.ContainsAny(a, "\n\r") { // bash's $'...', so the header stays one comment line
+			a = "$'" + strings.NewReplacer(`\`, `\\`, `'`, `\'`, "\n", `\n`, "\r", `\r`).Replace(a) + "'"
+		} else if a == "" || strings.ContainsAny(a, " '\"`\\$*;#[]()<>=,|&\n") {
 			a = "'" + strings.ReplaceAll(a, "'", `'\''`) + "'"
 		}
 		out[i] = a
 	}
 	return out
+}
+
+// No line of a SQL Server golden is a batch separator (GO, any case, an
+// optional count: learn.microsoft.com/sql/t-sql/language-elements/sql-server-utilities-statements-go),
+// which sqlcmd and SSMS would act on even inside a literal.
+func TestSQLServerGoldensHaveNoBatchLines(t *testing.T) {
+	files, _ := filepath.Glob("../../testdata/dialects/golden/sqlserver/*.sql")
+	if len(files) < 10 {
+		t.Fatalf("%d SQL Server goldens", len(files))
+	}
+	sep := regexp.MustCompile(`(?i)^\s*go(\s+[0-9]+)?\s*(--.*)?$`)
+	for _, f := range files {
+		b, err := os.ReadFile(f)
+		if err != nil {
+			t.Fatal(err)
+		}
+		for i, line := range strings.FieldsFunc(string(b), func(r rune) bool { return r == '\n' || r == '\r' }) {
+			if sep.MatchString(line) {
+				t.Errorf("%s:%d: %q is a batch separator", filepath.Base(f), i+1, line)
+			}
+		}
+	}
 }
 
 func lastLine(s string) string {

@@ -2,6 +2,7 @@ package views
 
 import (
 	"os"
+	"regexp"
 	"strings"
 	"testing"
 
@@ -240,5 +241,37 @@ func TestHeaderCommentsStayComments(t *testing.T) {
 	}
 	if !strings.Contains(header, "t.note = 'a DROP TABLE x; --'") {
 		t.Errorf("header:\n%s", header)
+	}
+}
+
+// separator is a batch separator line of sqlcmd and SSMS (GO, any case,
+// an optional count; learn.microsoft.com/sql/t-sql/language-elements/sql-server-utilities-statements-go).
+var separator = regexp.MustCompile(`(?i)^\s*go(\s+[0-9]+)?\s*(--.*)?$`)
+
+// SQL Server: a literal holding a line that is only GO (and a backslash
+// before a line break) is written in pieces, so sqlcmd and SSMS see no
+// batch separator inside the view and the text keeps its value; the only
+// GO lines of the script are the batch ends.
+func TestSQLServerLiteralKeepsItsBatch(t *testing.T) {
+	d, err := dialects.Get("sqlserver")
+	if err != nil {
+		t.Fatal(err)
+	}
+	s, diags := Generate(loadModel(t, "table t {\n key id\n id integer\n note = 'a\nGO\n go 3 \\\nb'\n}\n"), d, Options{})
+	if s == nil {
+		t.Fatal(diags)
+	}
+	text := s.Views[0].Text
+	want := `(N'a' + NCHAR(10) + N'GO' + NCHAR(10) + N' go 3 \' + NCHAR(10) + N'b') AS [note]`
+	if !strings.Contains(text, want) {
+		t.Errorf("the literal is not written in pieces; want %s in:\n%s", want, text)
+	}
+	for i, line := range strings.Split(text, "\n") {
+		if separator.MatchString(line) && line != "GO" {
+			t.Errorf("line %d %q would end a batch", i+1, line)
+		}
+	}
+	if n := strings.Count(text, "\nGO\n"); n != 1 {
+		t.Errorf("%d batch ends, want 1:\n%s", n, text)
 	}
 }
