@@ -159,7 +159,7 @@ func readString(dialect, s string) (string, string, error) {
 
 // readSQLServerString reads N'...' or, for a text with line breaks, the
 // parenthesised concatenation of N'...' pieces and NCHAR(10) or NCHAR(13)
-// (optionally led by CAST(N'' AS NVARCHAR(MAX))); a raw line break
+// (optionally led by a CAST to NVARCHAR(MAX)); a raw line break
 // anywhere is refused, since a line of it could be a batch separator.
 func readSQLServerString(s string) (string, string, error) {
 	if !strings.HasPrefix(s, "(") {
