@@ -159,7 +159,7 @@ func TestSQLServerLiteralsHaveNoBatchLines(t *testing.T) {
 	}
 	_, err := Script(d, []string{"CREATE OR ALTER VIEW [a\rGO\rb] AS SELECT 1"})
 	var ue *UnsupportedError
-	if !errors.As(err, &ue) || !strings.Contains(err.Error(), "batch separator") {
+	if !errors.As(err, &ue) || !strings.Contains(err.Error(), "end a batch") {
 		t.Errorf("a name holding a GO line: want a refusal, got %v", err)
 	}
 }
