@@ -259,7 +259,7 @@ func TestVerifyUsageErrors(t *testing.T) {
 		args []string
 		want string
 	}{
-		{[]string{"--sql", right, "-m", "revenue", "-b", "sales.item", "--map", "profit=revenue"}, `--map names "profit", which is not a measure of the query`},
+		{[]string{"--sql", right, "-m", "revenue", "-b", "sales.item", "--map", "profit=revenue"}, `--map names "profit", which is neither a measure of the query (revenue) nor a --by column (sales.item)`},
 		{[]string{"--sql", right, "-m", "revenue", "-b", "sales.item", "--map", "revenue"}, "--map takes MEASURE=COLUMN"},
 		{[]string{"--sql", "no/such/file.sql", "-m", "revenue"}, "cannot read the handwritten SQL"},
 		{[]string{"-m", "revenue"}, "name the handwritten SQL with --sql FILE.sql"},

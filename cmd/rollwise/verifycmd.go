@@ -79,7 +79,7 @@ fails), 2 for usage errors.`,
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
 	whereVar(f, &o.where)
 	onceStringVarP(f, &o.totals, "totals", "", "none", "total rows: none, grand, rollup or all")
-	f.StringSliceVar(&o.maps, "map", nil, "MEASURE=COLUMN: the SQL's column that holds a measure (repeatable)")
+	f.StringSliceVar(&o.maps, "map", nil, "MEASURE=COLUMN or TABLE.COLUMN=COLUMN: the SQL's column that holds a measure or a --by column (repeatable)")
 	f.Float64Var(&o.tolerance, "tolerance", verify.DefaultTolerance, "relative tolerance for values that are not both exact")
 	f.StringVar(&o.grouping, "grouping-column", "", "the SQL's GROUPING(...) column, which tells total rows from NULL groups")
 	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
@@ -121,10 +121,10 @@ func runVerify(e *env, o *verifyOptions) error {
 		name, col, ok := strings.Cut(m, "=")
 		name, col = strings.TrimSpace(name), strings.TrimSpace(col)
 		if !ok || name == "" || col == "" {
-			return usageErr("--map takes MEASURE=COLUMN, not %q", m)
+			return usageErr("--map takes MEASURE=COLUMN or TABLE.COLUMN=COLUMN, not %q", m)
 		}
 		if prev, dup := maps[name]; dup && prev != col {
-			return usageErr("--map gives measure %s two columns, %s and %s", name, prev, col)
+			return usageErr("--map gives %s two columns, %s and %s", name, prev, col)
 		}
 		maps[name] = col
 	}

@@ -219,6 +219,20 @@ func mapColumns(cols, groups, measures []string, mp map[string]string, gname str
 		bareCount[strings.ToLower(bareName(g))]++
 	}
 	for _, g := range groups {
+		if c, ok := mp[g]; ok {
+			i, err := findColumn(cols, c)
+			if err != nil {
+				return nil, err
+			}
+			if i < 0 {
+				return nil, missing(fmt.Sprintf("--by %s (--map %s=%s)", g, g, c), c)
+			}
+			if err := claim(i, "--by "+g); err != nil {
+				return nil, err
+			}
+			lay.groups = append(lay.groups, i)
+			continue
+		}
 		i, err := findColumn(cols, g)
 		if err != nil {
 			return nil, err

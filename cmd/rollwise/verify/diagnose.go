@@ -332,14 +332,20 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 				if u == t || onPath[l] || !ok {
 					continue
 				}
-				for _, kind := range []string{"INNER", "LEFT"} {
-					detail := fmt.Sprintf("each %s row is repeated once per matching %s row (%s join of %s on %s)",
-						t.Name, u.Name, map[string]string{"INNER": "an inner", "LEFT": "a left"}[kind], u.Name, l)
-					rows := 0
-					if kind == "INNER" {
-						rows = -1
+				for _, also := range alsoMatched(t, u, l) {
+					on := l.String()
+					for _, p := range also {
+						on += " and " + p.String()
 					}
-					try(t, FanOut, detail, fannedRows(d, t, path, l, kind, weight), weight, rows)
+					for _, kind := range []string{"INNER", "LEFT"} {
+						detail := fmt.Sprintf("each %s row is repeated once per matching %s row (%s join of %s on %s)",
+							t.Name, u.Name, map[string]string{"INNER": "an inner", "LEFT": "a left"}[kind], u.Name, on)
+						rows := 0
+						if kind == "INNER" {
+							rows = -1
+						}
+						try(t, FanOut, detail, fannedRows(d, t, path, l, also, kind, weight), weight, rows)
+					}
 				}
 			}
 		}
@@ -349,6 +355,40 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 		}
 	}
 	return out
+}
+
+// columnPair is a column of a fanning table matched with a column of the
+// fact table's rows, beside the link (shifts.day = tills.day).
+type columnPair struct{ fan, row *planner.Column }
+
+func (p columnPair) String() string { return p.fan.String() + " = " + p.row.String() }
+
+// alsoMatched lists the ways handwritten SQL may join u to t's rows: along
+// link l alone, or along l and one more pair of columns of the same name
+// and type that neither table uses as its key (a join on store and day).
+// Each way is a fan-out that repeats t's rows by a different count.
+func alsoMatched(t, u *planner.Table, l *planner.Link) [][]columnPair {
+	out := [][]columnPair{nil}
+	for _, cu := range u.Columns {
+		if !cu.Stored() || containsColumn(l.FromCols, cu) || containsColumn(u.Key, cu) {
+			continue
+		}
+		ct := t.Column(cu.Name)
+		if ct == nil || !ct.Stored() || ct.Type != cu.Type || containsColumn(t.Key, ct) {
+			continue
+		}
+		out = append(out, []columnPair{{fan: cu, row: ct}})
+	}
+	return out
+}
+
+func containsColumn(list []*planner.Column, c *planner.Column) bool {
+	for _, x := range list {
+		if x == c {
+			return true
+		}
+	}
+	return false
 }
 
 // weightColumn picks a column name t does not have.

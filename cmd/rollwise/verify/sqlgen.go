@@ -252,14 +252,19 @@ func joinedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, join
 // more column, weight: how many rows of fan.From point at the path's last
 // table through the link fan. A join to fan.From would repeat each row
 // that many times; with join INNER, rows without any are dropped, and
-// with LEFT they count once.
-func fannedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, fan *planner.Link, join, weight string) string {
+// with LEFT they count once. Each pair of also adds a condition between a
+// column of fan.From and one of t (a join on store and day).
+func fannedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, fan *planner.Link, also []columnPair, join, weight string) string {
 	q := d.Ident
 	b, alias := pathJoins(d, t, path, "LEFT")
 	var keys, conds []string
 	for i, c := range fan.FromCols {
 		keys = append(keys, q(c.Name))
 		conds = append(conds, q("u")+"."+q(c.Name)+" = "+q(alias[fan.To])+"."+q(fan.ToCols[i].Name))
+	}
+	for _, p := range also {
+		keys = append(keys, q(p.fan.Name))
+		conds = append(conds, q("u")+"."+q(p.fan.Name)+" = "+q("t0")+"."+q(p.row.Name))
 	}
 	w := q("u") + "." + q("rollwise_n")
 	if join == "LEFT" {

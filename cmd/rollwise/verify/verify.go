@@ -15,6 +15,7 @@ import (
 	"errors"
 	"fmt"
 	"math"
+	"slices"
 	"strings"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
@@ -78,8 +79,9 @@ type Spec struct {
 	By       []string
 	Where    string
 	Totals   string
-	// Map maps a measure to the handwritten column that holds it, where
-	// the column is not named after the measure.
+	// Map maps a measure, or a --by reference as written, to the
+	// handwritten column that holds it, where the column is not named
+	// after the measure (or the column's name).
 	Map map[string]string
 	// GroupingColumn names a handwritten column computed with
 	// GROUPING(g1, ..., gn) over the --by columns in order: it tells
@@ -254,12 +256,9 @@ func newVerifier(in *Input, r Runner) (*verifier, error) {
 		v.names = append(v.names, m.Name)
 	}
 	for m := range in.Spec.Map {
-		found := false
-		for _, name := range v.names {
-			found = found || name == m
-		}
-		if !found {
-			return nil, inputErr("--map names %q, which is not a measure of the query (%s)", m, strings.Join(v.names, ", "))
+		if !slices.Contains(v.names, m) && !slices.Contains(in.Query.GroupNames, m) {
+			return nil, inputErr("--map names %q, which is neither a measure of the query (%s) nor a --by column (%s)",
+				m, strings.Join(v.names, ", "), strings.Join(in.Query.GroupNames, ", "))
 		}
 	}
 	v.rep = &Report{SQLName: in.SQLName, Groups: in.Query.GroupNames, Measures: v.names,
