@@ -1,6 +1,7 @@
 package main
 
 import (
+	"errors"
 	"fmt"
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"strings"
@@ -94,6 +95,9 @@ func runViews(e *env, o *viewsOptions) error {
 			o.check, report.Count(len(drifts), "place"), strings.Join(o.models, " ")+viewsFlags(o), o.check)}
 	case o.out != "":
 		rep, err := views.Write(o.out, set)
+		if errors.Is(err, views.ErrBusy) {
+			return &exitError{code: exitFindings, err: err}
+		}
 		if err != nil {
 			return &exitError{code: exitInternal, err: err}
 		}

@@ -31,9 +31,6 @@ const (
 	// ManifestDiffers: the views match but the manifest does not (an
 	// edit, or another dialect or schema).
 	ManifestDiffers DriftKind = "manifest"
-	// Interrupted: a staging folder shows that a `views --out` run was
-	// killed; files may be a mix of two runs.
-	Interrupted DriftKind = "interrupted"
 )
 
 // Drift is one difference between a folder and the generated views.
@@ -115,9 +112,6 @@ func Check(dir string, s *Set) ([]Drift, error) {
 	for _, e := range entries {
 		name := e.Name()
 		switch {
-		case e.IsDir() && strings.HasPrefix(name, stagingPrefix):
-			extra = append(extra, Drift{Kind: Interrupted, File: name,
-				Detail: "a `rollwise views --out` run was killed here; run it again"})
 		case e.IsDir() || generated[name] || !strings.HasSuffix(name, ".sql"):
 		case recorded[name].Name != "":
 			extra = append(extra, Drift{Kind: Extra, View: recorded[name].Name, File: name,

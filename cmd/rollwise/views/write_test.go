@@ -8,6 +8,7 @@ import (
 	"sort"
 	"strings"
 	"testing"
+	"time"
 )
 
 // Two versions of the shop's views: v2 changes a measure (one file
@@ -32,8 +33,12 @@ func snapshot(t *testing.T, dir string) map[string]string {
 	if _, err := os.Stat(dir); errors.Is(err, fs.ErrNotExist) {
 		return nil
 	}
+	dir, err := filepath.EvalSymlinks(dir) // the --out link, followed
+	if err != nil {
+		t.Fatal(err)
+	}
 	out := map[string]string{}
-	err := filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
+	err = filepath.WalkDir(dir, func(p string, d fs.DirEntry, err error) error {
 		if err != nil {
 			return err
 		}
@@ -135,6 +140,13 @@ func (f *faulty) Rename(from, to string) error {
 	return f.osFS.Rename(from, to)
 }
 
+func (f *faulty) Symlink(target, name string) error {
+	if err := f.fail(); err != nil {
+		return err
+	}
+	return f.osFS.Symlink(target, name)
+}
+
 func (f *faulty) SyncDir(name string) error {
 	if err := f.fail(); err != nil {
 		return err
@@ -142,59 +154,111 @@ func (f *faulty) SyncDir(name string) error {
 	return f.osFS.SyncDir(name)
 }
 
-// Whichever step fails, the folder is as it was; once no step fails, it
-// is complete.
+// storeNames lists the store next to dir.
+func storeNames(t *testing.T, dir string) []string {
+	t.Helper()
+	entries, _ := os.ReadDir(filepath.Join(filepath.Dir(dir), "."+filepath.Base(dir)+storeSuffix))
+	var out []string
+	for _, e := range entries {
+		out = append(out, e.Name())
+	}
+	return out
+}
+
+// legacyFolder writes set s into dir as a real folder, the way an earlier
+// rollwise did.
+func legacyFolder(t *testing.T, dir string, s *Set) {
+	t.Helper()
+	files, _ := s.Files()
+	if err := os.MkdirAll(dir, 0o755); err != nil {
+		t.Fatal(err)
+	}
+	for _, f := range files {
+		if err := os.WriteFile(filepath.Join(dir, f.Name), f.Data, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+}
+
+// Whichever step fails, the folder is as it was and the store holds no
+// leftovers; a fresh run that fails leaves nothing at all. Once no step
+// fails, the folder is complete and the store holds the lock and the one
+// version dir shows.
 func TestWriteIsAllOrNothing(t *testing.T) {
 	v1, v2 := twoVersions(t)
-	for _, fresh := range []bool{false, true} {
+	for _, start := range []string{"fresh", "link", "legacy"} {
 		failures := 0
 		for n := 1; ; n++ {
-			dir := filepath.Join(t.TempDir(), "views")
-			if !fresh {
+			parent := t.TempDir()
+			dir := filepath.Join(parent, "out", "views")
+			switch start {
+			case "link":
 				if _, err := Write(dir, v1); err != nil {
 					t.Fatal(err)
 				}
+			case "legacy":
+				legacyFolder(t, dir, v1)
 			}
-			before := snapshot(t, dir)
+			before, beforeStore := snapshot(t, dir), storeNames(t, dir)
 			_, err := write(&faulty{n: n}, dir, v2)
 			after := snapshot(t, dir)
+			if err != nil && strings.Contains(err.Error(), "the views are written") {
+				// The flush after the switch: the new set is in place.
+				if !errors.Is(err, errInjected) || !sameTree(after, complete(t, v2)) {
+					t.Errorf("%s step %d: %v, and the folder holds %s", start, n, err, treeNames(after))
+				}
+				continue
+			}
 			if err == nil {
 				if !sameTree(after, complete(t, v2)) {
-					t.Errorf("fresh=%v: after success the folder holds %s", fresh, treeNames(after))
+					t.Errorf("%s: after success the folder holds %s", start, treeNames(after))
+				}
+				if st := storeNames(t, dir); len(st) != 2 || st[0] != lockName || !strings.HasPrefix(st[1], versionPrefix) {
+					t.Errorf("%s: after success the store holds %v", start, st)
 				}
 				break
 			}
 			failures++
 			if !errors.Is(err, errInjected) {
-				t.Fatalf("fresh=%v step %d: unexpected error %v", fresh, n, err)
+				t.Fatalf("%s step %d: unexpected error %v", start, n, err)
 			}
 			if !sameTree(before, after) {
-				t.Errorf("fresh=%v: failing step %d changed the folder:\nbefore %s\nafter  %s", fresh, n, treeNames(before), treeNames(after))
+				t.Errorf("%s: failing step %d changed the folder:\nbefore %s\nafter  %s", start, n, treeNames(before), treeNames(after))
+			}
+			if st := storeNames(t, dir); strings.Join(st, " ") != strings.Join(beforeStore, " ") && !(start == "legacy" && len(st) == 1 && st[0] == lockName) {
+				t.Errorf("%s: failing step %d left %v in the store (before: %v)", start, n, st, beforeStore)
+			}
+			if start == "fresh" {
+				if left, _ := os.ReadDir(parent); len(left) != 0 {
+					t.Errorf("fresh: failing step %d left %v", n, left)
+				}
 			}
 			if n > 100 {
 				t.Fatal("Write never succeeds")
 			}
 		}
-		// Over v1, v2 writes 3 files and removes 1: the staging folder, 3
-		// writes, 3 moves aside, 3 moves in and the sync can each fail
-		// (11). Into no folder: the folder, the staging folder, 8 writes,
-		// 8 moves in and the sync (19).
-		if want := map[bool]int{false: 11, true: 19}[fresh]; failures != want {
-			t.Errorf("fresh=%v: %d steps were made to fail, want %d", fresh, failures, want)
+		// The steps that can fail before the switch: making the folders
+		// (fresh: out and the store), the version folder, each of the 8
+		// files, the flush, the link, the rename over dir (legacy: two
+		// renames).
+		if want := map[string]int{"fresh": 14, "link": 12, "legacy": 14}[start]; failures != want {
+			t.Errorf("%s: %d steps were made to fail, want %d", start, failures, want)
 		}
 	}
 }
 
-// Write reports what it did, touches only what changed, and leaves files
-// it did not write alone.
+// Write reports what it did and carries over the files it did not write.
 func TestWriteReport(t *testing.T) {
 	v1, v2 := twoVersions(t)
-	dir := t.TempDir()
+	dir := filepath.Join(t.TempDir(), "views")
 	if _, err := Write(dir, v1); err != nil {
 		t.Fatal(err)
 	}
-	if err := os.WriteFile(filepath.Join(dir, "notes.sql"), []byte("-- mine\n"), 0o644); err != nil {
-		t.Fatal(err)
+	for name, data := range map[string]string{"notes.sql": "-- mine\n", "docs/README": "read me\n"} {
+		os.MkdirAll(filepath.Dir(filepath.Join(dir, name)), 0o755) //nolint:errcheck // checked by WriteFile
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(data), 0o644); err != nil {
+			t.Fatal(err)
+		}
 	}
 	rep, err := Write(dir, v2)
 	if err != nil {
@@ -209,93 +273,70 @@ func TestWriteReport(t *testing.T) {
 		t.Errorf("unchanged %v", rep.Unchanged)
 	}
 	snap := snapshot(t, dir)
-	if snap["notes.sql"] != "-- mine\n" {
-		t.Error("notes.sql was touched")
+	if snap["notes.sql"] != "-- mine\n" || snap["docs/README"] != "read me\n" {
+		t.Error("the files rollwise did not write were not carried over")
 	}
 	delete(snap, "notes.sql")
+	delete(snap, "docs/README")
+	delete(snap, "docs/")
 	if !sameTree(snap, complete(t, v2)) {
 		t.Errorf("folder holds %s", treeNames(snap))
 	}
 }
 
-// A run killed between its renames leaves some files of each version and
-// its staging folder: Check says so, and the next run completes the
-// folder.
-func TestKilledRunIsCompletedByTheNext(t *testing.T) {
+// A real folder (from an earlier rollwise) becomes the link, its files of
+// views kept or replaced, a staging folder an earlier run left dropped;
+// a link rollwise did not make, or a file, is refused.
+func TestRealFolderBecomesTheLink(t *testing.T) {
 	v1, v2 := twoVersions(t)
-	dir := t.TempDir()
-	if _, err := Write(dir, v1); err != nil {
+	dir := filepath.Join(t.TempDir(), "views")
+	legacyFolder(t, dir, v1)
+	if err := os.Mkdir(filepath.Join(dir, legacyStaging+"123"), 0o755); err != nil {
 		t.Fatal(err)
-	}
-	// The state a kill after the first rename leaves.
-	staging := filepath.Join(dir, stagingPrefix+"123")
-	if err := os.Mkdir(staging, 0o700); err != nil {
-		t.Fatal(err)
-	}
-	files, _ := v2.Files()
-	for _, f := range files {
-		if f.Name == "by_region.sql" {
-			os.WriteFile(filepath.Join(dir, f.Name), f.Data, 0o644) //nolint:errcheck // checked by Check below
-		} else {
-			os.WriteFile(filepath.Join(staging, f.Name), f.Data, 0o644) //nolint:errcheck // checked below
-		}
-	}
-	drifts, err := Check(dir, v2)
-	if err != nil {
-		t.Fatal(err)
-	}
-	if !hasDrift(drifts, Interrupted, stagingPrefix+"123") || !hasDrift(drifts, HandEdited, "by_region.sql") {
-		t.Errorf("drifts %v", drifts)
 	}
 	if _, err := Write(dir, v2); err != nil {
 		t.Fatal(err)
 	}
+	if target, err := os.Readlink(dir); err != nil || !strings.HasPrefix(target, ".views.rollwise/v-") {
+		t.Fatalf("dir is not the link: %q %v", target, err)
+	}
 	if snap := snapshot(t, dir); !sameTree(snap, complete(t, v2)) {
 		t.Errorf("folder holds %s", treeNames(snap))
 	}
+	other := filepath.Join(t.TempDir(), "elsewhere")
+	os.Mkdir(other, 0o755)                                             //nolint:errcheck // the link below is what counts
+	os.Symlink(other, filepath.Join(filepath.Dir(dir), "mine"))        //nolint:errcheck // checked by Write's error
+	os.WriteFile(filepath.Join(filepath.Dir(dir), "file"), nil, 0o644) //nolint:errcheck // idem
+	for name, want := range map[string]string{"mine": "which rollwise did not make", "file": "is a file, not a folder"} {
+		if _, err := Write(filepath.Join(filepath.Dir(dir), name), v1); err == nil || !strings.Contains(err.Error(), want) {
+			t.Errorf("%s: error %v, want %q", name, err, want)
+		}
+	}
 }
 
-// When undoing fails too, the staging folder, which holds the previous
-// files, is kept and the error names it.
-func TestFailedUndoKeepsThePreviousFiles(t *testing.T) {
+// A second run waits for the first; past the wait it fails with ErrBusy
+// and leaves the folder alone.
+func TestBusyFolderFailsClearly(t *testing.T) {
 	v1, v2 := twoVersions(t)
-	dir := t.TempDir()
+	dir := filepath.Join(t.TempDir(), "views")
 	if _, err := Write(dir, v1); err != nil {
 		t.Fatal(err)
 	}
-	old, _ := os.ReadFile(filepath.Join(dir, "by_region.sql"))
-	_, err := write(&brokenUndo{}, dir, v2)
-	if err == nil || !strings.Contains(err.Error(), "the previous files are in "+filepath.Join(dir, stagingPrefix)) {
-		t.Fatalf("error %v", err)
+	held, err := lockFile(filepath.Join(filepath.Dir(dir), ".views"+storeSuffix, lockName), 0)
+	if err != nil {
+		t.Fatal(err)
 	}
-	kept, _ := filepath.Glob(filepath.Join(dir, stagingPrefix+"*", "by_region.sql.old"))
-	if len(kept) != 1 {
-		t.Fatalf("the previous by_region.sql is not in the staging folder: %v", kept)
+	defer func(w time.Duration) { lockWait = w }(lockWait)
+	lockWait = 300 * time.Millisecond
+	_, err = Write(dir, v2)
+	if !errors.Is(err, ErrBusy) || !strings.Contains(err.Error(), "waited 300ms") {
+		t.Errorf("error %v, want ErrBusy after the wait", err)
 	}
-	if b, _ := os.ReadFile(kept[0]); string(b) != string(old) {
-		t.Error("the kept copy differs from the previous file")
+	if snap := snapshot(t, dir); !sameTree(snap, complete(t, v1)) {
+		t.Errorf("a refused run changed the folder: %s", treeNames(snap))
 	}
-}
-
-// brokenUndo fails the fourth rename and every rename after it.
-type brokenUndo struct {
-	osFS
-	renames int
-}
-
-func (b *brokenUndo) Rename(from, to string) error {
-	b.renames++
-	if b.renames >= 4 {
-		return errInjected
+	held.Close()
+	if _, err := Write(dir, v2); err != nil {
+		t.Errorf("once released: %v", err)
 	}
-	return b.osFS.Rename(from, to)
-}
-
-func hasDrift(ds []Drift, kind DriftKind, file string) bool {
-	for _, d := range ds {
-		if d.Kind == kind && d.File == file {
-			return true
-		}
-	}
-	return false
 }
