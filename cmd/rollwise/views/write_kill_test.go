@@ -108,14 +108,7 @@ func TestKilledAnywhereLeavesOldOrNew(t *testing.T) {
 		kills := 0
 		for n := 1; ; n++ {
 			dir := filepath.Join(t.TempDir(), "views")
-			switch start {
-			case "link":
-				if _, err := Write(dir, v1); err != nil {
-					t.Fatal(err)
-				}
-			case "legacy":
-				legacyFolder(t, dir, v1)
-			}
+			startAs(t, start, dir, v1)
 			out, err := child(dir, "v2", n).CombinedOutput()
 			if err == nil {
 				if oneOf(t, dir, map[string]map[string]string{"new": next}) == "" {

@@ -165,6 +165,20 @@ func storeNames(t *testing.T, dir string) []string {
 	return out
 }
 
+// startAs prepares dir for a test that starts "fresh" (nothing there),
+// from a "link" to set s, or from a "legacy" real folder holding s.
+func startAs(t *testing.T, start, dir string, s *Set) {
+	t.Helper()
+	switch start {
+	case "link":
+		if _, err := Write(dir, s); err != nil {
+			t.Fatal(err)
+		}
+	case "legacy":
+		legacyFolder(t, dir, s)
+	}
+}
+
 // legacyFolder writes set s into dir as a real folder, the way an earlier
 // rollwise did.
 func legacyFolder(t *testing.T, dir string, s *Set) {
@@ -191,14 +205,7 @@ func TestWriteIsAllOrNothing(t *testing.T) {
 		for n := 1; ; n++ {
 			parent := t.TempDir()
 			dir := filepath.Join(parent, "out", "views")
-			switch start {
-			case "link":
-				if _, err := Write(dir, v1); err != nil {
-					t.Fatal(err)
-				}
-			case "legacy":
-				legacyFolder(t, dir, v1)
-			}
+			startAs(t, start, dir, v1)
 			before, beforeStore := snapshot(t, dir), storeNames(t, dir)
 			_, err := write(&faulty{n: n}, dir, v2)
 			after := snapshot(t, dir)
