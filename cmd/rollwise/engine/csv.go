@@ -3,6 +3,7 @@ package engine
 import (
 	"bufio"
 	"bytes"
+	"cmp"
 	"context"
 	"database/sql"
 	"encoding/csv"
@@ -10,6 +11,7 @@ import (
 	"fmt"
 	"io"
 	"os"
+	"slices"
 	"strings"
 
 	"github.com/rollwise/rollwise/planner"
@@ -159,11 +161,16 @@ func matchHeader(r *relation, header []string) ([]int, error) {
 	return at, errors.Join(errs...)
 }
 
+// maxBadValues caps the values one load error lists; the rest are counted.
+const maxBadValues = 20
+
 // diagnoseCSV explains why loading r failed: it reads every stored column
-// as text into a temporary table and finds the first value (in file
-// order) that its declared type cannot hold exactly. It returns nil when
-// it finds none, or an error of its own when even text cannot be read (a
-// malformed file).
+// as text into a temporary table and finds the values (in file order) that
+// their declared types cannot hold exactly, so that a dirty file is
+// reported whole in one run: up to maxBadValues values, each with its
+// line, column and what to write instead, and a count of all of them. It
+// returns nil when it finds none, or an error of its own when even text
+// cannot be read (a malformed file).
 func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fields int) error {
 	types := make([]string, fields)
 	for i := range types {
@@ -180,37 +187,70 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 	}
 	defer conn.ExecContext(context.WithoutCancel(ctx), "DROP TABLE IF EXISTS "+check) //nolint:errcheck // best effort
 
-	var worst *badValue
+	var bad []badValue
+	total := 0
 	for i, c := range r.columns {
 		if c.typ == planner.TypeText {
 			continue
 		}
 		k := fmt.Sprintf("k%d", i)
-		q := fmt.Sprintf("SELECT rowid, %s, %s, %s FROM %s WHERE %s IS NOT NULL AND (%s) ORDER BY rowid LIMIT 1",
-			k, textUnreadable(k, c), textNumeric(k), check, k, textRefused(k, c))
-		b := badValue{col: c}
-		err := conn.QueryRowContext(ctx, q).Scan(&b.row, &b.value, &b.unreadable, &b.numeric)
-		if errors.Is(err, sql.ErrNoRows) {
-			continue
+		where := fmt.Sprintf("%s IS NOT NULL AND (%s)", k, textRefused(k, c))
+		found, err := badCSVValues(ctx, conn, c, i, fmt.Sprintf("SELECT rowid, %s, %s, %s FROM %s WHERE %s ORDER BY rowid LIMIT %d",
+			k, textUnreadable(k, c), textNumeric(k), check, where, maxBadValues))
+		if err == nil && len(found) == maxBadValues {
+			var n int
+			err = conn.QueryRowContext(ctx, "SELECT count(*) FROM "+check+" WHERE "+where).Scan(&n)
+			total += n - len(found)
 		}
 		if err != nil {
 			return fmt.Errorf("table %s: %s: checking column %s: %s", r.tables[0].Name, r.file, c.name, firstParagraph(err.Error()))
 		}
-		if worst == nil || b.row < worst.row {
-			worst = &b
-		}
+		total += len(found)
+		bad = append(bad, found...)
 	}
-	if worst == nil {
+	if total == 0 {
 		return nil
 	}
-	// rowid counts data records from 0; the header is line 1. (A quoted
-	// field spanning lines would shift this.)
-	return fmt.Errorf("%s:%d: column %s.%s (%s): %s", r.file, worst.row+2, worst.col.table.Name, worst.col.name, worst.col.typ, worst.explain())
+	slices.SortFunc(bad, func(a, b badValue) int { return cmp.Or(cmp.Compare(a.row, b.row), cmp.Compare(a.at, b.at)) })
+	lines := make([]string, 0, maxBadValues)
+	for _, b := range bad[:min(len(bad), maxBadValues)] {
+		// rowid counts data records from 0; the header is line 1. (A
+		// quoted field spanning lines would shift this.)
+		lines = append(lines, fmt.Sprintf("%s:%d: column %s.%s (%s): %s", r.file, b.row+2, b.col.table.Name, b.col.name, b.col.typ, b.explain()))
+	}
+	if total == 1 {
+		return errors.New(lines[0])
+	}
+	head := fmt.Sprintf("%s: %d values cannot be loaded", r.file, total)
+	if total > len(lines) {
+		head += fmt.Sprintf("; the first %d in file order", len(lines))
+	}
+	return errors.New(head + ":\n  " + strings.Join(lines, "\n  "))
+}
+
+// badCSVValues runs q, which selects rowid, value, unreadable and numeric
+// of the refused values of column c (the at-th stored column).
+func badCSVValues(ctx context.Context, conn *sql.Conn, c column, at int, q string) ([]badValue, error) {
+	rows, err := conn.QueryContext(ctx, q)
+	if err != nil {
+		return nil, err
+	}
+	defer rows.Close()
+	var out []badValue
+	for rows.Next() {
+		b := badValue{col: c, at: at}
+		if err := rows.Scan(&b.row, &b.value, &b.unreadable, &b.numeric); err != nil {
+			return nil, err
+		}
+		out = append(out, b)
+	}
+	return out, rows.Err()
 }
 
 // badValue is a CSV value its column's type cannot hold exactly.
 type badValue struct {
 	col        column
+	at         int // the column's place among the relation's stored columns
 	row        int64
 	value      string
 	unreadable bool // not a value of the type as written (textUnreadable)
