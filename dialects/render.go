@@ -407,12 +407,11 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	var aggs []string
 	for _, l := range rel.Per.Leaves {
 		var cond []string
+		for _, pk := range l.PerKeys {
+			cond = append(cond, r.q(pk.Name)+" IS NOT NULL")
+		}
 		if l.Having != nil {
 			cond = append(cond, r.d.Truth(r.q(l.Having.Name)))
-		} else {
-			for _, pk := range l.PerKeys {
-				cond = append(cond, r.q(pk.Name)+" IS NOT NULL")
-			}
 		}
 		arg := ""
 		if l.Value != nil {

@@ -113,8 +113,8 @@ type PerLeaf struct {
 	Func string
 	// Value is the sub-context value aggregated; nil for count(*).
 	Value *Input
-	// Having is the sub-context value that keeps a group, or nil: then
-	// groups with a NULL per-key are skipped.
+	// Having is the sub-context value that keeps a group, or nil. A
+	// group with a NULL per-key is always skipped (NULL is not a group).
 	Having  *Input
 	PerKeys []Key
 	T       Type

@@ -125,14 +125,14 @@ func (pl *planner) iterationTables(e Expr) []*Table {
 }
 
 // perTables are the tables whose rows form the groups of a per-grain
-// aggregate: X's iteration tables; for count(* per ...), the having's, or
-// else the per columns' own table.
+// aggregate: X's iteration tables, or where X reads no table (count(*
+// per ...)) the per columns' own table. The having clause only keeps or
+// drops groups: which tables it reads never changes the groups.
 func (pl *planner) perTables(pa *PerAgg) []*Table {
-	switch {
-	case pa.X != nil:
-		return pl.iterationTables(pa.X)
-	case pa.Having != nil:
-		return pl.iterationTables(pa.Having)
+	if pa.X != nil {
+		if ts := pl.iterationTables(pa.X); len(ts) > 0 {
+			return ts
+		}
 	}
 	for _, c := range pa.Per {
 		reach := Reach(c.Table)

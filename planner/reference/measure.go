@@ -132,9 +132,9 @@ func (ev *evaluator) argValues(td *tableData, e planner.Expr) ([]Value, error) {
 // perAgg evaluates AGG(X per C... having H): the groups are the distinct
 // values of the per columns among the iteration rows of X (of H for
 // count(* per ...)) that satisfy the cell; each group is the cell plus
-// the grouping C = value. A group whose value has a NULL is skipped when
-// there is no having clause; with one, the having clause decides for
-// every group. The kept groups' values of X are aggregated with AGG;
+// the grouping C = value. A group whose value has a NULL is skipped,
+// with or without a having clause (NULL is not a group); the having
+// clause decides for the others. The kept groups' values of X are aggregated with AGG;
 // count(* per ...) counts the kept groups.
 func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
 	tables, err := ev.perTables(p)
@@ -174,6 +174,9 @@ func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
 			cg = cg.with(groupOn(col, g[i]))
 			null = null || g[i] == nil
 		}
+		if null {
+			continue
+		}
 		if p.Having != nil {
 			h, err := ev.measure(p.Having, cg)
 			if err != nil {
@@ -182,8 +185,6 @@ func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
 			if !truth(h) {
 				continue
 			}
-		} else if null {
-			continue
 		}
 		kept++
 		if p.X == nil {
@@ -203,17 +204,14 @@ func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
 
 // perTables are the tables whose rows give a per-grain's groups: the
 // iteration tables of its measure expression; when that reads no table
-// (count(* per ...), a literal), those of its having clause; when neither
-// does, the table among the per columns' tables from which the others are
-// reachable.
+// (count(* per ...), a literal), the table among the per columns' tables
+// from which the others are reachable. The having clause never changes
+// the groups (language.md, "Per-grain groups and NULL").
 func (ev *evaluator) perTables(p *planner.PerAgg) ([]*planner.Table, error) {
 	var tables []*planner.Table
 	var err error
-	for _, e := range []planner.Expr{p.X, p.Having} {
-		if e == nil {
-			continue
-		}
-		if tables, err = iterationTables(e, nil, map[*planner.Measure]bool{}); err != nil || len(tables) > 0 {
+	if p.X != nil {
+		if tables, err = iterationTables(p.X, nil, map[*planner.Measure]bool{}); err != nil || len(tables) > 0 {
 			return tables, err
 		}
 	}
@@ -283,14 +281,10 @@ func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Mea
 			// seen elsewhere count again here).
 			// Its groups come from the rows of X's iteration tables; a
 			// having clause only keeps or drops groups. count(* per ...)
-			// has no X: then the having's tables, or the per columns'.
+			// has no X: then the per columns' table.
 			var own []*planner.Table
-			src := x.X
-			if src == nil {
-				src = x.Having
-			}
-			if src != nil {
-				own, err = iterationTables(src, own, map[*planner.Measure]bool{})
+			if x.X != nil {
+				own, err = iterationTables(x.X, own, map[*planner.Measure]bool{})
 			}
 			if err == nil && len(own) == 0 {
 				var t *planner.Table

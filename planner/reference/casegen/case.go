@@ -37,6 +37,9 @@ type Case struct {
 	// Advanced names the measures that use cell edits or per-grain
 	// aggregates.
 	Advanced map[string]bool
+	// Identities are queries whose measures must agree pairwise (with
+	// Options.Identities).
+	Identities []Identity
 }
 
 // Query is one query, as the command line gives it.
@@ -153,6 +156,9 @@ type Options struct {
 	Advanced bool
 	// Facts bounds the number of iteration tables (1 to 3).
 	Facts int
+	// Identities adds the measures and query of one Identity to each
+	// case (Case.Identities).
+	Identities bool
 }
 
 // DefaultOptions are the options of the differential tests.
@@ -196,7 +202,13 @@ func (g *gen) drawCase() *Case {
 	g.drawSchema()
 	g.drawData()
 	g.drawMeasures()
-	c := &Case{Model: g.modelText(), Data: map[string]string{}, Advanced: map[string]bool{}}
+	var ids []Identity
+	if g.o.Identities {
+		if id, ok := g.drawIdentity(); ok {
+			ids = append(ids, id)
+		}
+	}
+	c := &Case{Model: g.modelText(), Data: map[string]string{}, Advanced: map[string]bool{}, Identities: ids}
 	for _, t := range g.tables {
 		c.Data[t.name] = t.csv()
 	}

@@ -398,7 +398,15 @@ func (g *gen) perGrain(depth int) mx {
 	if len(cols) == 0 {
 		return a
 	}
-	per := []string{g.col(cols).ref()}
+	first := g.col(cols)
+	if star && hasHaving {
+		// count(* per C having H): the groups are the rows of C's own
+		// table, whichever tables H reads (row_set_having_tables): a second
+		// per column must be reachable from it.
+		tables = union([]*table{first.t}, having.tables)
+		cols = slices.DeleteFunc(slices.Clone(cols), func(c *column) bool { return !reaches(first.t, c.t) })
+	}
+	per := []string{first.ref()}
 	if g.chance(30) {
 		if c := g.col(cols).ref(); c != per[0] {
 			per = append(per, c)

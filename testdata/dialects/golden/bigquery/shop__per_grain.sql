@@ -61,7 +61,7 @@ WITH `sales_rows` AS (
   SELECT
     `stores__region`,
     `grouping_id`,
-    count(CASE WHEN `big_items_keep` THEN 1 END) AS `big_items`
+    count(CASE WHEN `sales__item_per` IS NOT NULL AND `big_items_keep` THEN 1 END) AS `big_items`
   FROM `big_items_per_groups`
   GROUP BY `grouping_id`, `stores__region`
 ),

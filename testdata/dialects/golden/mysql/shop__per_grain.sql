@@ -81,7 +81,7 @@ WITH `sales_rows` AS (
   SELECT
     `stores.region`,
     `grouping_id`,
-    count(CASE WHEN `big_items_keep` THEN 1 END) AS `big_items`
+    count(CASE WHEN `sales.item per` IS NOT NULL AND `big_items_keep` THEN 1 END) AS `big_items`
   FROM `big_items_per_groups`
   GROUP BY `grouping_id`, `stores.region`
 ),

@@ -61,7 +61,7 @@ WITH "sales_rows" AS (
   SELECT
     "stores.region",
     "grouping_id",
-    count(*) FILTER (WHERE "big_items_keep") AS "big_items"
+    count(*) FILTER (WHERE "sales.item per" IS NOT NULL AND "big_items_keep") AS "big_items"
   FROM "big_items_per_groups"
   GROUP BY "grouping_id", "stores.region"
 ),

@@ -61,7 +61,7 @@ WITH "SALES_ROWS" AS (
   SELECT
     "stores.region",
     "GROUPING_ID",
-    count(CASE WHEN "BIG_ITEMS_KEEP" THEN 1 END) AS "BIG_ITEMS"
+    count(CASE WHEN "sales.item per" IS NOT NULL AND "BIG_ITEMS_KEEP" THEN 1 END) AS "BIG_ITEMS"
   FROM "BIG_ITEMS_PER_GROUPS"
   GROUP BY "GROUPING_ID", "stores.region"
 ),

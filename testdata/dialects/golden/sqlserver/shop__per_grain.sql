@@ -61,7 +61,7 @@ WITH [sales_rows] AS (
   SELECT
     [stores.region],
     [grouping_id],
-    COUNT_BIG(CASE WHEN ([big_items_keep] = 1) THEN 1 END) AS [big_items]
+    COUNT_BIG(CASE WHEN [sales.item per] IS NOT NULL AND ([big_items_keep] = 1) THEN 1 END) AS [big_items]
   FROM [big_items_per_groups]
   GROUP BY [grouping_id], [stores.region]
 ),
