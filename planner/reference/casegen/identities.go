@@ -3,8 +3,8 @@ package casegen
 import (
 	"fmt"
 	"math"
-	"strconv"
 	"slices"
+	"strconv"
 
 	"github.com/rollwise/rollwise/planner/reference/expect"
 )
