@@ -36,7 +36,12 @@ func (r *renderer) sorted(body string) (string, error) {
 				part = append(part, r.q(g))
 			}
 			name := fmt.Sprintf("sort_%d", i+1)
-			extra = append(extra, "max(CASE WHEN "+r.q(GroupingColumn)+" = "+fmt.Sprint(anc)+" THEN "+
+			// The subtotal of a row's group at level i is the row of its
+			// partition (the same groups 0..i, rolled up or not) where
+			// every later group is rolled up: with --totals all an earlier
+			// group may be rolled up too, so the test reads only the later
+			// groups' bits.
+			extra = append(extra, "max(CASE WHEN "+r.d.BitAnd(r.q(GroupingColumn), fmt.Sprint(anc))+" = "+fmt.Sprint(anc)+" THEN "+
 				r.q(r.p.OrderBy.Name)+" END) OVER (PARTITION BY "+strings.Join(part, ", ")+") AS "+r.q(name))
 		}
 		next := r.cteName("result_sorted")

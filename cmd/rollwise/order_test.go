@@ -1,6 +1,10 @@
 package main
 
-import "testing"
+import (
+	"fmt"
+	"strings"
+	"testing"
+)
 
 // With subtotals, --order sorts level by level: regions by their subtotal
 // (North 25, no region 20, South 15), items inside a region by their own
@@ -29,4 +33,27 @@ func TestOrderAndLimitWithSubtotals(t *testing.T) {
 		{"stores.region": "North", "sales.item": nil, "revenue": "25", "rolled_up": item},
 		{"stores.region": nil, "sales.item": nil, "revenue": "60", "rolled_up": all}, // over every row, not the two shown
 	})
+}
+
+// With --totals all and three group columns, the rows that roll up the
+// first column (stores.region) still sort their items by the item's own
+// subtotal (issue 13, bug 3): tulip 12, rose 8 + 10 = 18, fern 10 + 20 =
+// 30, ascending. The sort key once read only one grouping id, found no
+// subtotal for them and sorted the items by name (fern, rose, tulip).
+func TestOrderTotalsAllThreeColumns(t *testing.T) {
+	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item,districts.area", "--order", "revenue", "--totals", "all")
+	var seq []string
+	for _, r := range got {
+		if fmt.Sprint(r["rolled_up"]) == "[stores.region]" {
+			seq = append(seq, fmt.Sprintf("%v/%v=%v", r["sales.item"], r["districts.area"], r["revenue"]))
+		}
+	}
+	want := []string{
+		"tulip/Coast=12",                // tulip's subtotal 12 (store 3, Coast)
+		"rose/Coast=8", "rose/Hills=10", // rose's 18: 5 (store 2) + 3 (store 3) in Coast, 10 in Hills
+		"fern/Hills=10", "fern/<nil>=20", // fern's 30: 10 in Hills, 20 unmatched
+	}
+	if strings.Join(seq, " ") != strings.Join(want, " ") {
+		t.Errorf("rows rolling up stores.region:\n got %v\nwant %v", seq, want)
+	}
 }

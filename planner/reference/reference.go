@@ -318,23 +318,22 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 
 // subtotalValues returns, for a row and a level i (below the last group),
 // the value of measure ob at the row's subtotal of level i: the row with
-// the same values of groups 0..i that rolls up exactly the groups after
-// i. It is NULL for a row that rolls up one of groups 0..i.
+// the same values of groups 0..i, rolled up where the row rolls them up
+// (with --totals all an earlier group may be), that rolls up every group
+// after i.
 func subtotalValues(rows []Row, n, ob int) func(Row, int) Value {
 	at := map[string]Value{}
+	key := func(r Row, i int) string {
+		return fmt.Sprint(i, r.RolledUp[:i+1]) + "|" + tupleKey(r.Groups[:i+1])
+	}
 	for _, r := range rows {
 		for i := 0; i < n-1; i++ {
-			if slices.Equal(r.RolledUp[:i+1], make([]bool, i+1)) && !slices.Contains(r.RolledUp[i+1:], false) {
-				at[fmt.Sprint(i)+"|"+tupleKey(r.Groups[:i+1])] = r.Measures[ob]
+			if !slices.Contains(r.RolledUp[i+1:], false) {
+				at[key(r, i)] = r.Measures[ob]
 			}
 		}
 	}
-	return func(r Row, i int) Value {
-		if slices.Contains(r.RolledUp[:i+1], true) {
-			return nil
-		}
-		return at[fmt.Sprint(i)+"|"+tupleKey(r.Groups[:i+1])]
-	}
+	return func(r Row, i int) Value { return at[key(r, i)] }
 }
 
 func boolCmp(a, b bool) int {

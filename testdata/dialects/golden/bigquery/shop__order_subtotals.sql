@@ -34,7 +34,7 @@ WITH `sales_rows` AS (
     `revenue`,
     `units`,
     `grouping_id`,
-    max(CASE WHEN `grouping_id` = 1 THEN `revenue` END) OVER (PARTITION BY (`grouping_id` & 2), `stores__region`) AS `sort_1`
+    max(CASE WHEN (`grouping_id` & 1) = 1 THEN `revenue` END) OVER (PARTITION BY (`grouping_id` & 2), `stores__region`) AS `sort_1`
   FROM `result`
 ),
 `result_ranked` AS (
