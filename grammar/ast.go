@@ -25,12 +25,15 @@ type StringLit struct {
 	Value string
 }
 
-// TableDecl is `table NAME [at "REL"] [from "FILE"] { ... }`.
+// TableDecl is `table NAME [at "REL"] [from "FILE"] [with null "TEXT", ...] { ... }`.
 type TableDecl struct {
-	Pos     Pos
-	Name    Ident
-	At      *StringLit
-	From    *StringLit
+	Pos  Pos
+	Name Ident
+	At   *StringLit
+	From *StringLit
+	// Nulls are the texts that stand for NULL in the table's CSV files,
+	// besides the empty field.
+	Nulls   []*StringLit
 	Key     []Ident
 	KeyPos  Pos
 	Columns []*ColumnDecl

@@ -100,6 +100,9 @@ func (d *syntaxDecl) addTo(f *File) {
 
 func (t *syntaxTable) decl() *TableDecl {
 	td := &TableDecl{Pos: pos(t.Pos), Name: t.Name.ident(), At: t.At.lit(), From: t.From.lit()}
+	for _, n := range t.Nulls {
+		td.Nulls = append(td.Nulls, n.lit())
+	}
 	for _, it := range t.Items {
 		switch {
 		case it.Key != nil:

@@ -82,13 +82,14 @@ type syntaxRef struct {
 	Second *syntaxMember `parser:"(\".\" @@)?"`
 }
 
-// Table = "table" Name ("at" DString)? ("from" DString)? "{" Item* "}" .
+// Table = "table" Name ("at" DString)? ("from" DString)? ("with" "null" DString ("," DString)*)? "{" Item* "}" .
 type syntaxTable struct {
 	Pos   lexer.Position
-	Name  *syntaxName   `parser:"\"table\" @@"`
-	At    *syntaxString `parser:"(\"at\" @@)?"`
-	From  *syntaxString `parser:"(\"from\" @@)?"`
-	Items []*syntaxItem `parser:"\"{\" @@* \"}\""`
+	Name  *syntaxName     `parser:"\"table\" @@"`
+	At    *syntaxString   `parser:"(\"at\" @@)?"`
+	From  *syntaxString   `parser:"(\"from\" @@)?"`
+	Nulls []*syntaxString `parser:"(\"with\" \"null\" @@ (\",\" @@)*)?"`
+	Items []*syntaxItem   `parser:"\"{\" @@* \"}\""`
 }
 
 // DString is a double-quoted string with its position.

@@ -184,3 +184,8 @@ func TestQueryErrorsHavePositions(t *testing.T) {
 		t.Errorf("got:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
 	}
 }
+
+func TestNullTextDeclaredTwice(t *testing.T) {
+	expectErrors(t, "table notes with null \"NA\", \"-\", \"NA\" {\n  key id\n  id integer\n}\n",
+		at(0, 34)+`: error: "NA" is already a NULL text of table notes | hint: write each text once`)
+}

@@ -70,10 +70,13 @@ type Table struct {
 	Relation []string
 	// File is the data file the embedded engine reads (already joined
 	// with the model file's folder), or "".
-	File    string
-	Pos     grammar.Pos
-	Key     []*Column
-	Columns []*Column
+	File string
+	// NullTexts are the texts that stand for NULL in the table's CSV
+	// files, besides the empty field (`with null "NA"`).
+	NullTexts []string
+	Pos       grammar.Pos
+	Key       []*Column
+	Columns   []*Column
 	// Links are this table's many-to-one links to other tables.
 	Links []*Link
 

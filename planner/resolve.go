@@ -3,6 +3,7 @@ package planner
 import (
 	"fmt"
 	"path/filepath"
+	"slices"
 	"sort"
 	"strings"
 
@@ -94,6 +95,14 @@ func (r *resolver) declareTable(f *grammar.File, td *grammar.TableDecl) {
 			}
 		}
 		t.Relation = parts
+	}
+	for _, n := range td.Nulls {
+		if slices.Contains(t.NullTexts, n.Value) {
+			r.diags.Errorf(n.Pos, "duplicate-null", "%q is already a NULL text of table %s", n.Value, name).
+				Suggestion = "write each text once"
+			continue
+		}
+		t.NullTexts = append(t.NullTexts, n.Value)
 	}
 	if td.From != nil {
 		t.File = td.From.Value

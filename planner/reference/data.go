@@ -7,6 +7,7 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -44,7 +45,8 @@ type derivedCache struct {
 
 // Load reads every table of m from its CSV file (with dataDir set,
 // dataDir/NAME.csv instead), each stored column in its declared type.
-// Empty fields are NULL.
+// Empty fields are NULL, and so are the texts the table declares with
+// `with null`.
 func Load(m *planner.Model, dataDir string) (*Data, error) {
 	if m == nil {
 		return nil, errors.New("reference: no model")
@@ -134,7 +136,11 @@ func readTable(t *planner.Table, file string) (*tableData, error) {
 			if at[i] >= len(rec) {
 				return nil, fmt.Errorf("%s:%d: the record has no field for %s", file, line, c)
 			}
-			v, err := parseField(rec[at[i]], c.Type)
+			field := rec[at[i]]
+			if slices.Contains(t.NullTexts, field) {
+				field = ""
+			}
+			v, err := parseField(field, c.Type)
 			if err != nil {
 				return nil, fmt.Errorf("%s:%d: column %s: %v", file, line, c, err)
 			}

@@ -37,6 +37,10 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 	if err != nil {
 		return err
 	}
+	nulls, err := r.nullTexts()
+	if err != nil {
+		return err
+	}
 	readTypes := make([]string, len(header))
 	for i := range readTypes {
 		readTypes[i] = "VARCHAR"
@@ -52,9 +56,9 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 		readTypes[at[i]] = c.duckType
 		selects[i] = field + " AS " + quoteIdent(c.name)
 	}
-	q := fmt.Sprintf("CREATE TABLE %s AS SELECT %s FROM %s", r.sqlName(), strings.Join(selects, ", "), csvReader(r.file, readTypes))
+	q := fmt.Sprintf("CREATE TABLE %s AS SELECT %s FROM %s", r.sqlName(), strings.Join(selects, ", "), csvReader(r.file, readTypes, nulls))
 	if _, err := conn.ExecContext(ctx, q); err != nil {
-		if derr := diagnoseCSV(ctx, conn, r, at, len(header)); derr != nil {
+		if derr := diagnoseCSV(ctx, conn, r, at, len(header), nulls); derr != nil {
 			return derr
 		}
 		return fmt.Errorf("table %s: %s: %s", r.tables[0].Name, r.file, firstParagraph(err.Error()))
@@ -84,14 +88,34 @@ func scaleOf(t planner.Type) int {
 func fieldName(i int) string { return fmt.Sprintf("c%d", i) }
 
 // csvReader is a read_csv call with every setting explicit, so that
-// nothing is guessed from the data: types[i] is the type of field i.
-func csvReader(file string, types []string) string {
+// nothing is guessed from the data: types[i] is the type of field i, and
+// the empty field and each of nulls read as NULL.
+func csvReader(file string, types, nulls []string) string {
 	cols := make([]string, len(types))
 	for i, t := range types {
 		cols[i] = quoteString(fieldName(i)) + ": " + quoteString(t)
 	}
-	return fmt.Sprintf("read_csv(%s, header = true, auto_detect = false, delim = ',', quote = '\"', escape = '\"', columns = {%s})",
-		quoteString(file), strings.Join(cols, ", "))
+	nullstr := []string{quoteString("")}
+	for _, n := range nulls {
+		nullstr = append(nullstr, quoteString(n))
+	}
+	return fmt.Sprintf("read_csv(%s, header = true, auto_detect = false, delim = ',', quote = '\"', escape = '\"', nullstr = [%s], columns = {%s})",
+		quoteString(file), strings.Join(nullstr, ", "), strings.Join(cols, ", "))
+}
+
+// nullTexts are the texts that stand for NULL in r's file, as its tables
+// declare them (`with null "NA"`). Tables that read one file must agree,
+// or one of them would read a value the other reads as NULL.
+func (r *relation) nullTexts() ([]string, error) {
+	first := r.tables[0]
+	for _, t := range r.tables[1:] {
+		a, b := slices.Sorted(slices.Values(first.NullTexts)), slices.Sorted(slices.Values(t.NullTexts))
+		if !slices.Equal(a, b) {
+			return nil, fmt.Errorf("tables %s and %s read %s but declare different NULL texts (%q and %q); give both the same `with null` list",
+				first.Name, t.Name, r.file, first.NullTexts, t.NullTexts)
+		}
+	}
+	return first.NullTexts, nil
 }
 
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
@@ -171,7 +195,7 @@ const maxBadValues = 20
 // line, column and what to write instead, and a count of all of them. It
 // returns nil when it finds none, or an error of its own when even text
 // cannot be read (a malformed file).
-func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fields int) error {
+func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fields int, nulls []string) error {
 	types := make([]string, fields)
 	for i := range types {
 		types[i] = "VARCHAR"
@@ -181,7 +205,7 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 		selects[i] = fmt.Sprintf("%s AS k%d", fieldName(at[i]), i)
 	}
 	const check = "rollwise_csv_check"
-	q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS SELECT %s FROM %s", check, strings.Join(selects, ", "), csvReader(r.file, types))
+	q := fmt.Sprintf("CREATE OR REPLACE TEMP TABLE %s AS SELECT %s FROM %s", check, strings.Join(selects, ", "), csvReader(r.file, types, nulls))
 	if _, err := conn.ExecContext(ctx, q); err != nil {
 		return fmt.Errorf("table %s: %s: %s", r.tables[0].Name, r.file, firstParagraph(err.Error()))
 	}
@@ -238,7 +262,7 @@ func badCSVValues(ctx context.Context, conn *sql.Conn, c column, at int, q strin
 	defer rows.Close()
 	var out []badValue
 	for rows.Next() {
-		b := badValue{col: c, at: at}
+		b := badValue{col: c, at: at, csv: true}
 		if err := rows.Scan(&b.row, &b.value, &b.unreadable, &b.numeric); err != nil {
 			return nil, err
 		}
@@ -255,6 +279,7 @@ type badValue struct {
 	value      string
 	unreadable bool // not a value of the type as written (textUnreadable)
 	numeric    bool // spelled as a number (textNumeric)
+	csv        bool // read from a CSV file, where `with null` applies
 }
 
 // explain says what is wrong with the value and what to do.
@@ -273,6 +298,22 @@ func (b *badValue) explain() string {
 		}
 		return fmt.Sprintf("%q would change when stored as %s", v, b.col.typ)
 	}
+	if b.csv && missingMark(v) {
+		return b.explainAs() + fmt.Sprintf("; if %q stands for a missing value, declare it on the table: with null %q", v, v)
+	}
+	return b.explainAs()
+}
+
+// missingMark reports whether v looks like a mark for a missing value
+// (NA, n/a, -, ?, null, none): short, with no digit.
+func missingMark(v string) bool {
+	return len(v) <= 8 && !strings.ContainsAny(v, "0123456789")
+}
+
+// explainAs says that an unreadable value is not of the column's type and
+// how to write one that is.
+func (b *badValue) explainAs() string {
+	v := b.value
 	switch b.col.typ {
 	case planner.TypeInteger:
 		if b.numeric {

@@ -62,3 +62,24 @@ func TestCSVBadValuesAreCappedAndCounted(t *testing.T) {
 		t.Errorf("error has %d lines:\n%v", len(lines), err)
 	}
 }
+
+// TestNullTextsOfOneFileMustAgree: two tables over one file that declare
+// different NULL texts are refused, since one would read as NULL a value
+// the other reads as it is.
+func TestNullTextsOfOneFileMustAgree(t *testing.T) {
+	file := writeFile(t, t.TempDir(), "t.csv", "id,qty\n1,NA\n")
+	a := table("a", []string{"t"}, file, col("id", planner.TypeInteger), col("qty", planner.TypeInteger))
+	b := table("b", []string{"t"}, file, col("id", planner.TypeInteger))
+	a.NullTexts = []string{"NA"}
+	expectOpenError(t, model(a, b), "", "tables a and b read", `different NULL texts (["NA"] and [])`, "same `with null` list")
+	b.NullTexts = []string{"NA"}
+	db, err := OpenDuckDB(context.Background(), model(a, b), "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	res := query(t, db, `SELECT count(*), count("qty") FROM "t"`)
+	if fmt.Sprint(res.Rows) != "[[1 0]]" {
+		t.Errorf("rows %v, want one row whose qty is NULL", res.Rows)
+	}
+}
