@@ -96,7 +96,7 @@ func TestInnerJoinsFromRowFilters(t *testing.T) {
 		{"sales.qty > 1", "sales:"},
 		{"sales.store_id = 1", "sales:"},
 		{"stores.region is null", "sales:"},
-		{"not (stores.region is null)", "sales:"}, // exact, but not recognised
+		{"not (stores.region is null)", "sales: stores"}, // stores.region is not null, once the not is pushed inward
 		{"stores.region = 'North' or stores.region is null", "sales:"},
 		{"stores.region = 'North' or sales.qty > 1", "sales:"},
 		{"coalesce(stores.region, 'x') = 'x'", "sales:"},

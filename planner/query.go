@@ -172,11 +172,57 @@ func (r *resolver) byColumn(ref string, p grammar.Pos) *Column {
 }
 
 // Conjuncts splits a predicate at its top-level `and`s.
+//
+// Negations are pushed inward first (negationsInward), so that two
+// equivalent filters split alike: not (a or b) gives the two conjuncts
+// not a and not b, and an edit that drops a's column keeps not b.
 func Conjuncts(e Expr) []Expr {
+	return splitAnd(negationsInward(e))
+}
+
+func splitAnd(e Expr) []Expr {
 	if b, ok := e.(*BinOp); ok && b.Op == "and" {
-		return append(Conjuncts(b.L), Conjuncts(b.R)...)
+		return append(splitAnd(b.L), splitAnd(b.R)...)
 	}
 	return []Expr{e}
+}
+
+// negationsInward rewrites a predicate so that not applies only to
+// predicates that are neither and, or, not, in nor is null: De Morgan's
+// laws, which hold in SQL's three-valued logic, and not (x in L) = x not
+// in L, not (x is null) = x is not null.
+func negationsInward(e Expr) Expr {
+	switch x := e.(type) {
+	case *UnOp:
+		if x.Op == "not" {
+			return negated(x.X, x.Pos)
+		}
+	case *BinOp:
+		if x.Op == "and" || x.Op == "or" {
+			return &BinOp{Pos: x.Pos, Op: x.Op, L: negationsInward(x.L), R: negationsInward(x.R), T: x.T}
+		}
+	}
+	return e
+}
+
+// negated is not e with the negation pushed inward; pos is the not's.
+func negated(e Expr, pos grammar.Pos) Expr {
+	switch x := e.(type) {
+	case *UnOp:
+		if x.Op == "not" {
+			return negationsInward(x.X)
+		}
+	case *BinOp:
+		if x.Op == "and" || x.Op == "or" {
+			op := map[string]string{"and": "or", "or": "and"}[x.Op]
+			return &BinOp{Pos: x.Pos, Op: op, L: negated(x.L, pos), R: negated(x.R, pos), T: x.T}
+		}
+	case *InExpr:
+		return &InExpr{Pos: x.Pos, X: x.X, List: x.List, Not: !x.Not}
+	case *IsNullExpr:
+		return &IsNullExpr{Pos: x.Pos, X: x.X, Not: !x.Not}
+	}
+	return &UnOp{Pos: pos, Op: "not", X: e}
 }
 
 // ViewQuery is the query a view block declares.

@@ -148,3 +148,20 @@ func TestEditsAsWindows(t *testing.T) {
 		{"stores.region": nil, "sales.item": nil, "revenue": "60", "item_share": 1.0, "shown_share": 1.0, "rose_rev": "18", "region_share": 1.0},
 	})
 }
+
+// Negations are pushed inward before a filter is split into conjuncts
+// (issue 13, rule 7), so that two equivalent filters give one value. The
+// kept lines: North roses, 10 + 5 = 15. item_share divides by revenue
+// with sales.item dropped: only the conjunct not (item = fern) goes, and
+// region <> South keeps the North lines, 10 + 10 + 5 = 25: 15 / 25 = 0.6.
+// Before, not (a or b) was one conjunct that the drop removed whole:
+// 15 / 60 = 0.25.
+func TestNegatedFilterSplitsLikeItsEquivalent(t *testing.T) {
+	for _, w := range []string{
+		"not (sales.item = 'fern' or stores.region = 'South')",
+		"not sales.item = 'fern' and not stores.region = 'South'",
+	} {
+		got := runEdits(t, "-m", "revenue,item_share", "-w", w)
+		expectRows(t, got, []row{{"revenue": "15.00", "item_share": 0.6}})
+	}
+}

@@ -456,11 +456,15 @@ func (g *gen) predicate(ts []*table) string {
 		return "1 = 1"
 	}
 	p := g.atom(g.col(cols))
-	switch g.intn(0, 5) {
+	switch g.intn(0, 6) {
 	case 0:
 		return "not (" + p + ")"
 	case 1:
 		return "(" + p + " or " + g.atom(g.col(cols)) + ")"
+	case 2:
+		// Split into two conjuncts once negations are pushed inward: an
+		// edit that drops one column keeps the other's.
+		return "not (" + p + " or " + g.atom(g.col(cols)) + ")"
 	}
 	return p
 }
