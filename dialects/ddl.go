@@ -105,7 +105,7 @@ func RenderView(p *planner.Plan, d Dialect) (string, error) {
 	}
 	// Render ends with ORDER BY exactly when it sorts by a measure or by
 	// group values.
-	if !ddl.OrderBy && (p.OrderBy != nil || len(p.Query.Groups) > 0) {
+	if !ddl.OrderBy && (len(p.Order) > 0 || len(p.Query.Groups) > 0) {
 		sql = withoutOrderBy(sql)
 	}
 	return sql, nil

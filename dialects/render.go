@@ -147,7 +147,7 @@ func (r *renderer) render() (string, error) {
 	}
 	cols = append(cols, r.keyCol(root, GroupingColumn))
 	body := "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM " + from
-	if r.p.OrderBy == nil && q.Limit == 0 {
+	if len(r.p.Order) == 0 && q.Limit == 0 {
 		order := r.orderBy(single)
 		sql := "WITH " + strings.Join(r.ctes, ",\n") + "\n" + body
 		if len(order) > 0 {
@@ -270,7 +270,7 @@ func (r *renderer) keyCol(ctx *planner.Context, name string) string {
 }
 
 // orderBy sorts rows by the group values, NULLs last, each total row after
-// its group; with --order, detail rows first, by the measure.
+// its group; with --order, detail rows first, by the keys in turn.
 func (r *renderer) orderBy(plain bool) []string {
 	q := r.p.Query
 	col := func(name string) string {
@@ -281,18 +281,26 @@ func (r *renderer) orderBy(plain bool) []string {
 	}
 	gid := col(GroupingColumn)
 	var out []string
-	if r.p.OrderBy != nil {
-		if len(r.p.Sets) > 1 {
-			out = append(out, "CASE WHEN "+gid+" = 0 THEN 0 ELSE 1 END")
+	if len(r.p.Order) > 0 && len(r.p.Sets) > 1 {
+		out = append(out, "CASE WHEN "+gid+" = 0 THEN 0 ELSE 1 END")
+	}
+	keyed := map[string]bool{}
+	for _, k := range r.p.Order {
+		if k.Output != nil {
+			out = append(out, OrderKey(r.d, r.q(k.Output.Name), k.Desc)...)
+		} else {
+			out = append(out, OrderKey(r.d, col(k.Group), k.Desc)...)
+			keyed[k.Group] = true
 		}
-		out = append(out, OrderKey(r.d, r.q(r.p.OrderBy.Name), q.Desc)...)
 	}
 	n := len(q.Groups)
 	for i, g := range q.GroupNames {
 		if len(r.p.Sets) > 1 {
 			out = append(out, r.d.BitAnd(gid, fmt.Sprint(uint64(1)<<(n-1-i))))
 		}
-		out = append(out, OrderKey(r.d, col(g), false)...)
+		if !keyed[g] {
+			out = append(out, OrderKey(r.d, col(g), false)...)
+		}
 	}
 	return out
 }

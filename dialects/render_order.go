@@ -6,13 +6,15 @@ import (
 	"strings"
 )
 
-// sorted finishes a statement whose rows are sorted by a measure or cut by
-// --limit. The report's rows go to a CTE; then:
+// sorted finishes a statement whose rows are sorted by --order keys or cut
+// by --limit. The report's rows go to a CTE; then:
 //
-//   - with total rows in a hierarchy (rollup, all), each group is sorted by
-//     the measure at its own subtotal, level by level, and each subtotal
-//     stays after its group; without, detail rows are sorted by the measure
-//     and total rows follow;
+//   - with total rows in a hierarchy (rollup, all), level by level: the
+//     groups of level i are sorted by the keys that mean something there,
+//     in the order given (each measure key at the group's own subtotal,
+//     the key on group i itself), then by group i's value, and each
+//     subtotal stays after its group; without a hierarchy, detail rows
+//     are sorted by the keys and total rows follow;
 //   - --limit N keeps the first N detail rows in that order, the total rows
 //     of the groups they belong to, and the grand total. Without total rows
 //     that is the first N rows: a LIMIT (TOP on SQL Server) on the final
@@ -24,10 +26,13 @@ func (r *renderer) sorted(body string) (string, error) {
 	cols := r.resultColumns()
 	prev := r.cteName("result")
 	r.addCTE(prev, indent(body))
-	hier := r.p.OrderBy != nil && n > 1 && slices.Contains(r.p.Sets, uint64(1))
+	hier := len(r.p.Order) > 0 && n > 1 && slices.Contains(r.p.Sets, uint64(1))
 	var keys []string
 	if hier {
 		var extra []string
+		// sortCols[i][k] is the column holding measure key k at the
+		// subtotal of group i's level.
+		sortCols := make([]map[int]string, n-1)
 		for i := 0; i < n-1; i++ {
 			anc := uint64(1)<<(n-1-i) - 1
 			hi := (uint64(1)<<n - 1) &^ anc
@@ -35,29 +40,54 @@ func (r *renderer) sorted(body string) (string, error) {
 			for _, g := range q.GroupNames[:i+1] {
 				part = append(part, r.q(g))
 			}
-			name := fmt.Sprintf("sort_%d", i+1)
-			// The subtotal of a row's group at level i is the row of its
-			// partition (the same groups 0..i, rolled up or not) where
-			// every later group is rolled up: with --totals all an earlier
-			// group may be rolled up too, so the test reads only the later
-			// groups' bits.
-			extra = append(extra, "max(CASE WHEN "+r.d.BitAnd(r.q(GroupingColumn), fmt.Sprint(anc))+" = "+fmt.Sprint(anc)+" THEN "+
-				r.q(r.p.OrderBy.Name)+" END) OVER (PARTITION BY "+strings.Join(part, ", ")+") AS "+r.q(name))
+			sortCols[i] = map[int]string{}
+			nth := 0
+			for k, key := range r.p.Order {
+				if key.Output == nil {
+					continue
+				}
+				nth++
+				name := fmt.Sprintf("sort_%d", i+1)
+				if nth > 1 {
+					name = fmt.Sprintf("sort_%d_%d", i+1, nth)
+				}
+				sortCols[i][k] = name
+				// The subtotal of a row's group at level i is the row of
+				// its partition (the same groups 0..i, rolled up or not)
+				// where every later group is rolled up: with --totals all
+				// an earlier group may be rolled up too, so the test reads
+				// only the later groups' bits.
+				extra = append(extra, "max(CASE WHEN "+r.d.BitAnd(r.q(GroupingColumn), fmt.Sprint(anc))+" = "+fmt.Sprint(anc)+" THEN "+
+					r.q(key.Output.Name)+" END) OVER (PARTITION BY "+strings.Join(part, ", ")+") AS "+r.q(name))
+			}
 		}
 		next := r.cteName("result_sorted")
 		r.addCTE(next, "  SELECT\n    "+strings.Join(append(append([]string{}, cols...), extra...), ",\n    ")+"\n  FROM "+r.q(prev))
-		for i := 1; i < n; i++ {
-			cols = append(cols, r.q(fmt.Sprintf("sort_%d", i)))
+		for i := range sortCols {
+			for k := range r.p.Order {
+				if name, ok := sortCols[i][k]; ok {
+					cols = append(cols, r.q(name))
+				}
+			}
 		}
 		prev = next
 		for i, g := range q.GroupNames {
 			keys = append(keys, r.d.BitAnd(r.q(GroupingColumn), fmt.Sprint(uint64(1)<<(n-1-i))))
-			if i < n-1 {
-				keys = append(keys, OrderKey(r.d, r.q(fmt.Sprintf("sort_%d", i+1)), q.Desc)...)
-			} else {
-				keys = append(keys, OrderKey(r.d, r.q(r.p.OrderBy.Name), q.Desc)...)
+			ownKey := false
+			for k, key := range r.p.Order {
+				switch {
+				case key.Output != nil && i < n-1:
+					keys = append(keys, OrderKey(r.d, r.q(sortCols[i][k]), key.Desc)...)
+				case key.Output != nil:
+					keys = append(keys, OrderKey(r.d, r.q(key.Output.Name), key.Desc)...)
+				case key.Group == g:
+					keys = append(keys, OrderKey(r.d, r.q(g), key.Desc)...)
+					ownKey = true
+				}
 			}
-			keys = append(keys, OrderKey(r.d, r.q(g), false)...)
+			if !ownKey {
+				keys = append(keys, OrderKey(r.d, r.q(g), false)...)
+			}
 		}
 	} else {
 		keys = r.orderBy(true)

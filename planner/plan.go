@@ -19,12 +19,21 @@ type Plan struct {
 	Sets    []uint64
 	Root    *Context
 	Outputs []*Output
-	// OrderBy is the output the detail rows are sorted by, or nil.
-	OrderBy *Output
+	// Order is the keys the detail rows are sorted by (--order), or nil
+	// for the default order by the group values.
+	Order []SortKey
 	// Scans lists every scan of every context, in creation order.
 	Scans []*Scan
 	// Cautions are things the reader of the numbers should know.
 	Cautions []string
+}
+
+// SortKey is a key of the report's order: an output (a measure), or,
+// when Output is nil, the group column named Group.
+type SortKey struct {
+	Output *Output
+	Group  string
+	Desc   bool
 }
 
 // Key is a key column of a context: a query group, or a per-grain column.

@@ -57,11 +57,21 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 			pl.base(root, t)
 		}
 		if e := pl.compile(root, m.Expr, start); e != nil {
-			out := &Output{Name: m.Name, Measure: m, Expr: e}
-			pl.p.Outputs = append(pl.p.Outputs, out)
-			if q.OrderBy == m {
-				pl.p.OrderBy = out
+			pl.p.Outputs = append(pl.p.Outputs, &Output{Name: m.Name, Measure: m, Expr: e})
+		}
+	}
+	for _, k := range q.Order {
+		key := SortKey{Desc: k.Desc}
+		if k.Measure == nil {
+			key.Group = q.GroupNames[k.Group]
+		}
+		for _, out := range pl.p.Outputs {
+			if k.Measure != nil && out.Measure == k.Measure {
+				key.Output = out
 			}
+		}
+		if k.Measure == nil || key.Output != nil {
+			pl.p.Order = append(pl.p.Order, key)
 		}
 	}
 	if !pl.diags.HasErrors() {

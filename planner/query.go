@@ -17,9 +17,9 @@ type Query struct {
 	// Filters are the --where conjuncts (row predicates).
 	Filters []Expr
 	Totals  TotalsMode
-	// OrderBy is nil for the default order (by the group values).
-	OrderBy *Measure
-	Desc    bool
+	// Order is the --order keys; empty for the default order (by the
+	// group values).
+	Order []OrderKey
 	// Limit cuts the detail rows; 0 means no limit.
 	Limit int
 
@@ -38,32 +38,10 @@ func (q *Query) Override(spec QuerySpec) grammar.Diagnostics {
 		diags.Errorf(grammar.Pos{File: "--totals"}, "usage", "unknown totals mode %q", spec.Totals).Suggestion =
 			"write none, grand, rollup or all"
 	}
-	if o := strings.Fields(spec.Order); len(o) > 0 {
-		p := grammar.Pos{File: "--order", Line: 1, Col: 1}
-		q.OrderBy = q.model.Measure(o[0])
-		switch {
-		case q.OrderBy == nil:
-			var names []string
-			for _, x := range q.model.Measures {
-				names = append(names, x.Name)
-			}
-			d := diags.Errorf(p, "unknown-measure", "--order names '%s', which is not a measure", o[0])
-			if near := grammar.Closest(o[0], names); near != "" {
-				d.Message += fmt.Sprintf("; did you mean '%s'?", near)
-			}
-		case len(o) > 2 || len(o) == 2 && !strings.EqualFold(o[1], "desc") && !strings.EqualFold(o[1], "asc"):
-			diags.Errorf(p, "usage", "--order takes a measure and an optional asc or desc, not %q", spec.Order)
-		default:
-			q.Desc = len(o) == 2 && strings.EqualFold(o[1], "desc")
-			found := false
-			for _, mm := range q.Measures {
-				found = found || mm == q.OrderBy
-			}
-			if !found {
-				diags.Errorf(p, "usage", "--order names %s, which the query does not ask for", o[0]).Suggestion =
-					"add it to --measures"
-			}
-		}
+	if strings.TrimSpace(spec.Order) != "" {
+		keys, d := q.parseOrder(spec.Order)
+		diags.Append(d)
+		q.Order = keys
 	}
 	if spec.Limit < 0 {
 		diags.Errorf(grammar.Pos{File: "--limit"}, "usage", "--limit must be a positive number, not %d", spec.Limit)

@@ -57,3 +57,55 @@ func TestOrderTotalsAllThreeColumns(t *testing.T) {
 		t.Errorf("rows rolling up stores.region:\n got %v\nwant %v", seq, want)
 	}
 }
+
+// --order takes several keys, measures and --by columns, each asc or desc
+// (issue 16): regions descending with NULL last, then revenue ascending
+// inside each region. Revenue per region and item (shop.roll): North rose
+// 15 (10+5), fern 10; no region fern 20; South tulip 12, rose 3.
+func TestOrderSeveralKeys(t *testing.T) {
+	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item", "--order", "stores.region desc, revenue")
+	expectRows(t, got, []row{
+		{"stores.region": "South", "sales.item": "rose", "revenue": "3"},
+		{"stores.region": "South", "sales.item": "tulip", "revenue": "12"},
+		{"stores.region": "North", "sales.item": "fern", "revenue": "10"},
+		{"stores.region": "North", "sales.item": "rose", "revenue": "15"},
+		{"stores.region": nil, "sales.item": "fern", "revenue": "20"},
+	})
+	// With subtotals, level by level: regions by revenue at their subtotal
+	// (North 25, none 20, South 15; the item key means nothing there),
+	// then items by name descending inside each region.
+	item := []string{"sales.item"}
+	got = runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item", "--order", "sales.item desc, revenue desc", "--totals", "rollup")
+	expectRows(t, got, []row{
+		{"stores.region": "North", "sales.item": "rose", "revenue": "15"},
+		{"stores.region": "North", "sales.item": "fern", "revenue": "10"},
+		{"stores.region": "North", "sales.item": nil, "revenue": "25", "rolled_up": item},
+		{"stores.region": nil, "sales.item": "fern", "revenue": "20"},
+		{"stores.region": nil, "sales.item": nil, "revenue": "20", "rolled_up": item},
+		{"stores.region": "South", "sales.item": "tulip", "revenue": "12"},
+		{"stores.region": "South", "sales.item": "rose", "revenue": "3"},
+		{"stores.region": "South", "sales.item": nil, "revenue": "15", "rolled_up": item},
+		{"stores.region": nil, "sales.item": nil, "revenue": "60", "rolled_up": []string{"stores.region", "sales.item"}},
+	})
+}
+
+// Each --order key is checked with its position in the option.
+func TestOrderKeyErrors(t *testing.T) {
+	cases := []struct {
+		order, want string
+		exit        int
+	}{
+		{"revenue desc, districts.area", "--order:1:15: error: --order names districts.area, which is not a --by column of the query", exitUsage},
+		{"revenue, revnue", "--order:1:10: error: --order names 'revnue', which is not a measure; did you mean 'revenue'?", exitFindings},
+		{"revenue, revenue desc", "--order:1:10: error: --order names revenue twice", exitUsage},
+		{"revenue sideways", `--order:1:1: error: --order key "revenue sideways" is not a name and an optional asc or desc`, exitUsage},
+		{"units", "--order:1:1: error: --order names units, which the query does not ask for", exitUsage},
+	}
+	for _, c := range cases {
+		var out strings.Builder
+		code := Main([]string{"sql", shopModel, "-m", "revenue", "-b", "stores.region", "--order", c.order}, nil, &out, &out)
+		if code != c.exit || !strings.Contains(out.String(), c.want) {
+			t.Errorf("--order %q: exit %d\n%s\nwant %q", c.order, code, out.String(), c.want)
+		}
+	}
+}

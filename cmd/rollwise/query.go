@@ -33,7 +33,7 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
 	whereVar(f, &o.where)
 	onceStringVarP(f, &o.totals, "totals", "", "", "total rows: none, grand, rollup or all; default none, or with --view the view's own")
-	onceStringVarP(f, &o.order, "order", "", "", "sort detail rows by a measure: \"M\" or \"M desc\"")
+	onceStringVarP(f, &o.order, "order", "", "", "sort by keys, each a measure of -m or a column of -b, asc or desc: \"revenue desc, stores.city\"")
 	onceIntVar(f, &o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
 	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect")

@@ -209,42 +209,62 @@ func popcount(x int) int {
 //
 //   - without --order, by each group in turn: its values ascending, NULLs
 //     last, and its total rows right after them;
-//   - with --order M and totals in a hierarchy (rollup or all, two groups
-//     or more), level by level: at each group, its total rows last, then
-//     the groups by M at their own subtotal (the row that rolls up every
-//     later group), then by the group's value; at the last group by M
-//     itself. Each subtotal stays after its group;
-//   - with --order M otherwise, the detail rows first, then the total rows
-//     (the grand total, at most one), each by M (NULLs last in either
-//     direction), then by the group values.
+//   - with --order keys and totals in a hierarchy (rollup or all, two
+//     groups or more), level by level: at each group, its total rows last,
+//     then the groups by the keys in turn (a measure key at the group's
+//     own subtotal, the row that rolls up every later group, and at the
+//     last group the measure itself; a key on this group's column by its
+//     value; keys on other groups' columns are skipped), then by the
+//     group's value unless a key sorted by it. Each subtotal stays after
+//     its group;
+//   - with --order keys otherwise, the detail rows first, then the total
+//     rows (the grand total, at most one), each by the keys in turn (NULLs
+//     last in either direction), then by the other group values.
 //
 // --limit N keeps the first N detail rows, in that order, the total rows of
 // the groups they belong to, and the grand total (docs/language.md).
 func order(q *planner.Query, rows []Row) ([]Row, error) {
-	ob := -1
-	for i, m := range q.Measures {
-		if q.OrderBy != nil && m == q.OrderBy {
-			ob = i
+	// at[k] is the index among the measures of measure key k, or -1.
+	at := make([]int, len(q.Order))
+	for k, key := range q.Order {
+		at[k] = -1
+		for i, m := range q.Measures {
+			if key.Measure != nil && m == key.Measure {
+				at[k] = i
+			}
+		}
+		if key.Measure != nil && at[k] < 0 {
+			return nil, fmt.Errorf("--order names %s, which the query does not ask for", key.Measure.Name)
 		}
 	}
-	if q.OrderBy != nil && ob < 0 {
-		return nil, fmt.Errorf("--order names %s, which the query does not ask for", q.OrderBy.Name)
-	}
 	n := len(q.Groups)
-	hier := ob >= 0 && n > 1 && (q.Totals == planner.TotalsRollup || q.Totals == planner.TotalsAll)
+	hier := len(q.Order) > 0 && n > 1 && (q.Totals == planner.TotalsRollup || q.Totals == planner.TotalsAll)
 	var err error
-	var sortVal func(r Row, i int) Value
+	sortVal := map[int]func(r Row, i int) Value{}
 	if hier {
-		sortVal = subtotalValues(rows, n, ob)
+		for k := range q.Order {
+			if at[k] >= 0 {
+				sortVal[k] = subtotalValues(rows, n, at[k])
+			}
+		}
+	}
+	keyed := map[int]bool{}
+	for _, key := range q.Order {
+		if key.Measure == nil {
+			keyed[key.Group] = true
+		}
 	}
 	cmp := func(a, b Row) int {
-		if ob >= 0 && !hier {
+		if len(q.Order) > 0 && !hier {
 			da, db := slices.Contains(a.RolledUp, true), slices.Contains(b.RolledUp, true)
 			if da != db {
 				return boolCmp(da, db)
 			}
-			if c := nullsLast(a.Measures[ob], b.Measures[ob], q.Desc, &err); c != 0 {
-				return c
+			for k, key := range q.Order {
+				x, y := keyValues(a, b, key, at[k])
+				if c := nullsLast(x, y, key.Desc, &err); c != 0 {
+					return c
+				}
 			}
 		}
 		for i := range a.Groups {
@@ -252,15 +272,25 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 				return boolCmp(a.RolledUp[i], b.RolledUp[i])
 			}
 			if hier {
-				var x, y Value
-				if i < n-1 {
-					x, y = sortVal(a, i), sortVal(b, i)
-				} else {
-					x, y = a.Measures[ob], b.Measures[ob]
+				for k, key := range q.Order {
+					var x, y Value
+					switch {
+					case at[k] >= 0 && i < n-1:
+						x, y = sortVal[k](a, i), sortVal[k](b, i)
+					case at[k] >= 0:
+						x, y = a.Measures[at[k]], b.Measures[at[k]]
+					case key.Group == i:
+						x, y = a.Groups[i], b.Groups[i]
+					default:
+						continue
+					}
+					if c := nullsLast(x, y, key.Desc, &err); c != 0 {
+						return c
+					}
 				}
-				if c := nullsLast(x, y, q.Desc, &err); c != 0 {
-					return c
-				}
+			}
+			if keyed[i] {
+				continue
 			}
 			if c := nullsLast(a.Groups[i], b.Groups[i], false, &err); c != 0 {
 				return c
@@ -321,6 +351,15 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 // the same values of groups 0..i, rolled up where the row rolls them up
 // (with --totals all an earlier group may be), that rolls up every group
 // after i.
+// keyValues are the values of one --order key in rows a and b: measure
+// m's (at its index among the measures), or the key's group column's.
+func keyValues(a, b Row, key planner.OrderKey, m int) (Value, Value) {
+	if m >= 0 {
+		return a.Measures[m], b.Measures[m]
+	}
+	return a.Groups[key.Group], b.Groups[key.Group]
+}
+
 func subtotalValues(rows []Row, n, ob int) func(Row, int) Value {
 	at := map[string]Value{}
 	key := func(r Row, i int) string {

@@ -65,18 +65,25 @@ func (g *gen) drawQuery() (Query, bool) {
 	}
 	q.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
 	if g.chance(30) {
-		var exact []*measure
+		// One to three keys among the exact measures and the groups.
+		var cands []string
 		for _, m := range chosen {
-			if m.exact && m.kind == "num" {
-				exact = append(exact, m)
+			if m.exact && m.kind == "num" && !slices.Contains(cands, m.name) {
+				cands = append(cands, m.name)
 			}
 		}
-		if len(exact) > 0 {
-			q.Order = exact[g.pick(len(exact))].name
+		cands = append(cands, q.By...)
+		var keys []string
+		for i, nk := 0, g.intn(1, 3); i < nk && len(cands) > 0; i++ {
+			j := g.pick(len(cands))
+			key := cands[j]
+			cands = slices.Delete(cands, j, j+1)
 			if g.chance(50) {
-				q.Order += " desc"
+				key += " desc"
 			}
+			keys = append(keys, key)
 		}
+		q.Order = strings.Join(keys, ", ")
 	}
 	if g.chance(20) {
 		q.Limit = g.intn(1, 4)
