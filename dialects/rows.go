@@ -100,3 +100,22 @@ func UnmatchedRows(l *planner.Link, d Dialect) string {
 		" LEFT JOIN " + r.relation(l.To) + " AS " + to + " ON " + strings.Join(conds, " AND ") +
 		" WHERE " + to + "." + r.q(l.ToCols[0].Name) + " IS NULL"
 }
+
+// RepeatedRows are the statements that find the values of cols that occur
+// on more than one row of t's relation: Count selects how many such
+// values there are and how many rows hold them (0 and NULL where every
+// value is on one row at most); Example selects the most repeated one
+// (its columns, then its number of rows). A key that a table declares,
+// or a semiadditive column's key and date, must occur once.
+func RepeatedRows(t *planner.Table, cols []*planner.Column, d Dialect) (count, example string, err error) {
+	r := &renderer{d: d}
+	var names []string
+	for _, c := range cols {
+		names = append(names, r.q(c.Name))
+	}
+	group := " FROM " + r.relation(t) + " GROUP BY " + strings.Join(names, ", ") + " HAVING count(*) > 1"
+	count = "SELECT count(*), sum(" + r.q("n") + ") FROM (SELECT count(*) AS " + r.q("n") + group + ") AS " + r.q("repeated")
+	example, err = ApplyLimit(d, "SELECT "+strings.Join(names, ", ")+", count(*)"+group+
+		" ORDER BY count(*) DESC, "+strings.Join(names, ", "), 1)
+	return count, example, err
+}

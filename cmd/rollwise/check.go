@@ -41,7 +41,7 @@ func newCheckCmd(e *env) *cobra.Command {
 			return scrubDSN(o.dsn, runCheck(e, o))
 		},
 	}
-	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data that every link declared required finds its row (tables read as run reads them)")
+	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data every promise of the model: links declared required find their row, keys (and semiadditive columns' key and date) are unique (tables read as run reads them)")
 	cmd.Flags().StringVar(&o.data, "data", "", "with --required (implied): read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "with --required (implied): read the tables from a live database: postgres://..., mysql://... or sqlite:PATH")
 	return cmd
@@ -64,15 +64,13 @@ func runCheck(e *env, o *checkOptions) error {
 	}
 	held := ""
 	if o.required && !diags.HasErrors() {
-		d, err := checkRequired(context.Background(), m, o.data, o.dsn)
+		d, err := checkData(context.Background(), m, o.data, o.dsn)
 		if err != nil {
 			return err
 		}
 		diags.Append(d)
-		held = "; no link is declared required"
-		if n := len(requiredLinks(m)); n > 0 {
-			held = fmt.Sprintf("; %s hold on the data", report.Count(n, "required link"))
-		}
+		held = fmt.Sprintf("; on the data, %s and %s hold", report.Count(len(requiredLinks(m)), "required link"),
+			report.Count(len(uniquenesses(m)), "uniqueness promise"))
 	}
 	if len(diags) > 0 {
 		printDiags(e, diags, src)

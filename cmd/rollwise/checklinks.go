@@ -23,13 +23,14 @@ func requiredLinks(m *planner.Model) []*planner.Link {
 	return out
 }
 
-// checkRequired counts, on the data (the embedded engine over the model's
-// files or dataDir, or the live database at dsn), the rows whose link
-// declared required finds no row, and reports each link that has some as
-// an error at its declaration.
-func checkRequired(ctx context.Context, m *planner.Model, dataDir, dsn string) (grammar.Diagnostics, error) {
+// checkData checks, on the data (the embedded engine over the model's
+// files or dataDir, or the live database at dsn), every promise the model
+// makes about it: each link declared required finds its row, and each
+// declared key (and each semiadditive column's key and date) is on one
+// row (checkUnique). Each broken promise is an error at its declaration.
+func checkData(ctx context.Context, m *planner.Model, dataDir, dsn string) (grammar.Diagnostics, error) {
 	links := requiredLinks(m)
-	if len(links) == 0 {
+	if len(links) == 0 && len(uniquenesses(m)) == 0 {
 		return nil, nil
 	}
 	runner, live, closeData, err := openData(ctx, m, dataDir, dsn)
@@ -65,5 +66,7 @@ func checkRequired(ctx context.Context, m *planner.Model, dataDir, dsn string) (
 				l.To.Name + " through this link are wrong"
 		}
 	}
-	return diags, nil
+	u, err := checkUnique(ctx, runner, d, m)
+	diags.Append(u)
+	return diags, err
 }

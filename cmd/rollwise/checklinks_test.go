@@ -72,7 +72,7 @@ func TestCheckRequiredLinks(t *testing.T) {
 		t.Errorf("the broken promise: exit %d\n%s", code, msg)
 	}
 	code, msg = checkCmd(kept, "--data", data)
-	if code != 0 || !strings.Contains(msg, "ok: 4 tables, 1 measure, 0 views; 2 required links hold on the data") {
+	if code != 0 || !strings.Contains(msg, "ok: 4 tables, 1 measure, 0 views; on the data, 2 required links and 4 uniqueness promises hold") {
 		t.Errorf("promises kept: exit %d\n%s", code, msg)
 	}
 	// Without --required (or --data, --dsn), check reads no data.
@@ -81,7 +81,7 @@ func TestCheckRequiredLinks(t *testing.T) {
 		t.Errorf("without the data: exit %d\n%s", code, msg)
 	}
 	code, msg = checkCmd(shopModel, "--required")
-	if code != 0 || !strings.HasSuffix(msg, "; no link is declared required\n") {
+	if code != 0 || !strings.HasSuffix(msg, "; on the data, 0 required links and 4 uniqueness promises hold\n") {
 		t.Errorf("no required link: exit %d\n%s", code, msg)
 	}
 	code, msg = checkCmd(broken, "--data", data, "--dsn", "sqlite:"+filepath.Join(t.TempDir(), "x.db"))
