@@ -161,60 +161,83 @@ type Sources map[string]string
 // The source line is shown when src holds the file.
 func (l Diagnostics) Print(w io.Writer, src Sources, color bool) {
 	seen := map[string]bool{}
+	shown, omitted := 0, 0
 	for _, d := range l {
 		if key := d.Error(); seen[key] {
 			continue // the same message at the same place, found twice
 		} else {
 			seen[key] = true
 		}
-		sev := d.Severity.String()
-		if color {
-			if d.Severity == Error {
-				sev = "\x1b[1;31m" + sev + "\x1b[0m"
-			} else {
-				sev = "\x1b[1;33m" + sev + "\x1b[0m"
-			}
+		if shown == MaxPrinted {
+			omitted++
+			continue
 		}
-		fmt.Fprintf(w, "%s: %s: %s\n", d.Pos, sev, d.Message)
-		if line, ok := sourceLine(src, d.Pos); ok {
-			num := fmt.Sprintf("%5d", d.Pos.Line)
-			fmt.Fprintf(w, "%s | %s\n", num, strings.ReplaceAll(line, "\t", " "))
-			col := d.Pos.Col - 1
-			if col > len(line) {
-				col = len(line)
-			}
-			fmt.Fprintf(w, "%s | %s^\n", strings.Repeat(" ", len(num)), strings.Repeat(" ", col))
-		}
-		for _, n := range d.Notes {
-			fmt.Fprintf(w, "  note: %s\n", n)
-		}
-		if d.Suggestion != "" {
-			fmt.Fprintf(w, "  hint: %s\n", d.Suggestion)
-		}
+		shown++
+		d.print(w, src, color)
+	}
+	if omitted > 0 {
+		fmt.Fprintf(w, "... and %d more (only the first %d are shown; fix these and check again)\n", omitted, MaxPrinted)
 	}
 }
 
+// MaxPrinted is the most diagnostics Print writes; the rest are counted.
+const MaxPrinted = 100
+
+// print writes one diagnostic, as Print describes.
+func (d *Diagnostic) print(w io.Writer, src Sources, color bool) {
+	sev := d.Severity.String()
+	if color {
+		if d.Severity == Error {
+			sev = "\x1b[1;31m" + sev + "\x1b[0m"
+		} else {
+			sev = "\x1b[1;33m" + sev + "\x1b[0m"
+		}
+	}
+	fmt.Fprintf(w, "%s: %s: %s\n", d.Pos, sev, d.Message)
+	if line, ok := sourceLine(src, d.Pos); ok {
+		num := fmt.Sprintf("%5d", d.Pos.Line)
+		fmt.Fprintf(w, "%s | %s\n", num, strings.ReplaceAll(line, "\t", " "))
+		col := d.Pos.Col - 1
+		if col > len(line) {
+			col = len(line)
+		}
+		fmt.Fprintf(w, "%s | %s^\n", strings.Repeat(" ", len(num)), strings.Repeat(" ", col))
+	}
+	for _, n := range d.Notes {
+		fmt.Fprintf(w, "  note: %s\n", n)
+	}
+	if d.Suggestion != "" {
+		fmt.Fprintf(w, "  hint: %s\n", d.Suggestion)
+	}
+}
+
+// maxShownLine is the longest source line a diagnostic quotes.
+const maxShownLine = 200
+
+// sourceLine is the line p points into, if src holds it and it is short
+// enough to quote. It looks at no more than maxShownLine bytes on either
+// side of p, so that a file of one long line costs each diagnostic no
+// more than a short one.
 func sourceLine(src Sources, p Pos) (string, bool) {
 	if !p.IsValid() || src == nil {
 		return "", false
 	}
 	text, ok := src[p.File]
-	if !ok {
+	if !ok || p.Offset > len(text) {
 		return "", false
 	}
-	start := p.Offset
-	if start > len(text) {
-		return "", false
+	from := max(0, p.Offset-maxShownLine-1)
+	start := strings.LastIndexByte(text[from:p.Offset], '\n') + 1 + from
+	if start == from && from > 0 {
+		return "", false // no line start within reach: the line is too long
 	}
-	for start > 0 && text[start-1] != '\n' {
-		start--
-	}
-	end := strings.IndexByte(text[start:], '\n')
+	rest := text[start:min(len(text), start+maxShownLine+2)]
+	end := strings.IndexByte(rest, '\n')
 	if end < 0 {
-		end = len(text) - start
+		end = len(rest)
 	}
-	line := strings.TrimRight(text[start:start+end], "\r")
-	if len(line) > 200 {
+	line := strings.TrimRight(rest[:end], "\r")
+	if len(line) > maxShownLine {
 		return "", false
 	}
 	return line, true
@@ -222,25 +245,49 @@ func sourceLine(src Sources, p Pos) (string, bool) {
 
 // Closest returns the candidate nearest to name by edit distance (ignoring
 // case), if it is close enough to be a plausible typo, and "" otherwise.
+// Names longer than maxCompared bytes are not compared: no one mistypes
+// a name that long in a way a suggestion would fix, and the distance
+// takes time in the product of the lengths. Within that, the distance is
+// computed only up to the limit that makes a typo plausible.
 func Closest(name string, candidates []string) string {
-	best, bestD := "", -1
-	for _, c := range candidates {
-		d := editDistance(strings.ToLower(name), strings.ToLower(c))
-		if bestD < 0 || d < bestD || (d == bestD && c < best) {
-			best, bestD = c, d
-		}
+	if len(name) > maxCompared {
+		return ""
 	}
 	limit := 1
 	if len(name) > 3 {
 		limit = max(2, len(name)/3)
 	}
-	if best == "" || bestD > limit {
+	lower := strings.ToLower(name)
+	best, bestD := "", limit+1
+	for _, c := range candidates {
+		if len(c) > maxCompared || abs(len(c)-len(name)) > limit {
+			continue
+		}
+		d := editDistance(lower, strings.ToLower(c), bestD)
+		if d < bestD || (d == bestD && best != "" && c < best) {
+			best, bestD = c, d
+		}
+	}
+	if bestD > limit {
 		return ""
 	}
 	return best
 }
 
-func editDistance(a, b string) int {
+// maxCompared is the longest name Closest compares.
+const maxCompared = 128
+
+func abs(x int) int {
+	if x < 0 {
+		return -x
+	}
+	return x
+}
+
+// editDistance is the Levenshtein distance of a and b when it is at most
+// bound, and a number above bound otherwise (it stops as soon as every
+// cell of a row exceeds bound).
+func editDistance(a, b string, bound int) int {
 	prev := make([]int, len(b)+1)
 	cur := make([]int, len(b)+1)
 	for j := range prev {
@@ -248,12 +295,17 @@ func editDistance(a, b string) int {
 	}
 	for i := 1; i <= len(a); i++ {
 		cur[0] = i
+		rowMin := cur[0]
 		for j := 1; j <= len(b); j++ {
 			cost := 1
 			if a[i-1] == b[j-1] {
 				cost = 0
 			}
 			cur[j] = min(prev[j]+1, cur[j-1]+1, prev[j-1]+cost)
+			rowMin = min(rowMin, cur[j])
+		}
+		if rowMin > bound {
+			return bound + 1
 		}
 		prev, cur = cur, prev
 	}

@@ -6,6 +6,7 @@ import (
 	"io"
 	"regexp"
 	"strings"
+	"unicode/utf8"
 
 	"github.com/alecthomas/participle/v2"
 	"github.com/alecthomas/participle/v2/lexer"
@@ -65,7 +66,12 @@ func Parse(filename, src string) (*File, Diagnostics) {
 }
 
 // lexAll tokenises src, dropping white space and comments, and reports
-// characters that start no token.
+// characters that start no token, unterminated quotes, and NUL bytes or
+// invalid UTF-8 inside quotes (which no engine would read as written). A
+// UTF-8 byte order mark at the start is skipped. It records at most
+// MaxPrinted-1 such errors and then one that counts the rest, and keeps no tokens once
+// one is found, so that a file of random bytes costs no more than its
+// size.
 func lexAll(filename, src string, diags *Diagnostics) ([]lexer.Token, bool) {
 	lx, err := lexDef.LexString(filename, src)
 	if err != nil {
@@ -73,7 +79,19 @@ func lexAll(filename, src string, diags *Diagnostics) ([]lexer.Token, bool) {
 		return nil, false
 	}
 	var toks []lexer.Token
-	ok := true
+	errs, more := 0, 0
+	var morePos Pos
+	report := func(p lexer.Position, format string, args ...any) *Diagnostic {
+		errs++
+		if errs >= MaxPrinted { // the last place is for the count
+			if more == 0 {
+				morePos = pos(p)
+			}
+			more++
+			return &Diagnostic{} // counted, not kept
+		}
+		return diags.Errorf(pos(p), "syntax", format, args...)
+	}
 	for {
 		t, err := lx.Next()
 		if err != nil {
@@ -88,19 +106,53 @@ func lexAll(filename, src string, diags *Diagnostics) ([]lexer.Token, bool) {
 			continue
 		case symbols["Unterminated"]:
 			q := t.Value[:1]
-			diags.Errorf(pos(t.Pos), "syntax", "unterminated %s", quoteKind(q)).Suggestion =
+			report(t.Pos, "unterminated %s", quoteKind(q)).Suggestion =
 				fmt.Sprintf("close it with %s on the same line", q)
-			ok = false
 			continue
 		case symbols["Bad"]:
-			diags.Errorf(pos(t.Pos), "syntax", "unexpected character %q", t.Value).Suggestion =
+			if t.Pos.Offset == 0 && t.Value == "\uFEFF" {
+				continue // a byte order mark
+			}
+			report(t.Pos, "unexpected character %q", t.Value).Suggestion =
 				"strings are written in single quotes, names with letters, digits and _ (or in backquotes)"
-			ok = false
 			continue
+		case symbols["String"], symbols["QIdent"], symbols["DString"]:
+			if at, what := badText(t.Value); at >= 0 {
+				p := t.Pos
+				p.Advance(t.Value[:at])
+				report(p, "%s inside a %s", what, quoteKind(t.Value[:1])).Suggestion =
+					"remove it: no warehouse engine reads it as written"
+				continue
+			}
 		}
-		toks = append(toks, t)
+		if errs == 0 {
+			toks = append(toks, t)
+		}
 	}
-	return toks, ok
+	if more > 0 {
+		diags.Errorf(morePos, "too-many", "%d more errors like the ones above from here on are not listed", more).Suggestion =
+			"is this a model file? fix the first errors and check again"
+	}
+	if errs > 0 {
+		return nil, false
+	}
+	return toks, true
+}
+
+// badText finds the first NUL byte or invalid UTF-8 sequence in s: its
+// byte offset and what it is, or -1.
+func badText(s string) (int, string) {
+	for i, r := range s {
+		switch {
+		case r == 0:
+			return i, "a NUL byte"
+		case r == utf8.RuneError:
+			if _, size := utf8.DecodeRuneInString(s[i:]); size == 1 {
+				return i, fmt.Sprintf("invalid UTF-8 (byte 0x%02X)", s[i])
+			}
+		}
+	}
+	return -1, ""
 }
 
 func quoteKind(q string) string {

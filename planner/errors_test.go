@@ -189,3 +189,52 @@ func TestNullTextDeclaredTwice(t *testing.T) {
 	expectErrors(t, "table notes with null \"NA\", \"-\", \"NA\" {\n  key id\n  id integer\n}\n",
 		at(0, 34)+`: error: "NA" is already a NULL text of table notes | hint: write each text once`)
 }
+
+// TestTwoPathsThroughAChain: a table on a chain that leads into two paths
+// reports them like the table where they start (the walk of a chain is
+// shared along it, issue 17), with each path in full; a cycle does not
+// count as a second path.
+func TestTwoPathsThroughAChain(t *testing.T) {
+	_, got := load(t, `table hq at "stores" {
+  key id
+  id integer
+  region_id integer -> stores.id
+}
+table x {
+  key id
+  id integer
+  s integer -> stores.id
+  h integer -> hq.id
+}
+table y {
+  key id
+  id integer
+  x_id integer -> x.id
+}
+table z {
+  key id
+  id integer
+  y_id integer -> y.id
+}
+table p {
+  key id
+  id integer
+  q_id integer -> q.id
+}
+table q {
+  key id
+  id integer
+  p_id integer -> p.id
+}
+`)
+	want := []string{"from x to stores", "from y to stores", "second path: y -> x -> hq -> stores", "from z to stores", "first path: z -> y -> x -> stores"}
+	joined := strings.Join(got, "\n")
+	if len(got) != 3 {
+		t.Fatalf("got %d errors, want 3:\n%s", len(got), joined)
+	}
+	for _, w := range want {
+		if !strings.Contains(joined, w) {
+			t.Errorf("no %q in:\n%s", w, joined)
+		}
+	}
+}

@@ -340,30 +340,146 @@ func (r *resolver) ensureDerived(c *Column) {
 
 // checkPaths reports two different link paths between the same tables.
 func (r *resolver) checkPaths() {
-	for _, t := range r.m.Tables {
-		paths := map[*Table][]*Link{}
-		var walk func(at *Table, path []*Link, seen map[*Table]bool)
-		walk = func(at *Table, path []*Link, seen map[*Table]bool) {
-			for _, l := range at.Links {
-				if seen[l.To] {
-					continue
-				}
-				p := append(append([]*Link{}, path...), l)
-				if prev, ok := paths[l.To]; ok {
-					d := r.diags.Errorf(l.Pos, "two-paths", "two different link paths lead from %s to %s", t.Name, l.To.Name)
-					d.Notes = []string{"first path: " + pathString(t, prev), "second path: " + pathString(t, p)}
-					d.Suggestion = fmt.Sprintf("declare a second table that reads the same relation (at \"%s\") for the second role, and link to it",
-						strings.Join(l.To.Relation, "."))
-					continue
-				}
-				paths[l.To] = p
-				seen[l.To] = true
-				walk(l.To, p, seen)
-				delete(seen, l.To)
+	tables := r.m.Tables
+	index := make(map[*Table]int, len(tables))
+	for i, t := range tables {
+		index[t] = i
+	}
+	// The walk runs on table numbers: targets[i][k] is the table link k
+	// of table i leads to. Per start table, arrays stamped with its number
+	// replace maps, and the first path to each table is kept as the link
+	// that reached it, so that a chain of n tables costs n*n cheap steps.
+	targets := make([][]int, len(tables))
+	for i, t := range tables {
+		for _, l := range t.Links {
+			targets[i] = append(targets[i], index[l.To])
+		}
+	}
+	via := make([]*Link, len(tables))   // the link that first reached a table
+	prev := make([]*Table, len(tables)) // the table it leads from
+	reached := make([]int, len(tables))
+	onPath := make([]int, len(tables))
+	var path []*Link // the links from the start table to the one walked
+	var start, stamp int
+	var found grammar.Diagnostics // the errors of the walk from start
+	var walk func(at int)
+	walk = func(at int) {
+		for k, to := range targets[at] {
+			if onPath[to] == stamp {
+				continue
+			}
+			l := tables[at].Links[k]
+			if reached[to] == stamp {
+				t := tables[start]
+				d := found.Errorf(l.Pos, "two-paths", "two different link paths lead from %s to %s", t.Name, l.To.Name)
+				d.Notes = []string{"first path: " + pathString(t, firstPath(via, prev, index, t, l.To)),
+					"second path: " + pathString(t, append(path[:len(path):len(path)], l))}
+				d.Suggestion = fmt.Sprintf("declare a second table that reads the same relation (at \"%s\") for the second role, and link to it",
+					strings.Join(l.To.Relation, "."))
+				continue
+			}
+			reached[to], via[to], prev[to], onPath[to] = stamp, l, tables[at], stamp
+			path = append(path, l)
+			walk(to)
+			path = path[:len(path)-1]
+			onPath[to] = 0
+		}
+	}
+	// A table on no cycle with one link, to u, has exactly the paths of u
+	// with that link in front, so it is clean when u is: a chain costs
+	// one walk, not one per table. Errors are kept per start table and
+	// reported in the tables' order.
+	cyclic := onCycle(targets)
+	done := make([]bool, len(tables))
+	clean := make([]bool, len(tables))
+	errs := make([]grammar.Diagnostics, len(tables))
+	var check func(i int)
+	check = func(i int) {
+		if done[i] {
+			return
+		}
+		done[i] = true
+		if !cyclic[i] && len(targets[i]) == 1 {
+			u := targets[i][0]
+			check(u)
+			if clean[u] {
+				clean[i] = true
+				return
 			}
 		}
-		walk(t, nil, map[*Table]bool{t: true})
+		start, stamp, found = i, i+1, nil
+		onPath[i] = stamp
+		walk(i)
+		errs[i], clean[i] = found, len(found) == 0
 	}
+	for i := range tables {
+		check(i)
+	}
+	for _, e := range errs {
+		r.diags.Append(e)
+	}
+}
+
+// onCycle reports, for a graph given by its edges' targets, which nodes
+// lie on a cycle (Tarjan's strongly connected components: a component of
+// more than one node, or a node with an edge to itself).
+func onCycle(targets [][]int) []bool {
+	n := len(targets)
+	order, low := make([]int, n), make([]int, n)
+	onStack, cyclic := make([]bool, n), make([]bool, n)
+	var stack []int
+	next := 1
+	var visit func(v int)
+	visit = func(v int) {
+		order[v], low[v] = next, next
+		next++
+		stack = append(stack, v)
+		onStack[v] = true
+		for _, w := range targets[v] {
+			switch {
+			case w == v:
+				cyclic[v] = true
+			case order[w] == 0:
+				visit(w)
+				low[v] = min(low[v], low[w])
+			case onStack[w]:
+				low[v] = min(low[v], order[w])
+			}
+		}
+		if low[v] != order[v] {
+			return
+		}
+		top := len(stack) - 1
+		for stack[top] != v {
+			top--
+		}
+		if len(stack)-top > 1 {
+			for _, w := range stack[top:] {
+				cyclic[w] = true
+			}
+		}
+		for _, w := range stack[top:] {
+			onStack[w] = false
+		}
+		stack = stack[:top]
+	}
+	for v := range targets {
+		if order[v] == 0 {
+			visit(v)
+		}
+	}
+	return cyclic
+}
+
+// firstPath follows via (the link that first reached each table) and
+// prev (the table it leads from) back from to to from.
+func firstPath(via []*Link, prev []*Table, index map[*Table]int, from, to *Table) []*Link {
+	var rev []*Link
+	for at := to; at != from; at = prev[index[at]] {
+		rev = append(rev, via[index[at]])
+	}
+	slices.Reverse(rev)
+	return rev
 }
 
 func pathString(from *Table, path []*Link) string {

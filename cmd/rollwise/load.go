@@ -2,12 +2,13 @@ package main
 
 import (
 	"fmt"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"io"
 	"os"
 	"path/filepath"
 	"sort"
 	"strings"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 )
@@ -29,12 +30,9 @@ func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) 
 			}
 		}
 		for _, name := range names {
-			b, err := os.ReadFile(name)
+			b, err := readModelFile(name)
 			if err != nil {
-				return nil, nil, usageErr("cannot read the model: %v", err)
-			}
-			if len(b) > grammar.MaxSourceBytes {
-				return nil, nil, usageErr("%s is %d bytes; the largest model file accepted is %d bytes", name, len(b), grammar.MaxSourceBytes)
+				return nil, nil, err
 			}
 			src[name] = string(b)
 			f, d := grammar.Parse(name, string(b))
@@ -53,6 +51,25 @@ func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) 
 		return nil, src, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
 	}
 	return m, src, nil
+}
+
+// readModelFile reads one model file, at most grammar.MaxSourceBytes+1
+// bytes of it: a name that leads to an endless file (a symlink to
+// /dev/zero, a pipe) stops at the cap instead of filling the memory.
+func readModelFile(name string) ([]byte, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, usageErr("cannot read the model: %v", err)
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, grammar.MaxSourceBytes+1))
+	if err != nil {
+		return nil, usageErr("cannot read the model: %v", err)
+	}
+	if len(b) > grammar.MaxSourceBytes {
+		return nil, usageErr("%s is larger than %d bytes, the largest model file accepted", name, grammar.MaxSourceBytes)
+	}
+	return b, nil
 }
 
 func printDiags(e *env, d grammar.Diagnostics, src grammar.Sources) {

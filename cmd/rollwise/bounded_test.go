@@ -1,0 +1,97 @@
+package main
+
+import (
+	"bytes"
+	"fmt"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+	"time"
+
+	"github.com/rollwise/rollwise/grammar"
+)
+
+// Bounded work on hostile input (issue 17, item 5). The bounds are
+// generous: each case takes well under a second now and took 12 s to
+// over 120 s (or never ended) before; benchmarks with the figures are in
+// bench_hostile_test.go and docs/benchmarks.md.
+const generousBound = 30 * time.Second
+
+// checkWithin runs `rollwise check` on path and fails when it takes more
+// than generousBound.
+func checkWithin(t *testing.T, path string) (code int, stderr string) {
+	t.Helper()
+	var out, errb bytes.Buffer
+	start := time.Now()
+	code = Main([]string{"check", path}, nil, &out, &errb)
+	if d := time.Since(start); d > generousBound {
+		t.Errorf("check %s took %v; the bound is %v", filepath.Base(path), d, generousBound)
+	}
+	return code, errb.String()
+}
+
+// TestModelReadStopsAtCap: a model path that leads to an endless file is
+// read to the cap plus one byte, then refused, instead of filling memory.
+func TestModelReadStopsAtCap(t *testing.T) {
+	if _, err := os.Stat("/dev/zero"); err != nil {
+		t.Skip("no /dev/zero")
+	}
+	link := filepath.Join(t.TempDir(), "zero.roll")
+	if err := os.Symlink("/dev/zero", link); err != nil {
+		t.Skip(err)
+	}
+	code, stderr := checkWithin(t, link)
+	if code != exitUsage || !strings.Contains(stderr, fmt.Sprintf("larger than %d bytes", grammar.MaxSourceBytes)) {
+		t.Errorf("exit %d, stderr %q; want exit %d and the cap", code, stderr, exitUsage)
+	}
+}
+
+// TestManyErrorsAreCapped: 256 KiB (21.6 s before) of characters that start no token gives
+// at most grammar.MaxPrinted diagnostics, the last one counting the rest.
+func TestManyErrorsAreCapped(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "hash.roll")
+	if err := os.WriteFile(path, bytes.Repeat([]byte("#"), 1<<18), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	code, stderr := checkWithin(t, path)
+	if code != exitFindings {
+		t.Errorf("exit %d, want %d", code, exitFindings)
+	}
+	if n := strings.Count(stderr, ": error: "); n > grammar.MaxPrinted {
+		t.Errorf("%d errors printed, want at most %d", n, grammar.MaxPrinted)
+	}
+	if want := fmt.Sprintf("%d more errors like the ones above", 1<<18-grammar.MaxPrinted+1); !strings.Contains(stderr, want) {
+		t.Errorf("stderr does not say %q; its end:\n%s", want, stderr[max(0, len(stderr)-400):])
+	}
+	if len(stderr) > 64<<10 {
+		t.Errorf("%d bytes of stderr", len(stderr))
+	}
+}
+
+// chainModel is a model of n tables, each linking to the next.
+func chainModel(n int) string {
+	var b strings.Builder
+	for i := range n {
+		fmt.Fprintf(&b, "table t%d from \"t%d.csv\" {\n  key id\n  id integer\n", i, i)
+		if i+1 < n {
+			fmt.Fprintf(&b, "  next_id integer -> t%d.id\n", i+1)
+		}
+		b.WriteString("  v integer\n}\n")
+	}
+	b.WriteString("measure m = sum(t0.v)\n")
+	return b.String()
+}
+
+// TestLinkChainIsQuick: a chain of 10,000 linked tables is checked in
+// about a second (it took over 120 s: every table walked the rest of the
+// chain, copying its path at each step).
+func TestLinkChainIsQuick(t *testing.T) {
+	path := filepath.Join(t.TempDir(), "chain.roll")
+	if err := os.WriteFile(path, []byte(chainModel(10_000)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	if code, stderr := checkWithin(t, path); code != 0 || !strings.Contains(stderr, "ok: 10000 tables") {
+		t.Errorf("exit %d: %s", code, stderr)
+	}
+}
