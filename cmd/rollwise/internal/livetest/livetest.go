@@ -106,6 +106,7 @@ func safeName(tag string) string { return unsafeChars.ReplaceAllString(strings.T
 func connect(t testing.TB, name, db string, schemas []string) *Engine {
 	t.Helper()
 	server := ServerURL(t, name)
+	holdServer(t, name, server)
 	ctx := context.Background()
 	var dsn string
 	var err error

@@ -1,0 +1,47 @@
+//go:build unix
+
+package livetest
+
+import (
+	"crypto/sha256"
+	"encoding/hex"
+	"os"
+	"path/filepath"
+	"sync"
+	"syscall"
+	"testing"
+)
+
+var (
+	locksMu sync.Mutex
+	locks   = map[string]*os.File{}
+)
+
+// holdServer takes, once per process, an exclusive lock named after the
+// engine and its server, held until the process exits. Test databases have
+// fixed names (and MySQL's schemas are databases of the server), so two
+// test processes on one machine, two packages or two checkouts, must not
+// load them on one server at the same time: the second waits.
+func holdServer(t testing.TB, name, server string) {
+	t.Helper()
+	locksMu.Lock()
+	defer locksMu.Unlock()
+	key := name + " " + server
+	if locks[key] != nil {
+		return
+	}
+	sum := sha256.Sum256([]byte(key))
+	path := filepath.Join(os.TempDir(), "rollwise-livetest-"+hex.EncodeToString(sum[:6])+".lock")
+	f, err := os.OpenFile(path, os.O_CREATE|os.O_RDWR, 0o666)
+	if err != nil {
+		t.Fatalf("%s: locking the test server: %v", name, err)
+	}
+	if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX|syscall.LOCK_NB); err != nil {
+		t.Logf("%s: another test process uses the test server; waiting for it to finish", name)
+		if err := syscall.Flock(int(f.Fd()), syscall.LOCK_EX); err != nil {
+			f.Close()
+			t.Fatalf("%s: locking the test server: %v", name, err)
+		}
+	}
+	locks[key] = f // held, open, until the process exits
+}
