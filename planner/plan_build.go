@@ -441,7 +441,7 @@ func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel
 	}
 	slices.Sort(tnames)
 	for _, col := range pa.Per {
-		cols = append(cols, col.String())
+		cols = append(cols, columnText(col))
 	}
 	key := fmt.Sprintf("per|%p|%s|%s|%d|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "))
 	if r, ok := pl.rels[key]; ok {

@@ -16,12 +16,30 @@ func Text(e Expr) string {
 
 func quoteLit(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
 
+// quoteName writes a name as the language reads it back: in backquotes
+// unless it is a plain identifier. So the text stays a canonical key:
+// a.`b.c` and `a.b`.c are two columns and print as two texts.
+func quoteName(s string) string {
+	for i, r := range s {
+		if r != '_' && !(r >= 'A' && r <= 'Z') && !(r >= 'a' && r <= 'z') && (i == 0 || !(r >= '0' && r <= '9')) {
+			return "`" + s + "`"
+		}
+	}
+	if s == "" {
+		return "``"
+	}
+	return s
+}
+
+// columnText is a column reference as the text writes it.
+func columnText(c *Column) string { return quoteName(c.Table.Name) + "." + quoteName(c.Name) }
+
 func writeText(b *strings.Builder, e Expr) {
 	switch e := e.(type) {
 	case nil:
 		b.WriteString("null")
 	case *ColRef:
-		b.WriteString(e.Col.Table.Name + "." + e.Col.Name)
+		b.WriteString(columnText(e.Col))
 	case *Lit:
 		switch e.T {
 		case TypeText:
@@ -107,7 +125,7 @@ func writeText(b *strings.Builder, e Expr) {
 		}
 		b.WriteString(")")
 	case *MeasureRef:
-		b.WriteString(e.Measure.Name)
+		b.WriteString(quoteName(e.Measure.Name))
 	case *NarrowExpr:
 		b.WriteString("(")
 		writeText(b, e.X)
@@ -137,7 +155,7 @@ func writeText(b *strings.Builder, e Expr) {
 			if i > 0 {
 				b.WriteString(", ")
 			}
-			b.WriteString(c.String())
+			b.WriteString(columnText(c))
 		}
 		if e.Having != nil {
 			b.WriteString(" having ")
@@ -145,7 +163,7 @@ func writeText(b *strings.Builder, e Expr) {
 		}
 		b.WriteString(")")
 	case *ValueRef:
-		b.WriteString(e.Rel.Name + "." + e.Column)
+		b.WriteString(quoteName(e.Rel.Name) + "." + quoteName(e.Column))
 	}
 }
 
@@ -153,9 +171,9 @@ func writeEdit(b *strings.Builder, ed *CellEdit) {
 	target := ""
 	switch {
 	case ed.Col != nil:
-		target = ed.Col.String()
+		target = columnText(ed.Col)
 	case ed.Table != nil:
-		target = ed.Table.Name
+		target = quoteName(ed.Table.Name)
 	}
 	switch ed.Kind {
 	case EditDrop:

@@ -104,3 +104,22 @@ func TestPerGrainIdentities(t *testing.T) {
 		}
 	})
 }
+
+// Filters are keyed by their text, which once printed a.`b.c` and
+// `a.b`.c alike (a.b.c): both measures got the number of the first -m
+// (issue 13, bug 4). testdata/exec/lookalike.roll:
+//
+//	a: id b.c ref x      a.b: id c
+//	   1  1   1   10         1  2
+//	   2  2   2   20         2  1
+//	   3  1   2   40
+//
+// m1 = x where a.`b.c` = 1: rows 1, 3: 10 + 40 = 50; m2 = x where
+// `a.b`.c = 1: rows whose ref is 2: 20 + 40 = 60; in either order.
+func TestLookalikeNamesKeepTheirFilters(t *testing.T) {
+	const model = "../../testdata/exec/lookalike.roll"
+	for _, ms := range []string{"m1,m2", "m2,m1"} {
+		got := runJSON(t, "run", model, "-m", ms)
+		expectRows(t, got, []row{{"m1": 50, "m2": 60}})
+	}
+}

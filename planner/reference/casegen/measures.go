@@ -350,7 +350,7 @@ func (g *gen) edited(depth int) mx {
 		case k <= 4 && len(cols) > 0:
 			edits = append(edits, "drop "+g.col(cols).ref())
 		case k == 5:
-			edits = append(edits, "drop "+g.tables[g.pick(len(g.tables))].name)
+			edits = append(edits, "drop "+quoted(g.tables[g.pick(len(g.tables))].name))
 		case k == 6:
 			edits = append(edits, "drop")
 		case k <= 8 && len(cols) > 0:
