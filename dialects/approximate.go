@@ -21,8 +21,10 @@ type callApproximator interface {
 }
 
 // Approximate is a dialect allowed to answer approximately what it cannot
-// answer exactly (the user's --approximate): a median where the engine
-// has no exact one, a function it computes differently. Approximated
+// answer exactly, or only slowly (the user's --approximate): a median
+// where the engine has no exact median aggregate (Render computes it
+// exactly with window functions otherwise), a function it computes
+// differently. Approximated
 // tells whether a rendering used an approximation, so that the output can
 // say so.
 type Approximate struct {
@@ -57,7 +59,7 @@ func (a *Approximate) Caps() Caps {
 func (a *Approximate) Agg(fn string, distinct bool, arg string) (string, error) {
 	if fn == "median" && a.median && !distinct && arg != "" {
 		ap := a.Dialect.(approximator)
-		a.note(fmt.Sprintf("medians are approximate: %s has no exact median aggregate, and --approximate uses %s",
+		a.note(fmt.Sprintf("medians are approximate: %s has no exact median aggregate, and --approximate uses %s instead of the exact median by window functions",
 			a.Dialect.Name(), ap.approxMedian("x")))
 		return ap.approxMedian(arg), nil
 	}

@@ -120,7 +120,7 @@ func (d bigquery) Agg(fn string, distinct bool, arg string) (string, error) {
 		return fn + "(DISTINCT " + arg + ")", nil
 	case fn == "median":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "PERCENTILE_CONT is a window function only in BigQuery; pass --approximate for APPROX_QUANTILES"}
+			Hint: "PERCENTILE_CONT is a window function only in BigQuery: Render numbers the rows instead (render_median.go)"}
 	case isStat(fn):
 		return statName(fn) + "(CAST(" + arg + " AS FLOAT64))", nil
 	}

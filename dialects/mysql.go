@@ -98,7 +98,7 @@ func (d mysql) Agg(fn string, distinct bool, arg string) (string, error) {
 		return fn + "(DISTINCT " + arg + ")", nil
 	case fn == "median":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "MySQL has no median aggregate and MariaDB's MEDIAN is a window function only"}
+			Hint: "MySQL has no median aggregate and MariaDB's MEDIAN is a window function only: Render numbers the rows instead (render_median.go)"}
 	case isStat(fn):
 		return statName(fn) + "(CAST(" + arg + " AS DOUBLE))", nil
 	}

@@ -355,9 +355,17 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		rows += "\n  WHERE " + strings.Join(conds, "\n    AND ")
 	}
 	rowsName, col := r.rowsOf(rel.Name, rows, len(s.Joins) > 0, cols)
+	from, medians, err := r.scanMedians(rel, rowsName, col)
+	if err != nil {
+		return err
+	}
 
-	var aggs []string
+	var aggs []cellAgg
 	for _, l := range s.Leaves {
+		if m, ok := medians[l]; ok {
+			aggs = append(aggs, m)
+			continue
+		}
 		arg := ""
 		if l.Arg != nil {
 			arg = r.q(col(l.Arg.Name))
@@ -370,14 +378,14 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		if err != nil {
 			return err
 		}
-		aggs = append(aggs, a+" AS "+r.q(l.Name))
+		aggs = append(aggs, cellAgg{sql: a + " AS " + r.q(l.Name)})
 	}
 	var keys []string
 	for _, k := range s.Keys {
 		keys = append(keys, r.q(k.Name))
 	}
 	r.cte[rel] = r.cteName(rel.Name + "_cells")
-	r.addCTE(r.cte[rel], GroupingSetsSQL(r.d, keys, rel.Sets, aggs, r.q(rowsName)))
+	r.addCTE(r.cte[rel], groupingSets(r.d, keys, rel.Sets, aggs, from))
 	return nil
 }
 
@@ -412,7 +420,7 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	for _, i := range rel.Keys {
 		keys = append(keys, r.q(ctx.Keys[i].Name))
 	}
-	var aggs []string
+	conds := map[*planner.PerLeaf]string{}
 	for _, l := range rel.Per.Leaves {
 		var cond []string
 		for _, pk := range l.PerKeys {
@@ -421,19 +429,37 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 		if l.Having != nil {
 			cond = append(cond, r.d.Truth(r.q(l.Having.Name)))
 		}
-		arg := ""
-		if l.Value != nil {
-			arg = r.q(l.Value.Name)
-		}
-		a, err := FilteredAgg(r.d, l.Func, false, arg, strings.Join(cond, " AND "))
-		if err != nil {
-			return err
+		conds[l] = strings.Join(cond, " AND ")
+	}
+	groupCols := []string{GroupingColumn}
+	for _, k := range sub.Keys {
+		groupCols = append(groupCols, k.Name)
+	}
+	for _, v := range sub.Values {
+		groupCols = append(groupCols, v.Name)
+	}
+	from, medians, err := r.perMedians(rel, groups, groupCols, conds, keys)
+	if err != nil {
+		return err
+	}
+	var aggs []string
+	for _, l := range rel.Per.Leaves {
+		a, ok := medians[l]
+		if !ok {
+			arg := ""
+			if l.Value != nil {
+				arg = r.q(l.Value.Name)
+			}
+			var err error
+			if a, err = FilteredAgg(r.d, l.Func, false, arg, conds[l]); err != nil {
+				return err
+			}
 		}
 		aggs = append(aggs, a+" AS "+r.q(l.Name))
 	}
 	cols = append(append([]string{}, keys...), r.q(GroupingColumn))
 	cols = append(cols, aggs...)
-	body := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.q(groups) +
+	body := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from +
 		"\n  GROUP BY " + strings.Join(append([]string{r.q(GroupingColumn)}, keys...), ", ")
 	r.cte[rel] = r.cteName(rel.Name)
 	r.addCTE(r.cte[rel], body)

@@ -29,17 +29,27 @@ import (
 // with no keys aggregates every row into one row (also when there are
 // none), as the empty grouping set does.
 func GroupingSetsSQL(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+	return groupingSets(d, keys, sets, plainAggs(aggs), from)
+}
+
+// groupingSets is GroupingSetsSQL with aggregate columns that may differ
+// by grouping set (cellAgg).
+func groupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
 	gid := d.Ident(GroupingColumn)
 	if len(keys) == 0 || len(sets) <= 1 {
-		var id uint64
-		if len(sets) == 1 {
-			id = sets[0]
+		id := setOf(sets)
+		cols := append(append([]string{}, keys...), fmt.Sprintf("%d AS %s", id, gid))
+		for _, a := range aggs {
+			cols = append(cols, a.inSet(id))
 		}
-		cols := append(append(append([]string{}, keys...), fmt.Sprintf("%d AS %s", id, gid)), aggs...)
 		return selectGrouped(cols, keys, len(aggs) > 0, from)
 	}
 	if d.Caps().GroupingSets {
-		cols := append(append(append([]string{}, keys...), d.GroupingID(keys)+" AS "+gid), aggs...)
+		id := d.GroupingID(keys)
+		cols := append(append([]string{}, keys...), id+" AS "+gid)
+		for _, a := range aggs {
+			cols = append(cols, a.inGroupingSets(id, sets))
+		}
 		var groups []string
 		for _, mask := range sets {
 			groups = append(groups, "("+strings.Join(keptKeys(keys, mask), ", ")+")")
@@ -47,13 +57,17 @@ func GroupingSetsSQL(d Dialect, keys []string, sets []uint64, aggs []string, fro
 		return "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + from +
 			"\n  GROUP BY GROUPING SETS (" + strings.Join(groups, ", ") + ")"
 	}
-	return UnionGroupingSets(d, keys, sets, aggs, from)
+	return unionGroupingSets(d, keys, sets, aggs, from)
 }
 
 // UnionGroupingSets is GroupingSetsSQL's UNION ALL form, for engines
 // without GROUPING SETS: one GROUP BY per set, the mask as a literal
 // grouping id, NULL for rolled-up keys.
 func UnionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+	return unionGroupingSets(d, keys, sets, plainAggs(aggs), from)
+}
+
+func unionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
 	gid := d.Ident(GroupingColumn)
 	n := len(keys)
 	var branches []string
@@ -67,7 +81,9 @@ func UnionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []string, f
 			}
 		}
 		cols = append(cols, fmt.Sprintf("%d AS %s", mask, gid))
-		cols = append(cols, aggs...)
+		for _, a := range aggs {
+			cols = append(cols, a.inSet(mask))
+		}
 		branches = append(branches, selectGrouped(cols, keptKeys(keys, mask), len(aggs) > 0, from))
 	}
 	return strings.Join(branches, "\n  UNION ALL\n")

@@ -73,7 +73,7 @@ func (d sqlite) Agg(fn string, distinct bool, arg string) (string, error) {
 		return fn + "(DISTINCT " + arg + ")", nil
 	case fn == "median":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "SQLite has no median aggregate (its percentile extension is not built in by default)"}
+			Hint: "SQLite has no median aggregate (its percentile extension is not built in by default): Render numbers the rows instead (render_median.go)"}
 	case fn == "stddev" || fn == "variance":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "the sample " + map[string]string{"stddev": "standard deviation", "variance": "variance"}[fn],
 			Hint: "SQLite has no stddev or variance aggregate"}

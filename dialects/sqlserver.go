@@ -125,7 +125,7 @@ func (d sqlserver) Agg(fn string, distinct bool, arg string) (string, error) {
 		return "COUNT_BIG(" + arg + ")", nil
 	case fn == "median":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "PERCENTILE_CONT is a window function only in SQL Server; pass --approximate for APPROX_PERCENTILE_CONT"}
+			Hint: "PERCENTILE_CONT is a window function only in SQL Server: Render numbers the rows instead (render_median.go)"}
 	case fn == "stddev":
 		return "STDEV(CAST(" + arg + " AS FLOAT))", nil
 	case fn == "variance":

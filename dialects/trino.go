@@ -52,7 +52,7 @@ func (d trino) Agg(fn string, distinct bool, arg string) (string, error) {
 		return fn + "(DISTINCT " + arg + ")", nil
 	case fn == "median":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "Trino has only approx_percentile; pass --approximate to use it"}
+			Hint: "Trino has only approx_percentile: Render numbers the rows instead (render_median.go)"}
 	case isStat(fn):
 		return statName(fn) + "(CAST(" + arg + " AS DOUBLE))", nil
 	}

@@ -17,8 +17,9 @@ import (
 // rendered for the engine's dialect and run there as `rollwise run
 // --dsn` runs it, and the rows must be the reference evaluator's, as on
 // DuckDB. SQLite's decimals are floats and compared as such (see
-// diffSameRow). A query the dialect refuses (a median on SQLite or MySQL,
-// SQLite's sample statistics and upper/lower) must be refused with the
+// diffSameRow); medians are computed with window functions on SQLite and
+// MySQL (render_median.go). A query the dialect refuses (SQLite's sample
+// statistics and upper/lower) must be refused with the
 // error that names the engine and the construct; it is counted, and at
 // least diffLiveShare of the queries must be compared on each engine.
 //

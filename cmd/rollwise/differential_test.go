@@ -52,7 +52,7 @@ import (
 const diffFloatTolerance = 1e-9
 
 // diffStats counts what the differential properties did: refused counts
-// the queries a live engine's dialect refuses (a median on SQLite...),
+// the queries a live engine's dialect refuses (a variance on SQLite...),
 // each with the clean error that names the engine and the construct.
 type diffStats struct {
 	compared, skipped, refused, known, failed atomic.Int64

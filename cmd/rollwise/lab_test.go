@@ -140,3 +140,23 @@ func TestLabDistinctCountsAsPerGrain(t *testing.T) {
 		{"patients.ward": nil, "patients_seen": 4, "urgent_patients": 4, "rolled_up": []string{"patients.ward"}},
 	})
 }
+
+// Medians, worked out by hand from visits.csv: the engines without a
+// median aggregate number the rows (render_median.go), so this is checked
+// on SQLite and MySQL/MariaDB by runJSON's cross-check, at every total
+// level. Minutes by ward: North 30, 45, 60, 20 (even: (30 + 45) / 2),
+// South 15 and NULL (the NULL is skipped), East 1, no ward 7; all seven:
+// 1 7 15 20 30 45 60. Urgent visits only: North 30, 20; South 15; East
+// 1; visit 4's urgent is NULL, visit 7's false; all: 1 15 20 30. Per
+// patient (minutes summed; the visit without a patient is skipped):
+// North 75 and 80, South 15, East 1; all: 1 15 75 80.
+func TestLabMedians(t *testing.T) {
+	got := runJSON(t, "run", labModel, "-m", "mid_minutes,urgent_mid,patient_mid", "-b", "patients.ward", "--totals", "rollup")
+	expectRows(t, got, []row{
+		{"patients.ward": "East", "mid_minutes": 1.0, "urgent_mid": 1.0, "patient_mid": 1.0},
+		{"patients.ward": "North", "mid_minutes": 37.5, "urgent_mid": 25.0, "patient_mid": 77.5},
+		{"patients.ward": "South", "mid_minutes": 15.0, "urgent_mid": 15.0, "patient_mid": 15.0},
+		{"patients.ward": nil, "mid_minutes": 7.0, "urgent_mid": nil, "patient_mid": nil, "rolled_up": none},
+		{"patients.ward": nil, "mid_minutes": 20.0, "urgent_mid": 17.5, "patient_mid": 45.0, "rolled_up": []string{"patients.ward"}},
+	})
+}

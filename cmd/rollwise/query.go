@@ -37,8 +37,12 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	onceIntVar(f, &o.limit, "limit", 0, "keep the first N detail rows (total rows stay)")
 	f.StringVar(&o.view, "view", "", "compute a view block of the model instead of -m/-b/-w")
 	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect")
-	f.BoolVar(&o.approximate, "approximate", false, "where the dialect cannot compute a construct exactly (a median on Trino...), compute it approximately and say so")
+	f.BoolVar(&o.approximate, "approximate", false, approximateUsage)
 }
+
+// approximateUsage describes --approximate (run, sql, views).
+const approximateUsage = "compute approximately, and say so, what the dialect computes exactly only the slow way " +
+	"(a median on Trino, BigQuery or SQL Server by its approximate aggregate instead of window functions) or not at all (SQLite's upper and lower beyond ASCII)"
 
 // compiled is a planned and rendered query.
 type compiled struct {

@@ -19,12 +19,14 @@ type viewsOptions struct {
 	out     string
 	check   string
 	schema  string
+	// approximate is --approximate, as for run and sql.
+	approximate bool
 }
 
 func newViewsCmd(e *env) *cobra.Command {
 	o := &viewsOptions{}
 	cmd := &cobra.Command{
-		Use:   "views MODEL... [-d DIALECT] [--out DIR | --check DIR] [--schema NAME]",
+		Use:   "views MODEL... [-d DIALECT] [--out DIR | --check DIR] [--schema NAME] [--approximate]",
 		Short: "Write the DDL that publishes derived columns and view blocks as warehouse views",
 		Long: `views prints CREATE VIEW statements that compute, in the warehouse, what the
 model computes: a row-level view NAME` + views.RowViewSuffix + ` for each table with derived
@@ -52,6 +54,7 @@ would write and exits 1 if they differ, listing each view that does.`,
 	f.StringVar(&o.out, "out", "", "write one file per view and a manifest into DIR")
 	f.StringVar(&o.check, "check", "", "compare DIR with what --out would write; exit 1 if they differ")
 	f.StringVar(&o.schema, "schema", "", "create the views in schema NAME (which must exist)")
+	f.BoolVar(&o.approximate, "approximate", false, approximateUsage+"; each view that does says so in its header")
 	return cmd
 }
 
@@ -67,7 +70,7 @@ func runViews(e *env, o *viewsOptions) error {
 	if err != nil {
 		return err
 	}
-	set, diags := views.Generate(m, d, views.Options{Schema: o.schema})
+	set, diags := views.Generate(m, d, views.Options{Schema: o.schema, Approximate: o.approximate})
 	printDiags(e, diags, src)
 	if set == nil {
 		return &exitError{code: exitFindings, err: fmt.Errorf("no views written: %s", countErrors(diags))}
@@ -121,6 +124,9 @@ func viewsFlags(o *viewsOptions) string {
 	}
 	if o.schema != "" {
 		s += " --schema " + o.schema
+	}
+	if o.approximate {
+		s += " --approximate"
 	}
 	return s
 }

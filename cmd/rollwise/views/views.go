@@ -83,6 +83,10 @@ type Options struct {
 	// dots, as `at` relations are); it must exist. Otherwise the views are created in the connection's current
 	// schema.
 	Schema string
+	// Approximate lets a view compute approximately what the dialect
+	// cannot compute exactly (as `rollwise run --approximate`); each view
+	// that does says so in its header and in a caution.
+	Approximate bool
 }
 
 // Set is the generated views of a model, in creation order: every view
@@ -115,7 +119,7 @@ func Generate(m *planner.Model, d dialects.Dialect, o Options) (*Set, grammar.Di
 			return nil, diags
 		}
 	}
-	g := &generator{d: d, schema: schema, set: &Set{Dialect: d.Name(), Schema: o.Schema}}
+	g := &generator{d: d, approximate: o.Approximate, schema: schema, set: &Set{Dialect: d.Name(), Schema: o.Schema}}
 	for _, t := range m.Tables {
 		if hasDerived(t) {
 			g.rowView(t, &diags)
@@ -151,7 +155,8 @@ func Generate(m *planner.Model, d dialects.Dialect, o Options) (*Set, grammar.Di
 
 // generator holds what Generate builds on the way.
 type generator struct {
-	d dialects.Dialect
+	d           dialects.Dialect
+	approximate bool
 	// schema is the --schema name split at dots.
 	schema []string
 	set    *Set
@@ -236,10 +241,18 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 	if p == nil {
 		return
 	}
-	sql, err := dialects.RenderView(p, g.d)
+	d := g.d
+	if g.approximate {
+		d = dialects.WithApproximate(d)
+	}
+	sql, err := dialects.RenderView(p, d)
 	if err != nil {
 		diags.Errorf(vb.Pos, "unsupported", "view block %s: %v", vb.Name, err)
 		return
+	}
+	note, approximated := dialects.Approximated(d)
+	if approximated {
+		p.Cautions = append(p.Cautions, note)
 	}
 	v := &View{Name: vb.Name, Kind: Measures, Source: "view block " + vb.Name}
 	var reads []string
@@ -297,6 +310,9 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 		lines = append(lines, "Where "+planner.Text(vb.Where)+".")
 	}
 	lines = append(lines, groupingNote(q, p, groupNames))
+	if approximated {
+		lines = append(lines, "Caution: "+note+".")
+	}
 	g.header[v] = header(v, lines)
 }
 

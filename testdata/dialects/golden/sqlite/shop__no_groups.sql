@@ -1,2 +1,2 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,items,mid_line,line_sd,line_var' -d sqlite
--- refused: sqlite cannot express a median exactly; SQLite has no median aggregate (its percentile extension is not built in by default)
+-- refused: sqlite cannot express the sample standard deviation exactly; SQLite has no stddev or variance aggregate

@@ -1,2 +1,59 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,items,mid_line,line_sd,line_var' -d sqlserver
--- refused: sqlserver cannot express a median exactly; PERCENTILE_CONT is a window function only in SQL Server; pass --approximate for APPROX_PERCENTILE_CONT
+WITH [sales_rows] AS (
+  SELECT
+    ([sales].[price] * [sales].[qty]) AS [revenue_arg],
+    (([sales].[price] * [sales].[qty])) AS [mid_line_arg]
+  FROM [shop].[sales] AS [sales]
+),
+[sales_ranks] AS (
+  SELECT
+    [revenue_arg],
+    [mid_line_arg],
+    [mid_line_arg] AS [mid_line_median_value],
+    ROW_NUMBER() OVER (ORDER BY CASE WHEN [mid_line_arg] IS NULL THEN 1 ELSE 0 END, [mid_line_arg] ASC) AS [mid_line_median_number],
+    COUNT_BIG([mid_line_arg]) OVER (ORDER BY CASE WHEN [mid_line_arg] IS NULL THEN 1 ELSE 0 END, [mid_line_arg] ASC ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS [mid_line_median_count]
+  FROM [sales_rows]
+),
+[sales_cells] AS (
+  SELECT
+    0 AS [grouping_id],
+    SUM([revenue_arg]) AS [revenue],
+    AVG(CAST(CASE WHEN 2 * [mid_line_median_number] BETWEEN [mid_line_median_count] AND [mid_line_median_count] + 2 THEN [mid_line_median_value] END AS FLOAT)) AS [mid_line],
+    STDEV(CAST([mid_line_arg] AS FLOAT)) AS [line_sd],
+    VAR(CAST([mid_line_arg] AS FLOAT)) AS [line_var]
+  FROM [sales_ranks]
+),
+[items_per_sales_rows] AS (
+  SELECT
+    [sales].[item] AS [sales.item per]
+  FROM [shop].[sales] AS [sales]
+),
+[items_per_sales_cells] AS (
+  SELECT
+    [sales.item per],
+    0 AS [grouping_id]
+  FROM [items_per_sales_rows]
+  GROUP BY [sales.item per]
+),
+[items_per_groups] AS (
+  SELECT
+    [sales.item per],
+    [grouping_id]
+  FROM [items_per_sales_cells]
+),
+[items_per] AS (
+  SELECT
+    [grouping_id],
+    COUNT_BIG(CASE WHEN [sales.item per] IS NOT NULL THEN 1 END) AS [items]
+  FROM [items_per_groups]
+  GROUP BY [grouping_id]
+)
+SELECT
+  [sales_cells].[revenue] AS [revenue],
+  COALESCE([items_per].[items], 0) AS [items],
+  [sales_cells].[mid_line] AS [mid_line],
+  [sales_cells].[line_sd] AS [line_sd],
+  [sales_cells].[line_var] AS [line_var],
+  [sales_cells].[grouping_id]
+FROM [sales_cells]
+  LEFT JOIN [items_per] ON 1 = 1;

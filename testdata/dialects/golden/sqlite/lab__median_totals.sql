@@ -1,0 +1,95 @@
+-- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,urgent_mid,patient_mid' -b patients.ward --totals rollup -d sqlite
+WITH `visits_rows` AS (
+  SELECT
+    `patients`.`ward` AS `patients.ward`,
+    `visits`.`minutes` AS `mid_minutes_arg`,
+    `visits`.`urgent` AS `urgent_mid_if`,
+    `visits`.`patient` AS `visits.patient per`
+  FROM `lab`.`visits` AS `visits`
+  LEFT JOIN `lab`.`patients` AS `patients` ON `visits`.`patient` = `patients`.`id`
+),
+`visits_ranks` AS (
+  SELECT
+    `patients.ward`,
+    `mid_minutes_arg` AS `mid_minutes_median_value`,
+    ROW_NUMBER() OVER (PARTITION BY `patients.ward` ORDER BY `mid_minutes_arg` ASC NULLS LAST) AS `mid_minutes_median_number_0`,
+    count(`mid_minutes_arg`) OVER (PARTITION BY `patients.ward` ORDER BY `mid_minutes_arg` ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS `mid_minutes_median_count_0`,
+    ROW_NUMBER() OVER (ORDER BY `mid_minutes_arg` ASC NULLS LAST) AS `mid_minutes_median_number_1`,
+    count(`mid_minutes_arg`) OVER (ORDER BY `mid_minutes_arg` ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS `mid_minutes_median_count_1`,
+    CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END AS `urgent_mid_median_value`,
+    ROW_NUMBER() OVER (PARTITION BY `patients.ward` ORDER BY CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END ASC NULLS LAST) AS `urgent_mid_median_number_0`,
+    count(CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END) OVER (PARTITION BY `patients.ward` ORDER BY CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS `urgent_mid_median_count_0`,
+    ROW_NUMBER() OVER (ORDER BY CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END ASC NULLS LAST) AS `urgent_mid_median_number_1`,
+    count(CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END) OVER (ORDER BY CASE WHEN `urgent_mid_if` THEN `mid_minutes_arg` END ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS `urgent_mid_median_count_1`
+  FROM `visits_rows`
+),
+`visits_cells` AS (
+  SELECT
+    `patients.ward`,
+    0 AS `grouping_id`,
+    avg(CASE WHEN 2 * `mid_minutes_median_number_0` BETWEEN `mid_minutes_median_count_0` AND `mid_minutes_median_count_0` + 2 THEN `mid_minutes_median_value` END) AS `mid_minutes`,
+    avg(CASE WHEN 2 * `urgent_mid_median_number_0` BETWEEN `urgent_mid_median_count_0` AND `urgent_mid_median_count_0` + 2 THEN `urgent_mid_median_value` END) AS `urgent_mid`
+  FROM `visits_ranks`
+  GROUP BY `patients.ward`
+  UNION ALL
+  SELECT
+    NULL AS `patients.ward`,
+    1 AS `grouping_id`,
+    avg(CASE WHEN 2 * `mid_minutes_median_number_1` BETWEEN `mid_minutes_median_count_1` AND `mid_minutes_median_count_1` + 2 THEN `mid_minutes_median_value` END) AS `mid_minutes`,
+    avg(CASE WHEN 2 * `urgent_mid_median_number_1` BETWEEN `urgent_mid_median_count_1` AND `urgent_mid_median_count_1` + 2 THEN `urgent_mid_median_value` END) AS `urgent_mid`
+  FROM `visits_ranks`
+),
+`patient_mid_per_visits_cells` AS (
+  SELECT
+    `patients.ward`,
+    `visits.patient per`,
+    0 AS `grouping_id`,
+    sum(`mid_minutes_arg`) AS `patient_mid_per_total_minutes`
+  FROM `visits_rows`
+  GROUP BY `patients.ward`, `visits.patient per`
+  UNION ALL
+  SELECT
+    NULL AS `patients.ward`,
+    `visits.patient per`,
+    2 AS `grouping_id`,
+    sum(`mid_minutes_arg`) AS `patient_mid_per_total_minutes`
+  FROM `visits_rows`
+  GROUP BY `visits.patient per`
+),
+`patient_mid_per_groups` AS (
+  SELECT
+    `patients.ward`,
+    `visits.patient per`,
+    `grouping_id`,
+    `patient_mid_per_total_minutes` AS `patient_mid_value`
+  FROM `patient_mid_per_visits_cells`
+),
+`patient_mid_per_ranks` AS (
+  SELECT
+    `grouping_id`,
+    `patients.ward`,
+    `visits.patient per`,
+    `patient_mid_value`,
+    CASE WHEN `visits.patient per` IS NOT NULL THEN `patient_mid_value` END AS `patient_mid_median_value`,
+    ROW_NUMBER() OVER (PARTITION BY `grouping_id`, `patients.ward` ORDER BY CASE WHEN `visits.patient per` IS NOT NULL THEN `patient_mid_value` END ASC NULLS LAST) AS `patient_mid_median_number`,
+    count(CASE WHEN `visits.patient per` IS NOT NULL THEN `patient_mid_value` END) OVER (PARTITION BY `grouping_id`, `patients.ward` ORDER BY CASE WHEN `visits.patient per` IS NOT NULL THEN `patient_mid_value` END ASC NULLS LAST ROWS BETWEEN UNBOUNDED PRECEDING AND UNBOUNDED FOLLOWING) AS `patient_mid_median_count`
+  FROM `patient_mid_per_groups`
+),
+`patient_mid_per` AS (
+  SELECT
+    `patients.ward`,
+    `grouping_id`,
+    avg(CASE WHEN 2 * `patient_mid_median_number` BETWEEN `patient_mid_median_count` AND `patient_mid_median_count` + 2 THEN `patient_mid_median_value` END) AS `patient_mid`
+  FROM `patient_mid_per_ranks`
+  GROUP BY `grouping_id`, `patients.ward`
+)
+SELECT
+  `visits_cells`.`patients.ward`,
+  `visits_cells`.`mid_minutes` AS `mid_minutes`,
+  `visits_cells`.`urgent_mid` AS `urgent_mid`,
+  `patient_mid_per`.`patient_mid` AS `patient_mid`,
+  `visits_cells`.`grouping_id`
+FROM `visits_cells`
+  LEFT JOIN `patient_mid_per` ON `patient_mid_per`.`grouping_id` = CASE `visits_cells`.`grouping_id` WHEN 0 THEN 0 WHEN 1 THEN 2 END
+    AND `patient_mid_per`.`patients.ward` IS `visits_cells`.`patients.ward`
+ORDER BY (`visits_cells`.`grouping_id` & 1), `visits_cells`.`patients.ward` ASC NULLS LAST;
