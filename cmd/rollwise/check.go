@@ -3,8 +3,8 @@ package main
 import (
 	"context"
 	"fmt"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 

@@ -3,11 +3,11 @@ package main
 import (
 	"errors"
 	"fmt"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"strings"
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"github.com/rollwise/rollwise/cmd/rollwise/views"
 	"github.com/rollwise/rollwise/dialects"
 )

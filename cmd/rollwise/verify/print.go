@@ -4,11 +4,12 @@ import (
 	"bytes"
 	"encoding/json"
 	"fmt"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"io"
 	"strconv"
 	"strings"
 	"text/tabwriter"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/report"
 )
 
 // rowLabel names a row for people: "stores.region=North, sales.item=(total)".
