@@ -101,8 +101,15 @@ Start with the demo:
   rollwise demo --dir garden && rollwise run garden/garden.roll -m revenue,margin_rate -b plants.family --totals grand`,
 		SilenceUsage:  true,
 		SilenceErrors: true,
+		Version:       version(),
 	}
-	root.CompletionOptions.DisableDefaultCmd = true
-	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e))
+	root.SetVersionTemplate("rollwise {{.Version}}\n")
+	root.CompletionOptions.HiddenDefaultCmd = false
+	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e), newListCmd(e))
+	for _, c := range root.Commands() {
+		if c.Name() != "demo" {
+			addCompletions(c)
+		}
+	}
 	return root
 }
