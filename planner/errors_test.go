@@ -238,3 +238,20 @@ table q {
 		}
 	}
 }
+
+// TestMeasureNamedLikeGroupColumn: a measure whose name is a group
+// column's output name is refused, not rendered as ambiguous SQL (issue
+// 17); DuckDB compares quoted names without regard to case, so the test
+// does too.
+func TestMeasureNamedLikeGroupColumn(t *testing.T) {
+	m, d := load(t, "measure `stores.region` = sum(sales.qty)\nmeasure `Stores.Region` = count(sales.qty)\n")
+	if m == nil {
+		t.Fatal(d)
+	}
+	for _, name := range []string{"stores.region", "Stores.Region"} {
+		_, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"`" + name + "`"}, By: []string{"stores.region"}})
+		if len(qd) != 1 || qd[0].Code != "name-clash" || !strings.Contains(qd[0].Message, "both be output columns") {
+			t.Errorf("%s: %v", name, qd)
+		}
+	}
+}

@@ -114,6 +114,18 @@ func unbackquote(name string) string {
 	return name
 }
 
+// SplitList splits a command line list (-m, -b) at the commas outside
+// backquotes, so that -m '`net, after tax`,revenue' names two measures,
+// and trims each item; blank items are dropped. A double quote is an
+// ordinary character.
+func SplitList(s string) []string {
+	var out []string
+	for _, item := range splitOutsideBackquotes(s, ',') {
+		out = append(out, item.text)
+	}
+	return out
+}
+
 // listItem is a part of an option's text and the column it starts at.
 type listItem struct {
 	text string

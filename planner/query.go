@@ -79,7 +79,7 @@ func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
 	for _, name := range spec.Measures {
 		p := grammar.Pos{File: "--measures", Line: 1, Col: col}
 		col += len(name) + 1
-		name = strings.TrimSpace(name)
+		name = unbackquote(strings.TrimSpace(name))
 		mm := m.Measure(name)
 		if mm == nil {
 			var names []string
@@ -114,6 +114,7 @@ func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
 	}
 	diags.Append(r.diags)
 	r.diags = nil
+	diags.Append(nameClashes(q))
 	if strings.TrimSpace(spec.Where) != "" {
 		e, d := grammar.ParseExpr("--where", spec.Where)
 		diags.Append(d)
@@ -128,6 +129,24 @@ func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
 	diags.Append(q.Override(QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit}))
 	diags.Append(r.diags)
 	return q, diags
+}
+
+// nameClashes refuses a measure named like a group column of the query
+// (a measure `stores.region` beside -b stores.region): both would be
+// output columns of one name, and the SQL ambiguous. Engines compare
+// quoted names without regard to case (DuckDB) or with it, so the test
+// ignores case.
+func nameClashes(q *Query) grammar.Diagnostics {
+	var diags grammar.Diagnostics
+	for _, m := range q.Measures {
+		for i, c := range q.Groups {
+			if strings.EqualFold(m.Name, c.String()) || strings.EqualFold(m.Name, q.GroupNames[i]) {
+				diags.Errorf(q.GroupPos[i], "name-clash", "measure %q and group column %s would both be output columns named %q", m.Name, c, m.Name).Suggestion =
+					"rename the measure (measure names need no dot), or leave one of them out of the query"
+			}
+		}
+	}
+	return diags
 }
 
 func (r *resolver) byColumn(ref string, p grammar.Pos) *Column {
@@ -215,15 +234,4 @@ func (m *Model) ViewQuery(v *View) *Query {
 		q.Filters = Conjuncts(v.Where)
 	}
 	return q
-}
-
-// SplitList splits a comma-separated option value, dropping empty items.
-func SplitList(s string) []string {
-	var out []string
-	for _, p := range strings.Split(s, ",") {
-		if strings.TrimSpace(p) != "" {
-			out = append(out, p)
-		}
-	}
-	return out
 }

@@ -231,13 +231,8 @@ func BenchmarkPlan50(b *testing.B) {
 // BenchmarkParse10MB parses a model file of about 10 MB (the synthetic
 // model with as many measures as it takes).
 func BenchmarkParse10MB(b *testing.B) {
-	n := 5000 * (10 << 20) / len(synthModel(5000))
-	src := synthModel(n)
-	for len(src) < 10<<20 {
-		n += 1000
-		src = synthModel(n)
-	}
-	b.Logf("%d measures, %.1f MB", n, float64(len(src))/1e6)
+	src := synthModelOfSize(10 << 20)
+	b.Logf("%.1f MB", float64(len(src))/1e6)
 	b.SetBytes(int64(len(src)))
 	b.ReportAllocs()
 	cpu := processCPU()

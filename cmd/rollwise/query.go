@@ -29,8 +29,8 @@ type queryOptions struct {
 
 func (o *queryOptions) addFlags(cmd *cobra.Command) {
 	f := cmd.Flags()
-	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compute, comma-separated")
-	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
+	listVarP(f, &o.measures, "measures", "m", "measures to compute, comma-separated")
+	listVarP(f, &o.by, "by", "b", "group columns, written table.column, comma-separated")
 	whereVar(f, &o.where)
 	onceStringVarP(f, &o.totals, "totals", "", "", "total rows: none, grand, rollup or all; default none, or with --view the view's own")
 	onceStringVarP(f, &o.order, "order", "", "", "sort by keys, each a measure of -m or a column of -b, asc or desc: \"revenue desc, stores.city\"")

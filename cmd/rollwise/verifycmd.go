@@ -75,8 +75,8 @@ fails), 2 for usage errors.`,
 	}
 	f := cmd.Flags()
 	f.StringVar(&o.sqlFile, "sql", "", "the handwritten SQL file to check")
-	f.StringSliceVarP(&o.measures, "measures", "m", nil, "measures to compare, comma-separated")
-	f.StringSliceVarP(&o.by, "by", "b", nil, "group columns, written table.column, comma-separated")
+	listVarP(f, &o.measures, "measures", "m", "measures to compare, comma-separated")
+	listVarP(f, &o.by, "by", "b", "group columns, written table.column, comma-separated")
 	whereVar(f, &o.where)
 	onceStringVarP(f, &o.totals, "totals", "", "none", "total rows: none, grand, rollup or all")
 	f.StringSliceVar(&o.maps, "map", nil, "MEASURE=COLUMN or TABLE.COLUMN=COLUMN: the SQL's column that holds a measure or a --by column (repeatable)")

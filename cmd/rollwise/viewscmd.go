@@ -46,6 +46,9 @@ would write and exits 1 if they differ, listing each view that does.`,
 				return err
 			}
 			o.models = args
+			if err := viewsFolderArgs(cmd, o); err != nil {
+				return err
+			}
 			return runViews(e, o)
 		},
 	}
@@ -80,6 +83,11 @@ func runViews(e *env, o *viewsOptions) error {
 	}
 	if len(set.Views) == 0 {
 		fmt.Fprintln(e.stderr, "note: the model has no derived columns and no view blocks: there is nothing to publish")
+	}
+	if o.out != "" || o.check != "" {
+		if err := viewFileNames(set); err != nil {
+			return err
+		}
 	}
 	switch {
 	case o.check != "":

@@ -1,0 +1,87 @@
+package main
+
+import (
+	"io"
+	"math/rand/v2"
+	"os"
+	"path/filepath"
+	"runtime"
+	"strings"
+	"testing"
+)
+
+// BenchmarkCheckHostile runs `rollwise check` on inputs made to grow the
+// work faster than their size (issue 17 item 5; target: any input up to
+// the 64 MiB cap in under 5 s and 500 MB). Each reports wall and CPU
+// milliseconds, the input's size and the peak heap in MB (sampled after
+// each run, so a lower bound of the process's peak). ROLLWISE_BENCH_CAP=1
+// adds the inputs at the cap itself, which take minutes.
+func BenchmarkCheckHostile(b *testing.B) {
+	long := strings.Repeat("a", 100_000)
+	cases := []struct {
+		name string
+		src  func() string
+	}{
+		{"hash-1MiB", func() string { return strings.Repeat("#", 1<<20) }},
+		{"random-1MiB", func() string { return randomBytes(1 << 20) }},
+		{"longnames-2x100k", func() string {
+			return "table t from \"t.csv\" {\n  key " + long + "\n  " + long + " integer\n}\nmeasure m = sum(t." + long[1:] + "b)\n"
+		}},
+		{"chain-10000", func() string { return chainModel(10_000) }},
+		{"model-10MB", func() string { return synthModelOfSize(10 << 20) }},
+	}
+	if os.Getenv("ROLLWISE_BENCH_CAP") != "" {
+		cases = append(cases,
+			struct {
+				name string
+				src  func() string
+			}{"hash-64MiB", func() string { return strings.Repeat("#", 64<<20) }},
+			struct {
+				name string
+				src  func() string
+			}{"random-60MiB", func() string { return randomBytes(60 << 20) }})
+	}
+	for _, c := range cases {
+		b.Run(c.name, func(b *testing.B) {
+			src := c.src()
+			path := filepath.Join(b.TempDir(), "m.roll")
+			if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
+				b.Fatal(err)
+			}
+			b.SetBytes(int64(len(src)))
+			b.ReportAllocs()
+			var peak uint64
+			cpu := processCPU()
+			for b.Loop() {
+				Main([]string{"check", path}, nil, io.Discard, io.Discard)
+				var ms runtime.MemStats
+				runtime.ReadMemStats(&ms)
+				peak = max(peak, ms.HeapSys)
+			}
+			reportMS(b, processCPU()-cpu)
+			b.ReportMetric(float64(peak)/1e6, "heap-MB")
+		})
+	}
+}
+
+// randomBytes is n bytes of a fixed pseudo-random sequence.
+func randomBytes(n int) string {
+	r := rand.New(rand.NewPCG(17, 5))
+	b := make([]byte, n)
+	for i := range b {
+		b[i] = byte(r.Uint32())
+	}
+	return string(b)
+}
+
+// synthModelOfSize is the synthetic model with as many measures as make
+// it at least size bytes.
+func synthModelOfSize(size int) string {
+	n := 5000 * size / len(synthModel(5000))
+	src := synthModel(n)
+	for len(src) < size {
+		n += 1000
+		src = synthModel(n)
+	}
+	return src
+}
