@@ -44,7 +44,7 @@ func scrubDSN(dsn string, err error) error {
 // executeLive runs a compiled query on the database at dsn and shapes
 // the rows for the report exactly as for the embedded engine.
 func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, error) {
-	l, err := engine.OpenLive(ctx, dsn)
+	l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{})
 	if err != nil {
 		return nil, &exitError{code: exitFindings, err: err}
 	}
@@ -62,7 +62,7 @@ func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, e
 // the embedded engine; closeData releases what was opened.
 func openData(ctx context.Context, m *planner.Model, dataDir, dsn string) (run verify.Runner, live *engine.Live, closeData func(), err error) {
 	if dsn != "" {
-		l, err := engine.OpenLive(ctx, dsn)
+		l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{})
 		if err != nil {
 			return nil, nil, nil, &exitError{code: exitFindings, err: err}
 		}

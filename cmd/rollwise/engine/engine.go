@@ -71,12 +71,39 @@ func OpenDuckDB(ctx context.Context, m *planner.Model, dataDir string) (*sql.DB,
 			errs = append(errs, err)
 		}
 	}
+	if len(errs) == 0 {
+		errs = append(errs, lockDown(ctx, conn, rels))
+	}
 	conn.Close()
-	if len(errs) > 0 {
+	if err := errors.Join(errs...); err != nil {
 		db.Close()
-		return nil, errors.Join(errs...)
+		return nil, err
 	}
 	return db, nil
+}
+
+// lockDown takes the loaded DuckDB off the file system, so that the SQL
+// it runs (a handwritten query under verify) can neither read nor write
+// files: only the Parquet files its views read stay readable
+// (allowed_paths), and the configuration is locked so that no statement
+// turns access back on (duckdb.org/docs/stable/operations_manual/securing_duckdb/overview).
+func lockDown(ctx context.Context, conn *sql.Conn, rels []*relation) error {
+	var files []string
+	for _, r := range rels {
+		if strings.EqualFold(filepath.Ext(r.file), ".parquet") {
+			files = append(files, quoteString(r.file))
+		}
+	}
+	stmts := []string{"SET enable_external_access = false", "SET lock_configuration = true"}
+	if len(files) > 0 {
+		stmts = append([]string{"SET allowed_paths = [" + strings.Join(files, ", ") + "]"}, stmts...)
+	}
+	for _, s := range stmts {
+		if _, err := conn.ExecContext(ctx, s); err != nil {
+			return fmt.Errorf("internal error: taking DuckDB off the file system: %w", err)
+		}
+	}
+	return nil
 }
 
 // relations groups the model's tables by relation and resolves each

@@ -7,15 +7,12 @@ import (
 	"fmt"
 	"net"
 	"net/url"
-	"path/filepath"
-	"sort"
 	"strings"
 	"time"
 
 	gomysql "github.com/go-sql-driver/mysql"
 	"github.com/jackc/pgx/v5"
 	"github.com/jackc/pgx/v5/stdlib"
-	_ "modernc.org/sqlite" // registers the "sqlite" driver
 )
 
 // Live is a connection to a live database named by a URL: PostgreSQL
@@ -33,6 +30,20 @@ type Live struct {
 	textCollation string
 	db            *sql.DB
 	conn          *sql.Conn
+	// writable says the session may change the database (LiveOptions).
+	writable bool
+}
+
+// LiveOptions say how OpenLive connects.
+type LiveOptions struct {
+	// Writable opens a session that may change the database, for loading
+	// test or demonstration data (LoadInto). Without it the session is
+	// read-only on every engine: PostgreSQL and MySQL/MariaDB sessions
+	// default to read-only transactions and each query runs in one, rolled
+	// back at its end; SQLite opens the file and every attached file
+	// read-only (a missing one is never created), with query_only on and
+	// an authorizer that refuses writes, ATTACH and setting pragmas.
+	Writable bool
 }
 
 // mysqlMode is the SQL mode rollwise's MySQL sessions run in: the string
@@ -60,9 +71,10 @@ func DialectOfDSN(dsn string) (string, error) {
 
 // OpenLive connects to the database named by dsn and checks that it
 // answers. For SQLite, sqlite:PATH opens an existing file (add
-// ?mode=rwc to create it), and each attach=NAME=FILE parameter attaches
-// FILE as schema NAME, for relations written NAME.TABLE.
-func OpenLive(ctx context.Context, dsn string) (*Live, error) {
+// ?mode=rwc to create it, in a writable session), and each
+// attach=NAME=FILE parameter attaches FILE as schema NAME, for relations
+// written NAME.TABLE. The session is read-only unless o.Writable.
+func OpenLive(ctx context.Context, dsn string, o LiveOptions) (*Live, error) {
 	dialect, err := DialectOfDSN(dsn)
 	if err != nil {
 		return nil, err
@@ -70,11 +82,11 @@ func OpenLive(ctx context.Context, dsn string) (*Live, error) {
 	var l *Live
 	switch dialect {
 	case "postgres":
-		l, err = openPostgres(ctx, dsn)
+		l, err = openPostgres(ctx, dsn, o)
 	case "mysql":
-		l, err = openMySQL(ctx, dsn)
+		l, err = openMySQL(ctx, dsn, o)
 	default:
-		l, err = openSQLite(ctx, dsn)
+		l, err = openSQLite(ctx, dsn, o)
 	}
 	if err != nil {
 		return nil, ScrubError(dsn, fmt.Errorf("connecting to %s: %w", RedactDSN(dsn), err))
@@ -83,13 +95,13 @@ func OpenLive(ctx context.Context, dsn string) (*Live, error) {
 }
 
 // newLive takes one connection from db for the Live.
-func newLive(ctx context.Context, dialect string, db *sql.DB, setup ...string) (*Live, error) {
+func newLive(ctx context.Context, dialect string, db *sql.DB, o LiveOptions, setup ...string) (*Live, error) {
 	conn, err := db.Conn(ctx)
 	if err != nil {
 		db.Close()
 		return nil, err
 	}
-	l := &Live{Dialect: dialect, db: db, conn: conn}
+	l := &Live{Dialect: dialect, db: db, conn: conn, writable: o.Writable}
 	for _, s := range setup {
 		if _, err := conn.ExecContext(ctx, s); err != nil {
 			l.Close()
@@ -99,7 +111,7 @@ func newLive(ctx context.Context, dialect string, db *sql.DB, setup ...string) (
 	return l, nil
 }
 
-func openPostgres(ctx context.Context, dsn string) (*Live, error) {
+func openPostgres(ctx context.Context, dsn string, o LiveOptions) (*Live, error) {
 	cfg, err := pgx.ParseConfig(dsn)
 	if err != nil {
 		return nil, err
@@ -112,7 +124,13 @@ func openPostgres(ctx context.Context, dsn string) (*Live, error) {
 	cfg.DefaultQueryExecMode = pgx.QueryExecModeDescribeExec
 	db := stdlib.OpenDB(*cfg)
 	// UTC, so that timestamps with a time zone read the same everywhere.
-	l, err := newLive(ctx, "postgres", db, "SET TIME ZONE 'UTC'")
+	setup := []string{"SET TIME ZONE 'UTC'"}
+	if !o.Writable {
+		// Every transaction of the session is read-only, ours included
+		// (postgresql.org/docs/current/sql-set-transaction.html).
+		setup = append(setup, "SET SESSION CHARACTERISTICS AS TRANSACTION READ ONLY")
+	}
+	l, err := newLive(ctx, "postgres", db, o, setup...)
 	if err != nil {
 		return nil, err
 	}
@@ -164,7 +182,7 @@ func mysqlConfig(dsn string) (*gomysql.Config, error) {
 	return cfg, nil
 }
 
-func openMySQL(ctx context.Context, dsn string) (*Live, error) {
+func openMySQL(ctx context.Context, dsn string, o LiveOptions) (*Live, error) {
 	cfg, err := mysqlConfig(dsn)
 	if err != nil {
 		return nil, err
@@ -173,7 +191,15 @@ func openMySQL(ctx context.Context, dsn string) (*Live, error) {
 	if err != nil {
 		return nil, err
 	}
-	l, err := newLive(ctx, "mysql", sql.OpenDB(connector))
+	var setup []string
+	if !o.Writable {
+		// Every later transaction of the session is read-only, and so is
+		// each statement outside one; a statement that writes fails with
+		// ER_CANT_EXECUTE_IN_READ_ONLY_TRANSACTION
+		// (dev.mysql.com/doc/refman/8.0/en/set-transaction.html).
+		setup = append(setup, "SET SESSION TRANSACTION READ ONLY")
+	}
+	l, err := newLive(ctx, "mysql", sql.OpenDB(connector), o, setup...)
 	if err != nil {
 		return nil, err
 	}
@@ -196,93 +222,41 @@ func openMySQL(ctx context.Context, dsn string) (*Live, error) {
 		l.Server = "MySQL " + l.Server
 	}
 	l.textCollation = collation
-	if err := l.Exec(ctx, "SET collation_connection = '"+collation+"'"); err != nil {
+	if _, err := l.conn.ExecContext(ctx, "SET collation_connection = '"+collation+"'"); err != nil {
 		l.Close()
 		return nil, err
 	}
 	return l, nil
 }
 
-// sqliteTarget splits sqlite:PATH[?mode=M&attach=NAME=FILE...] into the
-// file to open, its open mode, and the files to attach by schema name.
-func sqliteTarget(dsn string) (path, mode string, attach map[string]string, err error) {
-	_, rest, _ := strings.Cut(dsn, ":")
-	rest = strings.TrimPrefix(rest, "//")
-	path, query, _ := strings.Cut(rest, "?")
-	if path == "" {
-		return "", "", nil, errors.New("sqlite: name the database file: sqlite:PATH")
-	}
-	q, err := url.ParseQuery(query)
-	if err != nil {
-		return "", "", nil, err
-	}
-	mode, attach = "rw", map[string]string{}
-	for k, vs := range q {
-		switch k {
-		case "mode":
-			mode = vs[0]
-			if mode != "rw" && mode != "rwc" && mode != "ro" {
-				return "", "", nil, fmt.Errorf("sqlite: mode is ro, rw or rwc, not %q", mode)
-			}
-		case "attach":
-			for _, v := range vs {
-				name, file, ok := strings.Cut(v, "=")
-				if !ok || name == "" || file == "" {
-					return "", "", nil, fmt.Errorf("sqlite: attach takes NAME=FILE, not %q", v)
-				}
-				if !filepath.IsAbs(file) {
-					file = filepath.Join(filepath.Dir(path), file)
-				}
-				attach[name] = file
-			}
-		default:
-			return "", "", nil, fmt.Errorf("sqlite URL parameter %q is not supported (mode, attach)", k)
-		}
-	}
-	return path, mode, attach, nil
-}
-
-func openSQLite(ctx context.Context, dsn string) (*Live, error) {
-	path, mode, attach, err := sqliteTarget(dsn)
-	if err != nil {
-		return nil, err
-	}
-	// A URI filename (sqlite.org/uri.html): %, ? and # in the path are
-	// escaped, the open mode is a parameter.
-	uri := "file:" + strings.NewReplacer("%", "%25", "?", "%3f", "#", "%23").Replace(path) + "?mode=" + mode
-	db, err := sql.Open("sqlite", uri)
-	if err != nil {
-		return nil, err
-	}
-	names := make([]string, 0, len(attach))
-	for n := range attach {
-		names = append(names, n)
-	}
-	sort.Strings(names)
-	var setup []string
-	for _, n := range names {
-		setup = append(setup, "ATTACH DATABASE "+quoteSQLiteString(attach[n])+" AS "+quoteSQLiteIdent(n))
-	}
-	l, err := newLive(ctx, "sqlite", db, setup...)
-	if err != nil {
-		return nil, err
-	}
-	var v string
-	if err := l.conn.QueryRowContext(ctx, "SELECT sqlite_version()").Scan(&v); err != nil {
-		l.Close()
-		return nil, err
-	}
-	l.Server = "SQLite " + v
-	return l, nil
-}
-
-func quoteSQLiteString(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
-func quoteSQLiteIdent(s string) string  { return "`" + strings.ReplaceAll(s, "`", "``") + "`" }
-
-// Exec runs a statement that returns no rows.
+// Exec runs a statement that returns no rows, in a writable session
+// (LiveOptions.Writable) only.
 func (l *Live) Exec(ctx context.Context, stmt string, args ...any) error {
+	if !l.writable {
+		return errors.New("internal error: a read-only session cannot run " + strings.Fields(stmt + " ?")[0])
+	}
 	_, err := l.conn.ExecContext(ctx, stmt, args...)
 	return err
+}
+
+// rows runs a query. In a read-only PostgreSQL or MySQL/MariaDB session
+// it runs in a read-only transaction, which done rolls back (after the
+// rows are read); SQLite's read-only session needs none.
+func (l *Live) rows(ctx context.Context, query string) (rows *sql.Rows, done func() error, err error) {
+	if l.writable || l.Dialect == "sqlite" {
+		rows, err := l.conn.QueryContext(ctx, query)
+		return rows, func() error { return nil }, err
+	}
+	tx, err := l.conn.BeginTx(ctx, &sql.TxOptions{ReadOnly: true})
+	if err != nil {
+		return nil, nil, err
+	}
+	rows, err = tx.QueryContext(ctx, query)
+	if err != nil {
+		tx.Rollback()
+		return nil, nil, err
+	}
+	return rows, tx.Rollback, nil
 }
 
 // Close closes the connection.

@@ -62,7 +62,7 @@ func TestSQLiteTarget(t *testing.T) {
 			t.Errorf("%q: want an error", bad)
 		}
 	}
-	if _, err := OpenLive(context.Background(), "sqlite:"+filepath.Join(t.TempDir(), "missing.db")); err == nil {
+	if _, err := OpenLive(context.Background(), "sqlite:"+filepath.Join(t.TempDir(), "missing.db"), LiveOptions{}); err == nil {
 		t.Error("opening a missing SQLite file must fail (mode=rwc creates)")
 	}
 }
@@ -149,7 +149,7 @@ func liveEngine(t *testing.T, name string) *Live {
 			t.Skip(msg)
 		}
 	}
-	l, err := OpenLive(ctx, dsn)
+	l, err := OpenLive(ctx, dsn, LiveOptions{Writable: true})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -239,7 +239,7 @@ func TestLoadIntoSQLiteNeedsAttachedSchema(t *testing.T) {
 	dir := t.TempDir()
 	writeFile(t, dir, "t.csv", "id\n1\n")
 	m := model(table("t", []string{"shop", "t"}, filepath.Join(dir, "t.csv"), col("id", planner.TypeInteger)))
-	l, err := OpenLive(context.Background(), "sqlite:"+filepath.Join(dir, "main.db")+"?mode=rwc")
+	l, err := OpenLive(context.Background(), "sqlite:"+filepath.Join(dir, "main.db")+"?mode=rwc", LiveOptions{Writable: true})
 	if err != nil {
 		t.Fatal(err)
 	}

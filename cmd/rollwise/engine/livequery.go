@@ -44,10 +44,11 @@ func typeOfColumn(name string) planner.Type {
 // type). A column past the end of want, or of TypeNull, keeps the
 // driver's value.
 func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*Result, error) {
-	rows, err := l.conn.QueryContext(ctx, query)
+	rows, done, err := l.rows(ctx, query)
 	if err != nil {
 		return nil, fmt.Errorf("query failed: %w", err)
 	}
+	defer done()
 	defer rows.Close()
 	cols, err := rows.Columns()
 	if err != nil {

@@ -5,7 +5,6 @@ import (
 	"fmt"
 	"sort"
 	"strings"
-	"unicode"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/dialects"
@@ -92,16 +91,9 @@ func (h *handwritten) anyNullKey() bool {
 
 // runHandwritten runs the handwritten SQL and reads its rows.
 func (v *verifier) runHandwritten(ctx context.Context) (*handwritten, error) {
-	// Only the end is trimmed, so that the engine's line numbers are the
-	// file's.
-	text := strings.TrimRightFunc(v.in.Handwritten, unicode.IsSpace)
-	for strings.HasSuffix(text, ";") {
-		text = strings.TrimRightFunc(strings.TrimSuffix(text, ";"), unicode.IsSpace)
-	}
-	if onlyComments(text) {
-		return nil, inputErr("%s holds no SQL statement", v.in.SQLName)
-	}
-	res, err := v.run.Query(ctx, text)
+	// The one statement CheckQuery let through, cut after its end only,
+	// so that the engine's line numbers are the file's.
+	res, err := v.run.Query(ctx, v.stmt)
 	if err != nil {
 		return nil, &SQLError{Name: v.in.SQLName, Err: err}
 	}
@@ -413,16 +405,4 @@ func align(n int, sets []uint64, comp []resultRow, index map[string]int, h *hand
 	}
 	sort.Ints(a.sqlOnly)
 	return a
-}
-
-// onlyComments reports whether SQL text holds nothing but blank lines
-// and -- comments.
-func onlyComments(text string) bool {
-	for _, line := range strings.Split(text, "\n") {
-		line = strings.TrimSpace(line)
-		if line != "" && !strings.HasPrefix(line, "--") {
-			return false
-		}
-	}
-	return true
 }

@@ -230,7 +230,8 @@ func Run(ctx context.Context, in *Input, r Runner) (*Report, error) {
 type verifier struct {
 	in       *Input
 	run      Runner
-	n        int // number of --by columns
+	stmt     string // the handwritten query, checked by CheckQuery
+	n        int    // number of --by columns
 	measures []*planner.Measure
 	names    []string
 	rep      *Report
@@ -250,7 +251,13 @@ func newVerifier(in *Input, r Runner) (*verifier, error) {
 	if math.IsNaN(tol) || math.IsInf(tol, 0) || tol < 0 {
 		return nil, inputErr("--tolerance must be a number of 0 or more, not %v", tol)
 	}
-	v := &verifier{in: in, run: r, n: len(in.Query.Groups), pairs: map[int]int{}}
+	// Nothing reaches the engine unless the handwritten SQL is one query
+	// that only reads.
+	stmt, err := CheckQuery(in.Dialect.Name(), in.SQLName, in.Handwritten)
+	if err != nil {
+		return nil, err
+	}
+	v := &verifier{in: in, run: r, stmt: stmt, n: len(in.Query.Groups), pairs: map[int]int{}}
 	for _, m := range in.Query.Measures {
 		v.measures = append(v.measures, m)
 		v.names = append(v.names, m.Name)

@@ -73,7 +73,7 @@ var unsafeChars = regexp.MustCompile(`[^a-z0-9_]`)
 // test in parallel must use different tags. The caller closes it.
 func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Engine {
 	t.Helper()
-	e := connect(t, name, "rollwise_test_"+safeName(tag), schemas(m))
+	e := connect(t, name, dbPrefix()+safeName(tag), schemas(m))
 	if err := engine.LoadInto(context.Background(), e.Live, m, dataDir); err != nil {
 		e.Close()
 		t.Fatalf("%s: %v", name, err)
@@ -87,7 +87,7 @@ func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Eng
 // (engine.LoadInto). The database is dropped when the test ends.
 func Empty(t testing.TB, name, tag string) *Engine {
 	t.Helper()
-	db := fmt.Sprintf("rollwise_test_%s_%d", safeName(tag), os.Getpid())
+	db := fmt.Sprintf("%s%s_%d", dbPrefix(), safeName(tag), os.Getpid())
 	e := connect(t, name, db, nil)
 	server := ServerURL(t, name)
 	t.Cleanup(func() {
@@ -97,6 +97,19 @@ func Empty(t testing.TB, name, tag string) *Engine {
 		}
 	})
 	return e
+}
+
+// EnvPrefix names the environment variable that, when set, replaces
+// rollwise_test_ at the start of the test databases' names, so that two
+// checkouts testing at once on one server keep to their own databases.
+const EnvPrefix = "ROLLWISE_TEST_DB_PREFIX"
+
+// dbPrefix starts the name of every test database.
+func dbPrefix() string {
+	if p := os.Getenv(EnvPrefix); p != "" {
+		return "rollwise_test_" + safeName(p) + "_"
+	}
+	return "rollwise_test_"
 }
 
 func safeName(tag string) string { return unsafeChars.ReplaceAllString(strings.ToLower(tag), "_") }
@@ -123,7 +136,7 @@ func connect(t testing.TB, name, db string, schemas []string) *Engine {
 	if err != nil {
 		t.Fatalf("%s: preparing a test database: %v", name, err)
 	}
-	l, err := engine.OpenLive(ctx, dsn)
+	l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{Writable: true})
 	if err != nil {
 		t.Fatalf("%s: %v", name, err)
 	}
@@ -154,7 +167,7 @@ func drop(ctx context.Context, name, server, db string) error {
 	if name == "sqlite" {
 		return os.RemoveAll(sqliteDir(db))
 	}
-	admin, err := engine.OpenLive(ctx, server)
+	admin, err := engine.OpenLive(ctx, server, engine.LiveOptions{Writable: true})
 	if err != nil {
 		return err
 	}
@@ -168,7 +181,7 @@ func drop(ctx context.Context, name, server, db string) error {
 // freshPostgres drops and creates database db on the server and returns
 // its URL.
 func freshPostgres(ctx context.Context, server, db string) (string, error) {
-	admin, err := engine.OpenLive(ctx, server)
+	admin, err := engine.OpenLive(ctx, server, engine.LiveOptions{Writable: true})
 	if err != nil {
 		return "", err
 	}
@@ -194,7 +207,7 @@ func freshPostgres(ctx context.Context, server, db string) (string, error) {
 // freshMySQL drops and creates database db (the connection's default
 // database) and the model's schemas, and returns the URL of db.
 func freshMySQL(ctx context.Context, server, db string, schemas []string) (string, error) {
-	admin, err := engine.OpenLive(ctx, server)
+	admin, err := engine.OpenLive(ctx, server, engine.LiveOptions{Writable: true})
 	if err != nil {
 		return "", err
 	}
