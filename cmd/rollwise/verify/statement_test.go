@@ -7,7 +7,7 @@ import (
 
 // CheckQuery reads the handwritten SQL as each engine's lexer does. The
 // lexical rules come from the engines' manuals: PostgreSQL's "Lexical
-// Structure" (nested /* */ comments, $tag$ dollar quoting, E'' escape
+// Structure" (nested /* */ comments, $tag$ dollar quoting, E” escape
 // strings; postgresql.org/docs/current/sql-syntax-lexical.html), MySQL's
 // "Comments" ("-- " needs a space after it, # to the end of the line,
 // /*! ... */ is run; dev.mysql.com/doc/refman/8.0/en/comments.html) and
