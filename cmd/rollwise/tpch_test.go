@@ -310,7 +310,7 @@ func TestTPCHEquivalence(t *testing.T) {
 	}
 	// The results above rely on the links tpch.roll declares required.
 	code, msg := checkCmd(filepath.Join(tpchDir, "tpch.roll"), "--data", dir)
-	if code != 0 || !strings.Contains(msg, "; 9 required links hold on the data") {
+	if code != 0 || !strings.Contains(msg, "; on the data, 9 required links and 10 uniqueness promises hold") {
 		t.Errorf("rollwise check tpch.roll --data %s: exit %d\n%s", dir, code, msg)
 	}
 }
