@@ -317,7 +317,7 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	}
 	var cols []rowCol
 	for _, k := range s.Keys {
-		e, err := r.value(&planner.ColRef{Col: k.Col})
+		e, err := r.value(k.RowExpr())
 		if err != nil {
 			return err
 		}
@@ -405,6 +405,17 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 		cols = append(cols, r.keyCol(sub, k.Name))
 	}
 	cols = append(cols, r.keyCol(sub, GroupingColumn))
+	for _, l := range rel.Per.Leaves {
+		if ext, ok := extremeOf[l.Func]; ok {
+			// latest, earliest: the per key's latest (earliest) value among
+			// the groups of each cell of the relation.
+			part := []string{r.keyCol(sub, GroupingColumn)}
+			for j := range rel.Keys {
+				part = append(part, r.keyCol(sub, sub.Keys[j].Name))
+			}
+			cols = append(cols, ext+"("+r.keyCol(sub, l.PerKeys[0].Name)+") OVER (PARTITION BY "+strings.Join(part, ", ")+") AS "+r.q(l.Name+"_at"))
+		}
+	}
 	for _, v := range sub.Values {
 		e, err := r.value(v.Expr)
 		if err != nil {
@@ -429,6 +440,10 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 		if l.Having != nil {
 			cond = append(cond, r.d.Truth(r.q(l.Having.Name)))
 		}
+		if _, ok := extremeOf[l.Func]; ok {
+			// the one group whose per key is the cell's latest (earliest)
+			cond = append(cond, r.q(l.PerKeys[0].Name)+" = "+r.q(l.Name+"_at"))
+		}
 		conds[l] = strings.Join(cond, " AND ")
 	}
 	groupCols := []string{GroupingColumn}
@@ -437,6 +452,11 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	}
 	for _, v := range sub.Values {
 		groupCols = append(groupCols, v.Name)
+	}
+	for _, l := range rel.Per.Leaves {
+		if _, ok := extremeOf[l.Func]; ok {
+			groupCols = append(groupCols, l.Name+"_at")
+		}
 	}
 	from, medians, err := r.perMedians(rel, groups, groupCols, conds, keys)
 	if err != nil {
@@ -450,8 +470,12 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 			if l.Value != nil {
 				arg = r.q(l.Value.Name)
 			}
+			fn := l.Func
+			if _, ok := extremeOf[fn]; ok {
+				fn = "max"
+			}
 			var err error
-			if a, err = FilteredAgg(r.d, l.Func, false, arg, conds[l]); err != nil {
+			if a, err = FilteredAgg(r.d, fn, false, arg, conds[l]); err != nil {
 				return err
 			}
 		}
@@ -465,6 +489,10 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	r.addCTE(r.cte[rel], body)
 	return nil
 }
+
+// extremeOf maps the per-grain aggregates of time edits (`D = latest`,
+// `D = earliest`) to the window function that finds their group.
+var extremeOf = map[string]string{"latest": "MAX", "earliest": "MIN"}
 
 // window spells an edited aggregate as a window over the context's own
 // cells (the base scan's cells are the context's rows): each cell's value

@@ -196,6 +196,8 @@ func (r *renderer) fn(e *planner.Func) (string, error) {
 		return r.d.Extract(e.Unit, args[0]), nil
 	case "date_trunc":
 		return r.d.DateTrunc(e.Unit, args[0], types[0]), nil
+	case "date_move":
+		return r.moveDate(e, args[0], types[0])
 	}
 	return r.d.Call(e.Name, args, types)
 }

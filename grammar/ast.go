@@ -224,7 +224,22 @@ const (
 	EditPin EditKind = iota
 	EditDrop
 	EditUngroup
+	// EditTime is a time edit: `D = latest`, `D = earliest`, `D back N
+	// UNIT`, `D to date UNIT`, `D running`, `D last N UNIT`.
+	EditTime
 )
+
+// TimeEdit is the part of a time edit after its date column. Word is
+// latest, earliest, back, to, running or last as written; the resolver
+// checks the words, the number and the unit.
+type TimeEdit struct {
+	Pos  Pos
+	Word Ident
+	// Date is set when `date` follows the word (`to date UNIT`).
+	Date bool
+	N    *NumberLit
+	Unit *Ident
+}
 
 // Edit is one cell edit inside brackets. Target is nil for `drop` and
 // `ungroup` alone; Values holds the pinned value(s) of a pin.
@@ -235,6 +250,8 @@ type Edit struct {
 	Values []Expr
 	// InList is true for `T.C in (...)`, false for `T.C = v`.
 	InList bool
+	// Time is set for EditTime.
+	Time *TimeEdit
 }
 
 // Edited is `x[edit; edit...]`.

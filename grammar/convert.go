@@ -238,8 +238,20 @@ func (s *syntaxEdit) edit() *Edit {
 	switch s.Kind {
 	case "":
 		e.Kind, e.Target = EditPin, s.Pin.ref()
+		if s.Time != nil {
+			e.Kind, e.Time = EditTime, s.Time.edit()
+			return e
+		}
 		if s.Value != nil {
-			e.Values = []Expr{s.Value.expr()}
+			v := s.Value.expr()
+			// `D = latest` and `D = earliest`: a pin takes literals
+			// only, so these two bare names cannot mean a measure.
+			if r, ok := v.(*Ref); ok && r.Table == "" && (strings.EqualFold(r.Name, "latest") || strings.EqualFold(r.Name, "earliest")) {
+				e.Kind = EditTime
+				e.Time = &TimeEdit{Pos: r.Pos, Word: Ident{Pos: r.NamePos, Name: strings.ToLower(r.Name)}}
+				return e
+			}
+			e.Values = []Expr{v}
 		}
 		for _, v := range s.In {
 			e.Values = append(e.Values, v.expr())
@@ -253,6 +265,18 @@ func (s *syntaxEdit) edit() *Edit {
 		e.Target = s.Target.ref()
 	}
 	return e
+}
+
+func (s *syntaxTimeEdit) edit() *TimeEdit {
+	t := &TimeEdit{Pos: pos(s.Pos), Word: s.Word.ident(), Date: s.Date}
+	if s.N != nil {
+		t.N = &NumberLit{Pos: pos(s.N.Pos), Text: s.N.Text}
+	}
+	if s.Unit != nil {
+		u := s.Unit.ident()
+		t.Unit = &u
+	}
+	return t
 }
 
 func (e *syntaxPrimary) expr() Expr {

@@ -280,14 +280,31 @@ type syntaxEditList struct {
 	Edits []*syntaxEdit `parser:"\"[\" @@ (\";\" @@)* \"]\""`
 }
 
-// Edit = ("drop" | "ungroup") Ref? | Ref ("=" Sum | "in" "(" Sum ("," Sum)* ")") .
+// Edit = ("drop" | "ungroup") Ref? | Ref ("=" Sum | "in" "(" Sum ("," Sum)* ")" | TimeEdit) .
 type syntaxEdit struct {
 	Pos    lexer.Position
-	Kind   string       `parser:"( @(\"drop\" | \"ungroup\")"`
-	Target *syntaxRef   `parser:"  @@? )"`
-	Pin    *syntaxRef   `parser:"| ( @@"`
-	Value  *syntaxSum   `parser:"  ( \"=\" @@"`
-	In     []*syntaxSum `parser:"  | \"in\" \"(\" @@ (\",\" @@)* \")\" ) )"`
+	Kind   string          `parser:"( @(\"drop\" | \"ungroup\")"`
+	Target *syntaxRef      `parser:"  @@? )"`
+	Pin    *syntaxRef      `parser:"| ( @@"`
+	Value  *syntaxSum      `parser:"  ( \"=\" @@"`
+	In     []*syntaxSum    `parser:"  | \"in\" \"(\" @@ (\",\" @@)* \")\""`
+	Time   *syntaxTimeEdit `parser:"  | @@ ) )"`
+}
+
+// TimeEdit = Ident "date"? Number? Name? .  (back N UNIT, last N UNIT,
+// to date UNIT, running: the words are checked when the model resolves)
+type syntaxTimeEdit struct {
+	Pos  lexer.Position
+	Word *syntaxName `parser:"@@"`
+	Date bool        `parser:"@\"date\"?"`
+	N    *syntaxNum  `parser:"@@?"`
+	Unit *syntaxName `parser:"@@?"`
+}
+
+// Num is a number with its position.
+type syntaxNum struct {
+	Pos  lexer.Position
+	Text string `parser:"@Number"`
 }
 
 // Primary = Number | String | "date" String | "timestamp" String | "true" |

@@ -117,16 +117,29 @@ const (
 	EditPin EditKind = iota
 	EditDrop
 	EditUngroup
+	// The time edits of language.md ("Time"); Col is the date column D.
+	EditLatest   // D = latest
+	EditEarliest // D = earliest
+	EditBack     // D back N UNIT
+	EditToDate   // D to date UNIT
+	EditRunning  // D running
+	EditLast     // D last N UNIT
 )
 
+// Time reports whether k is a time edit.
+func (k EditKind) Time() bool { return k >= EditLatest }
+
 // CellEdit is one edit of the cell. Col is nil for `drop` or `ungroup` of
-// everything and for `drop T` (then Table is set).
+// everything and for `drop T` (then Table is set). N and Unit are the
+// count and unit (day, week, month, quarter or year) of a time edit.
 type CellEdit struct {
 	Pos    grammar.Pos
 	Kind   EditKind
 	Col    *Column
 	Table  *Table
 	Values []*Lit
+	N      int
+	Unit   string
 }
 
 // EditExpr evaluates X in the cell changed by Edits, applied in order.

@@ -42,6 +42,17 @@ type Key struct {
 	Col  *Column
 	// Pos is where the key was asked for (a --by item, or a per list).
 	Pos grammar.Pos
+	// Expr, when set, is the row expression a scan groups by instead of
+	// Col: Col read on rows whose date a time edit moves (`back`).
+	Expr Expr
+}
+
+// RowExpr is the row expression the key groups rows by.
+func (k Key) RowExpr() Expr {
+	if k.Expr != nil {
+		return k.Expr
+	}
+	return &ColRef{Pos: k.Pos, Col: k.Col}
 }
 
 // Context is one grain of evaluation: its key columns, grouping sets and
@@ -228,6 +239,8 @@ func compact(mask uint64, n int, keep []int) uint64 {
 type cell struct {
 	removed uint64
 	filters []cellFilter
+	// moved maps a key (by index) that `back` moves to its row expression.
+	moved map[int]Expr
 }
 
 type cellFilter struct {
@@ -236,7 +249,7 @@ type cellFilter struct {
 }
 
 func (c cell) with(f cellFilter) cell {
-	return cell{removed: c.removed, filters: append(append([]cellFilter{}, c.filters...), f)}
+	return cell{removed: c.removed, filters: append(append([]cellFilter{}, c.filters...), f), moved: c.moved}
 }
 
 // mentions reports whether e reads column c directly.
@@ -262,7 +275,7 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 		}
 		return true
 	}
-	out := cell{removed: c.removed}
+	out := cell{removed: c.removed, moved: c.moved}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
 		if hit(k.Col) {

@@ -180,7 +180,19 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 		outer := pl.editedBy
 		pl.editedBy = pl.owner.Name
 		c2 := c
-		for _, ed := range e.Edits {
+		for i, ed := range e.Edits {
+			switch {
+			case ed.Kind == EditBack:
+				ok := false
+				if c2, ok = pl.back(ctx, c2, ed); !ok {
+					return nil
+				}
+				continue
+			case ed.Kind.Time():
+				x, _ := pl.timeEdit(ctx, e, i, c2)
+				pl.editedBy = outer
+				return x
+			}
 			c2 = c2.edit(ctx, ed)
 		}
 		x := pl.compile(ctx, e.X, c2)
@@ -276,16 +288,13 @@ func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[ui
 
 // scanRel finds or adds the scan of t in ctx for a cell with the given
 // removed keys and row filters.
-func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, nameBase string) *Rel {
-	key := pl.scanKey(ctx, t, removed, where)
+func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, moved map[int]Expr, nameBase string) *Rel {
+	key := pl.scanKey(ctx, t, removed, where) + "|" + pl.movedKey(moved)
 	if r, ok := pl.rels[key]; ok {
 		return r
 	}
 	keep, sets, gid := localKeys(ctx, removed, 0)
-	s := &Scan{Table: t, Where: where}
-	for _, i := range keep {
-		s.Keys = append(s.Keys, ctx.Keys[i])
-	}
+	s := &Scan{Table: t, Where: where, Keys: movedKeys(ctx, keep, moved)}
 	r := &Rel{Name: pl.name(nameBase), Keys: keep, Sets: sets, GidOf: gid, Scan: s}
 	s.Name = r.Name
 	pl.inputs[s] = map[string]*Input{}
@@ -307,7 +316,7 @@ func (pl *planner) base(ctx *Context, t *Table) {
 	if ctx.Name != "" {
 		name = ctx.Name + "_" + t.Name
 	}
-	r := pl.scanRel(ctx, t, 0, ctx.Filters, name)
+	r := pl.scanRel(ctx, t, 0, ctx.Filters, nil, name)
 	if !slices.Contains(ctx.Bases, r) {
 		ctx.Bases = append(ctx.Bases, r)
 	}
@@ -322,10 +331,10 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 	if ctx.Name != "" {
 		nameBase = ctx.Name + "_" + a.Table.Name
 	}
-	if c.removed != 0 || pl.filterKey(c.filters, true) != pl.whereKey(ctx.Filters) {
+	if c.removed != 0 || len(c.moved) > 0 || pl.filterKey(c.filters, true) != pl.whereKey(ctx.Filters) {
 		nameBase = pl.editedBy + "_" + a.Table.Name
 	}
-	r := pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), nameBase)
+	r := pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), c.moved, nameBase)
 	key := r.Name + "|" + pl.text(a) + "|" + pl.filterKey(c.filters, false)
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: a.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
@@ -385,7 +394,7 @@ func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
 		texts = append(texts, fmt.Sprint(f.rows)+pl.text(f.e))
 	}
 	slices.Sort(texts)
-	key := fmt.Sprintf("%p|per|%s|%d|%s", ctx, pl.text(pa), c.removed, strings.Join(texts, " and "))
+	key := fmt.Sprintf("%p|per|%s|%d|%s|%s", ctx, pl.text(pa), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved))
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: pa.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}
@@ -443,7 +452,7 @@ func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel
 	for _, col := range pa.Per {
 		cols = append(cols, columnText(col))
 	}
-	key := fmt.Sprintf("per|%p|%s|%s|%d|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "))
+	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved))
 	if r, ok := pl.rels[key]; ok {
 		return r, false
 	}
@@ -451,8 +460,8 @@ func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel
 	keep, sets, gid := localKeys(ctx, c.removed, k)
 	sub := &Context{Name: pl.name(name + "_per")}
 	var keyNames []string
+	sub.Keys = movedKeys(ctx, keep, c.moved)
 	for _, i := range keep {
-		sub.Keys = append(sub.Keys, ctx.Keys[i])
 		keyNames = append(keyNames, ctx.Keys[i].Name)
 	}
 	for _, col := range pa.Per {

@@ -87,7 +87,7 @@ func (pl *planner) joins(s *Scan) {
 		exprs = append(exprs, in.Expr)
 	}
 	for _, k := range s.Keys {
-		exprs = append(exprs, &ColRef{Col: k.Col})
+		exprs = append(exprs, k.RowExpr())
 	}
 	for _, e := range exprs {
 		for _, c := range Columns(e) {

@@ -38,7 +38,8 @@ func (pl *planner) useWindows(ctx *Context) {
 	want := pl.whereKey(ctx.Filters)
 	for _, r := range ctx.Rels {
 		s := r.Scan
-		if r == base || s == nil || s.Table != base.Scan.Table || pl.whereKey(s.Where) != want || len(s.Leaves) == 0 {
+		if r == base || s == nil || s.Table != base.Scan.Table || pl.whereKey(s.Where) != want || len(s.Leaves) == 0 ||
+			slices.ContainsFunc(s.Keys, func(k Key) bool { return k.Expr != nil }) {
 			continue
 		}
 		ok := true

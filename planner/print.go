@@ -78,6 +78,11 @@ func writeText(b *strings.Builder, e Expr) {
 		case "date_trunc":
 			b.WriteString(e.Unit + ", ")
 			writeText(b, e.Args[0])
+		case movedFunc:
+			writeText(b, e.Args[0])
+			b.WriteString(", ")
+			writeText(b, e.Args[1])
+			b.WriteString(" " + e.Unit)
 		default:
 			writeList(b, e.Args)
 		}
@@ -180,6 +185,8 @@ func writeEdit(b *strings.Builder, ed *CellEdit) {
 		b.WriteString(strings.TrimSpace("drop " + target))
 	case EditUngroup:
 		b.WriteString(strings.TrimSpace("ungroup " + target))
+	case EditLatest, EditEarliest, EditBack, EditToDate, EditRunning, EditLast:
+		b.WriteString(target + " " + ed.TimeText())
 	default:
 		b.WriteString(target)
 		if len(ed.Values) == 1 {

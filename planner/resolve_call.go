@@ -406,6 +406,17 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 			ce.Kind = EditDrop
 		case grammar.EditUngroup:
 			ce.Kind = EditUngroup
+		case grammar.EditTime:
+			if !x.timeEdit(ed, ce) {
+				return nil
+			}
+			if ce.Kind == EditLatest || ce.Kind == EditEarliest {
+				pinned[ce.Col] = true
+			} else {
+				delete(pinned, ce.Col)
+			}
+			out.Edits = append(out.Edits, ce)
+			continue
 		default:
 			ce.Kind = EditPin
 		}

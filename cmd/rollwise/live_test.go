@@ -37,6 +37,7 @@ var liveModels = map[string]string{
 	"../../testdata/dialects/lab.roll":     "cli_lab",
 	"../../testdata/dialects/hostile.roll": "cli_hostile",
 	joinsModel:                             "cli_joins",
+	timeModel:                              "cli_time",
 }
 
 // liveCache holds the engines loaded so far, by engine and model; a load

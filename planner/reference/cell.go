@@ -24,6 +24,10 @@ type constraint struct {
 	vals     []Value
 	mentions []*planner.Column
 	key      string
+	// shift is set for a constraint read on rows moved by `back`; rng
+	// for the date range of a window edit (see time.go).
+	shift *shifted
+	rng   *timeRange
 }
 
 // groupOn is the grouping col = v.
@@ -58,25 +62,43 @@ func pinOn(col *planner.Column, vals []Value) *constraint {
 // holds reports whether row i of td satisfies the constraint.
 func (d *Data) holds(c *constraint, td *tableData, i int) (bool, error) {
 	switch {
+	case c.shift != nil:
+		return d.holdsShifted(c.shift, td, i)
 	case c.group:
 		v, err := d.column(td, i, c.col)
 		if err != nil {
 			return false, err
 		}
-		if v == nil || c.val == nil {
-			return v == nil && c.val == nil, nil
-		}
-		cmp, err := compare(v, c.val)
-		return err == nil && cmp == 0, err
+		return matchGroup(v, c.val)
 	case c.pred != nil:
 		v, err := d.row(td, i, c.pred)
 		return truth(v), err
 	}
 	v, err := d.column(td, i, c.col)
-	if err != nil || v == nil {
+	if err != nil {
 		return false, err
 	}
-	for _, p := range c.vals {
+	if c.rng != nil {
+		return c.rng.holds(v), nil
+	}
+	return matchPin(v, c.vals)
+}
+
+// matchGroup is the grouping v = val, NULL-safely.
+func matchGroup(v, val Value) (bool, error) {
+	if v == nil || val == nil {
+		return v == nil && val == nil, nil
+	}
+	cmp, err := compare(v, val)
+	return err == nil && cmp == 0, err
+}
+
+// matchPin is v IN vals; NULL matches nothing.
+func matchPin(v Value, vals []Value) (bool, error) {
+	if v == nil {
+		return false, nil
+	}
+	for _, p := range vals {
 		if p == nil {
 			continue
 		}

@@ -61,6 +61,13 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 		edited := c
 		for _, ed := range e.Edits {
 			var err error
+			if ed.Kind.Time() {
+				ok := false
+				if edited, ok, err = ev.timeEdit(edited, ed, e.X); err != nil || !ok {
+					return nil, err
+				}
+				continue
+			}
 			if edited, err = edited.edit(ed); err != nil {
 				return nil, err
 			}

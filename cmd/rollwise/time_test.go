@@ -1,0 +1,61 @@
+package main
+
+import (
+	"bytes"
+	"os"
+	"path/filepath"
+	"strings"
+	"testing"
+
+	"github.com/rollwise/rollwise/planner/reference/expect"
+)
+
+// timeModel holds orders over two years and a half, a calendar and a
+// stock snapshot (see expect.TimeCases for the rows).
+const timeModel = "../../testdata/exec/time.roll"
+
+// The hand-worked time edit cases (shared with the reference evaluator's
+// TestTimeEdits) on DuckDB, and through crossCheck on the live engines.
+func TestTimeEdits(t *testing.T) {
+	for _, c := range expect.TimeCases {
+		if !c.SQL {
+			continue
+		}
+		t.Run(c.Name, func(t *testing.T) {
+			args := []string{"run", timeModel, "-m", c.Measures, "--totals", c.Totals}
+			if c.By != "" {
+				args = append(args, "-b", c.By)
+			}
+			if c.Where != "" {
+				args = append(args, "-w", c.Where)
+			}
+			expectRows(t, runJSON(t, args...), c.Rows)
+		})
+	}
+}
+
+// Time edits the SQL path does not plan yet, and mistakes in writing
+// them, are positioned errors that say what to write instead.
+func TestTimeEditErrors(t *testing.T) {
+	for _, c := range []struct{ measure, want string }{
+		{"revenue[orders.shop back 1 year]", "a time edit moves a date or timestamp column; orders.shop is text"},
+		{"revenue[orders.day back 1 fortnight]", "unknown unit 'fortnight': this time edit is written D back N UNIT"},
+		{"revenue[orders.day back year]", "a number of units is missing"},
+		{"revenue[orders.day to month]", "'date' does not belong here"},
+		{"revenue[orders.day sideways]", "unknown time edit 'sideways'"},
+		{"revenue[orders.day last 0 days]", "last 0 units holds no rows"},
+		{"sum(stock.qty)[stock.day back 1 day]", "sum of stock.qty, which is semiadditive"},
+		{"revenue[orders.day running]", "orders.day running is not planned into SQL yet"},
+		{"revenue[days.day back 1 year]", "moving through a calendar table is not planned into SQL yet"},
+	} {
+		extra := filepath.Join(t.TempDir(), "extra.roll")
+		if err := os.WriteFile(extra, []byte("measure x = "+c.measure+"\n"), 0o644); err != nil {
+			t.Fatal(err)
+		}
+		var out, errb bytes.Buffer
+		code := Main([]string{"run", timeModel, extra, "-m", "x", "-b", "days.mon"}, strings.NewReader(""), &out, &errb)
+		if code == 0 || !strings.Contains(errb.String(), c.want) || !strings.Contains(errb.String(), "extra.roll:1:") {
+			t.Errorf("%s: want an error containing %q, got exit %d:\n%s", c.measure, c.want, code, errb.String())
+		}
+	}
+}

@@ -1,0 +1,223 @@
+package planner
+
+import (
+	"fmt"
+	"slices"
+	"sort"
+	"strings"
+)
+
+// Time edits in plans (language.md, "Time"):
+//
+//   - `m[D = latest]` and `m[D = earliest]` are per-grain aggregates over D:
+//     m in each group of D of the cell, the group with the latest
+//     (earliest) D kept (PerLeaf.Func "latest" or "earliest").
+//   - `m[D back N UNIT]` moves the cell's time-bound constraints: a
+//     time-bound key groups the rows by its expression over D moved
+//     forward N units (Key.Expr), a time-bound filter reads D moved
+//     forward. Nothing else changes, so the scans are the usual ones.
+//   - the window edits (to date, running, last) are not planned into SQL
+//     yet: they are refused with a positioned error.
+
+// movedFunc is the row function that moves a date forward: Args are the
+// date and an integer literal (the count); Unit is the unit.
+const movedFunc = "date_move"
+
+// timeBound reports whether a constraint on col is time-bound to the date
+// column d: col is d, a derived column of d's table computed from d alone,
+// or a column of d's calendar (d's own table when d is its key, or the
+// table d's link reaches).
+func timeBound(d, col *Column) bool {
+	if col == d || (calendarOf(d) != nil && col.Table == calendarOf(d)) {
+		return true
+	}
+	if col.Table != d.Table || col.Derived == nil {
+		return false
+	}
+	only := false
+	for _, c := range Columns(col.Derived) {
+		if c.Stored() {
+			if c != d {
+				return false
+			}
+			only = true
+		}
+	}
+	return only
+}
+
+// calendarOf is the calendar table of the date column d, or nil.
+func calendarOf(d *Column) *Table {
+	for _, l := range d.Table.Links {
+		if len(l.FromCols) == 1 && l.FromCols[0] == d {
+			return l.To
+		}
+	}
+	if len(d.Table.Key) == 1 && d.Table.Key[0] == d {
+		return d.Table
+	}
+	return nil
+}
+
+// allBound reports whether e reads columns and every one is time-bound to d.
+func allBound(e Expr, d *Column) bool {
+	n := 0
+	ok := !mentions(e, func(c *Column) bool { n++; return !timeBound(d, c) })
+	return ok && n > 0
+}
+
+// moveTime substitutes, in a row expression over time-bound columns, d
+// moved forward by ed's count and unit for d (derived columns are read
+// through). A column of a calendar other than d's own table cannot be
+// moved by an expression: ok is false.
+func moveTime(e Expr, ed *CellEdit) (out Expr, ok bool) {
+	ok = true
+	out = substitute(e, func(r *ColRef) Expr {
+		switch {
+		case r.Col == ed.Col:
+			return &Func{Pos: ed.Pos, Name: movedFunc, Unit: ed.Unit, T: r.Col.Type,
+				Args: []Expr{r, &Lit{Pos: ed.Pos, T: TypeInteger, Text: fmt.Sprint(ed.N)}}}
+		case !timeBound(ed.Col, r.Col):
+			return r
+		case r.Col.Table != ed.Col.Table || r.Col.Derived == nil:
+			ok = false
+			return r
+		}
+		x, fine := moveTime(r.Col.Derived, ed)
+		ok = ok && fine
+		return x
+	})
+	return out, ok
+}
+
+// substitute copies a row expression with every column reference replaced
+// by what f returns for it.
+func substitute(e Expr, f func(*ColRef) Expr) Expr {
+	sub := func(x Expr) Expr { return substitute(x, f) }
+	switch e := e.(type) {
+	case *ColRef:
+		return f(e)
+	case *BinOp:
+		return &BinOp{Pos: e.Pos, Op: e.Op, L: sub(e.L), R: sub(e.R), T: e.T}
+	case *UnOp:
+		return &UnOp{Pos: e.Pos, Op: e.Op, X: sub(e.X)}
+	case *Func:
+		out := *e
+		out.Args = nil
+		for _, a := range e.Args {
+			out.Args = append(out.Args, sub(a))
+		}
+		return &out
+	case *CaseExpr:
+		out := &CaseExpr{Pos: e.Pos, T: e.T}
+		for _, w := range e.Whens {
+			out.Whens = append(out.Whens, WhenArm{Cond: sub(w.Cond), Then: sub(w.Then)})
+		}
+		if e.Else != nil {
+			out.Else = sub(e.Else)
+		}
+		return out
+	case *InExpr:
+		out := &InExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
+		for _, a := range e.List {
+			out.List = append(out.List, sub(a))
+		}
+		return out
+	case *IsNullExpr:
+		return &IsNullExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
+	}
+	return e
+}
+
+// back applies `D back N UNIT` to the cell: its time-bound keys and
+// filters read D moved forward N units.
+func (pl *planner) back(ctx *Context, c cell, ed *CellEdit) (cell, bool) {
+	out := cell{removed: c.removed, moved: map[int]Expr{}}
+	for i, e := range c.moved {
+		out.moved[i] = e
+	}
+	refuse := func(col *Column) (cell, bool) {
+		d := pl.diags.Errorf(ed.Pos, "unsupported", "%s back moves %s, a column of the calendar %s: moving through a calendar table is not planned into SQL yet",
+			ed.Col, col, col.Table.Name)
+		d.Suggestion = "group and filter by the fact's own date or by derived columns computed from it (for example month = date_trunc(month, day))"
+		return c, false
+	}
+	n := len(ctx.Keys)
+	for i, k := range ctx.Keys {
+		if c.removed&bit(i, n) != 0 || !timeBound(ed.Col, k.Col) {
+			continue
+		}
+		from := k.RowExpr()
+		if e, ok := c.moved[i]; ok {
+			from = e
+		}
+		e, ok := moveTime(from, ed)
+		if !ok {
+			return refuse(k.Col)
+		}
+		out.moved[i] = e
+	}
+	for _, f := range c.filters {
+		if allBound(f.e, ed.Col) {
+			e, ok := moveTime(f.e, ed)
+			if !ok {
+				return refuse(Columns(f.e)[0])
+			}
+			f = cellFilter{e: e, rows: f.rows}
+		}
+		out.filters = append(out.filters, f)
+	}
+	return out, true
+}
+
+// movedKey is a text for the moved keys of a cell, for finding shared
+// relations.
+func (pl *planner) movedKey(moved map[int]Expr) string {
+	var t []string
+	for i, e := range moved {
+		t = append(t, fmt.Sprintf("%d:%s", i, pl.text(e)))
+	}
+	sort.Strings(t)
+	return strings.Join(t, ",")
+}
+
+// movedKeys copies ctx's keys kept in a cell, each moved key with its
+// expression.
+func movedKeys(ctx *Context, keep []int, moved map[int]Expr) []Key {
+	var out []Key
+	for _, i := range keep {
+		k := ctx.Keys[i]
+		if e, ok := moved[i]; ok {
+			k.Expr = e
+		}
+		out = append(out, k)
+	}
+	return out
+}
+
+// timeEdit compiles X edited by edits[i], a time edit, and the edits after
+// it, in cell c.
+func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, bool) {
+	ed := e.Edits[i]
+	switch ed.Kind {
+	case EditLatest, EditEarliest:
+		x := e.X
+		if rest := e.Edits[i+1:]; len(rest) > 0 {
+			if slices.ContainsFunc(rest, func(r *CellEdit) bool { return r.Kind == EditUngroup || r.Kind.Time() }) {
+				pl.diags.Errorf(ed.Pos, "unsupported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
+					"write that edit before the time edit, or in brackets of its own around the measure"
+				return nil, false
+			}
+			x = &EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
+		}
+		fn := "latest"
+		if ed.Kind == EditEarliest {
+			fn = "earliest"
+		}
+		pa := &PerAgg{Pos: ed.Pos, Func: fn, X: x, Per: []*Column{ed.Col}, T: e.X.Type()}
+		return pl.per(ctx, pa, c, pl.owner.Name+"_"+fn), true
+	}
+	pl.diags.Errorf(ed.Pos, "unsupported", "%s %s is not planned into SQL yet (the reference evaluator computes it)", ed.Col, ed.TimeText()).Suggestion =
+		"use = latest, = earliest or back N UNIT for now"
+	return nil, false
+}

@@ -1,0 +1,116 @@
+package expect
+
+// TimeCase is a query on testdata/exec/time.roll with its rows worked out
+// by hand. The orders (amount by day and shop):
+//
+//	1 2024-02-29 a 100   (a leap day)
+//	2 2025-01-31 a  10   3 2025-02-28 a 20   4 2025-03-15 b 7   5 2025-03-31 b 30
+//	6 2026-01-15 a   1   7 2026-02-28 b  2   8 2026-03-01 a  3
+//
+// `back N UNIT` takes the rows whose day, moved forward N units, meets
+// the cell's time-bound constraints; a month move clamps to the month's
+// last day (2024-02-29 plus 1 year is 2025-02-28; 2025-01-31 plus 1 month
+// is 2025-02-28).
+type TimeCase struct {
+	Name                        string
+	Measures, By, Where, Totals string
+	// SQL is false where the SQL path does not plan these edits yet: only
+	// the reference evaluator runs the case.
+	SQL  bool
+	Rows []Row
+}
+
+var total = func(cols ...string) []string { return cols }
+
+// TimeCases are the hand-worked time edit cases, shared by the SQL path's
+// tests and the reference evaluator's.
+var TimeCases = []TimeCase{
+	{Name: "months", Measures: "revenue,rev_ly,rev_lm,rev_same,closing,opening", By: "orders.month", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// back 0 day is the measure itself (rev_same = revenue everywhere).
+			{"orders.month": "2024-02-01", "revenue": "100", "rev_ly": nil, "rev_lm": nil, "rev_same": "100", "closing": "100", "opening": "100", "rolled_up": None},
+			{"orders.month": "2025-01-01", "revenue": "10", "rev_ly": nil, "rev_lm": nil, "rev_same": "10", "closing": "10", "opening": "10"},
+			// ly: 2024-02-29 moves to 2025-02-28; lm: January's 10.
+			{"orders.month": "2025-02-01", "revenue": "20", "rev_ly": "100", "rev_lm": "10", "rev_same": "20", "closing": "20", "opening": "20"},
+			// 7 + 30; no March 2024; February's 20; closing on the 31st (30), opening on the 15th (7).
+			{"orders.month": "2025-03-01", "revenue": "37", "rev_ly": nil, "rev_lm": "20", "rev_same": "37", "closing": "30", "opening": "7"},
+			{"orders.month": "2026-01-01", "revenue": "1", "rev_ly": "10", "rev_lm": nil, "rev_same": "1", "closing": "1", "opening": "1"},
+			{"orders.month": "2026-02-01", "revenue": "2", "rev_ly": "20", "rev_lm": "1", "rev_same": "2", "closing": "2", "opening": "2"},
+			{"orders.month": "2026-03-01", "revenue": "3", "rev_ly": "37", "rev_lm": "2", "rev_same": "3", "closing": "3", "opening": "3"},
+			// The grand total has no time-bound constraint: back moves
+			// nothing (173); closing is 2026-03-01's 3, opening the leap day's 100.
+			{"orders.month": nil, "revenue": "173", "rev_ly": "173", "rev_lm": "173", "rev_same": "173", "closing": "3", "opening": "100", "rolled_up": total("orders.month")},
+		}},
+	{Name: "days of 2025", Measures: "revenue,rev_lm,rev_ly,growth", By: "orders.day", Where: "orders.year = 2025", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// 2025-01-31 back 1 month: days moving to the 31st of January: 2024-12-31 only; none.
+			{"orders.day": "2025-01-31", "revenue": "10", "rev_lm": nil, "rev_ly": nil, "growth": nil},
+			// February 28th back 1 month: January 28..31 move there (clamped): 10.
+			// Back 1 year: 2024-02-28 and the leap day move there: 100; growth 20/100 - 1.
+			{"orders.day": "2025-02-28", "revenue": "20", "rev_lm": "10", "rev_ly": "100", "growth": -0.8},
+			{"orders.day": "2025-03-15", "revenue": "7", "rev_lm": nil, "rev_ly": nil, "growth": nil},
+			// March 31st back 1 month: no day moves there (February 28th moves to March 28th).
+			{"orders.day": "2025-03-31", "revenue": "30", "rev_lm": nil, "rev_ly": nil, "growth": nil},
+			// Total under the year filter: days moving into 2025, December 2024 to November 2025 (67);
+			// a year back: 2024's 100. growth 67/100 - 1.
+			{"orders.day": nil, "revenue": "67", "rev_lm": "67", "rev_ly": "100", "growth": -0.33, "rolled_up": total("orders.day")},
+		}},
+	{Name: "shops of 2025", Measures: "revenue,rev_ly,ly_shops,closing", By: "orders.shop", Where: "orders.year = 2025", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// a: 10 + 20; a's 2024: 100; every shop's 2024: 100; closing on 2025-02-28: 20.
+			{"orders.shop": "a", "revenue": "30", "rev_ly": "100", "ly_shops": "100", "closing": "20"},
+			// b: 7 + 30; b has no 2024 row; closing on 2025-03-31: 30.
+			{"orders.shop": "b", "revenue": "37", "rev_ly": nil, "ly_shops": "100", "closing": "30"},
+			{"orders.shop": nil, "revenue": "67", "rev_ly": "100", "ly_shops": "100", "closing": "30", "rolled_up": total("orders.shop")},
+		}},
+	{Name: "windows by shop in 2025", Measures: "revenue,ytd,running,last3", By: "orders.shop", Where: "orders.year = 2025", Totals: "grand",
+		Rows: []Row{
+			// a: E = 2025-02-28. ytd 2025-01-01..E: 30; running: 100 + 10 + 20; last 3 months
+			// (2024-11-28, 2025-02-28]: 30. The year filter is time-bound: replaced.
+			{"orders.shop": "a", "revenue": "30", "ytd": "30", "running": "130", "last3": "30"},
+			// b: E = 2025-03-31: 37 each way (b has nothing before).
+			{"orders.shop": "b", "revenue": "37", "ytd": "37", "running": "37", "last3": "37"},
+			// E = 2025-03-31: 67; 100 + 67; (2024-12-31, 2025-03-31]: 67.
+			{"orders.shop": nil, "revenue": "67", "ytd": "67", "running": "167", "last3": "67", "rolled_up": total("orders.shop")},
+		}},
+	{Name: "windows by month", Measures: "revenue,ytd,running,last3", By: "orders.month", Totals: "grand",
+		Rows: []Row{
+			{"orders.month": "2024-02-01", "revenue": "100", "ytd": "100", "running": "100", "last3": "100"},
+			// E = 2025-01-31; last 3 months: (2024-10-31, 2025-01-31].
+			{"orders.month": "2025-01-01", "revenue": "10", "ytd": "10", "running": "110", "last3": "10"},
+			{"orders.month": "2025-02-01", "revenue": "20", "ytd": "30", "running": "130", "last3": "30"},
+			// E = 2025-03-31; last 3 months (2024-12-31, 2025-03-31]: 10 + 20 + 37.
+			{"orders.month": "2025-03-01", "revenue": "37", "ytd": "67", "running": "167", "last3": "67"},
+			// E = 2026-01-15; (2025-10-15, 2026-01-15]: 1.
+			{"orders.month": "2026-01-01", "revenue": "1", "ytd": "1", "running": "168", "last3": "1"},
+			// E = 2026-02-28; (2025-11-28, 2026-02-28]: 1 + 2.
+			{"orders.month": "2026-02-01", "revenue": "2", "ytd": "3", "running": "170", "last3": "3"},
+			// running at the last month is revenue with no time filter: 173.
+			{"orders.month": "2026-03-01", "revenue": "3", "ytd": "6", "running": "173", "last3": "6"},
+			{"orders.month": nil, "revenue": "173", "ytd": "6", "running": "173", "last3": "6", "rolled_up": total("orders.month")},
+		}},
+	{Name: "calendar months of 2026", Measures: "revenue,cal_close", By: "days.mon", Where: "days.yr = 2026", Totals: "grand", SQL: true,
+		Rows: []Row{
+			{"days.mon": "2026-01", "revenue": "1", "cal_close": "1"},
+			{"days.mon": "2026-02", "revenue": "2", "cal_close": "2"},
+			{"days.mon": "2026-03", "revenue": "3", "cal_close": "3"},
+			{"days.mon": nil, "revenue": "6", "cal_close": "3", "rolled_up": total("days.mon")},
+		}},
+	{Name: "calendar months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.mon", Where: "days.yr = 2026", Totals: "grand",
+		Rows: []Row{
+			// 2025-01-31 moves to the calendar's 2026-01-31 (month 2026-01).
+			{"days.mon": "2026-01", "revenue": "1", "cal_ly": "10"},
+			{"days.mon": "2026-02", "revenue": "2", "cal_ly": "20"},
+			// 2025-03-15 and 2025-03-31 move to 2026-03-15 and 2026-03-31.
+			{"days.mon": "2026-03", "revenue": "3", "cal_ly": "37"},
+			{"days.mon": nil, "revenue": "6", "cal_ly": "67", "rolled_up": total("days.mon")},
+		}},
+	{Name: "closing stock", Measures: "balance,shop_bal", By: "stock.shop", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// a's last snapshot 2026-01-31: 6; b's 2025-03-31: 4.
+			{"stock.shop": "a", "balance": "6", "shop_bal": "6"},
+			{"stock.shop": "b", "balance": "4", "shop_bal": "4"},
+			// The latest day overall is 2026-01-31 (only a: 6); each shop's own last balance: 6 + 4.
+			{"stock.shop": nil, "balance": "6", "shop_bal": "10", "rolled_up": total("stock.shop")},
+		}},
+}
