@@ -161,9 +161,13 @@ func (r *renderer) render() (string, error) {
 // context renders the CTEs of every relation of ctx, and of its key
 // relation.
 func (r *renderer) context(ctx *planner.Context) error {
+	var ranges []*planner.Rel
 	for _, rel := range ctx.Rels {
 		var err error
 		switch {
+		case rel.Scan != nil && rel.Scan.Range != nil:
+			// after the context's rows, which its cells are
+			ranges = append(ranges, rel)
 		case rel.Scan != nil:
 			err = r.scan(ctx, rel)
 		case rel.Window != nil:
@@ -177,20 +181,24 @@ func (r *renderer) context(ctx *planner.Context) error {
 	}
 	if len(ctx.Bases) == 1 {
 		r.keyRel[ctx] = r.cte[ctx.Bases[0]]
-		r.froms[ctx] = r.joinRels(ctx)
-		return nil
-	}
-	name := r.cteName(prefix(ctx.Name, "cells"))
-	var parts []string
-	for _, b := range ctx.Bases {
-		cols := []string{r.q(GroupingColumn)}
-		for _, k := range ctx.Keys {
-			cols = append(cols, r.q(k.Name))
+	} else {
+		name := r.cteName(prefix(ctx.Name, "cells"))
+		var parts []string
+		for _, b := range ctx.Bases {
+			cols := []string{r.q(GroupingColumn)}
+			for _, k := range ctx.Keys {
+				cols = append(cols, r.q(k.Name))
+			}
+			parts = append(parts, "  SELECT "+strings.Join(cols, ", ")+" FROM "+r.q(r.cte[b]))
 		}
-		parts = append(parts, "  SELECT "+strings.Join(cols, ", ")+" FROM "+r.q(r.cte[b]))
+		r.addCTE(name, strings.Join(parts, "\n  UNION\n"))
+		r.keyRel[ctx] = name
 	}
-	r.addCTE(name, strings.Join(parts, "\n  UNION\n"))
-	r.keyRel[ctx] = name
+	for _, rel := range ranges {
+		if err := r.rangeScan(ctx, rel); err != nil {
+			return err
+		}
+	}
 	r.froms[ctx] = r.joinRels(ctx)
 	return nil
 }
@@ -227,21 +235,27 @@ func (r *renderer) joinRels(ctx *planner.Context) fromClause {
 			continue
 		}
 		joined++
-		c := r.q(name)
-		var conds []string
-		if len(rel.Sets) > 1 {
-			conds = append(conds, c+"."+r.q(GroupingColumn)+" = "+r.gidMap(ctx, rel, key+"."+r.q(GroupingColumn)))
-		}
-		for _, i := range rel.Keys {
-			k := r.q(ctx.Keys[i].Name)
-			conds = append(conds, r.d.NullSafeEqual(c+"."+k, key+"."+k))
-		}
-		if len(conds) == 0 {
-			conds = []string{"1 = 1"}
-		}
-		from += "\n  LEFT JOIN " + c + " ON " + strings.Join(conds, "\n    AND ")
+		from += "\n  LEFT JOIN " + r.q(name) + " ON " + r.joinOn(ctx, key, rel)
 	}
 	return fromClause{sql: from, single: joined == 0 && len(ctx.Bases) == 1}
+}
+
+// joinOn is the condition that joins rel's cells to ctx's rows (key is
+// the quoted key relation).
+func (r *renderer) joinOn(ctx *planner.Context, key string, rel *planner.Rel) string {
+	c := r.q(r.cte[rel])
+	var conds []string
+	if len(rel.Sets) > 1 {
+		conds = append(conds, c+"."+r.q(GroupingColumn)+" = "+r.gidMap(ctx, rel, key+"."+r.q(GroupingColumn)))
+	}
+	for _, i := range rel.Keys {
+		k := r.q(ctx.Keys[i].Name)
+		conds = append(conds, r.d.NullSafeEqual(c+"."+k, key+"."+k))
+	}
+	if len(conds) == 0 {
+		conds = []string{"1 = 1"}
+	}
+	return strings.Join(conds, "\n    AND ")
 }
 
 // gidMap spells the relation's grouping id for the context's grouping id.
@@ -310,6 +324,55 @@ func (r *renderer) orderBy(plain bool) []string {
 // cell of its grouping sets).
 func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	s := rel.Scan
+	rowsName, col, err := r.scanRows(rel)
+	if err != nil {
+		return err
+	}
+	from, medians, err := r.scanMedians(rel, rowsName, col)
+	if err != nil {
+		return err
+	}
+	var aggs []cellAgg
+	for _, l := range s.Leaves {
+		if m, ok := medians[l]; ok {
+			aggs = append(aggs, m)
+			continue
+		}
+		a, err := r.leafAgg(l, "", col)
+		if err != nil {
+			return err
+		}
+		aggs = append(aggs, cellAgg{sql: a})
+	}
+	var keys []string
+	for _, k := range s.Keys {
+		keys = append(keys, r.q(k.Name))
+	}
+	r.cte[rel] = r.cteName(rel.Name + "_cells")
+	r.addCTE(r.cte[rel], groupingSets(r.d, keys, rel.Sets, aggs, from))
+	return nil
+}
+
+// leafAgg spells a scan's aggregate over its rows CTE, whose columns col
+// names (qualified by from when set).
+func (r *renderer) leafAgg(l *planner.Leaf, from string, col func(string) string) (string, error) {
+	arg := ""
+	if l.Arg != nil {
+		arg = from + r.q(col(l.Arg.Name))
+	}
+	filter := ""
+	if l.Filter != nil {
+		filter = r.d.Truth(from + r.q(col(l.Filter.Name)))
+	}
+	a, err := FilteredAgg(r.d, l.Func, l.Distinct, arg, filter)
+	return a + " AS " + r.q(l.Name), err
+}
+
+// scanRows renders a scan's rows CTE (group values and aggregate inputs of
+// each row that passes the filters): its name, and the names of its
+// columns.
+func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, error) {
+	s := rel.Scan
 	r.iter, r.found = s.Table, map[*planner.Table]bool{}
 	defer func() { r.iter, r.found = nil, nil }()
 	for _, l := range s.Joins {
@@ -319,14 +382,14 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 	for _, k := range s.Keys {
 		e, err := r.value(k.RowExpr())
 		if err != nil {
-			return err
+			return "", nil, err
 		}
 		cols = append(cols, rowCol{name: k.Name, expr: e, key: true})
 	}
 	for _, in := range s.Inputs {
 		e, err := r.value(in.Expr)
 		if err != nil {
-			return err
+			return "", nil, err
 		}
 		c, ok := in.Expr.(*planner.ColRef)
 		cols = append(cols, rowCol{name: in.Name, expr: e, computed: !ok || !c.Col.Stored()})
@@ -348,45 +411,14 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 		for _, w := range s.Where {
 			e, err := r.pred(w)
 			if err != nil {
-				return err
+				return "", nil, err
 			}
 			conds = append(conds, e)
 		}
 		rows += "\n  WHERE " + strings.Join(conds, "\n    AND ")
 	}
-	rowsName, col := r.rowsOf(rel.Name, rows, len(s.Joins) > 0, cols)
-	from, medians, err := r.scanMedians(rel, rowsName, col)
-	if err != nil {
-		return err
-	}
-
-	var aggs []cellAgg
-	for _, l := range s.Leaves {
-		if m, ok := medians[l]; ok {
-			aggs = append(aggs, m)
-			continue
-		}
-		arg := ""
-		if l.Arg != nil {
-			arg = r.q(col(l.Arg.Name))
-		}
-		filter := ""
-		if l.Filter != nil {
-			filter = r.d.Truth(r.q(col(l.Filter.Name)))
-		}
-		a, err := FilteredAgg(r.d, l.Func, l.Distinct, arg, filter)
-		if err != nil {
-			return err
-		}
-		aggs = append(aggs, cellAgg{sql: a + " AS " + r.q(l.Name)})
-	}
-	var keys []string
-	for _, k := range s.Keys {
-		keys = append(keys, r.q(k.Name))
-	}
-	r.cte[rel] = r.cteName(rel.Name + "_cells")
-	r.addCTE(r.cte[rel], groupingSets(r.d, keys, rel.Sets, aggs, from))
-	return nil
+	name, col := r.rowsOf(rel.Name, rows, len(s.Joins) > 0, cols)
+	return name, col, nil
 }
 
 // per renders a per-grain relation: its sub-context's CTEs, a CTE with

@@ -1,7 +1,9 @@
 package dialects
 
 import (
+	"fmt"
 	"strconv"
+	"strings"
 
 	"github.com/rollwise/rollwise/planner"
 )
@@ -14,20 +16,24 @@ type DateMover interface {
 	MoveDate(arg string, n int, unit string, t planner.Type) string
 }
 
-// moveDate spells the planner's date_move(D, N) for unit: days and weeks
-// as days, quarters and years as months.
+// moveDate spells the planner's date_move(D, N).
 func (r *renderer) moveDate(e *planner.Func, arg string, t planner.Type) (string, error) {
-	m, ok := r.d.(DateMover)
-	if !ok {
-		return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "a time edit that moves dates (back N " + e.Unit + ")",
-			Hint: "run it on DuckDB, PostgreSQL, MariaDB/MySQL or SQLite"}
-	}
 	lit, _ := e.Args[1].(*planner.Lit)
 	n := 0
 	if lit != nil {
 		n, _ = strconv.Atoi(lit.Text)
 	}
-	unit := e.Unit
+	return r.moveBy(arg, n, e.Unit, t, "back N "+e.Unit)
+}
+
+// moveBy moves a date by n units: days and weeks as days, quarters and
+// years as months. what names the construct for a dialect that cannot.
+func (r *renderer) moveBy(arg string, n int, unit string, t planner.Type, what string) (string, error) {
+	m, ok := r.d.(DateMover)
+	if !ok {
+		return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "a time edit that moves dates (" + what + ")",
+			Hint: "run it on DuckDB, PostgreSQL, MariaDB/MySQL or SQLite"}
+	}
 	switch unit {
 	case "week":
 		n, unit = 7*n, "day"
@@ -37,6 +43,77 @@ func (r *renderer) moveDate(e *planner.Func, arg string, t planner.Type) (string
 		n, unit = 12*n, "month"
 	}
 	return m.MoveDate(arg, n, unit, t), nil
+}
+
+// rangeScan renders a window edit's scan (planner.TimeRange): the E of
+// every cell of ctx, then the aggregates of the rows that match each
+// cell's kept keys and whose date lies in the cell's range.
+func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
+	s := rel.Scan
+	tr := s.Range
+	rowsName, col, err := r.scanRows(rel)
+	if err != nil {
+		return err
+	}
+	key := r.q(r.keyRel[ctx])
+	ends := r.cteName(rel.Name + "_ends")
+	cols := []string{key + "." + r.q(GroupingColumn)}
+	for _, k := range ctx.Keys {
+		cols = append(cols, key+"."+r.q(k.Name))
+	}
+	from := key
+	e := key + "." + r.q(tr.E.Column)
+	if name := r.cte[tr.E.Rel]; name != r.keyRel[ctx] {
+		from += "\n  LEFT JOIN " + r.q(name) + " ON " + r.joinOn(ctx, key, tr.E.Rel)
+		e = r.q(name) + "." + r.q(tr.E.Column)
+	}
+	cols = append(cols, e+" AS "+r.q(rel.Name+"_end"))
+	r.addCTE(ends, "  SELECT "+strings.Join(cols, ", ")+"\n  FROM "+from)
+
+	a, x := r.q("a"), r.q("x")
+	at := x + "." + r.q(col(tr.D.Name))
+	end := a + "." + r.q(rel.Name+"_end")
+	conds := []string{at + " <= " + end}
+	switch tr.Kind {
+	case planner.EditToDate:
+		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.T))
+	case planner.EditLast:
+		lo, err := r.moveBy(end, -tr.N, tr.Unit, tr.E.T, fmt.Sprintf("last %d %s", tr.N, tr.Unit))
+		if err != nil {
+			return err
+		}
+		conds = append(conds, at+" > "+lo)
+	}
+	n := len(ctx.Keys)
+	for j, i := range tr.Match {
+		k := ctx.Keys[i]
+		eq := r.d.NullSafeEqual(x+"."+r.q(col(s.Keys[j].Name)), a+"."+r.q(k.Name))
+		rolled := false
+		for _, set := range ctx.Sets {
+			rolled = rolled || set&(1<<(n-1-i)) != 0
+		}
+		if rolled {
+			eq = "(" + r.d.BitAnd(a+"."+r.q(GroupingColumn), strconv.Itoa(1<<(n-1-i))) + " <> 0 OR " + eq + ")"
+		}
+		conds = append(conds, eq)
+	}
+	group := []string{a + "." + r.q(GroupingColumn)}
+	for _, k := range ctx.Keys {
+		group = append(group, a+"."+r.q(k.Name))
+	}
+	sel := append([]string{}, group...)
+	for _, l := range s.Leaves {
+		agg, err := r.leafAgg(l, x+".", col)
+		if err != nil {
+			return err
+		}
+		sel = append(sel, agg)
+	}
+	r.cte[rel] = r.cteName(rel.Name + "_cells")
+	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(sel, ", ")+"\n  FROM "+r.q(ends)+" AS "+a+
+		"\n  JOIN "+r.q(rowsName)+" AS "+x+" ON "+strings.Join(conds, "\n    AND ")+
+		"\n  GROUP BY "+strings.Join(group, ", "))
+	return nil
 }
 
 // intervalMove adds an interval, as DuckDB and PostgreSQL spell it; their

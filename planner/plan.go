@@ -119,6 +119,26 @@ type Scan struct {
 	Keys   []Key
 	Inputs []*Input
 	Leaves []*Leaf
+	// Range is set for the scan of a window edit (to date, running,
+	// last): see TimeRange.
+	Range *TimeRange
+}
+
+// TimeRange makes a scan a window edit's: its cells are its context's
+// cells (every key, every grouping set), each aggregating the rows that
+// match the cell's kept keys (the scan's Keys, matched where the cell
+// groups by them) and whose date D lies in the cell's range: up to E, and
+// from start_of_Unit(E) (to date) or after E - N Unit (last).
+type TimeRange struct {
+	Kind EditKind
+	N    int
+	Unit string
+	// D is the date read on each row; E is the cell's latest D.
+	D *Input
+	E *ValueRef
+	// Match lists, for each of the scan's Keys, its index among the
+	// context's keys.
+	Match []int
 }
 
 // PerRel aggregates the values of a sub-context over its per-grain keys.
@@ -241,6 +261,15 @@ type cell struct {
 	filters []cellFilter
 	// moved maps a key (by index) that `back` moves to its row expression.
 	moved map[int]Expr
+	// window is set by a window edit (to date, running, last).
+	window *windowEdit
+}
+
+// windowEdit is a window edit in force in a cell: the edit and the cell's
+// E, as a value of the context.
+type windowEdit struct {
+	ed *CellEdit
+	e  *ValueRef
 }
 
 type cellFilter struct {
@@ -249,7 +278,7 @@ type cellFilter struct {
 }
 
 func (c cell) with(f cellFilter) cell {
-	return cell{removed: c.removed, filters: append(append([]cellFilter{}, c.filters...), f), moved: c.moved}
+	return cell{removed: c.removed, filters: append(append([]cellFilter{}, c.filters...), f), moved: c.moved, window: c.window}
 }
 
 // mentions reports whether e reads column c directly.
@@ -275,7 +304,7 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 		}
 		return true
 	}
-	out := cell{removed: c.removed, moved: c.moved}
+	out := cell{removed: c.removed, moved: c.moved, window: c.window}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
 		if hit(k.Col) {

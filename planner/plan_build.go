@@ -28,6 +28,9 @@ type planner struct {
 	// distinct maps the per-grain counts planned for distinct counts to
 	// the aggregates they stand for (see plan_distinct.go).
 	distinct map[*PerLeaf]distinctOrigin
+	// timeEnds are the relations that compute a window edit's E: they stay
+	// scans (a window edit's relation reads them on their own).
+	timeEnds map[*Rel]bool
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
@@ -36,7 +39,7 @@ type planner struct {
 func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
 		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{},
-		distinct: map[*PerLeaf]distinctOrigin{}}
+		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
 		pl.measureNames[m.Name] = true
@@ -289,7 +292,10 @@ func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[ui
 // scanRel finds or adds the scan of t in ctx for a cell with the given
 // removed keys and row filters.
 func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, moved map[int]Expr, nameBase string) *Rel {
-	key := pl.scanKey(ctx, t, removed, where) + "|" + pl.movedKey(moved)
+	key := pl.scanKey(ctx, t, removed, where)
+	if len(moved) > 0 {
+		key += "|moved " + pl.movedKey(moved)
+	}
 	if r, ok := pl.rels[key]; ok {
 		return r
 	}
@@ -334,7 +340,12 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 	if c.removed != 0 || len(c.moved) > 0 || pl.filterKey(c.filters, true) != pl.whereKey(ctx.Filters) {
 		nameBase = pl.editedBy + "_" + a.Table.Name
 	}
-	r := pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), c.moved, nameBase)
+	var r *Rel
+	if c.window != nil {
+		r = pl.rangeRel(ctx, a.Table, c, nameBase)
+	} else {
+		r = pl.scanRel(ctx, a.Table, c.removed, rowFilters(c.filters), c.moved, nameBase)
+	}
 	key := r.Name + "|" + pl.text(a) + "|" + pl.filterKey(c.filters, false)
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: a.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
@@ -348,7 +359,8 @@ func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
 		l.Filter = pl.input(s, l.Name+"_if", extra)
 	}
 	s.Leaves = append(s.Leaves, l)
-	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count"}
+	// A window edit's cell without E is missing: NULL, counts included.
+	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count" && c.window == nil}
 	pl.values[key] = v
 	return v
 }
@@ -389,6 +401,11 @@ func (pl *planner) input(s *Scan, name string, e Expr) *Input {
 // sub-context, each a leaf of its relation. name is the base of the
 // leaf's name and of a new sub-context's.
 func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
+	if c.window != nil {
+		pl.diags.Errorf(pa.Pos, "unsupported", "a per-grain aggregate (or a distinct count) under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
+			"write the time edit inside the per-grain aggregate, around its measure"
+		return nil
+	}
 	var texts []string
 	for _, f := range c.filters {
 		texts = append(texts, fmt.Sprint(f.rows)+pl.text(f.e))

@@ -89,6 +89,9 @@ func (pl *planner) joins(s *Scan) {
 	for _, k := range s.Keys {
 		exprs = append(exprs, k.RowExpr())
 	}
+	if s.Range != nil {
+		exprs = append(exprs, s.Range.D.Expr)
+	}
 	for _, e := range exprs {
 		for _, c := range Columns(e) {
 			need[c.Table] = true

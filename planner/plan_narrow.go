@@ -24,7 +24,7 @@ func (pl *planner) hoistNarrowings(ctx *Context) {
 		if r.Per != nil {
 			pl.hoistNarrowings(r.Per.Sub)
 		}
-		if r.Scan == nil || (len(ctx.Keys) > 0 && slices.Contains(ctx.Bases, r)) {
+		if r.Scan == nil || r.Scan.Range != nil || (len(ctx.Keys) > 0 && slices.Contains(ctx.Bases, r)) {
 			continue
 		}
 		pl.hoist(r.Scan)

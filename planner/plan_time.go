@@ -16,8 +16,9 @@ import (
 //     time-bound key groups the rows by its expression over D moved
 //     forward N units (Key.Expr), a time-bound filter reads D moved
 //     forward. Nothing else changes, so the scans are the usual ones.
-//   - the window edits (to date, running, last) are not planned into SQL
-//     yet: they are refused with a positioned error.
+//   - the window edits (to date, running, last) read the rows again for
+//     every cell: a scan whose cells are the context's, each aggregating
+//     the rows whose D lies in the range its E sets (TimeRange).
 
 // movedFunc is the row function that moves a date forward: Args are the
 // date and an integer literal (the count); Unit is the unit.
@@ -217,7 +218,85 @@ func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, boo
 		pa := &PerAgg{Pos: ed.Pos, Func: fn, X: x, Per: []*Column{ed.Col}, T: e.X.Type()}
 		return pl.per(ctx, pa, c, pl.owner.Name+"_"+fn), true
 	}
-	pl.diags.Errorf(ed.Pos, "unsupported", "%s %s is not planned into SQL yet (the reference evaluator computes it)", ed.Col, ed.TimeText()).Suggestion =
-		"use = latest, = earliest or back N UNIT for now"
-	return nil, false
+	return pl.windowEdit(ctx, e, i, c)
+}
+
+// windowEdit compiles X under a window edit (to date, running, last) and
+// the edits after it: the cell's E is the latest D among its rows of X's
+// iteration table; the edited cell drops the time-bound keys and filters,
+// and its aggregates read the rows whose D lies in the range E sets
+// (see TimeRange).
+func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, bool) {
+	ed := e.Edits[i]
+	refuse := func(what string) (Expr, bool) {
+		pl.diags.Errorf(ed.Pos, "unsupported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
+			"the reference evaluator (rollwise verify) computes it; write the window edit on a measure of one fact table, as the outermost time edit"
+		return nil, false
+	}
+	tables := pl.iterationTables(e.X)
+	switch {
+	case len(tables) != 1:
+		return refuse("over measures of several tables")
+	case len(c.moved) > 0 || c.window != nil:
+		return refuse("after another time edit")
+	}
+	if slices.ContainsFunc(e.Edits[i+1:], func(r *CellEdit) bool { return r.Kind.Time() }) {
+		return refuse("before another time edit")
+	}
+	end := &Agg{Pos: ed.Pos, Func: "max", Arg: &ColRef{Pos: ed.Pos, Col: ed.Col}, Table: tables[0], T: ed.Col.Type}
+	ev, ok := pl.leaf(ctx, end, c).(*ValueRef)
+	if !ok {
+		return nil, false
+	}
+	pl.timeEnds[ev.Rel] = true
+	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev}}
+	n := len(ctx.Keys)
+	for k, key := range ctx.Keys {
+		if timeBound(ed.Col, key.Col) {
+			out.removed |= bit(k, n)
+		}
+	}
+	for _, f := range c.filters {
+		if !allBound(f.e, ed.Col) {
+			out.filters = append(out.filters, f)
+		}
+	}
+	for _, r := range e.Edits[i+1:] {
+		out = out.edit(ctx, r)
+	}
+	x := pl.compile(ctx, e.X, out)
+	return x, x != nil
+}
+
+// rangeRel finds or adds the relation of a window edit's scan of t in cell
+// c: cells keyed like ctx's, rows matched on the keys c keeps.
+func (pl *planner) rangeRel(ctx *Context, t *Table, c cell, nameBase string) *Rel {
+	w := c.window
+	where := rowFilters(c.filters)
+	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), w.e.Rel.Name+"."+w.e.Column)
+	if r, ok := pl.rels[key]; ok {
+		return r
+	}
+	n := len(ctx.Keys)
+	var all, match []int
+	for i := range ctx.Keys {
+		all = append(all, i)
+		if c.removed&bit(i, n) == 0 {
+			match = append(match, i)
+		}
+	}
+	gid := map[uint64]uint64{}
+	for _, s := range ctx.Sets {
+		gid[s] = s
+	}
+	s := &Scan{Table: t, Where: where, Keys: movedKeys(ctx, match, nil)}
+	r := &Rel{Name: pl.name(nameBase), Keys: all, Sets: ctx.Sets, GidOf: gid, Scan: s}
+	s.Name = r.Name
+	pl.inputs[s] = map[string]*Input{}
+	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
+		D: pl.input(s, r.Name+"_at", &ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
+	pl.rels[key] = r
+	ctx.Rels = append(ctx.Rels, r)
+	pl.p.Scans = append(pl.p.Scans, s)
+	return r
 }

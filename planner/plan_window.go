@@ -39,7 +39,7 @@ func (pl *planner) useWindows(ctx *Context) {
 	for _, r := range ctx.Rels {
 		s := r.Scan
 		if r == base || s == nil || s.Table != base.Scan.Table || pl.whereKey(s.Where) != want || len(s.Leaves) == 0 ||
-			slices.ContainsFunc(s.Keys, func(k Key) bool { return k.Expr != nil }) {
+			slices.ContainsFunc(s.Keys, func(k Key) bool { return k.Expr != nil }) || pl.timeEnds[r] || s.Range != nil {
 			continue
 		}
 		ok := true

@@ -63,7 +63,7 @@ var TimeCases = []TimeCase{
 			{"orders.shop": "b", "revenue": "37", "rev_ly": nil, "ly_shops": "100", "closing": "30"},
 			{"orders.shop": nil, "revenue": "67", "rev_ly": "100", "ly_shops": "100", "closing": "30", "rolled_up": total("orders.shop")},
 		}},
-	{Name: "windows by shop in 2025", Measures: "revenue,ytd,running,last3", By: "orders.shop", Where: "orders.year = 2025", Totals: "grand",
+	{Name: "windows by shop in 2025", Measures: "revenue,ytd,running,last3", By: "orders.shop", Where: "orders.year = 2025", Totals: "grand", SQL: true,
 		Rows: []Row{
 			// a: E = 2025-02-28. ytd 2025-01-01..E: 30; running: 100 + 10 + 20; last 3 months
 			// (2024-11-28, 2025-02-28]: 30. The year filter is time-bound: replaced.
@@ -73,7 +73,7 @@ var TimeCases = []TimeCase{
 			// E = 2025-03-31: 67; 100 + 67; (2024-12-31, 2025-03-31]: 67.
 			{"orders.shop": nil, "revenue": "67", "ytd": "67", "running": "167", "last3": "67", "rolled_up": total("orders.shop")},
 		}},
-	{Name: "windows by month", Measures: "revenue,ytd,running,last3", By: "orders.month", Totals: "grand",
+	{Name: "windows by month", Measures: "revenue,ytd,running,last3", By: "orders.month", Totals: "grand", SQL: true,
 		Rows: []Row{
 			{"orders.month": "2024-02-01", "revenue": "100", "ytd": "100", "running": "100", "last3": "100"},
 			// E = 2025-01-31; last 3 months: (2024-10-31, 2025-01-31].
