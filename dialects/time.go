@@ -163,3 +163,47 @@ func (sqlite) MoveDate(arg string, n int, unit string, t planner.Type) string {
 	}
 	return day
 }
+
+// MoveDate is DATEADD, which clamps a month move to the target month's
+// last day (learn.microsoft.com, DATEADD: "the last day of the return
+// month is returned").
+func (sqlserver) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
+}
+
+// MoveDate is DATEADD, which clamps a month move (docs.snowflake.com,
+// DATEADD: adding a month to January 31 gives the last day of February).
+func (snowflake) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
+}
+
+// MoveDate is DATE_ADD (DATETIME_ADD for timestamps, which are DATETIME
+// here); both clamp a month move to the month's last day (cloud.google.com,
+// "Date functions", DATE_ADD).
+func (bigquery) MoveDate(arg string, n int, unit string, t planner.Type) string {
+	fn := "DATE_ADD"
+	if t == planner.TypeTimestamp {
+		fn = "DATETIME_ADD"
+	}
+	return fn + "(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + strings.ToUpper(unit) + ")"
+}
+
+// MoveDate is date_add, whose month arithmetic clamps to the month's last
+// day (trino.io, "Date and time functions", date_add).
+func (trino) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+	return "date_add('" + unit + "', " + strconv.Itoa(n) + ", " + arg + ")"
+}
+
+// MoveDate is add_months or date_add for dates, timestampadd for
+// timestamps; since Spark 3.0 add_months clamps to the month's last day
+// without moving a month's last day to the next month's last day (Spark
+// SQL migration guide, 2.4 to 3.0).
+func (spark) MoveDate(arg string, n int, unit string, t planner.Type) string {
+	switch {
+	case t == planner.TypeTimestamp:
+		return "timestampadd(" + strings.ToUpper(unit) + ", " + strconv.Itoa(n) + ", " + arg + ")"
+	case unit == "month":
+		return "add_months(" + arg + ", " + strconv.Itoa(n) + ")"
+	}
+	return "date_add(" + arg + ", " + strconv.Itoa(n) + ")"
+}

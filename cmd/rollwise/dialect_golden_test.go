@@ -35,6 +35,7 @@ var goldenSets = []struct {
 	{"shop", "../../testdata/sql", []string{shopModel, editsModel}},
 	{"lab", "../../testdata/dialects/lab", []string{labModel}},
 	{"hostile", "../../testdata/dialects/hostile", []string{hostileModel}},
+	{"time", "../../testdata/dialects/time", []string{timeModel}},
 }
 
 // goldenCase is one case: its set, name, models and arguments.

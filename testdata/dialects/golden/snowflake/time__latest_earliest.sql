@@ -1,0 +1,58 @@
+-- rollwise sql testdata/exec/time.roll -m 'closing,opening' -b orders.shop --totals grand -d snowflake
+WITH "ORDERS_ROWS" AS (
+  SELECT
+    "ORDERS"."SHOP" AS "orders.shop"
+  FROM "TIMED"."ORDERS" AS "ORDERS"
+),
+"ORDERS_CELLS" AS (
+  SELECT
+    "orders.shop",
+    GROUPING("orders.shop") AS "GROUPING_ID"
+  FROM "ORDERS_ROWS"
+  GROUP BY GROUPING SETS (("orders.shop"), ())
+),
+"CLOSING_LATEST_PER_ORDERS_ROWS" AS (
+  SELECT
+    "ORDERS"."SHOP" AS "orders.shop",
+    "ORDERS"."DAY" AS "orders.day per",
+    "ORDERS"."AMOUNT" AS "CLOSING_LATEST_PER_REVENUE_ARG"
+  FROM "TIMED"."ORDERS" AS "ORDERS"
+),
+"CLOSING_LATEST_PER_ORDERS_CELLS" AS (
+  SELECT
+    "orders.shop",
+    "orders.day per",
+    GROUPING("orders.shop", "orders.day per") AS "GROUPING_ID",
+    sum("CLOSING_LATEST_PER_REVENUE_ARG") AS "CLOSING_LATEST_PER_REVENUE"
+  FROM "CLOSING_LATEST_PER_ORDERS_ROWS"
+  GROUP BY GROUPING SETS (("orders.shop", "orders.day per"), ("orders.day per"))
+),
+"CLOSING_LATEST_PER_GROUPS" AS (
+  SELECT
+    "orders.shop",
+    "orders.day per",
+    "GROUPING_ID",
+    MAX("orders.day per") OVER (PARTITION BY "GROUPING_ID", "orders.shop") AS "CLOSING_LATEST_AT",
+    MIN("orders.day per") OVER (PARTITION BY "GROUPING_ID", "orders.shop") AS "OPENING_EARLIEST_AT",
+    "CLOSING_LATEST_PER_REVENUE" AS "CLOSING_VALUE",
+    "CLOSING_LATEST_PER_REVENUE" AS "OPENING_VALUE"
+  FROM "CLOSING_LATEST_PER_ORDERS_CELLS"
+),
+"CLOSING_LATEST_PER" AS (
+  SELECT
+    "orders.shop",
+    "GROUPING_ID",
+    max(CASE WHEN "orders.day per" IS NOT NULL AND "orders.day per" = "CLOSING_LATEST_AT" THEN "CLOSING_VALUE" END) AS "CLOSING_LATEST",
+    max(CASE WHEN "orders.day per" IS NOT NULL AND "orders.day per" = "OPENING_EARLIEST_AT" THEN "OPENING_VALUE" END) AS "OPENING_EARLIEST"
+  FROM "CLOSING_LATEST_PER_GROUPS"
+  GROUP BY "GROUPING_ID", "orders.shop"
+)
+SELECT
+  "ORDERS_CELLS"."orders.shop",
+  "CLOSING_LATEST_PER"."CLOSING_LATEST" AS "CLOSING",
+  "CLOSING_LATEST_PER"."OPENING_EARLIEST" AS "OPENING",
+  "ORDERS_CELLS"."GROUPING_ID"
+FROM "ORDERS_CELLS"
+  LEFT JOIN "CLOSING_LATEST_PER" ON "CLOSING_LATEST_PER"."GROUPING_ID" = CASE "ORDERS_CELLS"."GROUPING_ID" WHEN 0 THEN 0 WHEN 1 THEN 2 END
+    AND "CLOSING_LATEST_PER"."orders.shop" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.shop"
+ORDER BY BITAND("ORDERS_CELLS"."GROUPING_ID", 1), "ORDERS_CELLS"."orders.shop" ASC NULLS LAST;
