@@ -402,7 +402,7 @@ func (pl *planner) input(s *Scan, name string, e Expr) *Input {
 // leaf's name and of a new sub-context's.
 func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
 	if c.window != nil {
-		pl.diags.Errorf(pa.Pos, "unsupported", "a per-grain aggregate (or a distinct count) under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
+		pl.diags.Errorf(pa.Pos, "not-supported", "a per-grain aggregate (or a distinct count) under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
 			"write the time edit inside the per-grain aggregate, around its measure"
 		return nil
 	}

@@ -138,7 +138,7 @@ func (pl *planner) back(ctx *Context, c cell, ed *CellEdit) (cell, bool) {
 		out.moved[i] = e
 	}
 	refuse := func(col *Column) (cell, bool) {
-		d := pl.diags.Errorf(ed.Pos, "unsupported", "%s back moves %s, a column of the calendar %s: moving through a calendar table is not planned into SQL yet",
+		d := pl.diags.Errorf(ed.Pos, "not-supported", "%s back moves %s, a column of the calendar %s: moving through a calendar table is not planned into SQL yet",
 			ed.Col, col, col.Table.Name)
 		d.Suggestion = "group and filter by the fact's own date or by derived columns computed from it (for example month = date_trunc(month, day))"
 		return c, false
@@ -205,7 +205,7 @@ func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, boo
 		x := e.X
 		if rest := e.Edits[i+1:]; len(rest) > 0 {
 			if slices.ContainsFunc(rest, func(r *CellEdit) bool { return r.Kind == EditUngroup || r.Kind.Time() }) {
-				pl.diags.Errorf(ed.Pos, "unsupported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
+				pl.diags.Errorf(ed.Pos, "not-supported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
 					"write that edit before the time edit, or in brackets of its own around the measure"
 				return nil, false
 			}
@@ -229,7 +229,7 @@ func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, boo
 func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, bool) {
 	ed := e.Edits[i]
 	refuse := func(what string) (Expr, bool) {
-		pl.diags.Errorf(ed.Pos, "unsupported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
+		pl.diags.Errorf(ed.Pos, "not-supported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
 			"the reference evaluator (rollwise verify) computes it; write the window edit on a measure of one fact table, as the outermost time edit"
 		return nil, false
 	}

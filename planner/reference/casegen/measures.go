@@ -325,6 +325,9 @@ func (g *gen) edited(depth int) mx {
 	a := g.numExpr(depth - 1)
 	cols := g.common(a.tables, func(c *column) bool { return c.groupable() })
 	var edits []string
+	if dates := g.dateCols(cols); len(dates) > 0 && g.chance(35) {
+		edits = append(edits, g.timeEdit(g.col(dates)))
+	}
 	for n := g.intn(1, 2); len(edits) < n; {
 		switch k := g.intn(0, 9); {
 		case k <= 2 && len(cols) > 0:
@@ -362,6 +365,37 @@ func (g *gen) edited(depth int) mx {
 	a.text = "(" + a.text + ")[" + strings.Join(edits, "; ") + "]"
 	a.advanced = true
 	return a
+}
+
+// dateCols are the stored date and timestamp columns among cols: the
+// columns a time edit moves.
+func (g *gen) dateCols(cols []*column) []*column {
+	var out []*column
+	for _, c := range cols {
+		if c.derived == "" && (c.typ == "date" || c.typ == "timestamp") {
+			out = append(out, c)
+		}
+	}
+	return out
+}
+
+// timeEdit draws one of the six time edits on the date column d.
+func (g *gen) timeEdit(d *column) string {
+	units := []string{"day", "days", "week", "month", "months", "quarter", "year", "years"}
+	unit := units[g.pick(len(units))]
+	switch g.intn(0, 5) {
+	case 0:
+		return d.ref() + " = latest"
+	case 1:
+		return d.ref() + " = earliest"
+	case 2:
+		return fmt.Sprintf("%s back %d %s", d.ref(), g.intn(0, 2), unit)
+	case 3:
+		return d.ref() + " to date " + unit
+	case 4:
+		return d.ref() + " running"
+	}
+	return fmt.Sprintf("%s last %d %s", d.ref(), g.intn(1, 3), unit)
 }
 
 // perGrain draws AGG(X per C... having H) or count(* per C... having H).

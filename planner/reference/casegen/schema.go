@@ -269,7 +269,7 @@ func (g *gen) factColumns(f *table) {
 	}
 	day := (*column)(nil)
 	if g.chance(60) {
-		day = f.add(attr("day", "date", 10, dateVals("2026-01-05", "2026-01-31", "2026-02-01", "2026-02-14", "2026-03-30")))
+		day = f.add(attr("day", "date", 10, dateVals("2024-02-29", "2025-12-31", "2026-01-05", "2026-01-31", "2026-02-01", "2026-02-14", "2026-03-30")))
 	}
 	if g.chance(30) {
 		f.add(attr("paid", "boolean", 10, plainVals("true", "false")))
