@@ -89,6 +89,16 @@ var TimeCases = []TimeCase{
 			{"orders.month": "2026-03-01", "revenue": "3", "ytd": "6", "running": "173", "last3": "6"},
 			{"orders.month": nil, "revenue": "173", "ytd": "6", "running": "173", "last3": "6", "rolled_up": total("orders.month")},
 		}},
+	{Name: "week to date in 2026", Measures: "revenue,wtd", By: "orders.day", Where: "orders.year = 2026", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// ISO 8601 weeks start on Monday: 2026-01-15 (a Thursday) from the 12th.
+			{"orders.day": "2026-01-15", "revenue": "1", "wtd": "1"},
+			// Saturday 2026-02-28, in the week from Monday the 23rd.
+			{"orders.day": "2026-02-28", "revenue": "2", "wtd": "2"},
+			// Sunday 2026-03-01 ends that week: 2 + 3 (a week from Sunday would give 3).
+			{"orders.day": "2026-03-01", "revenue": "3", "wtd": "5"},
+			{"orders.day": nil, "revenue": "6", "wtd": "5", "rolled_up": total("orders.day")},
+		}},
 	{Name: "calendar months of 2026", Measures: "revenue,cal_close", By: "days.mon", Where: "days.yr = 2026", Totals: "grand", SQL: true,
 		Rows: []Row{
 			{"days.mon": "2026-01", "revenue": "1", "cal_close": "1"},
