@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 
@@ -17,6 +18,9 @@ type checkOptions struct {
 	// read from the tables' files, data, or the database at dsn.
 	required  bool
 	data, dsn string
+	// dialect, when given, also checks the model's names against the
+	// engine's identifier limits.
+	dialect string
 }
 
 func newCheckCmd(e *env) *cobra.Command {
@@ -32,6 +36,13 @@ func newCheckCmd(e *env) *cobra.Command {
 				return err
 			}
 			o.models = args
+			if o.dialect != "" {
+				d, err := dialects.Get(o.dialect)
+				if err != nil {
+					return &exitError{code: exitUsage, err: err}
+				}
+				o.dialect = d.Name()
+			}
 			if o.dsn != "" {
 				if _, err := liveDialect(o.dsn, "", false, o.data); err != nil {
 					return scrubDSN(o.dsn, err)
@@ -41,6 +52,7 @@ func newCheckCmd(e *env) *cobra.Command {
 			return scrubDSN(o.dsn, runCheck(e, o))
 		},
 	}
+	onceStringVarP(cmd.Flags(), &o.dialect, "dialect", "d", "", "also check that every name fits the dialect's identifier limit (63 bytes on postgres, 64 characters on mysql, 128 on sqlserver)")
 	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data every promise of the model: links declared required find their row, keys (and semiadditive columns' key and date) are unique (tables read as run reads them)")
 	cmd.Flags().StringVar(&o.data, "data", "", "with --required (implied): read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "with --required (implied): read the tables from a live database: postgres://..., mysql://... or sqlite:PATH")
@@ -62,6 +74,7 @@ func runCheck(e *env, o *checkOptions) error {
 		}
 		diags.Append(d)
 	}
+	diags.Append(identTooLong(m, o.dialect))
 	held := ""
 	if o.required && !diags.HasErrors() {
 		d, err := checkData(context.Background(), m, o.data, o.dsn)

@@ -89,3 +89,27 @@ func TestViewsFolderArguments(t *testing.T) {
 		t.Errorf("a refused --out left %s behind (%v)", filepath.Join(dir, "a"), err)
 	}
 }
+
+// TestCheckDialectNameLimits: `check -d` refuses names longer than the
+// engine keeps (PostgreSQL: 63 bytes, truncated silently, so a UTF-8
+// name of 40 two-byte letters is too long; MySQL: 64 characters, so the
+// same name fits), and a dialect without a documented limit checks none.
+func TestCheckDialectNameLimits(t *testing.T) {
+	model := "table sales at \"s." + strings.Repeat("r", 70) + "\" from \"s.csv\" {\n  key id\n  id integer\n  qty integer\n}\n" +
+		"measure " + strings.Repeat("m", 64) + " = sum(sales.qty)\nmeasure `" + strings.Repeat("é", 40) + "` = count(sales.qty)\n"
+	cases := []struct {
+		dialect string
+		code    int
+		errors  int
+	}{{"postgres", exitFindings, 3}, {"mysql", exitFindings, 1}, {"sqlserver", 0, 0}, {"duckdb", 0, 0}, {"", 0, 0}}
+	for _, c := range cases {
+		args := []string{"check", "MODEL"}
+		if c.dialect != "" {
+			args = append(args, "-d", c.dialect)
+		}
+		code, _, errb := runIn(t, t.TempDir(), model, args...)
+		if code != c.code || strings.Count(errb, "error: ") != c.errors {
+			t.Errorf("check -d %q: exit %d with %d errors, want %d and %d:\n%s", c.dialect, code, strings.Count(errb, "error: "), c.code, c.errors, errb)
+		}
+	}
+}
