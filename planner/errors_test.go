@@ -255,3 +255,20 @@ func TestMeasureNamedLikeGroupColumn(t *testing.T) {
 		}
 	}
 }
+
+// TestNumberLiteralOutOfRange: an integer literal beyond 64 bits and a
+// float literal beyond double precision are refused at check, not handed
+// to the engine (which reads them as another type or an infinity).
+func TestNumberLiteralOutOfRange(t *testing.T) {
+	for src, want := range map[string]string{
+		"measure a = sum(sales.qty) * 9223372036854775808\n": "9223372036854775808 is out of range for integer",
+		"measure a = sum(sales.qty) * 1e400\n":               "1e400 is out of range for float",
+	} {
+		if _, got := load(t, src); len(got) != 1 || !strings.Contains(got[0], want) {
+			t.Errorf("%s: %v, want %q", src, got, want)
+		}
+	}
+	if m, got := load(t, "measure a = sum(sales.qty) * 9223372036854775807 * 1e-400\n"); m == nil {
+		t.Errorf("the largest integer or an underflowing float refused: %v", got)
+	}
+}

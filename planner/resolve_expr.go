@@ -53,6 +53,9 @@ func (x *exprResolver) expr(e grammar.Expr) Expr {
 				t = TypeFloat
 			}
 		}
+		if !x.numberFits(e, t) {
+			return nil
+		}
 		return &Lit{Pos: e.Pos, T: t, Text: e.Text}
 	case *grammar.StringValue:
 		return &Lit{Pos: e.Pos, T: TypeText, Text: e.Value}
@@ -361,4 +364,27 @@ func (x *exprResolver) narrow(e *grammar.Narrow) Expr {
 		return nil
 	}
 	return &NarrowExpr{Pos: e.Pos, X: v, Pred: pred}
+}
+
+// numberFits refuses a number literal its type cannot hold: an integer
+// beyond 64 bits, or a float beyond double precision's range (1e400),
+// which engines would read as another type, an infinity or an error.
+func (x *exprResolver) numberFits(e *grammar.NumberLit, t Type) bool {
+	var err error
+	switch t {
+	case TypeInteger:
+		_, err = strconv.ParseInt(e.Text, 10, 64)
+	case TypeFloat:
+		_, err = strconv.ParseFloat(e.Text, 64)
+	}
+	if err == nil {
+		return true
+	}
+	d := x.errorf(e.Pos, "bad-literal", "%.40s is out of range for %s", e.Text, t)
+	if t == TypeInteger {
+		d.Suggestion = "integers are 64-bit; write the number with a decimal point to make it a decimal"
+	} else {
+		d.Suggestion = "floats are 64-bit, at most about 1.8e308"
+	}
+	return false
 }
