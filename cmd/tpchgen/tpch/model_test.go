@@ -173,10 +173,11 @@ func checkQuery(t *testing.T, id string, q querySpec) {
 			}
 		}
 	}
-	switch o := strings.Fields(q.Order); {
-	case len(o) == 0:
-	case len(o) > 2 || !contains(q.Measures, o[0]) || len(o) == 2 && o[1] != "desc" && o[1] != "asc":
-		t.Errorf("%s: order %q is not a requested measure with an optional asc or desc", id, q.Order)
+	for _, key := range strings.FieldsFunc(q.Order, func(r rune) bool { return r == ',' }) {
+		o := strings.Fields(key)
+		if len(o) == 0 || len(o) > 2 || !contains(q.Measures, o[0]) && !contains(q.By, o[0]) || len(o) == 2 && o[1] != "desc" && o[1] != "asc" {
+			t.Errorf("%s: order key %q is not a requested measure or --by column with an optional asc or desc", id, key)
+		}
 	}
 	if q.Totals != "none" || q.Limit < 0 {
 		t.Errorf("%s: totals %q, limit %d", id, q.Totals, q.Limit)
