@@ -60,13 +60,9 @@ func sharedBenchData(b *testing.B) *benchData {
 // copies every relation into a table, so that the queries time DuckDB's
 // own storage rather than Parquet decoding.
 func openBenchData() (*benchData, error) {
-	sf := 1.0
-	if s := os.Getenv(benchSFEnv); s != "" {
-		v, err := strconv.ParseFloat(s, 64)
-		if err != nil {
-			return nil, fmt.Errorf("%s=%q: %v", benchSFEnv, s, err)
-		}
-		sf = v
+	sf, err := benchSF()
+	if err != nil {
+		return nil, err
 	}
 	ctx := context.Background()
 	dir := tpch.CacheDir(sf)
@@ -96,6 +92,19 @@ func openBenchData() (*benchData, error) {
 		}
 	}
 	return &benchData{sf: sf, r: r, conn: conn}, nil
+}
+
+// benchSF is the benchmarks' scale factor: 1, or ROLLWISE_BENCH_SF.
+func benchSF() (float64, error) {
+	s := os.Getenv(benchSFEnv)
+	if s == "" {
+		return 1, nil
+	}
+	v, err := strconv.ParseFloat(s, 64)
+	if err != nil {
+		return 0, fmt.Errorf("%s=%q: %v", benchSFEnv, s, err)
+	}
+	return v, nil
 }
 
 // timedQuery runs a query to its last row and returns the rows, the wall
@@ -169,19 +178,20 @@ func asApprox(v cellValue) cellValue {
 }
 
 // benchRace times queries against each other: each iteration runs all of
-// them once, starting with a different one each time, on the benchmarks'
-// connection. Before timing, it runs each once and checks that all return
+// them once, starting with a different one each time, query k on conns[k]
+// (one connection serves all when conns has one). Before timing, it runs each once and checks that all return
 // the same rows as the first (check false skips that, for queries whose
 // order of equal rows may differ). It reports, for each query k > 0, the
 // median over iterations of time(first)/time(k) as "NAME0/NAMEk", the
 // ratio of their total CPU times as "NAME0/NAMEk-cpu", and the median wall
 // time of each as "NAME-ms".
-func benchRace(b *testing.B, d *benchData, names, queries []string, check bool) {
+func benchRace(b *testing.B, conns []*sql.Conn, names, queries []string, check bool) {
 	b.Helper()
 	ctx := context.Background()
+	conn := func(k int) *sql.Conn { return conns[min(k, len(conns)-1)] }
 	var first [][]cellValue
 	for k, q := range queries {
-		rows, wall, _, err := timedQuery(ctx, d.conn, q)
+		rows, wall, _, err := timedQuery(ctx, conn(k), q)
 		if err != nil {
 			b.Fatalf("%s: %v\n%s", names[k], err, q)
 		}
@@ -197,7 +207,7 @@ func benchRace(b *testing.B, d *benchData, names, queries []string, check bool) 
 	for i := 0; b.Loop(); i++ {
 		for j := range queries {
 			k := (i + j) % len(queries)
-			_, w, c, err := timedQuery(ctx, d.conn, queries[k])
+			_, w, c, err := timedQuery(ctx, conn(k), queries[k])
 			if err != nil {
 				b.Fatalf("%s: %v", names[k], err)
 			}
@@ -257,7 +267,7 @@ func BenchmarkTPCH(b *testing.B) {
 			}
 			// Results are compared by the equivalence tests; here the
 			// columns come in other orders.
-			benchRace(b, d, []string{"gen", "spec"}, []string{gen, spec}, false)
+			benchRace(b, []*sql.Conn{d.conn}, []string{"gen", "spec"}, []string{gen, spec}, false)
 		})
 	}
 }

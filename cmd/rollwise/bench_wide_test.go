@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"database/sql"
 	"fmt"
 	"strings"
 	"testing"
@@ -237,5 +238,5 @@ func BenchmarkWideReport(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	benchRace(b, d, []string{"gen", "hand", "naive"}, queries, true)
+	benchRace(b, []*sql.Conn{d.conn}, []string{"gen", "hand", "naive"}, queries, true)
 }

@@ -81,8 +81,24 @@ func runRun(e *env, o *runOptions) error {
 
 // execute runs a compiled query on the embedded engine and shapes the rows
 // for the report.
+//
+// Parquet decimals are read in the files' own types, which is faster
+// (engine.Options.FileDecimals); a query that overflows them is run again
+// with every decimal read as the model's DECIMAL(38,6), as before.
 func execute(ctx context.Context, c *compiled, dataDir string) (*report.Table, error) {
-	db, err := engine.OpenDuckDB(ctx, c.model, dataDir)
+	res, err := executeOn(ctx, c, dataDir, engine.Options{FileDecimals: true})
+	if engine.Overflowed(err) {
+		res, err = executeOn(ctx, c, dataDir, engine.Options{})
+	}
+	if err != nil {
+		return nil, err
+	}
+	return shape(c, res)
+}
+
+// executeOn opens the embedded engine with options o and runs c there.
+func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Options) (*engine.Result, error) {
+	db, err := engine.Open(ctx, c.model, dataDir, o)
 	if err != nil {
 		return nil, &exitError{code: exitFindings, err: err}
 	}
@@ -91,7 +107,7 @@ func execute(ctx context.Context, c *compiled, dataDir string) (*report.Table, e
 	if err != nil {
 		return nil, &exitError{code: exitFindings, err: fmt.Errorf("the engine rejected the query: %w", err)}
 	}
-	return shape(c, res)
+	return res, nil
 }
 
 // shape turns engine rows into report rows: group columns, measures, and

@@ -11,7 +11,8 @@ import (
 )
 
 // loadParquet creates r as a view over its Parquet file that selects the
-// stored columns cast to their declared types. Before creating it, every
+// stored columns cast to their declared types (with r.fileDecimals, a
+// decimal column that always fits is kept in the file's type). Before creating it, every
 // column whose file type differs from the declared one, and does not
 // always cast exactly (exactCast), is read and checked: a value
 // the cast would fail on or change (a fraction in an integer column, a
@@ -37,7 +38,7 @@ func loadParquet(ctx context.Context, conn *sql.Conn, r *relation) error {
 	for i, c := range r.columns {
 		s := src[at[i]]
 		field := quoteIdent(s.name)
-		if s.typ == c.duckType {
+		if s.typ == c.duckType || r.fileDecimals && c.duckType == DecimalType && isDecimal(s.typ) && exactCast(s.typ, c.duckType) {
 			selects[i] = field + " AS " + quoteIdent(c.name)
 			continue
 		}
@@ -156,6 +157,12 @@ func exactCast(src, dst string) bool {
 		return src != "BLOB"
 	}
 	return false
+}
+
+// isDecimal reports whether t is a DuckDB DECIMAL(p,s).
+func isDecimal(t string) bool {
+	_, _, ok := decimalType(t)
+	return ok
 }
 
 // decimalType reads DuckDB's spelling DECIMAL(p,s).

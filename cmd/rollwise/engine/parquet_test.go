@@ -195,3 +195,41 @@ func TestExactCast(t *testing.T) {
 		}
 	}
 }
+
+// With FileDecimals, a Parquet decimal that always fits DECIMAL(38,6) keeps
+// the file's type (TPC-H's money columns are DECIMAL(15,2)), with the same
+// values; one with more than 6 places is still cast, and its values
+// checked. A product too large for DuckDB's narrow decimal arithmetic is
+// an out-of-range error (Overflowed), never a rounding, where the wide
+// types compute it.
+func TestParquetFileDecimals(t *testing.T) {
+	dir := t.TempDir()
+	file := writeParquet(t, dir, "lines.parquet", `
+		SELECT * FROM (VALUES
+			(100000000.00::DECIMAL(15,2), 10000000.00::DECIMAL(15,2), 0.5::DECIMAL(12,8)),
+			(0.01::DECIMAL(15,2), 2.50::DECIMAL(15,2), 0.25::DECIMAL(12,8))
+		) v(price, qty, rate)`)
+	m := model(table("lines", nil, file,
+		col("price", planner.TypeDecimal), col("qty", planner.TypeDecimal), col("rate", planner.TypeDecimal)))
+	db, err := Open(context.Background(), m, "", Options{FileDecimals: true})
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	types := query(t, db, `SELECT typeof("price"), typeof("qty"), typeof("rate") FROM "lines" LIMIT 1`)
+	expectRows(t, types, types.Columns, [][]any{{"DECIMAL(15,2)", "DECIMAL(15,2)", "DECIMAL(38,6)"}})
+	sum := query(t, db, `SELECT sum("price"), sum("qty" * "rate") FROM "lines"`)
+	expectRows(t, sum, sum.Columns, [][]any{{dec("100000000.01"), dec("5000000.625")}})
+	// 10^8 * 10^7 = 10^15 needs more than DECIMAL(18,4), the type DuckDB
+	// gives a product of two DECIMAL(15,2).
+	_, err = Query(context.Background(), db, `SELECT sum("price" * "qty") FROM "lines"`)
+	if !Overflowed(err) {
+		t.Fatalf("narrow product: err = %v, want an out-of-range error", err)
+	}
+	wide := open(t, m, "")
+	sum = query(t, wide, `SELECT sum("price" * "qty") FROM "lines"`)
+	expectRows(t, sum, sum.Columns, [][]any{{dec("1000000000000000.025")}})
+	if Overflowed(nil) || Overflowed(context.Canceled) {
+		t.Error("Overflowed took another error for an overflow")
+	}
+}
