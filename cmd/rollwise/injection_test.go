@@ -2,6 +2,7 @@ package main
 
 import (
 	"encoding/csv"
+	"flag"
 	"os"
 	"strconv"
 	"strings"
@@ -92,4 +93,86 @@ func mustFloat(t *testing.T, s string) float64 {
 		t.Fatal(err)
 	}
 	return f
+}
+
+// injectionAll runs every injection payload on the engines, not only
+// every fifth (the SQL of every payload is checked on every dialect
+// either way).
+var injectionAll = flag.Bool("injection.all", false, "run every injection payload on DuckDB and the live engines")
+
+// injectionPayloads reads testdata/badinput/injection.txt.
+func injectionPayloads(t *testing.T) []string {
+	t.Helper()
+	b, err := os.ReadFile("../../testdata/badinput/injection.txt")
+	if err != nil {
+		t.Fatal(err)
+	}
+	var out []string
+	for _, line := range strings.Split(string(b), "\n") {
+		if line == "" || strings.HasPrefix(line, "#") {
+			continue
+		}
+		p, err := strconv.Unquote(line)
+		if err != nil {
+			t.Fatalf("injection.txt: %s: %v", line, err)
+		}
+		out = append(out, p)
+	}
+	return out
+}
+
+// Each injection payload (quotes, backslashes, comment markers, batch
+// separators, dollar quotes, NUL, look-alike quotes), written as a
+// rollwise literal in a --where filter on the hostile column: the SQL of
+// every dialect is one statement that `sql` prints without error, and on
+// DuckDB (and, through runJSON's cross-check, SQLite, PostgreSQL and
+// MySQL/MariaDB when they are available) the filter matches exactly the
+// hostile rows of that name (none, but for "-- comment"): a payload that
+// escaped its literal would match other rows, fail the statement, or run
+// a second one. A payload the language cannot hold (a NUL byte)
+// is refused at its position. The counts are those of docs/testing.md.
+func TestInjectionPayloadsStayLiterals(t *testing.T) {
+	payloads := injectionPayloads(t)
+	matches := map[string]int{} // the hostile rows whose name a payload is
+	for _, r := range hostileRows(t) {
+		matches[r.name]++
+	}
+	dialectNames := []string{"duckdb", "postgres", "mysql", "sqlite", "sqlserver", "snowflake", "bigquery", "trino", "spark"}
+	tried, clean, refused := 0, 0, 0
+	for i, p := range payloads {
+		filter := "`we\"ird'; --`.`na'me\"; DROP` = '" + strings.ReplaceAll(p, "'", "''") + "'"
+		var errb strings.Builder
+		for _, d := range dialectNames {
+			tried++
+			var out strings.Builder
+			errb.Reset()
+			code := Main([]string{"sql", hostileModel, "-d", d, "-m", "tot'al,n ]--", "-w", filter}, nil, &out, &errb)
+			switch {
+			case code == exitFindings && strings.Contains(errb.String(), "--where:1:"):
+				refused++ // refused with a position, the same on every dialect
+				clean++
+			case code != 0:
+				t.Errorf("%q on %s: exit %d: %s", p, d, code, errb.String())
+			case strings.Count(out.String(), p) > 1 && !strings.ContainsAny(p, "'\\\r\n"):
+				t.Errorf("%q on %s appears %d times in the SQL", p, d, strings.Count(out.String(), p))
+			default:
+				clean++
+			}
+		}
+		if strings.Contains(errb.String(), "--where:1:") || (i%5 != 0 && !*injectionAll) {
+			continue
+		}
+		tried++
+		got := runJSON(t, "run", hostileModel, "-m", "tot'al,n ]--", "-w", filter)
+		if len(got) == 1 && sameValue(got[0]["n ]--"], matches[p]) {
+			clean++
+		} else {
+			t.Errorf("%q matched other than its %d rows: %s", p, matches[p], dump(got))
+		}
+	}
+	if refused == 0 {
+		t.Error("no payload was refused; the NUL byte should be")
+	}
+	t.Logf("injection payloads: %d payloads, %d runs (9 dialects' SQL each, and a DuckDB run of every fifth or, with -injection.all, of each), %d clean (%d refused with a position), %d escapes",
+		len(payloads), tried, clean, refused, tried-clean)
 }
