@@ -10,6 +10,8 @@ import (
 	"sort"
 	"strings"
 	"time"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/durable"
 )
 
 // The layout of an --out folder DIR: DIR is a relative symbolic link to
@@ -401,27 +403,5 @@ func (osFS) RemoveAll(name string) error                   { return os.RemoveAll
 
 func (osFS) Lock(name string, wait time.Duration) (io.Closer, error) { return lockFile(name, wait) }
 
-func (osFS) WriteFile(name string, data []byte) error {
-	f, err := os.OpenFile(name, os.O_WRONLY|os.O_CREATE|os.O_EXCL, 0o644)
-	if err != nil {
-		return err
-	}
-	if _, err := f.Write(data); err != nil {
-		f.Close()
-		return err
-	}
-	if err := f.Sync(); err != nil {
-		f.Close()
-		return err
-	}
-	return f.Close()
-}
-
-func (osFS) SyncDir(name string) error {
-	d, err := os.Open(name)
-	if err != nil {
-		return err
-	}
-	defer d.Close()
-	return d.Sync()
-}
+func (osFS) WriteFile(name string, data []byte) error { return durable.WriteNew(name, data) }
+func (osFS) SyncDir(name string) error                { return durable.SyncDir(name) }
