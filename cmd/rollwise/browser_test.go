@@ -141,7 +141,7 @@ func TestBrowserHarnessSeesConsoleErrors(t *testing.T) {
 
 func TestBrowserShowsTheCatalog(t *testing.T) {
 	browserPath(t)
-	dir := writeCatalog(t, "../../testdata/exec")
+	dir := writeCatalog(t, catalogModels...)
 	// takings builds on revenue and fees, which read sales and repairs.
 	dom := loadPage(t, filepath.Join(dir, "measure-takings.html"))
 	if n := strings.Count(dom, `<g class="node `); n != 5 {
