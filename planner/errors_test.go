@@ -31,9 +31,12 @@ table repairs {
 `
 
 // load parses and resolves src (after the shop tables) and returns every
-// diagnostic as "line:col: severity: message".
+// diagnostic as "line:col: severity: message". t may be nil (inside a
+// property).
 func load(t *testing.T, src string) (*planner.Model, []string) {
-	t.Helper()
+	if t != nil {
+		t.Helper()
+	}
 	f, d := grammar.Parse("m.roll", shop+src)
 	var m *planner.Model
 	if !d.HasErrors() {

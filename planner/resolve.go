@@ -30,6 +30,7 @@ func Load(files []*grammar.File) (*Model, grammar.Diagnostics) {
 		r.resolveDerived(t, r.tableDecls[t])
 	}
 	r.checkPaths()
+	r.checkSameRelation()
 	for _, f := range files {
 		for _, md := range f.Measures {
 			if prev, dup := r.measureDecls[md.Name.Name]; dup {

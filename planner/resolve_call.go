@@ -2,6 +2,7 @@ package planner
 
 import (
 	"fmt"
+	"maps"
 	"slices"
 	"sort"
 	"strings"
@@ -302,25 +303,6 @@ func (r *resolver) rootTable(p grammar.Pos) *Table {
 	return root
 }
 
-// checkAdditive applies the additivity rules to sum(arg).
-func (x *exprResolver) checkAdditive(e *grammar.Call, arg Expr) {
-	c, ok := arg.(*ColRef)
-	if !ok {
-		return
-	}
-	switch c.Col.Additivity {
-	case NonAdditive:
-		d := x.errorf(e.Pos, "nonadditive-sum", "sum of %s, which is declared nonadditive: adding it across rows gives a meaningless number", c.Col)
-		d.Suggestion = fmt.Sprintf("write avg(%s), a weighted ratio such as sum(%s * t.qty) / sum(t.qty), or a per-grain measure such as avg(m per t.c)",
-			c.Col, c.Col)
-	case SemiAdditive:
-		if c.Col.SemiDate != nil && !x.pinned[c.Col.SemiDate] {
-			d := x.errorf(e.Pos, "semiadditive-sum", "sum of %s, which is semiadditive: it adds up across everything but %s", c.Col, c.Col.SemiDate)
-			d.Suggestion = fmt.Sprintf("pin the date to one value, for example sum(%s)[%s = date '2026-01-31']", c.Col, c.Col.SemiDate)
-		}
-	}
-}
-
 // perAgg resolves AGG(MEXPR per cols having COND).
 func (x *exprResolver) perAgg(name string, e *grammar.Call) Expr {
 	if e.Distinct || e.As != nil || e.From != nil {
@@ -328,6 +310,22 @@ func (x *exprResolver) perAgg(name string, e *grammar.Call) Expr {
 		return nil
 	}
 	p := &PerAgg{Pos: e.Pos, Func: name}
+	for _, ref := range e.Per {
+		c := x.r.columnRef(ref, nil)
+		if c == nil {
+			return nil
+		}
+		p.Per = append(p.Per, c)
+	}
+	// Inside, each group holds its per columns to one value.
+	grouped := maps.Clone(x.grouped)
+	if grouped == nil {
+		grouped = map[*Column]bool{}
+	}
+	for _, c := range p.Per {
+		grouped[c] = true
+	}
+	inner := &exprResolver{r: x.r, self: x.self, pinned: x.pinned, grouped: grouped}
 	if e.Star {
 		if name != "count" {
 			x.errorf(e.Pos, "bad-call", "only count takes * per ...")
@@ -339,7 +337,7 @@ func (x *exprResolver) perAgg(name string, e *grammar.Call) Expr {
 			x.errorf(e.Pos, "bad-call", "%s(... per ...) takes one measure expression", name)
 			return nil
 		}
-		if p.X = x.expr(e.Args[0]); p.X == nil {
+		if p.X = inner.expr(e.Args[0]); p.X == nil {
 			return nil
 		}
 		switch name {
@@ -358,13 +356,6 @@ func (x *exprResolver) perAgg(name string, e *grammar.Call) Expr {
 			x.r.diags.Warnf(e.Pos, "avg-of-ratio", "avg of a ratio weighs every group the same, whatever its size").Suggestion =
 				"if a weighted figure is meant, divide two per-grain sums instead"
 		}
-	}
-	for _, ref := range e.Per {
-		c := x.r.columnRef(ref, nil)
-		if c == nil {
-			return nil
-		}
-		p.Per = append(p.Per, c)
 	}
 	if e.Having != nil {
 		h := x.sub(false).expr(e.Having)
@@ -395,10 +386,6 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 		return nil
 	}
 	out := &EditExpr{Pos: e.Pos}
-	pinned := map[*Column]bool{}
-	for c := range x.pinned {
-		pinned[c] = true
-	}
 	for _, ed := range e.Edits {
 		ce := &CellEdit{Pos: ed.Pos}
 		switch ed.Kind {
@@ -463,12 +450,21 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 			}
 			ce.Values = append(ce.Values, lit)
 		}
-		if ce.Kind == EditPin && len(ce.Values) == 1 {
-			pinned[ce.Col] = true
-		}
 		out.Edits = append(out.Edits, ce)
 	}
-	inner := &exprResolver{r: x.r, self: x.self, pinned: pinned}
+	// The edits apply in order, outer lists before inner ones: what holds
+	// a semiadditive date to one value is what is left after them all.
+	pinned, grouped := map[*Column]bool{}, map[*Column]bool{}
+	maps.Copy(pinned, x.pinned)
+	maps.Copy(grouped, x.grouped)
+	for _, ce := range out.Edits {
+		applyEdit(ce, pinned, grouped)
+	}
+	inner := &exprResolver{r: x.r, self: x.self, pinned: pinned, grouped: grouped}
+	pins := x.deadPins(out.Edits, x.outerPins)
+	if _, nested := e.X.(*grammar.Edited); nested {
+		inner.outerPins = pins
+	}
 	if out.X = inner.expr(e.X); out.X == nil {
 		return nil
 	}

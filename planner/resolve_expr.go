@@ -18,8 +18,13 @@ type exprResolver struct {
 	// column), or nil.
 	self *Table
 	row  bool
-	// pinned holds the columns pinned by enclosing cell edits.
-	pinned map[*Column]bool
+	// pinned holds the columns that enclosing cell edits pin to one
+	// value, and grouped the per columns of enclosing per-grain
+	// aggregates, each as the edits inside leave them (applyEdit).
+	pinned, grouped map[*Column]bool
+	// outerPins are the pins in force around an edit list that is
+	// directly the measure of another (deadPins).
+	outerPins map[*Column]grammar.Pos
 }
 
 var aggFuncs = map[string]bool{
@@ -37,7 +42,7 @@ func (x *exprResolver) errorf(p grammar.Pos, code, format string, args ...any) *
 }
 
 func (x *exprResolver) sub(row bool) *exprResolver {
-	return &exprResolver{r: x.r, self: x.self, row: row, pinned: x.pinned}
+	return &exprResolver{r: x.r, self: x.self, row: row, pinned: x.pinned, grouped: x.grouped}
 }
 
 // expr resolves e; it returns nil after reporting an error.

@@ -132,9 +132,10 @@ func (g *gen) ownColumn(f *table, keep func(*column) bool) *column {
 }
 
 // rowNumber draws a numeric row expression that reads a column of f
-// (bare nonadditive columns only where allowNonadditive, for aggregates
-// other than sum). It reports whether the value is exact and its decimal
-// factors.
+// (nonadditive values only where allowNonadditive, for aggregates other
+// than sum: additivity follows the value, so a nonadditive column is
+// summed only as a rate times a quantity). It reports whether the value
+// is exact and its decimal factors.
 func (g *gen) rowNumber(f *table, allowNonadditive bool) (string, bool, int) {
 	base := g.ownColumn(f, func(c *column) bool { return c.numeric() && !c.key && c.link == nil })
 	if !base.numeric() || base.key {
@@ -145,27 +146,22 @@ func (g *gen) rowNumber(f *table, allowNonadditive bool) (string, bool, int) {
 	if base.typ == "decimal" {
 		factors = 1
 	}
+	nonadditive := base.nonadditive
+	times := func(other *column) {
+		text = text + " * " + other.ref()
+		exact = exact && other.exactType()
+		if other.typ == "decimal" {
+			factors++
+		}
+		// a rate times a quantity is additive; two rates are not
+		nonadditive = nonadditive == other.nonadditive && nonadditive
+	}
 	switch k := g.intn(0, 9); {
 	case k <= 3:
-		if base.nonadditive && !allowNonadditive {
-			other := g.numberColumn([]*table{f}, base)
-			if other == nil {
-				return "coalesce(" + text + ", 0)", exact, factors
-			}
-			text = text + " * " + other.ref()
-			exact = exact && other.exactType()
-			if other.typ == "decimal" {
-				factors++
-			}
-		}
 	case k <= 5:
 		other := g.numberColumn([]*table{f}, nil)
 		if other != nil && (other.typ != "decimal" || factors < 2) {
-			text = text + " * " + other.ref()
-			exact = exact && other.exactType()
-			if other.typ == "decimal" {
-				factors++
-			}
+			times(other)
 		} else {
 			text = "coalesce(" + text + ", 0)"
 		}
@@ -177,6 +173,16 @@ func (g *gen) rowNumber(f *table, allowNonadditive bool) (string, bool, int) {
 		text = "coalesce(" + text + ", 0)"
 	default:
 		text = "abs(" + text + ")"
+	}
+	if nonadditive && !allowNonadditive {
+		cs := g.common([]*table{f}, func(c *column) bool {
+			return c.numeric() && !c.key && c.link == nil && !c.nonadditive && c.derived == "" && (c.typ != "decimal" || factors < 2)
+		})
+		if len(cs) == 0 {
+			return "case when " + base.ref() + " is null then 0 else 1 end", true, 0
+		}
+		text = "(" + text + ")"
+		times(cs[g.pick(len(cs))])
 	}
 	return text, exact, factors
 }
