@@ -167,7 +167,8 @@ func (x *exprResolver) checkAdditive(e *grammar.Call, arg Expr) {
 }
 
 // applyEdit updates the columns an edit list leaves held to one value:
-// pinned (by a pin to one value) and grouped (by a per-grain group). An
+// pinned (by a pin to one value, or to the latest or earliest) and
+// grouped (by a per-grain group). An
 // edit removes what mentions its column before it constrains it.
 func applyEdit(ce *CellEdit, pinned, grouped map[*Column]bool) {
 	forget := func(m map[*Column]bool) {
@@ -181,10 +182,10 @@ func applyEdit(ce *CellEdit, pinned, grouped map[*Column]bool) {
 		}
 	}
 	switch ce.Kind {
-	case EditPin:
+	case EditPin, EditLatest, EditEarliest:
 		forget(pinned)
 		forget(grouped)
-		if len(ce.Values) == 1 {
+		if len(ce.Values) == 1 || ce.Kind != EditPin {
 			pinned[ce.Col] = true
 		}
 	case EditDrop:
@@ -195,6 +196,10 @@ func applyEdit(ce *CellEdit, pinned, grouped map[*Column]bool) {
 			clear(grouped)
 		}
 		delete(grouped, ce.Col)
+	default:
+		// a window over D (back, to date, running, last) holds it to
+		// one value no longer
+		delete(pinned, ce.Col)
 	}
 }
 
@@ -209,7 +214,7 @@ func (x *exprResolver) deadPins(edits []*CellEdit, outer map[*Column]grammar.Pos
 	}
 	for _, ce := range edits {
 		switch {
-		case ce.Kind == EditPin:
+		case ce.Kind == EditPin || ce.Kind == EditLatest || ce.Kind == EditEarliest:
 			if p, ok := pins[ce.Col]; ok {
 				x.r.diags.Warnf(p, "dead-pin", "this pin of %s has no effect: the pin at %d:%d replaces it", ce.Col, ce.Pos.Line, ce.Pos.Col).Suggestion =
 					"remove one of the two pins"

@@ -397,11 +397,6 @@ func (x *exprResolver) edited(e *grammar.Edited) Expr {
 			if !x.timeEdit(ed, ce) {
 				return nil
 			}
-			if ce.Kind == EditLatest || ce.Kind == EditEarliest {
-				pinned[ce.Col] = true
-			} else {
-				delete(pinned, ce.Col)
-			}
 			out.Edits = append(out.Edits, ce)
 			continue
 		default:
