@@ -30,10 +30,14 @@ type constraint struct {
 	rng   *timeRange
 }
 
+// colKey names a column in a constraint's key as the language writes it
+// (a.`b.c` and `a.b`.c are two columns with two keys).
+func colKey(col *planner.Column) string { return planner.Text(&planner.ColRef{Col: col}) }
+
 // groupOn is the grouping col = v.
 func groupOn(col *planner.Column, v Value) *constraint {
 	return &constraint{group: true, col: col, val: v, mentions: []*planner.Column{col},
-		key: "G" + col.String() + "=" + key(v)}
+		key: "G" + colKey(col) + "=" + key(v)}
 }
 
 // filterOn is a filter conjunct or narrowing predicate.
@@ -56,7 +60,7 @@ func pinOn(col *planner.Column, vals []Value) *constraint {
 	}
 	sort.Strings(keys)
 	return &constraint{col: col, vals: vals, mentions: []*planner.Column{col},
-		key: "I" + col.String() + "=" + strings.Join(keys, ",")}
+		key: "I" + colKey(col) + "=" + strings.Join(keys, ",")}
 }
 
 // holds reports whether row i of td satisfies the constraint.

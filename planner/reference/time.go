@@ -234,7 +234,7 @@ func (r *timeRange) holds(v Value) bool {
 
 // rangeOn is the constraint that D lies in r.
 func rangeOn(col *planner.Column, r *timeRange) *constraint {
-	k := "R" + col.String() + "|" + key(*r.hi)
+	k := "R" + colKey(col) + "|" + key(*r.hi)
 	if r.lo != nil {
 		k += fmt.Sprintf("|%v|%s", r.loIn, key(*r.lo))
 	}
