@@ -41,20 +41,20 @@ func scrubDSN(dsn string, err error) error {
 	return engine.ScrubError(dsn, err)
 }
 
-// executeLive runs a compiled query on the database at dsn and shapes
-// the rows for the report exactly as for the embedded engine.
-func executeLive(ctx context.Context, c *compiled, dsn string) (*report.Table, error) {
+// executeLive runs a compiled query on the database at dsn and hands
+// each row, shaped for the report exactly as for the embedded engine, to
+// write as the server sends it.
+func executeLive(ctx context.Context, c *compiled, dsn string, write func(report.Row) error) error {
 	l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{})
 	if err != nil {
-		return nil, &exitError{code: exitFindings, err: err}
+		return &exitError{code: exitFindings, err: err}
 	}
 	defer l.Close()
-	res, err := l.Query(ctx, c.sql, resultTypes(c))
-	if err != nil {
-		return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s rejected the query: %w", l.Server, err)}
+	if err := rejected(l.Server, l.QueryEach(ctx, c.sql, resultTypes(c), shaper(c, write))); err != nil {
+		return err
 	}
 	addLiveCautions(ctx, l, c)
-	return shape(c, res)
+	return nil
 }
 
 // openData opens the data a command reads: the live database at dsn, or

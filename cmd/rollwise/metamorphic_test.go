@@ -48,9 +48,8 @@ func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *plann
 }
 
 // groupKey identifies a row by its values of the given groups. Time
-// values are compared as instants: the JSON report writes a column's
-// times as dates when all of them fall on midnight, so the same value can
-// be written two ways in two results.
+// values are compared as instants, so that a date and a timestamp at its
+// midnight (a date_trunc group in two queries) match.
 func groupKey(r map[string]any, groups []string) string {
 	var parts []string
 	for _, g := range groups {
@@ -297,8 +296,7 @@ func checkTotals(dc *diffOpened, q casegen.Query) (string, casegen.Query) {
 			for _, m := range pq.Measures {
 				got, want := tr[m.Name], sr[m.Name]
 				if m.Type == planner.TypeDate || m.Type == planner.TypeTimestamp {
-					// Written as dates where all of a column's times fall
-					// on midnight (see groupKey).
+					// Compared as instants (see groupKey).
 					got, want = instant(got), instant(want)
 				}
 				if !diffSameJSON(got, want, m.Type == planner.TypeFloat) {

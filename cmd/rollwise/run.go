@@ -2,6 +2,7 @@ package main
 
 import (
 	"context"
+	"errors"
 	"fmt"
 
 	"github.com/spf13/cobra"
@@ -26,8 +27,9 @@ func newRunCmd(e *env) *cobra.Command {
 		Use:   "run MODEL... -m M1,M2 [-b T.C,...] [flags]",
 		Short: "Compute measures on the embedded DuckDB and print the result",
 		Long: `run compiles the query exactly as 'sql' prints it and runs it on an embedded
-DuckDB in which every table of the model is exposed under its 'at' relation,
-read from its 'from' file (or from --data DIR/NAME.csv or NAME.parquet).`,
+DuckDB in which the tables the query reads are exposed under their 'at'
+relations, read from their 'from' files (or from --data DIR/NAME.csv or
+NAME.parquet). The result is written as it arrives.`,
 		Example: `  rollwise run garden.roll -m revenue,margin_rate -b plants.family --totals grand
   rollwise run garden.roll -m revenue,receipts -b stores.region,plants.family --totals rollup --format json`,
 		RunE: func(cmd *cobra.Command, args []string) error {
@@ -63,78 +65,137 @@ func runRun(e *env, o *runOptions) error {
 	if err != nil {
 		return err
 	}
-	var t *report.Table
+	out, err := report.NewStream(e.stdout, reportColumns(c), report.Options{Format: o.format, Color: isTerminal(e.stdout)})
+	if err != nil {
+		return &exitError{code: exitInternal, err: err}
+	}
+	// The rows go to the output as the engine returns them: a result
+	// of any size is written in bounded memory.
+	write := func(r report.Row) error {
+		if err := out.Row(r); err != nil {
+			return &exitError{code: exitInternal, err: err}
+		}
+		return nil
+	}
 	if o.dsn != "" {
-		t, err = executeLive(context.Background(), c, o.dsn)
+		err = executeLive(context.Background(), c, o.dsn, write)
 	} else {
-		t, err = execute(context.Background(), c, o.data)
+		err = executeEach(context.Background(), c, o.data, write)
 	}
 	if err != nil {
 		return err
 	}
-	if err := report.Write(e.stdout, t, report.Options{Format: o.format, Color: isTerminal(e.stdout)}); err != nil {
+	if err := out.Close(); err != nil {
 		return &exitError{code: exitInternal, err: err}
 	}
 	printCautions(e, c.plan)
 	return nil
 }
 
-// execute runs a compiled query on the embedded engine and shapes the rows
-// for the report.
-//
-// Parquet decimals are read in the files' own types, which is faster
-// (engine.Options.FileDecimals); a query that overflows them is run again
-// with every decimal read as the model's DECIMAL(38,6), as before.
+// execute runs a compiled query on the embedded engine and returns the
+// rows shaped for the report.
 func execute(ctx context.Context, c *compiled, dataDir string) (*report.Table, error) {
-	res, err := executeOn(ctx, c, dataDir, engine.Options{FileDecimals: true})
-	if engine.Overflowed(err) {
-		res, err = executeOn(ctx, c, dataDir, engine.Options{})
-	}
+	t := &report.Table{Columns: reportColumns(c)}
+	err := executeEach(ctx, c, dataDir, func(r report.Row) error { t.Rows = append(t.Rows, r); return nil })
 	if err != nil {
 		return nil, err
 	}
-	return shape(c, res)
+	return t, nil
 }
 
-// executeOn opens the embedded engine with options o and runs c there.
-func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Options) (*engine.Result, error) {
+// executeEach runs a compiled query on the embedded engine, with only the
+// tables it reads loaded, and hands each row, shaped for the report, to
+// write.
+//
+// Parquet decimals are read in the files' own types, which is faster
+// (engine.Options.FileDecimals); a query that overflows them before its
+// first row is run again with every decimal read as the model's
+// DECIMAL(38,6).
+func executeEach(ctx context.Context, c *compiled, dataDir string, write func(report.Row) error) error {
+	written := false
+	err := executeOn(ctx, c, dataDir, engine.Options{FileDecimals: true}, func(r report.Row) error {
+		written = true
+		return write(r)
+	})
+	if engine.Overflowed(err) && !written {
+		err = executeOn(ctx, c, dataDir, engine.Options{}, write)
+	}
+	return rejected("the engine", err)
+}
+
+// executeOn opens the embedded engine with options o, loading only the
+// tables c reads, and runs c there.
+func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Options, write func(report.Row) error) error {
+	o.Tables = engine.TablesRead(c.model, c.plan)
 	db, err := engine.Open(ctx, c.model, dataDir, o)
 	if err != nil {
-		return nil, &exitError{code: exitFindings, err: err}
+		return &exitError{code: exitFindings, err: err}
 	}
 	defer db.Close()
-	res, err := engine.Query(ctx, db, c.sql)
-	if err != nil {
-		return nil, &exitError{code: exitFindings, err: fmt.Errorf("the engine rejected the query: %w", err)}
+	return engine.QueryEach(ctx, db, c.sql, shaper(c, write))
+}
+
+// rejected says that the engine rejected the query, unless err is
+// already an exit error (from writing the output, or shaping the rows).
+func rejected(engineName string, err error) error {
+	var ee *exitError
+	if err == nil || errors.As(err, &ee) {
+		return err
 	}
-	return res, nil
+	return &exitError{code: exitFindings, err: fmt.Errorf("%s rejected the query: %w", engineName, err)}
+}
+
+// reportColumns are the result's columns: the group columns, then the
+// measures, each with its type.
+func reportColumns(c *compiled) []report.Column {
+	var cols []report.Column
+	for i, g := range c.query.GroupNames {
+		cols = append(cols, report.Column{Name: g, Group: true, Type: c.query.Groups[i].Type})
+	}
+	for _, o := range c.plan.Outputs {
+		cols = append(cols, report.Column{Name: o.Name, Format: o.Measure.Format, Type: o.Expr.Type()})
+	}
+	return cols
 }
 
 // shape turns engine rows into report rows: group columns, measures, and
 // the rolled-up groups read from the grouping column.
 func shape(c *compiled, res *engine.Result) (*report.Table, error) {
-	q := c.query
-	t := &report.Table{}
-	for _, g := range q.GroupNames {
-		t.Columns = append(t.Columns, report.Column{Name: g, Group: true})
-	}
-	for _, o := range c.plan.Outputs {
-		t.Columns = append(t.Columns, report.Column{Name: o.Name, Format: o.Measure.Format})
-	}
-	want := len(t.Columns) + 1
-	if len(res.Columns) != want || res.Columns[want-1] != dialects.GroupingColumn {
-		return nil, &exitError{code: exitInternal, err: fmt.Errorf("internal error: the result has columns %v", res.Columns)}
+	t := &report.Table{Columns: reportColumns(c)}
+	each := shaper(c, func(r report.Row) error { t.Rows = append(t.Rows, r); return nil })
+	if err := each.Columns(res.Columns); err != nil {
+		return nil, err
 	}
 	for _, row := range res.Rows {
-		var mask uint64
-		switch g := row[want-1].(type) {
-		case int64:
-			mask = uint64(g)
-		case nil:
-		default:
-			return nil, &exitError{code: exitInternal, err: fmt.Errorf("internal error: grouping column holds %T", g)}
+		if err := each.Row(row); err != nil {
+			return nil, err
 		}
-		t.Rows = append(t.Rows, report.Row{Values: row[:want-1], RolledUp: q.RolledUp(mask)})
 	}
 	return t, nil
+}
+
+// shaper checks the engine's columns and turns each engine row into a
+// report row for write: the values, and the rolled-up groups read from
+// the grouping column.
+func shaper(c *compiled, write func(report.Row) error) engine.Each {
+	want := len(c.query.GroupNames) + len(c.plan.Outputs) + 1
+	return engine.Each{
+		Columns: func(names []string) error {
+			if len(names) != want || names[want-1] != dialects.GroupingColumn {
+				return &exitError{code: exitInternal, err: fmt.Errorf("internal error: the result has columns %v", names)}
+			}
+			return nil
+		},
+		Row: func(row []any) error {
+			var mask uint64
+			switch g := row[want-1].(type) {
+			case int64:
+				mask = uint64(g)
+			case nil:
+			default:
+				return &exitError{code: exitInternal, err: fmt.Errorf("internal error: grouping column holds %T", g)}
+			}
+			return write(report.Row{Values: row[:want-1], RolledUp: c.query.RolledUp(mask)})
+		},
+	}
 }

@@ -6,6 +6,7 @@ import (
 	"strconv"
 	"time"
 
+	"github.com/rollwise/rollwise/planner"
 	"github.com/shopspring/decimal"
 )
 
@@ -16,24 +17,17 @@ const RolledUpKey = "rolled_up"
 // encoding/json reads them back with UseNumber: one map per row, keyed by
 // the group references as written, the measure names and "rolled_up" (a
 // []any of the rolled-up references). Values are nil, string, bool or
-// json.Number; a rolled-up group is nil; dates are "YYYY-MM-DD" when every
-// time value of the column falls on midnight, RFC 3339 otherwise.
+// json.Number; a rolled-up group is nil; the values of a date column are
+// "YYYY-MM-DD", those of a timestamp column RFC 3339.
 func (r *Result) JSON() []map[string]any {
 	q := r.Query
 	nCols := len(q.Groups) + len(q.Measures)
-	dates := make([]bool, nCols)
-	for j := range dates {
-		dates[j] = true
+	dates := make([]bool, 0, nCols)
+	for _, g := range q.Groups {
+		dates = append(dates, g.Type == planner.TypeDate)
 	}
-	for _, row := range r.Rows {
-		for j, v := range append(append([]Value{}, row.Groups...), row.Measures...) {
-			if t, ok := v.(time.Time); ok {
-				t = t.UTC()
-				if t.Hour() != 0 || t.Minute() != 0 || t.Second() != 0 || t.Nanosecond() != 0 {
-					dates[j] = false
-				}
-			}
-		}
+	for _, meas := range q.Measures {
+		dates = append(dates, meas.Type == planner.TypeDate)
 	}
 	out := make([]map[string]any, 0, len(r.Rows))
 	for _, row := range r.Rows {

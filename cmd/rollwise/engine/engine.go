@@ -59,6 +59,10 @@ type Options struct {
 	// rounding, and a query that fails so is run again on the wide types
 	// (see Overflowed).
 	FileDecimals bool
+	// Tables, when set, are the only tables of the model loaded: a query
+	// that reads a few tables of a large model loads just those (see
+	// TablesRead).
+	Tables []*planner.Table
 }
 
 // Overflowed reports whether err is DuckDB's out-of-range error (a decimal
@@ -73,7 +77,11 @@ func Open(ctx context.Context, m *planner.Model, dataDir string, o Options) (*sq
 	if m == nil {
 		return nil, errors.New("no model to load")
 	}
-	rels, err := relations(m, dataDir)
+	tables := m.Tables
+	if o.Tables != nil {
+		tables = o.Tables
+	}
+	rels, err := relations(tables, dataDir)
 	if err != nil {
 		return nil, err
 	}
@@ -134,13 +142,13 @@ func lockDown(ctx context.Context, conn *sql.Conn, rels []*relation) error {
 	return nil
 }
 
-// relations groups the model's tables by relation and resolves each
-// relation's data file and columns.
-func relations(m *planner.Model, dataDir string) ([]*relation, error) {
+// relations groups tables by relation and resolves each relation's data
+// file and columns.
+func relations(tables []*planner.Table, dataDir string) ([]*relation, error) {
 	var errs []error
 	byKey := map[string]*relation{}
 	var rels []*relation
-	for _, t := range m.Tables {
+	for _, t := range tables {
 		key, err := relationKey(t)
 		if err != nil {
 			errs = append(errs, err)
@@ -163,6 +171,25 @@ func relations(m *planner.Model, dataDir string) ([]*relation, error) {
 		}
 	}
 	return rels, errors.Join(errs...)
+}
+
+// TablesRead lists the tables plan p reads: the table of each scan and
+// the tables its joins reach, each once, in the model's order.
+func TablesRead(m *planner.Model, p *planner.Plan) []*planner.Table {
+	read := map[*planner.Table]bool{}
+	for _, s := range p.Scans {
+		read[s.Table] = true
+		for _, l := range s.Joins {
+			read[l.To] = true
+		}
+	}
+	var out []*planner.Table
+	for _, t := range m.Tables {
+		if read[t] {
+			out = append(out, t)
+		}
+	}
+	return out
 }
 
 // relationKey is the identity of a table's relation in DuckDB, which

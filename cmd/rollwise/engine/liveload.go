@@ -31,7 +31,7 @@ func LoadInto(ctx context.Context, l *Live, m *planner.Model, dataDir string) er
 		return err
 	}
 	defer src.Close()
-	rels, err := relations(m, dataDir)
+	rels, err := relations(m.Tables, dataDir)
 	if err != nil {
 		return err
 	}

@@ -1,7 +1,6 @@
 package engine
 
 import (
-	"context"
 	"fmt"
 	"math"
 	"strconv"
@@ -34,64 +33,6 @@ func typeOfColumn(name string) planner.Type {
 		return planner.TypeText
 	}
 	return planner.TypeNull
-}
-
-// Query runs a query on the live database and returns its rows with the
-// values normalised as on the embedded DuckDB (see Result): want gives
-// the logical type of each result column, which decides the Go type of
-// its values whatever the driver returns (PostgreSQL sends numeric as
-// text, MySQL sends everything as text, SQLite has no date or decimal
-// type). A column past the end of want, or of TypeNull, keeps the
-// driver's value.
-func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*Result, error) {
-	rows, done, err := l.rows(ctx, query)
-	if err != nil {
-		return nil, fmt.Errorf("query failed: %w", err)
-	}
-	defer done()
-	defer rows.Close()
-	cols, err := rows.Columns()
-	if err != nil {
-		return nil, err
-	}
-	types, err := rows.ColumnTypes()
-	if err != nil {
-		return nil, err
-	}
-	res := &Result{Columns: cols, Rows: [][]any{}}
-	raw := make([]any, len(cols))
-	ptrs := make([]any, len(cols))
-	for i := range raw {
-		ptrs[i] = &raw[i]
-	}
-	for rows.Next() {
-		for i := range raw {
-			raw[i] = nil
-		}
-		if err := rows.Scan(ptrs...); err != nil {
-			return nil, fmt.Errorf("query: reading row %d: %w", len(res.Rows)+1, err)
-		}
-		row := make([]any, len(cols))
-		for i, v := range raw {
-			t := planner.TypeNull
-			switch {
-			case i < len(want):
-				t = want[i]
-			case want == nil:
-				t = typeOfColumn(types[i].DatabaseTypeName())
-			}
-			n, err := liveValue(v, types[i].DatabaseTypeName(), t)
-			if err != nil {
-				return nil, fmt.Errorf("query: column %q: %v", cols[i], err)
-			}
-			row[i] = n
-		}
-		res.Rows = append(res.Rows, row)
-	}
-	if err := rows.Err(); err != nil {
-		return nil, fmt.Errorf("query failed: %w", err)
-	}
-	return res, nil
 }
 
 // liveValue converts a driver value to the Go type Result promises for a

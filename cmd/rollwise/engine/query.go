@@ -1,8 +1,6 @@
 package engine
 
 import (
-	"context"
-	"database/sql"
 	"fmt"
 	"math"
 	"math/big"
@@ -21,55 +19,6 @@ type Result struct {
 	// decimal.Decimal (DECIMAL and HUGEINT results, exact), string, bool,
 	// time.Time (DATE and TIMESTAMP, in UTC).
 	Rows [][]any
-}
-
-// Query runs a query and returns all its rows with normalised values. A
-// value of a type rollwise does not use (a list, an interval, a blob...)
-// is an error naming the column.
-func Query(ctx context.Context, db *sql.DB, query string) (*Result, error) {
-	if db == nil {
-		return nil, fmt.Errorf("query: no database")
-	}
-	rows, err := db.QueryContext(ctx, query)
-	if err != nil {
-		return nil, fmt.Errorf("query failed: %w", err)
-	}
-	defer rows.Close()
-	cols, err := rows.Columns()
-	if err != nil {
-		return nil, err
-	}
-	types, err := rows.ColumnTypes()
-	if err != nil {
-		return nil, err
-	}
-	res := &Result{Columns: cols, Rows: [][]any{}}
-	raw := make([]any, len(cols))
-	ptrs := make([]any, len(cols))
-	for i := range raw {
-		ptrs[i] = &raw[i]
-	}
-	for rows.Next() {
-		for i := range raw {
-			raw[i] = nil
-		}
-		if err := rows.Scan(ptrs...); err != nil {
-			return nil, fmt.Errorf("query: reading row %d: %w", len(res.Rows)+1, err)
-		}
-		row := make([]any, len(cols))
-		for i, v := range raw {
-			n, err := normalize(v, types[i].DatabaseTypeName())
-			if err != nil {
-				return nil, fmt.Errorf("query: column %q: %v", cols[i], err)
-			}
-			row[i] = n
-		}
-		res.Rows = append(res.Rows, row)
-	}
-	if err := rows.Err(); err != nil {
-		return nil, fmt.Errorf("query failed: %w", err)
-	}
-	return res, nil
 }
 
 // normalize converts a value from the DuckDB driver to one of the types

@@ -20,12 +20,13 @@ const (
 	boldOff = "\x1b[0m"
 )
 
-// writeTable writes aligned columns: numbers right-aligned, values shown
-// by their measure's format, rolled-up cells labelled Total (All in the
-// grand total), NULL group values as (null). With o.Color, total rows are
-// bold.
-func writeTable(w io.Writer, p *prepared, o Options) error {
-	tw := newWriter(p, func(label string) string { return label }, o.Color)
+// writeTable writes a chunk of aligned columns: numbers right-aligned,
+// values shown by their measure's format, rolled-up cells labelled Total
+// (All in the grand total), NULL group values as (null), with the column
+// settings cfgs; the first chunk has the header. With o.Color, total rows
+// are bold.
+func writeTable(w io.Writer, p *prepared, o Options, cfgs []table.ColumnConfig, first bool) error {
+	tw := newWriter(p, func(label string) string { return label }, o.Color, first)
 	style := table.StyleLight
 	style.Options.DrawBorder = false
 	style.Options.SeparateColumns = true
@@ -34,9 +35,7 @@ func writeTable(w io.Writer, p *prepared, o Options) error {
 	style.Options.SeparateFooter = false
 	style.Format.Header = text.FormatDefault
 	tw.SetStyle(style)
-	if o.Width > 0 {
-		tw.SetColumnConfigs(fitWidth(p, o.Width))
-	}
+	tw.SetColumnConfigs(cfgs)
 	// go-pretty pads the last column; drop the trailing spaces.
 	lines := strings.Split(tw.Render(), "\n")
 	for i, l := range lines {
@@ -46,10 +45,33 @@ func writeTable(w io.Writer, p *prepared, o Options) error {
 	return err
 }
 
-// writeMarkdown writes a GitHub-style table with the same display text as
-// the table format; the Total and All labels are bold.
-func writeMarkdown(w io.Writer, p *prepared) error {
-	tw := newWriter(p, func(label string) string { return "**" + label + "**" }, false)
+// chunkConfigs decides the table format's column settings on the first
+// chunk: alignment, wrapping to o.Width, and each column's width as a
+// minimum, so that later chunks line up; a later text value that is
+// wider wraps.
+func chunkConfigs(p *prepared, o Options) []table.ColumnConfig {
+	cfgs := columnConfigs(p)
+	if o.Width > 0 {
+		cfgs = fitWidth(p, o.Width)
+	}
+	for j, w := range naturalWidths(p) {
+		if cfgs[j].WidthMax > 0 {
+			w = min(w, cfgs[j].WidthMax)
+		}
+		cfgs[j].WidthMin = w
+		if !p.numeric[j] && cfgs[j].WidthMax == 0 && len(p.rows) == BufferRows {
+			cfgs[j].WidthMax, cfgs[j].WidthMaxEnforcer = w, text.WrapSoft
+		}
+	}
+	return cfgs
+}
+
+// writeMarkdown writes a chunk of a GitHub-style table with the same
+// display text as the table format; the Total and All labels are bold.
+// The first chunk has the header.
+func writeMarkdown(w io.Writer, p *prepared, first bool) error {
+	tw := newWriter(p, func(label string) string { return "**" + label + "**" }, false, first)
+	tw.SetColumnConfigs(columnConfigs(p))
 	style := table.StyleDefault
 	style.Format.Header = text.FormatDefault
 	style.Markdown.PadContent = true
@@ -58,12 +80,14 @@ func writeMarkdown(w io.Writer, p *prepared) error {
 	return err
 }
 
-// newWriter builds a table writer holding p's header and rows, with
-// rolled-up labels passed through label, and total rows in bold when
-// boldTotals is set.
-func newWriter(p *prepared, label func(string) string, boldTotals bool) table.Writer {
+// newWriter builds a table writer holding p's rows (and header, with
+// header set), with rolled-up labels passed through label, and total rows
+// in bold when boldTotals is set.
+func newWriter(p *prepared, label func(string) string, boldTotals, header bool) table.Writer {
 	tw := table.NewWriter()
-	tw.AppendHeader(header(p))
+	if header {
+		tw.AppendHeader(headerRow(p))
+	}
 	for _, r := range p.rows {
 		row := displayRow(r, label)
 		if boldTotals && len(r.rolledUp) > 0 {
@@ -75,12 +99,11 @@ func newWriter(p *prepared, label func(string) string, boldTotals bool) table.Wr
 		}
 		tw.AppendRow(row)
 	}
-	tw.SetColumnConfigs(columnConfigs(p))
 	return tw
 }
 
-// header is the row of column names.
-func header(p *prepared) table.Row {
+// headerRow is the row of column names.
+func headerRow(p *prepared) table.Row {
 	h := make(table.Row, len(p.cols))
 	for j, c := range p.cols {
 		h[j] = c.Name
@@ -118,6 +141,21 @@ func columnConfigs(p *prepared) []table.ColumnConfig {
 	return cfgs
 }
 
+// naturalWidths are the widths of p's columns: their widest heading or
+// display text.
+func naturalWidths(p *prepared) []int {
+	widths := make([]int, len(p.cols))
+	for j, c := range p.cols {
+		widths[j] = text.StringWidthWithoutEscSequences(c.Name)
+	}
+	for _, r := range p.rows {
+		for j, cell := range displayRow(r, func(label string) string { return label }) {
+			widths[j] = max(widths[j], text.StringWidthWithoutEscSequences(cell.(string)))
+		}
+	}
+	return widths
+}
+
 // minWrapWidth is the narrowest fitWidth makes a text column (or its
 // heading's width, if wider).
 const minWrapWidth = 12
@@ -128,18 +166,10 @@ const minWrapWidth = 12
 // the lines stay long.
 func fitWidth(p *prepared, width int) []table.ColumnConfig {
 	cfgs := columnConfigs(p)
-	widths := make([]int, len(p.cols))
+	widths := naturalWidths(p)
 	floor := make([]int, len(p.cols)) // headings are not wrapped
 	for j, c := range p.cols {
-		widths[j] = text.StringWidthWithoutEscSequences(c.Name)
-		floor[j] = max(widths[j], minWrapWidth)
-	}
-	for _, r := range p.rows {
-		for j, cell := range displayRow(r, func(label string) string { return label }) {
-			if w := text.StringWidthWithoutEscSequences(cell.(string)); w > widths[j] {
-				widths[j] = w
-			}
-		}
+		floor[j] = max(text.StringWidthWithoutEscSequences(c.Name), minWrapWidth)
 	}
 	// Each column has a space either side, and columns are separated by
 	// one rule character.

@@ -28,6 +28,11 @@ type Column struct {
 	// Format says how a measure's values are shown in the table and
 	// markdown formats.
 	Format planner.Format
+	// Type is the column's type where known: a date column shows its
+	// values as dates, a timestamp column as timestamps. Unknown
+	// (TypeNull), Write shows a column as dates when all its time values
+	// fall on midnight UTC.
+	Type planner.Type
 }
 
 // Row is one result row.
@@ -84,29 +89,24 @@ func ValidFormat(s string) error {
 
 // Write writes t to w in the format o.Format.
 func Write(w io.Writer, t *Table, o Options) error {
-	format := o.Format
-	if format == "" {
-		format = FormatTable
+	if t == nil {
+		return errors.New("report: no table")
 	}
-	if err := ValidFormat(format); err != nil {
-		return err
-	}
-	p, err := prepare(t)
+	s, err := newStream(w, t.Columns, o, dateColumns(t))
 	if err != nil {
 		return err
 	}
-	switch format {
-	case FormatCSV:
-		return writeCSV(w, p)
-	case FormatJSON:
-		return writeJSON(w, p)
-	case FormatMarkdown:
-		return writeMarkdown(w, p)
+	for _, r := range t.Rows {
+		if err := s.Row(r); err != nil {
+			return err
+		}
 	}
-	return writeTable(w, p, o)
+	return s.Close()
 }
 
-// prepared is a validated table with every cell rendered in every form.
+// prepared is a run of validated rows with every cell rendered in every
+// form: all the rows of a CSV or JSON output one at a time, or a chunk of
+// the table and Markdown formats.
 type prepared struct {
 	cols []Column
 	// numeric marks columns whose values are all numbers (right-aligned).
@@ -131,59 +131,38 @@ type cell struct {
 	show   string // display text for people
 }
 
-// prepare validates t and renders its cells.
-func prepare(t *Table) (*prepared, error) {
-	if t == nil {
-		return nil, errors.New("report: no table")
+// numberCells marks the cells that hold numbers, for alignment.
+type numberCells []bool
+
+// prepareRow validates row r (the n-th) and renders its cells; number
+// says which of them are numbers.
+func (s *Stream) prepareRow(n int, r Row) (preparedRow, numberCells, error) {
+	if len(r.Values) != len(s.cols) {
+		return preparedRow{}, nil, fmt.Errorf("report: row %d has %d values for %d columns", n, len(r.Values), len(s.cols))
 	}
-	p := &prepared{cols: t.Columns, numeric: make([]bool, len(t.Columns))}
-	groups := map[string]bool{}
-	groupCount := 0
-	for _, c := range t.Columns {
-		if c.Group {
-			groups[c.Name] = true
-			groupCount++
+	rolled := map[string]bool{}
+	for _, name := range r.RolledUp {
+		if !s.groups[name] {
+			return preparedRow{}, nil, fmt.Errorf("report: row %d rolls up %q, which is not a group column", n, name)
 		}
+		rolled[name] = true
 	}
-	dates := dateColumns(t)
-	seenValue := make([]bool, len(t.Columns))
-	for j := range p.numeric {
-		p.numeric[j] = true
-	}
-	for i, r := range t.Rows {
-		if len(r.Values) != len(t.Columns) {
-			return nil, fmt.Errorf("report: row %d has %d values for %d columns", i+1, len(r.Values), len(t.Columns))
+	pr := preparedRow{cells: make([]cell, len(s.cols)), rolledUp: r.RolledUp}
+	pr.grand = len(rolled) > 0 && len(rolled) == len(s.groups)
+	number := make(numberCells, len(s.cols))
+	for j, c := range s.cols {
+		if c.Group && rolled[c.Name] {
+			pr.cells[j] = cell{rolled: true, null: true, json: "null"}
+			continue
 		}
-		rolled := map[string]bool{}
-		for _, name := range r.RolledUp {
-			if !groups[name] {
-				return nil, fmt.Errorf("report: row %d rolls up %q, which is not a group column", i+1, name)
-			}
-			rolled[name] = true
+		v, err := renderValue(r.Values[j], c, s.dates[j])
+		if err != nil {
+			return preparedRow{}, nil, fmt.Errorf("report: row %d, column %s: %v", n, c.Name, err)
 		}
-		pr := preparedRow{cells: make([]cell, len(t.Columns)), rolledUp: r.RolledUp}
-		pr.grand = len(rolled) > 0 && len(rolled) == groupCount
-		for j, c := range t.Columns {
-			if c.Group && rolled[c.Name] {
-				pr.cells[j] = cell{rolled: true, null: true, json: "null"}
-				continue
-			}
-			v, err := renderValue(r.Values[j], c, dates[j])
-			if err != nil {
-				return nil, fmt.Errorf("report: row %d, column %s: %v", i+1, c.Name, err)
-			}
-			pr.cells[j] = v.cell
-			if !v.cell.null {
-				seenValue[j] = true
-				p.numeric[j] = p.numeric[j] && v.number
-			}
-		}
-		p.rows = append(p.rows, pr)
+		pr.cells[j] = v.cell
+		number[j] = v.number
 	}
-	for j := range p.numeric {
-		p.numeric[j] = p.numeric[j] && seenValue[j]
-	}
-	return p, nil
+	return pr, number, nil
 }
 
 // checkKeys refuses column names that would make CSV headers or JSON keys

@@ -129,12 +129,13 @@ func jsonString(s string) string {
 	return strings.TrimSuffix(b.String(), "\n")
 }
 
-// dateColumns reports, per column, whether every time value in it falls
-// on midnight UTC, in which case the column is shown as dates.
+// dateColumns reports, per column, whether it shows dates: a column of
+// type date, or of unknown type whose time values all fall on midnight
+// UTC.
 func dateColumns(t *Table) []bool {
 	dates := make([]bool, len(t.Columns))
-	for j := range dates {
-		dates[j] = true
+	for j, c := range t.Columns {
+		dates[j] = c.Type == planner.TypeNull || c.Type == planner.TypeDate
 	}
 	for _, r := range t.Rows {
 		for j, v := range r.Values {
@@ -143,6 +144,9 @@ func dateColumns(t *Table) []bool {
 			}
 			tv, ok := v.(time.Time)
 			if !ok {
+				continue
+			}
+			if t.Columns[j].Type != planner.TypeNull {
 				continue
 			}
 			tv = tv.UTC()
