@@ -51,16 +51,7 @@ func (a axis) bound(col *planner.Column) bool {
 	case col.Table != a.d.Table || col.Derived == nil:
 		return false
 	}
-	stored := 0
-	for _, c := range planner.Columns(col.Derived) {
-		if c.Stored() {
-			if c != a.d {
-				return false
-			}
-			stored++
-		}
-	}
-	return stored > 0
+	return a.fromDAlone(col)
 }
 
 // boundConstraint reports whether every column x mentions is time-bound.
@@ -184,6 +175,10 @@ func (d *Data) movedColumn(a axis, td *tableData, i int, c *planner.Column, move
 		return nil, nil
 	case c == a.d:
 		return moved, nil
+	case c.Table == a.d.Table && c.Derived != nil && a.fromDAlone(c):
+		// a derived column computed from D alone moves by its formula
+		// (a calendar's too, when D is the calendar's key)
+		return d.rowWith(td, i, c.Derived, func(x *planner.Column) (Value, error) { return d.movedColumn(a, td, i, x, moved) })
 	case a.cal != nil && c.Table == a.cal:
 		cd := d.tables[a.cal]
 		pos, ok := cd.stored[a.calKey]
@@ -199,7 +194,22 @@ func (d *Data) movedColumn(a axis, td *tableData, i int, c *planner.Column, move
 		}
 		return nil, nil
 	}
-	return d.rowWith(td, i, c.Derived, func(x *planner.Column) (Value, error) { return d.movedColumn(a, td, i, x, moved) })
+	return nil, fmt.Errorf("%s cannot be moved along %s", c, a.d)
+}
+
+// fromDAlone reports whether the derived column c reads no stored column
+// but D.
+func (a axis) fromDAlone(c *planner.Column) bool {
+	stored := 0
+	for _, x := range planner.Columns(c.Derived) {
+		if x.Stored() {
+			if x != a.d {
+				return false
+			}
+			stored++
+		}
+	}
+	return stored > 0
 }
 
 // rowWith evaluates a row expression for row i of td, reading columns

@@ -115,6 +115,14 @@ var TimeCases = []TimeCase{
 			{"days.mon": "2026-03", "revenue": "3", "cal_ly": "37"},
 			{"days.mon": nil, "revenue": "6", "cal_ly": "67", "rolled_up": total("days.mon")},
 		}},
+	{Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand", SQL: true,
+		Rows: []Row{
+			// Derived calendar columns computed from the key alone move by their formula.
+			{"days.cal_month": "2026-01-01", "revenue": "1", "cal_ly": "10"},
+			{"days.cal_month": "2026-02-01", "revenue": "2", "cal_ly": "20"},
+			{"days.cal_month": "2026-03-01", "revenue": "3", "cal_ly": "37"},
+			{"days.cal_month": nil, "revenue": "6", "cal_ly": "67", "rolled_up": total("days.cal_month")},
+		}},
 	{Name: "closing stock", Measures: "balance,shop_bal", By: "stock.shop", Totals: "grand", SQL: true,
 		Rows: []Row{
 			// a's last snapshot 2026-01-31: 6; b's 2025-03-31: 4.
