@@ -29,7 +29,11 @@ func (r *renderer) moveDate(e *planner.Func, arg string, t planner.Type) (string
 // moveBy moves a date by n units: days and weeks as days, quarters and
 // years as months. what names the construct for a dialect that cannot.
 func (r *renderer) moveBy(arg string, n int, unit string, t planner.Type, what string) (string, error) {
-	m, ok := r.d.(DateMover)
+	d := r.d
+	if a, wrapped := d.(*Approximate); wrapped {
+		d = a.Dialect
+	}
+	m, ok := d.(DateMover)
 	if !ok {
 		return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "a time edit that moves dates (" + what + ")",
 			Hint: "run it on DuckDB, PostgreSQL, MariaDB/MySQL or SQLite"}

@@ -123,6 +123,23 @@ func runDemo(e *env, o *demoOptions) error {
 		total.Mul(decimal.NewFromInt(100)).StringFixed(1))
 	fmt.Fprintf(e.stdout, "Adding the %d families' rates would give %s%%, and averaging them %s%%: both wrong.\n",
 		rows, sum.Mul(decimal.NewFromInt(100)).StringFixed(1), avg.Mul(decimal.NewFromInt(100)).StringFixed(1))
+
+	// Time: last year, growth, the year to date and a closing balance.
+	heading("$ rollwise run garden.roll --view month_report   (last year, growth, year to date, closing stock)")
+	c3, err := compile(e, &queryOptions{models: []string{model}, view: "month_report", dialect: "duckdb"})
+	if err != nil {
+		return err
+	}
+	t3, err := execute(ctx, c3, "")
+	if err != nil {
+		return err
+	}
+	if err := report.Write(e.stdout, t3, report.Options{Format: "table", Color: color}); err != nil {
+		return &exitError{code: exitInternal, err: err}
+	}
+	fmt.Fprintln(e.stdout, "\nrevenue_ly moves each day a year forward into this year's months; revenue_ytd runs from")
+	fmt.Fprintln(e.stdout, "January 1st to the month's last sale; closing_stock is the month's last weekly count, summed")
+	fmt.Fprintln(e.stdout, "over stores (stock is a balance: it adds up across stores, never across days).")
 	fmt.Fprintln(e.stdout, "\nNext: rollwise demo --dir garden writes the model and data out for you to edit.")
 	return nil
 }

@@ -7,6 +7,9 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/demo"
+	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/expect"
 )
 
@@ -57,5 +60,42 @@ func TestTimeEditErrors(t *testing.T) {
 		if code == 0 || !strings.Contains(errb.String(), c.want) || !strings.Contains(errb.String(), "extra.roll:1:") {
 			t.Errorf("%s: want an error containing %q, got exit %d:\n%s", c.measure, c.want, code, errb.String())
 		}
+	}
+}
+
+// The demo's month report (last year's revenue, growth, the year to date
+// and the closing stock over 2026, by the calendar's month) gives on
+// DuckDB what the reference evaluator computes cell by cell on the same
+// generated data.
+func TestDemoMonthReportMatchesReference(t *testing.T) {
+	dir := t.TempDir()
+	if err := demo.WriteFiles(dir); err != nil {
+		t.Fatal(err)
+	}
+	model := filepath.Join(dir, demo.ModelFile)
+	m, err := diffLoadModel(model)
+	if err != nil {
+		t.Fatal(err)
+	}
+	spec := planner.QuerySpec{Measures: []string{"revenue", "revenue_ly", "growth", "revenue_ytd", "closing_stock"},
+		By: []string{"calendar.month_start"}, Where: "calendar.cal_year = 2026", Totals: "grand"}
+	q, diags := m.NewQuery(spec)
+	if diags.HasErrors() {
+		t.Fatal(diags)
+	}
+	res, err := reference.Evaluate(m, q, "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	want := res.JSON()
+	got, stderr, code := diffRunJSON([]string{"run", model, "--view", "month_report", "--format", "json"})
+	if code != 0 {
+		t.Fatalf("rollwise run --view month_report: exit %d\n%s", code, stderr)
+	}
+	if len(got) != 13 {
+		t.Errorf("got %d rows, want the 12 months of 2026 and the total", len(got))
+	}
+	if diff := diffRows(q, got, want, true); diff != "" {
+		t.Error(diff)
 	}
 }

@@ -74,6 +74,7 @@ type dataset struct {
 	plants  []plant
 	sales   []saleLine
 	repairs []repair
+	stock   []stockCount
 }
 
 // weighted picks an index with probability proportional to its weight.
@@ -161,6 +162,7 @@ func generate(salesLines int) (*dataset, error) {
 	d := &dataset{days: calendarDays(), plants: catalog()}
 	d.sales = genSales(d.days, d.plants, salesLines)
 	d.repairs = genRepairs(d.days)
+	d.stock = genStock(d.days)
 	return d, nil
 }
 
@@ -407,6 +409,7 @@ var tableWriters = []tableWriter{
 			}
 			return nil
 		}},
+	stockWriter,
 }
 
 // bufferedFile is a file being written through a buffer.

@@ -30,7 +30,7 @@ func TestModelsParse(t *testing.T) {
 		src                     string
 		tables, measures, views int
 	}{
-		{ModelFile, Model(), 6, 21, 2},
+		{ModelFile, Model(), 7, 25, 3},
 		{EditsFile, EditsModel(), 0, 17, 1},
 	} {
 		f := parse(t, tc.name, tc.src)
