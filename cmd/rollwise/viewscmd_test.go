@@ -62,6 +62,12 @@ type asEngine struct {
 
 func (a asEngine) Name() string { return a.name }
 
+// MoveDate is DuckDB's date arithmetic (time edits), which the embedded
+// interface would hide.
+func (a asEngine) MoveDate(arg string, n int, unit string, t planner.Type) string {
+	return a.Dialect.(dialects.DateMover).MoveDate(arg, n, unit, t)
+}
+
 // publish generates the views of a model, loads its data into DuckDB and
 // runs the DDL there, twice (it must be idempotent). ddlOf, if set, names
 // the engine whose view DDL to use.
