@@ -1,7 +1,6 @@
 package main
 
 import (
-	"context"
 	"fmt"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
@@ -21,6 +20,7 @@ type checkOptions struct {
 	// dialect, when given, also checks the model's names against the
 	// engine's identifier limits.
 	dialect string
+	live    liveFlags
 }
 
 func newCheckCmd(e *env) *cobra.Command {
@@ -55,6 +55,7 @@ func newCheckCmd(e *env) *cobra.Command {
 	onceStringVarP(cmd.Flags(), &o.dialect, "dialect", "d", "", "also check that every name fits the dialect's identifier limit (63 bytes on postgres, 64 characters on mysql, 128 on sqlserver)")
 	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data every promise of the model: links declared required find their row, keys (and semiadditive columns' key and date) are unique (tables read as run reads them)")
 	cmd.Flags().StringVar(&o.data, "data", "", "with --required (implied): read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	o.live.add(cmd.Flags())
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "with --required (implied): read the tables from a live database: postgres://..., mysql://... or sqlite:PATH")
 	return cmd
 }
@@ -77,7 +78,7 @@ func runCheck(e *env, o *checkOptions) error {
 	diags.Append(identTooLong(m, o.dialect))
 	held := ""
 	if o.required && !diags.HasErrors() {
-		d, err := checkData(context.Background(), m, o.data, o.dsn)
+		d, err := checkData(e.context(), m, o.data, o.dsn, o.live.options())
 		if err != nil {
 			return err
 		}

@@ -4,6 +4,7 @@ import (
 	"context"
 	"fmt"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
@@ -28,12 +29,12 @@ func requiredLinks(m *planner.Model) []*planner.Link {
 // makes about it: each link declared required finds its row, and each
 // declared key (and each semiadditive column's key and date) is on one
 // row (checkUnique). Each broken promise is an error at its declaration.
-func checkData(ctx context.Context, m *planner.Model, dataDir, dsn string) (grammar.Diagnostics, error) {
+func checkData(ctx context.Context, m *planner.Model, dataDir, dsn string, lo engine.LiveOptions) (grammar.Diagnostics, error) {
 	links := requiredLinks(m)
 	if len(links) == 0 && len(uniquenesses(m)) == 0 {
 		return nil, nil
 	}
-	runner, live, closeData, err := openData(ctx, m, dataDir, dsn)
+	runner, live, closeData, err := openData(ctx, m, dataDir, dsn, lo)
 	if err != nil {
 		return nil, err
 	}

@@ -3,7 +3,10 @@ package main
 import (
 	"context"
 	"errors"
+	"time"
+
 	"fmt"
+	"github.com/spf13/pflag"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
@@ -41,11 +44,29 @@ func scrubDSN(dsn string, err error) error {
 	return engine.ScrubError(dsn, err)
 }
 
+// liveFlags bound a live session (--dsn): each statement, and connecting.
+type liveFlags struct{ timeout, connectTimeout time.Duration }
+
+// add declares --timeout and --connect-timeout.
+func (f *liveFlags) add(fs *pflag.FlagSet) {
+	fs.DurationVar(&f.timeout, "timeout", engine.DefaultStatementTimeout, "with --dsn: stop (on the server too) a statement that runs longer; 0 for no limit")
+	fs.DurationVar(&f.connectTimeout, "connect-timeout", engine.DefaultConnectTimeout, "with --dsn: give up connecting after this long")
+}
+
+// options are the session's engine.LiveOptions.
+func (f liveFlags) options() engine.LiveOptions {
+	st := f.timeout
+	if st <= 0 {
+		st = -1 // no bound
+	}
+	return engine.LiveOptions{StatementTimeout: st, ConnectTimeout: f.connectTimeout}
+}
+
 // executeLive runs a compiled query on the database at dsn and hands
 // each row, shaped for the report exactly as for the embedded engine, to
 // write as the server sends it.
-func executeLive(ctx context.Context, c *compiled, dsn string, write func(report.Row) error) error {
-	l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{})
+func executeLive(ctx context.Context, c *compiled, dsn string, lo engine.LiveOptions, write func(report.Row) error) error {
+	l, err := engine.OpenLive(ctx, dsn, lo)
 	if err != nil {
 		return &exitError{code: exitFindings, err: err}
 	}
@@ -60,9 +81,9 @@ func executeLive(ctx context.Context, c *compiled, dsn string, write func(report
 // openData opens the data a command reads: the live database at dsn, or
 // else the embedded DuckDB over m's files (or dataDir). live is nil on
 // the embedded engine; closeData releases what was opened.
-func openData(ctx context.Context, m *planner.Model, dataDir, dsn string) (run verify.Runner, live *engine.Live, closeData func(), err error) {
+func openData(ctx context.Context, m *planner.Model, dataDir, dsn string, lo engine.LiveOptions) (run verify.Runner, live *engine.Live, closeData func(), err error) {
 	if dsn != "" {
-		l, err := engine.OpenLive(ctx, dsn, engine.LiveOptions{})
+		l, err := engine.OpenLive(ctx, dsn, lo)
 		if err != nil {
 			return nil, nil, nil, &exitError{code: exitFindings, err: err}
 		}

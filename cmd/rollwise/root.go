@@ -1,11 +1,14 @@
 package main
 
 import (
+	"context"
 	"errors"
 	"fmt"
 	"io"
 	"os"
+	"os/signal"
 	"strings"
+	"syscall"
 
 	"github.com/spf13/cobra"
 )
@@ -40,6 +43,17 @@ func usageErr(format string, args ...any) error {
 type env struct {
 	stdin          io.Reader
 	stdout, stderr io.Writer
+	// ctx ends on an interrupt (SIGINT, SIGTERM), which cancels a live
+	// statement on the server.
+	ctx context.Context
+}
+
+// context is the command's context (never nil).
+func (e *env) context() context.Context {
+	if e.ctx == nil {
+		return context.Background()
+	}
+	return e.ctx
 }
 
 // color reports whether w is a terminal (colour and decoration are for
@@ -62,7 +76,9 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
 			code = exitInternal
 		}
 	}()
-	e := &env{stdin: stdin, stdout: stdout, stderr: stderr}
+	ctx, stop := signal.NotifyContext(context.Background(), os.Interrupt, syscall.SIGTERM)
+	defer stop()
+	e := &env{stdin: stdin, stdout: stdout, stderr: stderr, ctx: ctx}
 	root := newRoot(e)
 	root.SetArgs(args)
 	root.SetIn(stdin)

@@ -19,6 +19,7 @@ type runOptions struct {
 	// dsn names a live database to run on; dialectSet says -d was given.
 	dsn        string
 	dialectSet bool
+	live       liveFlags
 }
 
 func newRunCmd(e *env) *cobra.Command {
@@ -44,6 +45,7 @@ NAME.parquet). The result is written as it arrives.`,
 	o.addFlags(cmd)
 	cmd.Flags().StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	onceStringVarP(cmd.Flags(), &o.format, "format", "", "table", "output: table, csv, json or markdown")
+	o.live.add(cmd.Flags())
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "run on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	return cmd
 }
@@ -78,9 +80,9 @@ func runRun(e *env, o *runOptions) error {
 		return nil
 	}
 	if o.dsn != "" {
-		err = executeLive(context.Background(), c, o.dsn, write)
+		err = executeLive(e.context(), c, o.dsn, o.live.options(), write)
 	} else {
-		err = executeEach(context.Background(), c, o.data, write)
+		err = executeEach(e.context(), c, o.data, write)
 	}
 	if err != nil {
 		return err

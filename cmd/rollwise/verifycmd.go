@@ -1,7 +1,6 @@
 package main
 
 import (
-	"context"
 	"errors"
 	"os"
 	"path/filepath"
@@ -31,6 +30,7 @@ type verifyOptions struct {
 	// dsn names a live database to verify on; dialectSet says -d was given.
 	dsn        string
 	dialectSet bool
+	live       liveFlags
 }
 
 func newVerifyCmd(e *env) *cobra.Command {
@@ -83,6 +83,7 @@ fails), 2 for usage errors.`,
 	f.Float64Var(&o.tolerance, "tolerance", verify.DefaultTolerance, "relative tolerance for values that are not both exact")
 	f.StringVar(&o.grouping, "grouping-column", "", "the SQL's GROUPING(...) column, which tells total rows from NULL groups")
 	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	o.live.add(f)
 	f.StringVar(&o.dsn, "dsn", "", "verify on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	onceStringVarP(f, &o.dialect, "dialect", "d", "duckdb", "SQL dialect")
 	onceStringVarP(f, &o.format, "format", "", "table", "output: table or json")
@@ -137,8 +138,8 @@ func runVerify(e *env, o *verifyOptions) error {
 	if err != nil {
 		return err
 	}
-	ctx := context.Background()
-	runner, live, closeData, err := openData(ctx, c.model, o.data, o.dsn)
+	ctx := e.context()
+	runner, live, closeData, err := openData(ctx, c.model, o.data, o.dsn, o.live.options())
 	if err != nil {
 		return err
 	}

@@ -12,6 +12,8 @@ import (
 
 	gomysql "github.com/go-sql-driver/mysql"
 	"github.com/jackc/pgx/v5"
+	"github.com/jackc/pgx/v5/pgconn"
+	"github.com/jackc/pgx/v5/pgconn/ctxwatch"
 	"github.com/jackc/pgx/v5/stdlib"
 )
 
@@ -32,6 +34,12 @@ type Live struct {
 	conn          *sql.Conn
 	// writable says the session may change the database (LiveOptions).
 	writable bool
+	// timeout bounds each statement (0: none); connectTimeout bounds
+	// connecting, and the second connection that stops a MySQL statement.
+	timeout, connectTimeout time.Duration
+	// connID is the server's id of the session (PostgreSQL's
+	// pg_backend_pid(), MySQL's CONNECTION_ID()), to cancel its statement.
+	connID int64
 }
 
 // LiveOptions say how OpenLive connects.
@@ -44,6 +52,14 @@ type LiveOptions struct {
 	// read-only (a missing one is never created), with query_only on and
 	// an authorizer that refuses writes, ATTACH and setting pragmas.
 	Writable bool
+	// ConnectTimeout bounds connecting, setup included (0:
+	// DefaultConnectTimeout).
+	ConnectTimeout time.Duration
+	// StatementTimeout bounds each query, reading its rows included, on
+	// the client and on the server (0: DefaultStatementTimeout; negative:
+	// no bound). Past it, or when the caller's context ends (an
+	// interrupt), the statement is cancelled on the server.
+	StatementTimeout time.Duration
 }
 
 // mysqlMode is the SQL mode rollwise's MySQL sessions run in: the string
@@ -79,18 +95,26 @@ func OpenLive(ctx context.Context, dsn string, o LiveOptions) (*Live, error) {
 	if err != nil {
 		return nil, err
 	}
+	cctx, cancel := context.WithTimeout(ctx, o.connectTimeout())
+	defer cancel()
 	var l *Live
 	switch dialect {
 	case "postgres":
-		l, err = openPostgres(ctx, dsn, o)
+		l, err = openPostgres(cctx, dsn, o)
 	case "mysql":
-		l, err = openMySQL(ctx, dsn, o)
+		l, err = openMySQL(cctx, dsn, o)
 	default:
-		l, err = openSQLite(ctx, dsn, o)
+		l, err = openSQLite(cctx, dsn, o)
 	}
 	if err != nil {
+		if ctx.Err() != nil {
+			err = fmt.Errorf("interrupted: %w", err)
+		} else if cctx.Err() != nil {
+			err = fmt.Errorf("no answer within %v (--connect-timeout): %w", o.connectTimeout(), err)
+		}
 		return nil, ScrubError(dsn, fmt.Errorf("connecting to %s: %w", RedactDSN(dsn), err))
 	}
+	l.timeout, l.connectTimeout = o.statementTimeout(), o.connectTimeout()
 	return l, nil
 }
 
@@ -124,7 +148,17 @@ func openPostgres(ctx context.Context, dsn string, o LiveOptions) (*Live, error)
 	cfg.DefaultQueryExecMode = pgx.QueryExecModeDescribeExec
 	db := stdlib.OpenDB(*cfg)
 	// UTC, so that timestamps with a time zone read the same everywhere.
+	// A cancelled context (a timeout, an interrupt) sends the server a
+	// cancel request at once, then closes the connection if the server
+	// does not answer (pgx's default only closes it, and the server would
+	// run the statement on).
+	cfg.BuildContextWatcherHandler = func(c *pgconn.PgConn) ctxwatch.Handler {
+		return &pgconn.CancelRequestContextWatcherHandler{Conn: c, DeadlineDelay: 2 * time.Second}
+	}
 	setup := []string{"SET TIME ZONE 'UTC'"}
+	if s := serverTimeout("postgres", o.statementTimeout()); s != "" {
+		setup = append(setup, s)
+	}
 	if !o.Writable {
 		// Every transaction of the session is read-only, ours included
 		// (postgresql.org/docs/current/sql-set-transaction.html).
@@ -134,7 +168,7 @@ func openPostgres(ctx context.Context, dsn string, o LiveOptions) (*Live, error)
 	if err != nil {
 		return nil, err
 	}
-	if err := l.conn.QueryRowContext(ctx, "SELECT 'PostgreSQL ' || current_setting('server_version')").Scan(&l.Server); err != nil {
+	if err := l.conn.QueryRowContext(ctx, "SELECT 'PostgreSQL ' || current_setting('server_version'), pg_backend_pid()").Scan(&l.Server, &l.connID); err != nil {
 		l.Close()
 		return nil, err
 	}
@@ -214,15 +248,24 @@ func openMySQL(ctx context.Context, dsn string, o LiveOptions) (*Live, error) {
 	// column keeps its own collation, which wins over a literal's
 	// (dev.mysql.com/doc/refman/8.0/en/charset-collation-coercibility.html).
 	// utf8mb4_0900_bin: MySQL 8.0.17+ (dev.mysql.com/doc/refman/8.0/en/charset-unicode-sets.html).
-	collation := "utf8mb4_0900_bin"
+	collation, kind := "utf8mb4_0900_bin", "mysql"
 	if strings.Contains(strings.ToLower(l.Server), "mariadb") {
 		l.Server = "MariaDB " + l.Server
-		collation = "utf8mb4_nopad_bin" // MariaDB 10.2+
+		collation, kind = "utf8mb4_nopad_bin", "mariadb" // MariaDB 10.2+
 	} else {
 		l.Server = "MySQL " + l.Server
 	}
 	l.textCollation = collation
-	if _, err := l.conn.ExecContext(ctx, "SET collation_connection = '"+collation+"'"); err != nil {
+	for _, s := range []string{"SET collation_connection = '" + collation + "'", serverTimeout(kind, o.statementTimeout())} {
+		if s == "" {
+			continue
+		}
+		if _, err := l.conn.ExecContext(ctx, s); err != nil {
+			l.Close()
+			return nil, err
+		}
+	}
+	if err := l.conn.QueryRowContext(ctx, "SELECT CONNECTION_ID()").Scan(&l.connID); err != nil {
 		l.Close()
 		return nil, err
 	}

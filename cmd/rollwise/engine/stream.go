@@ -110,8 +110,17 @@ func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*R
 }
 
 // QueryEach runs a query on the live database and streams its rows to
-// each, normalised as by Query.
+// each, normalised as by Query, within the session's statement timeout
+// (each's work included); past it, or when ctx ends, the statement is
+// cancelled on the server.
 func (l *Live) QueryEach(ctx context.Context, query string, want []planner.Type, each Each) error {
+	ctx, cancel := l.withStatementTimeout(ctx)
+	defer cancel()
+	return l.explain(ctx, l.queryEach(ctx, query, want, each))
+}
+
+// queryEach is QueryEach within the statement's time.
+func (l *Live) queryEach(ctx context.Context, query string, want []planner.Type, each Each) error {
 	rows, done, err := l.rows(ctx, query)
 	if err != nil {
 		return fmt.Errorf("query failed: %w", err)

@@ -21,12 +21,18 @@ var (
 // engine and its server, held until the process exits. Test databases have
 // fixed names (and MySQL's schemas are databases of the server), so two
 // test processes on one machine, two packages or two checkouts, must not
-// load them on one server at the same time: the second waits.
+// load them on one server at the same time: the second waits. On
+// PostgreSQL, where a model's schemas live inside its test database, a
+// process with its own ROLLWISE_TEST_DB_PREFIX has databases of its own
+// and takes a lock of its own.
 func holdServer(t testing.TB, name, server string) {
 	t.Helper()
 	locksMu.Lock()
 	defer locksMu.Unlock()
 	key := name + " " + server
+	if name == "postgres" {
+		key += " " + dbPrefix()
+	}
 	if locks[key] != nil {
 		return
 	}
