@@ -40,11 +40,14 @@ func (o LiveOptions) statementTimeout() time.Duration {
 // statement past the timeout, even when the client is gone: PostgreSQL's
 // statement_timeout (milliseconds), MariaDB's max_statement_time
 // (seconds), MySQL's max_execution_time (milliseconds, SELECT only).
-// "" when there is no bound. server is postgres, mariadb or mysql.
+// "" when there is no bound. server is postgres, mariadb or mysql. The
+// server's bound is a second later than the client's, so that the client
+// stops the statement first and can say why.
 func serverTimeout(server string, d time.Duration) string {
 	if d <= 0 {
 		return ""
 	}
+	d += time.Second
 	ms := strconv.FormatInt(max(1, d.Milliseconds()), 10)
 	switch server {
 	case "postgres":

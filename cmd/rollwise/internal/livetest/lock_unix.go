@@ -29,10 +29,7 @@ func holdServer(t testing.TB, name, server string) {
 	t.Helper()
 	locksMu.Lock()
 	defer locksMu.Unlock()
-	key := name + " " + server
-	if name == "postgres" {
-		key += " " + dbPrefix()
-	}
+	key := lockKey(name, server)
 	if locks[key] != nil {
 		return
 	}
@@ -50,4 +47,13 @@ func holdServer(t testing.TB, name, server string) {
 		}
 	}
 	locks[key] = f // held, open, until the process exits
+}
+
+// lockKey names the lock of engine name on server.
+func lockKey(name, server string) string {
+	key := name + " " + server
+	if p := os.Getenv(EnvPrefix); p != "" && name == "postgres" {
+		key += " " + dbPrefix()
+	}
+	return key
 }

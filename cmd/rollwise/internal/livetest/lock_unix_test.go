@@ -18,7 +18,7 @@ func TestHoldServerKeepsOthersOut(t *testing.T) {
 	server := "postgres://example.invalid:1/" + t.Name()
 	holdServer(t, "postgres", server)
 	holdServer(t, "postgres", server) // again: no deadlock
-	sum := sha256.Sum256([]byte("postgres " + server))
+	sum := sha256.Sum256([]byte(lockKey("postgres", server)))
 	f, err := os.Open(filepath.Join(os.TempDir(), "rollwise-livetest-"+hex.EncodeToString(sum[:6])+".lock"))
 	if err != nil {
 		t.Fatal(err)
