@@ -271,3 +271,27 @@ func BenchmarkTPCH(b *testing.B) {
 		})
 	}
 }
+
+// BenchmarkTimeEdits times the plan rollwise makes for last year's order
+// value and the year to date (queries.json's derived check orders_ly_ytd:
+// the moved rows read again, and each cell's range read again) against the
+// window query written by hand from the TPC-H schema, which computes both
+// from the month cells alone (a join on the shifted month, a running sum).
+func BenchmarkTimeEdits(b *testing.B) {
+	d := sharedBenchData(b)
+	b.Logf("TPC-H scale factor %v", d.sf)
+	for _, c := range readTPCHChecks(b, "queries.json") {
+		if !strings.HasSuffix(c.ID, "orders_ly_ytd") {
+			continue
+		}
+		gen, err := d.r.sql(c)
+		if err != nil {
+			b.Fatal(err)
+		}
+		window, err := c.sqlText()
+		if err != nil {
+			b.Fatal(err)
+		}
+		benchRace(b, []*sql.Conn{d.conn}, []string{"gen", "window"}, []string{gen, window}, false)
+	}
+}
