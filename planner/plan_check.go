@@ -58,13 +58,21 @@ func (pl *planner) checkReach(s *Scan) {
 			d := pl.diags.Errorf(k.Pos, "unreachable", "cannot %s: measure %s iterates over %s, and no link leads from %s to %s",
 				what, pl.measuresOf(s), s.Table.Name, s.Table.Name, k.Col.Table.Name)
 			d.Suggestion = fmt.Sprintf("use a column %s can reach, or add a link from %s towards %s", s.Table.Name, s.Table.Name, k.Col.Table.Name)
+			if l := linkTowards(k.Col.Table, s.Table); l != nil {
+				d.Suggestion = fmt.Sprintf("%s reaches %s, not the other way: iterate over %s instead, for example count(distinct %s) to count the %s rows of each group, or per %s in a per-grain measure",
+					k.Col.Table.Name, s.Table.Name, k.Col.Table.Name, l.FromCols[0], s.Table.Name, l.FromCols[0])
+			}
 		}
 	}
 	check := func(e Expr, what string) {
 		for _, c := range Columns(e) {
 			if _, ok := reach[c.Table]; !ok {
-				pl.diags.Errorf(e.Position(), "unreachable", "cannot %s %s: measure %s iterates over %s, and no link leads from %s to %s",
+				d := pl.diags.Errorf(e.Position(), "unreachable", "cannot %s %s: measure %s iterates over %s, and no link leads from %s to %s",
 					what, c, pl.measuresOf(s), s.Table.Name, s.Table.Name, c.Table.Name)
+				if l := linkTowards(c.Table, s.Table); l != nil {
+					d.Suggestion = fmt.Sprintf("%s reaches %s, not the other way: iterate over %s instead, for example count(distinct %s) to count the %s rows that pass, or per %s in a per-grain measure",
+						c.Table.Name, s.Table.Name, c.Table.Name, l.FromCols[0], s.Table.Name, l.FromCols[0])
+				}
 				return
 			}
 		}
@@ -131,4 +139,16 @@ func (pl *planner) cautions() {
 			}
 		}
 	}
+}
+
+// linkTowards is a one-column link from table from to table to, or nil:
+// the column whose distinct values are the rows of to that from's rows
+// point at.
+func linkTowards(from, to *Table) *Link {
+	for _, l := range from.Links {
+		if l.To == to && len(l.FromCols) == 1 {
+			return l
+		}
+	}
+	return nil
 }

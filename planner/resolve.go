@@ -534,3 +534,14 @@ func (r *resolver) columnRef(ref *grammar.Ref, self *Table) *Column {
 	}
 	return c
 }
+
+// columnsNamed lists the columns called name, in declaration order.
+func (r *resolver) columnsNamed(name string) []*Column {
+	var out []*Column
+	for _, t := range r.m.Tables {
+		if c := t.Column(name); c != nil {
+			out = append(out, c)
+		}
+	}
+	return out
+}

@@ -358,7 +358,13 @@ func (x *exprResolver) perAgg(name string, e *grammar.Call) Expr {
 		}
 	}
 	if e.Having != nil {
-		h := x.sub(false).expr(e.Having)
+		hx := x.sub(false)
+		var per []string
+		for _, c := range p.Per {
+			per = append(per, c.String())
+		}
+		hx.havingPer = strings.Join(per, ", ")
+		h := hx.expr(e.Having)
 		if h == nil {
 			return nil
 		}

@@ -25,6 +25,9 @@ type exprResolver struct {
 	// outerPins are the pins in force around an edit list that is
 	// directly the measure of another (deadPins).
 	outerPins map[*Column]grammar.Pos
+	// havingPer is the per list of the per-grain aggregate whose having
+	// clause is being resolved, or "".
+	havingPer string
 }
 
 var aggFuncs = map[string]bool{
@@ -150,14 +153,23 @@ func (x *exprResolver) ref(e *grammar.Ref) Expr {
 		return &MeasureRef{Pos: e.Pos, Measure: m}
 	}
 	if !x.row {
-		x.errorf(e.Pos, "column-in-measure", "column %s.%s is used outside an aggregate", e.Table, e.Name).Suggestion =
-			fmt.Sprintf("a measure works on cells, not rows: aggregate the column, for example sum(%s.%s) or max(%s.%s)",
-				e.Table, e.Name, e.Table, e.Name)
+		d := x.errorf(e.Pos, "column-in-measure", "column %s.%s is used outside an aggregate", e.Table, e.Name)
+		d.Suggestion = fmt.Sprintf("a measure works on cells, not rows: aggregate the column, for example sum(%s.%s) or max(%s.%s)",
+			e.Table, e.Name, e.Table, e.Name)
+		if x.havingPer != "" {
+			d.Suggestion = fmt.Sprintf("having tests a measure of each group, not a row: write a measure such as max(%s.%s) > 1, or add the column to the per columns (per %s, %s.%s)",
+				e.Table, e.Name, x.havingPer, e.Table, e.Name)
+		}
 		return nil
 	}
 	if e.Table == "" && x.self == nil {
 		d := x.errorf(e.Pos, "bare-name", "'%s' is a bare name, which means a measure, but measures cannot be used inside a row expression", e.Name)
 		d.Suggestion = "write columns as table.column"
+		if owners := x.r.columnsNamed(e.Name); len(owners) > 0 {
+			d.Suggestion = "write columns as table.column, for example " + owners[0].String()
+		} else if _, measure := x.r.measureDecls[e.Name]; !measure {
+			d.Suggestion = fmt.Sprintf("no column is called %s: to compare with the text, quote it: '%s'", e.Name, strings.ReplaceAll(e.Name, "'", "''"))
+		}
 		return nil
 	}
 	c := x.r.columnRef(e, x.self)

@@ -76,8 +76,14 @@ func printDiags(e *env, d grammar.Diagnostics, src grammar.Sources) {
 	d.Print(e.stderr, src, isTerminal(e.stderr))
 }
 
+// countErrors counts the errors as Print shows them: the same message at
+// the same place, found twice, once.
 func countErrors(d grammar.Diagnostics) string {
-	return report.Count(len(d.Errors()), "error")
+	seen := map[string]bool{}
+	for _, x := range d.Errors() {
+		seen[x.Error()] = true
+	}
+	return report.Count(len(seen), "error")
 }
 
 // modelArgs checks that at least one model path was given.
