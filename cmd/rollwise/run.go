@@ -4,12 +4,14 @@ import (
 	"context"
 	"errors"
 	"fmt"
+	"strings"
 
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/report"
 	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/planner"
 )
 
 type runOptions struct {
@@ -44,7 +46,7 @@ NAME.parquet). The result is written as it arrives.`,
 	}
 	o.addFlags(cmd)
 	cmd.Flags().StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
-	onceStringVarP(cmd.Flags(), &o.format, "format", "", "table", "output: table, csv, json or markdown")
+	onceStringVarP(cmd.Flags(), &o.format, "format", "", "table", "output: table, csv, json, markdown or html (one page with charts)")
 	o.live.add(cmd.Flags())
 	cmd.Flags().StringVar(&o.dsn, "dsn", "", "run on a live database instead: postgres://..., mysql://... or sqlite:PATH (the dialect follows unless -d says otherwise)")
 	return cmd
@@ -67,17 +69,30 @@ func runRun(e *env, o *runOptions) error {
 	if err != nil {
 		return err
 	}
-	out, err := report.NewStream(e.stdout, reportColumns(c), report.Options{Format: o.format, Color: isTerminal(e.stdout)})
-	if err != nil {
-		return &exitError{code: exitInternal, err: err}
-	}
-	// The rows go to the output as the engine returns them: a result
-	// of any size is written in bounded memory.
+	// The rows go to the output as the engine returns them: a result of
+	// any size is written in bounded memory. The html page is the
+	// exception: its charts scale to all the values, so it holds the rows
+	// (at most report.MaxHTMLRows; the rest are counted).
+	var out *report.Stream
+	var page *report.Table
+	omitted := 0
 	write := func(r report.Row) error {
-		if err := out.Row(r); err != nil {
-			return &exitError{code: exitInternal, err: err}
+		switch {
+		case out != nil:
+			if err := out.Row(r); err != nil {
+				return &exitError{code: exitInternal, err: err}
+			}
+		case len(page.Rows) < report.MaxHTMLRows:
+			page.Rows = append(page.Rows, r)
+		default:
+			omitted++
 		}
 		return nil
+	}
+	if o.format == report.FormatHTML {
+		page = &report.Table{Columns: reportColumns(c)}
+	} else if out, err = report.NewStream(e.stdout, reportColumns(c), report.Options{Format: o.format, Color: isTerminal(e.stdout)}); err != nil {
+		return &exitError{code: exitInternal, err: err}
 	}
 	if o.dsn != "" {
 		err = executeLive(e.context(), c, o.dsn, o.live.options(), write)
@@ -87,11 +102,33 @@ func runRun(e *env, o *runOptions) error {
 	if err != nil {
 		return err
 	}
-	if err := out.Close(); err != nil {
+	if page != nil {
+		err = report.Write(e.stdout, page, report.Options{Format: o.format, Title: resultTitle(c), Cautions: c.plan.Cautions, Omitted: omitted})
+	} else {
+		err = out.Close()
+	}
+	if err != nil {
 		return &exitError{code: exitInternal, err: err}
 	}
 	printCautions(e, c.plan)
 	return nil
+}
+
+// resultTitle names a result for the html page: the measures, the group
+// columns and the filter.
+func resultTitle(c *compiled) string {
+	var names []string
+	for _, m := range c.query.Measures {
+		names = append(names, m.Name)
+	}
+	s := strings.Join(names, ", ")
+	if len(c.query.GroupNames) > 0 {
+		s += " by " + strings.Join(c.query.GroupNames, ", ")
+	}
+	for _, f := range c.query.Filters {
+		s += " where " + planner.Text(f)
+	}
+	return s
 }
 
 // execute runs a compiled query on the embedded engine and returns the

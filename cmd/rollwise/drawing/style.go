@@ -40,7 +40,8 @@ svg .node.focus text { fill: #fff; }
 svg .node.table .name { font-weight: 700; }
 svg a:hover .box { stroke-width: 2.5; }
 svg .axis line, svg .axis polyline { stroke: #7a8794; fill: none; }
-svg .grid { stroke: #e1e5ea; }
+svg .axis line.grid { stroke: #e1e5ea; }
+.charts { display: flex; flex-wrap: wrap; gap: 0.5rem 2rem; }
 svg .bar { fill: #3b7dd8; }
 svg .bar.negative { fill: #c0504d; }
 svg .series { fill: none; stroke: #3b7dd8; stroke-width: 2; }

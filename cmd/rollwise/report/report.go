@@ -61,6 +61,12 @@ type Options struct {
 	// Width, when positive, is the terminal width: the table format
 	// wraps its widest text columns to fit. Numbers are never cut.
 	Width int
+	// Title and Cautions head the html format's page (the other formats
+	// leave cautions to stderr); Omitted counts the rows of the result
+	// left out of the table given, which the page mentions.
+	Title    string
+	Cautions []string
+	Omitted  int
 }
 
 // The output formats.
@@ -69,11 +75,12 @@ const (
 	FormatCSV      = "csv"
 	FormatJSON     = "json"
 	FormatMarkdown = "markdown"
+	FormatHTML     = "html"
 )
 
 // Formats lists the valid output format names.
 func Formats() []string {
-	return []string{FormatTable, FormatCSV, FormatJSON, FormatMarkdown}
+	return []string{FormatTable, FormatCSV, FormatJSON, FormatMarkdown, FormatHTML}
 }
 
 // ValidFormat returns nil when s names an output format, and otherwise an
@@ -91,6 +98,9 @@ func ValidFormat(s string) error {
 func Write(w io.Writer, t *Table, o Options) error {
 	if t == nil {
 		return errors.New("report: no table")
+	}
+	if o.Format == FormatHTML {
+		return writeHTML(w, t, o)
 	}
 	s, err := newStream(w, t.Columns, o, dateColumns(t))
 	if err != nil {

@@ -237,13 +237,13 @@ func TestGroupValuesShowInFull(t *testing.T) {
 }
 
 func TestValidFormat(t *testing.T) {
-	for _, f := range []string{"table", "csv", "json", "markdown"} {
+	for _, f := range []string{"table", "csv", "json", "markdown", "html"} {
 		if err := ValidFormat(f); err != nil {
 			t.Errorf("ValidFormat(%q) = %v", f, err)
 		}
 	}
 	err := ValidFormat("yaml")
-	if err == nil || !strings.Contains(err.Error(), `"yaml"`) || !strings.Contains(err.Error(), "table, csv, json, markdown") {
+	if err == nil || !strings.Contains(err.Error(), `"yaml"`) || !strings.Contains(err.Error(), "table, csv, json, markdown, html") {
 		t.Errorf("ValidFormat(yaml) = %v", err)
 	}
 	if err := Write(&bytes.Buffer{}, sample(), Options{Format: "xml"}); err == nil {

@@ -3,6 +3,7 @@ package report
 import (
 	"bufio"
 	"encoding/csv"
+	"errors"
 	"io"
 
 	"github.com/jedib0t/go-pretty/v6/table"
@@ -42,6 +43,9 @@ type Stream struct {
 // o.Format. A column of type date shows dates, any other time values are
 // timestamps.
 func NewStream(w io.Writer, cols []Column, o Options) (*Stream, error) {
+	if o.Format == FormatHTML {
+		return nil, errors.New("report: the html format is written whole, by Write")
+	}
 	dates := make([]bool, len(cols))
 	for j, c := range cols {
 		dates[j] = c.Type == planner.TypeDate
