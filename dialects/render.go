@@ -48,6 +48,8 @@ type renderer struct {
 	rename map[string]string
 	// rows holds the rows CTEs of each FROM clause (see rowsOf).
 	rows map[string][]*sharedRows
+	// layer is the layering whose later layers are being rendered, or nil.
+	layer *layering
 }
 
 func (r *renderer) q(name string) string {
@@ -129,17 +131,23 @@ func (r *renderer) render() (string, error) {
 		return "", err
 	}
 	r.ctx = root
+	var exprs []planner.Expr
+	var names []string
+	for _, o := range r.p.Outputs {
+		exprs = append(exprs, o.Expr)
+		names = append(names, o.Name)
+	}
+	values, err := r.layers(root, exprs, names)
+	if err != nil {
+		return "", err
+	}
 	from, single := r.from(root)
 	var cols []string
 	for _, k := range root.Keys {
 		cols = append(cols, r.keyCol(root, k.Name))
 	}
-	for _, o := range r.p.Outputs {
-		e, err := r.value(o.Expr)
-		if err != nil {
-			return "", err
-		}
-		if e == r.q(o.Name) {
+	for i, o := range r.p.Outputs {
+		if e := values[i]; e == r.q(o.Name) {
 			cols = append(cols, e)
 		} else {
 			cols = append(cols, e+" AS "+r.q(o.Name))
@@ -431,6 +439,16 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	}
 	outer := r.ctx
 	r.ctx = sub
+	var exprs []planner.Expr
+	var names []string
+	for _, v := range sub.Values {
+		exprs = append(exprs, v.Expr)
+		names = append(names, v.Name)
+	}
+	values, err := r.layers(sub, exprs, names)
+	if err != nil {
+		return err
+	}
 	from, _ := r.from(sub)
 	var cols []string
 	for _, k := range sub.Keys {
@@ -448,12 +466,8 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 			cols = append(cols, ext+"("+r.keyCol(sub, l.PerKeys[0].Name)+") OVER (PARTITION BY "+strings.Join(part, ", ")+") AS "+r.q(l.Name+"_at"))
 		}
 	}
-	for _, v := range sub.Values {
-		e, err := r.value(v.Expr)
-		if err != nil {
-			return err
-		}
-		cols = append(cols, e+" AS "+r.q(v.Name))
+	for i, v := range sub.Values {
+		cols = append(cols, values[i]+" AS "+r.q(v.Name))
 	}
 	r.ctx = outer
 	groups := r.cteName(sub.Name + "_groups")

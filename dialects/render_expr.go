@@ -109,7 +109,14 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return "(" + x + " IS NOT NULL)", nil
 		}
 		return "(" + x + " IS NULL)", nil
+	case *planner.Computed:
+		return r.computed(e)
 	case *planner.ValueRef:
+		if r.layer != nil {
+			if name, ok := r.layer.values[valueKey(e)]; ok {
+				return r.q(name), nil
+			}
+		}
 		if e.Rel.Window != nil {
 			return r.window(r.ctx, e.Rel.Window, e.Column)
 		}

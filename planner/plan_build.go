@@ -31,6 +31,10 @@ type planner struct {
 	// timeEnds are the relations that compute a window edit's E: they stay
 	// scans (a window edit's relation reads them on their own).
 	timeEnds map[*Rel]bool
+	// computed holds each measure's value compiled in a cell of a context
+	// (see measureValue); iterTables each measure's iteration tables.
+	computed   map[string]Expr
+	iterTables map[*Measure][]*Table
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
@@ -39,7 +43,8 @@ type planner struct {
 func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
 		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{},
-		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{}}
+		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{},
+		computed: map[string]Expr{}, iterTables: map[*Measure][]*Table{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
 		pl.measureNames[m.Name] = true
@@ -59,7 +64,7 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 		for _, t := range pl.iterationTables(m.Expr) {
 			pl.base(root, t)
 		}
-		if e := pl.compile(root, m.Expr, start); e != nil {
+		if e := pl.compile(root, &MeasureRef{Pos: m.Pos, Measure: m}, start); e != nil {
 			pl.p.Outputs = append(pl.p.Outputs, &Output{Name: m.Name, Measure: m, Expr: e})
 		}
 	}
@@ -127,7 +132,12 @@ func (pl *planner) iterationTables(e Expr) []*Table {
 		case *Agg:
 			add(x.Table)
 		case *MeasureRef:
-			add(pl.iterationTables(x.Measure.Expr)...)
+			ts, ok := pl.iterTables[x.Measure]
+			if !ok {
+				ts = pl.iterationTables(x.Measure.Expr)
+				pl.iterTables[x.Measure] = ts
+			}
+			add(ts...)
 		case *PerAgg:
 			add(pl.perTables(x)...)
 			return false
@@ -168,11 +178,7 @@ func (pl *planner) perTables(pa *PerAgg) []*Table {
 func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 	switch e := e.(type) {
 	case *MeasureRef:
-		outer := pl.owner
-		pl.owner = e.Measure
-		x := pl.compile(ctx, e.Measure.Expr, c)
-		pl.owner = outer
-		return x
+		return pl.measureValue(ctx, e.Measure, c)
 	case *NarrowExpr:
 		outer := pl.narrowedBy
 		pl.narrowedBy = pl.owner.Name
@@ -265,6 +271,28 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 	}
 	pl.diags.Errorf(e.Position(), "internal", "cannot plan %T in measure %s", e, pl.owner.Name)
 	return nil
+}
+
+// measureValue compiles measure m in cell c of ctx once: every later use
+// of m in the same cell reads the same node. A value that is one column
+// of a relation (or a literal) is that column; any other is a Computed
+// node, which the renderer names where more than one expression uses it.
+func (pl *planner) measureValue(ctx *Context, m *Measure, c cell) Expr {
+	key := fmt.Sprintf("%p|%p|%d|%s|%s", ctx, m, c.removed, pl.filterKey(c.filters, true), pl.filterKey(c.filters, false))
+	if x, ok := pl.computed[key]; ok {
+		return x
+	}
+	outer := pl.owner
+	pl.owner = m
+	x := pl.compile(ctx, m.Expr, c)
+	pl.owner = outer
+	switch x.(type) {
+	case nil, *ValueRef, *Lit, *Computed:
+	default:
+		x = &Computed{Measure: m, X: x}
+	}
+	pl.computed[key] = x
+	return x
 }
 
 // localKeys lists the keys of ctx that a cell with removed keys still

@@ -11,8 +11,9 @@ import (
 func (pl *planner) measuresOf(s *Scan) string {
 	var names []string
 	var visit func(e Expr, name string)
+	seen := map[*Computed]bool{}
 	visit = func(e Expr, name string) {
-		Walk(e, func(x Expr) bool {
+		WalkOnce(e, seen, func(x Expr) bool {
 			if v, ok := x.(*ValueRef); ok {
 				if v.Rel.Scan == s && !slices.Contains(names, name) {
 					names = append(names, name)
@@ -32,6 +33,7 @@ func (pl *planner) measuresOf(s *Scan) string {
 		})
 	}
 	for _, o := range pl.p.Outputs {
+		clear(seen)
 		visit(o.Expr, o.Name)
 	}
 	if len(names) == 0 {

@@ -116,8 +116,9 @@ func (pl *planner) moveDistinct(ctx *Context, r, b *Rel) {
 // repoint makes every value read from relation from read the same column
 // of relation to.
 func (pl *planner) repoint(from, to *Rel) {
+	seen := map[*Computed]bool{}
 	fix := func(e Expr) {
-		Walk(e, func(x Expr) bool {
+		WalkOnce(e, seen, func(x Expr) bool {
 			if v, ok := x.(*ValueRef); ok && v.Rel == from {
 				v.Rel = to
 			}

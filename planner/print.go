@@ -169,6 +169,8 @@ func writeText(b *strings.Builder, e Expr) {
 		b.WriteString(")")
 	case *ValueRef:
 		b.WriteString(quoteName(e.Rel.Name) + "." + quoteName(e.Column))
+	case *Computed:
+		b.WriteString(quoteName(e.Measure.Name))
 	}
 }
 
