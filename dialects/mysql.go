@@ -179,3 +179,14 @@ func (mysql) GroupingID(keys []string) string { return ansi{}.GroupingID(keys) }
 func (mysql) Limit(n int) (string, string) { return ansi{}.Limit(n) }
 func (mysql) BoolValue(pred string) string { return pred }
 func (mysql) Truth(value string) string    { return value }
+
+// LayerTail: MariaDB refuses a WITH clause of more than 64 elements
+// ("Too many WITH elements in WITH clause", checked on MariaDB 10.11),
+// which a deep layered query exceeds, so layers are nested derived tables.
+// MySQL and MariaDB merge a derived table into the query that reads it
+// (copying its expressions), unless it has a LIMIT
+// (dev.mysql.com/doc/refman/8.0/en/derived-table-optimization.html;
+// mariadb.com/kb/en/derived-table-merge-optimization): with the largest
+// LIMIT, which keeps every row, the 25-deep layered block runs in 0.06 s
+// on MariaDB 10.11 rather than 5.6 s.
+func (mysql) LayerTail() string { return "\n  LIMIT 18446744073709551615" }

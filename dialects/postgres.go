@@ -111,3 +111,11 @@ func (postgres) Call(name string, args []string, types []planner.Type) (string, 
 	}
 	return plainCall(name, args), nil
 }
+
+// Fence writes a layer AS MATERIALIZED (PostgreSQL 12+): PostgreSQL
+// inlines a CTE read once (postgresql.org/docs/current/queries-with.html,
+// "CTE Materialization") and then copies each of its expressions into
+// every place that reads the column, which grows a chain of layers again
+// (checked: the deepest measure of a 50-deep layered block had not planned
+// after 15 minutes and 4.5 GB; with MATERIALIZED it runs at once).
+func (postgres) Fence(name, body string) string { return name + " AS MATERIALIZED (\n" + body + "\n)" }

@@ -176,7 +176,8 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 	}
 	from, _ := r.from(ctx)
 	prev := r.cteName(prefix(ctx.Name, "layer_1"))
-	r.ctes = append(r.ctes, r.layerSQL(prev, "  SELECT\n    "+strings.Join(cols, ",\n    ")+"\n  FROM "+strings.ReplaceAll(from, "\n", "\n  ")))
+	body := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + strings.ReplaceAll(from, "\n", "\n  ")
+	nester, nest := r.d.(Nester)
 
 	// Later layers read the earlier layers' columns by name.
 	outer := r.layer
@@ -191,9 +192,15 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 			return nil, err
 		}
 		next := r.cteName(prefix(ctx.Name, fmt.Sprintf("layer_%d", l)))
-		r.ctes = append(r.ctes, r.layerSQL(next, "  SELECT\n    "+strings.Join(cols, ",\n    ")+"\n  FROM "+r.q(prev)))
+		if nest {
+			body = "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM (\n" + body + nester.LayerTail() + "\n  ) AS " + r.q(prev)
+		} else {
+			r.ctes = append(r.ctes, r.layerSQL(prev, body))
+			body = "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.q(prev)
+		}
 		prev = next
 	}
+	r.ctes = append(r.ctes, r.layerSQL(prev, body))
 	r.keyRel[ctx] = prev
 	r.froms[ctx] = fromClause{sql: r.q(prev), single: true}
 	return r.values(exprs)
@@ -249,6 +256,16 @@ func (r *renderer) computed(c *planner.Computed) (string, error) {
 // its own.
 type Fencer interface {
 	Fence(name, body string) string
+}
+
+// Nester is a dialect that limits the number of CTEs in a statement
+// (MariaDB: 64, as each is a bit of a table map): its layers are nested
+// derived tables in one CTE, each layer the FROM of the next (not
+// indented further, so that the text stays linear in the depth). Each
+// nested layer ends with LayerTail, which keeps the engine from merging
+// it into the layer that reads it.
+type Nester interface {
+	LayerTail() string
 }
 
 // layerSQL is the WITH entry of a layer.

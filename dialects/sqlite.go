@@ -151,3 +151,10 @@ func (sqlite) approxCall(name string, args []string, _ []planner.Type) (string, 
 	}
 	return "", "", false
 }
+
+// Fence writes a layer AS MATERIALIZED (SQLite 3.35+,
+// sqlite.org/lang_with.html#materialization_hints): SQLite's query
+// flattener otherwise copies each expression of a layer into every place
+// that reads its column (checked: 0.9 s for a 25-deep layered block, 18 s
+// for 35 deep; with MATERIALIZED milliseconds).
+func (sqlite) Fence(name, body string) string { return name + " AS MATERIALIZED (\n" + body + "\n)" }

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
 	"github.com/rollwise/rollwise/planner"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
@@ -190,6 +191,45 @@ func TestLayeredModelRuns(t *testing.T) {
 	}
 	if st.compared.Load() != 3 {
 		t.Errorf("%d queries compared, want 3", st.compared.Load())
+	}
+}
+
+// TestLayeredModelLive runs layered measures on the live engines (SQLite
+// always; PostgreSQL and MySQL/MariaDB when their test servers are set),
+// where layers are fenced (PostgreSQL, SQLite: AS MATERIALIZED) or nested
+// (MySQL), and compares every value with the reference evaluator. The
+// depth is 30 on SQLite and PostgreSQL and 24 on MariaDB, where deeper
+// nesting gets slow (docs/benchmarks.md).
+func TestLayeredModelLive(t *testing.T) {
+	dir := t.TempDir()
+	if err := os.WriteFile(filepath.Join(dir, casegen.ModelFile), []byte(layeredModel(layeredBlock, true)), 0o644); err != nil {
+		t.Fatal(err)
+	}
+	layeredData(t, dir)
+	dc, err := diffOpen(dir)
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer dc.close()
+	for _, name := range livetest.Names {
+		t.Run(name, func(t *testing.T) {
+			tg, err := dc.loadInto(livetest.Empty(t, name, "layers"))
+			if err != nil {
+				t.Fatal(err)
+			}
+			deep := "m30"
+			if name == "mysql" {
+				deep = "m24"
+			}
+			st := &diffStats{}
+			q := casegen.Query{Measures: []string{deep, "m13"}, By: []string{"products.family", "regions.name"}, Totals: "rollup"}
+			if diff := dc.compare(tg, q, st); diff != "" {
+				t.Errorf("%v:\n%s", q.Measures, diff)
+			}
+			if st.compared.Load() != 1 {
+				t.Errorf("%d queries compared, want 1", st.compared.Load())
+			}
+		})
 	}
 }
 
