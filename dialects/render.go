@@ -16,7 +16,8 @@ const GroupingColumn = "grouping_id"
 // Render prints a plan as one SQL statement for the dialect.
 func Render(p *planner.Plan, d Dialect) (string, error) {
 	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
-		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{}}
+		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{},
+		derived: map[*planner.Table]*derivedRel{}}
 	spelled := map[string]string{}
 	for _, o := range p.Outputs {
 		spelled[o.Name] = o.Name
@@ -50,6 +51,10 @@ type renderer struct {
 	rows map[string][]*sharedRows
 	// layer is the layering whose later layers are being rendered, or nil.
 	layer *layering
+	// derived holds each table's CTE of shared derived columns (nil when
+	// it has none); useDerived those the scan being rendered reads.
+	derived    map[*planner.Table]*derivedRel
+	useDerived map[*planner.Table]*derivedRel
 }
 
 func (r *renderer) q(name string) string {
@@ -386,6 +391,12 @@ func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, erro
 	for _, l := range s.Joins {
 		r.found[l.To] = s.Inner[l]
 	}
+	use, err := r.derivedSources(s)
+	if err != nil {
+		return "", nil, err
+	}
+	r.useDerived = use
+	defer func() { r.useDerived = nil }()
 	var cols []rowCol
 	for _, k := range s.Keys {
 		e, err := r.value(k.RowExpr())
@@ -402,7 +413,7 @@ func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, erro
 		c, ok := in.Expr.(*planner.ColRef)
 		cols = append(cols, rowCol{name: in.Name, expr: e, computed: !ok || !c.Col.Stored()})
 	}
-	rows := "\n  FROM " + r.relation(s.Table) + " AS " + r.q(s.Table.Name)
+	rows := "\n  FROM " + r.source(s.Table) + " AS " + r.q(s.Table.Name)
 	for _, l := range s.Joins {
 		var conds []string
 		for i := range l.FromCols {
@@ -412,7 +423,7 @@ func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, erro
 		if s.Inner[l] {
 			join = "JOIN"
 		}
-		rows += "\n  " + join + " " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
+		rows += "\n  " + join + " " + r.source(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
 	}
 	if len(s.Where) > 0 {
 		var conds []string

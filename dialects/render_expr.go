@@ -13,6 +13,9 @@ import (
 func (r *renderer) expr(e planner.Expr) (string, error) {
 	switch e := e.(type) {
 	case *planner.ColRef:
+		if d := r.useDerived[e.Col.Table]; d != nil && d.cols[e.Col] {
+			return r.q(e.Col.Table.Name) + "." + r.q(e.Col.Name), nil
+		}
 		if e.Col.Derived != nil {
 			x, err := r.expr(e.Col.Derived)
 			if err != nil {

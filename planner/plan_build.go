@@ -2,6 +2,7 @@ package planner
 
 import (
 	"fmt"
+	"maps"
 	"slices"
 	"strings"
 
@@ -279,6 +280,15 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 // node, which the renderer names where more than one expression uses it.
 func (pl *planner) measureValue(ctx *Context, m *Measure, c cell) Expr {
 	key := fmt.Sprintf("%p|%p|%d|%s|%s", ctx, m, c.removed, pl.filterKey(c.filters, true), pl.filterKey(c.filters, false))
+	if len(c.moved) > 0 {
+		keys := slices.Sorted(maps.Keys(c.moved))
+		for _, i := range keys {
+			key += fmt.Sprintf("|moved %d %s", i, pl.text(c.moved[i]))
+		}
+	}
+	if c.window != nil {
+		key += fmt.Sprintf("|window %p %p %s", c.window.ed, c.window.e.Rel, c.window.e.Column)
+	}
 	if x, ok := pl.computed[key]; ok {
 		return x
 	}
