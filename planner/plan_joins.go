@@ -111,27 +111,40 @@ func shortcut(links []*Link, read map[*Table]bool) []*Link {
 // rejects reports whether predicate p is false or NULL on every row where
 // the tables for which gone holds read NULL (their link found no match).
 func rejects(p Expr, gone func(*Table) bool) bool {
+	return (&nulls{gone: gone, derived: map[*Column]bool{}}).rejects(p)
+}
+
+// nulls answers rejects and nullOn for one gone, each derived column
+// once: a column that reads another twice (c2 = c1 + c1) would otherwise
+// be visited once per path, 2^n times for a chain of n.
+type nulls struct {
+	gone    func(*Table) bool
+	derived map[*Column]bool
+}
+
+func (n *nulls) rejects(p Expr) bool {
 	switch p := p.(type) {
 	case *BinOp:
 		switch p.Op {
 		case "and":
-			return rejects(p.L, gone) || rejects(p.R, gone)
+			return n.rejects(p.L) || n.rejects(p.R)
 		case "or":
-			return rejects(p.L, gone) && rejects(p.R, gone)
+			return n.rejects(p.L) && n.rejects(p.R)
 		}
 	case *UnOp:
 		if p.Op == "not" {
-			return nullOn(p.X, gone)
+			return n.nullOn(p.X)
 		}
 	case *IsNullExpr:
-		return p.Not && nullOn(p.X, gone)
+		return p.Not && n.nullOn(p.X)
 	}
-	return nullOn(p, gone)
+	return n.nullOn(p)
 }
 
 // nullOn reports whether e is NULL on every row where the tables for
 // which gone holds read NULL. It answers false when unsure.
-func nullOn(e Expr, gone func(*Table) bool) bool {
+func (n *nulls) nullOn(e Expr) bool {
+	gone := n.gone
 	switch e := e.(type) {
 	case *ColRef:
 		if gone(e.Col.Table) {
@@ -139,33 +152,41 @@ func nullOn(e Expr, gone func(*Table) bool) bool {
 			// SQL computes only where the row's link found a match.
 			return true
 		}
-		return e.Col.Derived != nil && nullOn(e.Col.Derived, gone)
+		if e.Col.Derived == nil {
+			return false
+		}
+		v, ok := n.derived[e.Col]
+		if !ok {
+			v = n.nullOn(e.Col.Derived)
+			n.derived[e.Col] = v
+		}
+		return v
 	case *Lit:
 		return e.T == TypeNull
 	case *BinOp:
 		if e.Op == "and" || e.Op == "or" {
 			// NULL and false is false; NULL or true is true.
-			return nullOn(e.L, gone) && nullOn(e.R, gone)
+			return n.nullOn(e.L) && n.nullOn(e.R)
 		}
 		// Arithmetic, comparisons and || are NULL when a side is.
-		return nullOn(e.L, gone) || nullOn(e.R, gone)
+		return n.nullOn(e.L) || n.nullOn(e.R)
 	case *UnOp:
-		return nullOn(e.X, gone)
+		return n.nullOn(e.X)
 	case *InExpr:
-		return nullOn(e.X, gone)
+		return n.nullOn(e.X)
 	case *Func:
 		switch e.Name {
 		case "coalesce", "least", "greatest":
 			// NULL only when every argument is (least and greatest skip
 			// NULL arguments).
 			for _, a := range e.Args {
-				if !nullOn(a, gone) {
+				if !n.nullOn(a) {
 					return false
 				}
 			}
 			return true
 		case "nullif", "abs", "round", "lower", "upper", "cast", "extract", "date_trunc":
-			return nullOn(e.Args[0], gone)
+			return n.nullOn(e.Args[0])
 		}
 	}
 	// is [not] null, case, and anything else: unsure.

@@ -17,7 +17,8 @@ import (
 // c0, and written out inline it would be 2^40 copies of it.
 func derivedChainModel(n int) string {
 	var b strings.Builder
-	b.WriteString("table t from \"t.csv\" {\n  key id\n  id integer\n  v integer\n  grp text\n  c0 = v\n")
+	b.WriteString("table g from \"g.csv\" {\n  key name\n  name text\n  label text\n}\n\n")
+	b.WriteString("table t from \"t.csv\" {\n  key id\n  id integer\n  v integer\n  grp text -> g.name\n  c0 = v\n")
 	for i := 1; i <= n; i++ {
 		fmt.Fprintf(&b, "  c%d = c%d + c%d\n", i, i-1, i-1)
 	}
@@ -29,17 +30,21 @@ func derivedChainModel(n int) string {
 // derived columns to small SQL (each column computed once per row and
 // read by name) and runs it on DuckDB and SQLite: the values must be
 // exactly 2^40 times the base, by group and in total, with a filter on the
-// deepest column too.
+// deepest column and a joined table (whose join the planner decides by
+// asking whether the filter rejects NULLs: once per column, too).
 func TestDerivedChainOncePerRow(t *testing.T) {
 	dir := t.TempDir()
 	model := filepath.Join(dir, "chain.roll")
 	if err := os.WriteFile(model, []byte(derivedChainModel(40)), 0o644); err != nil {
 		t.Fatal(err)
 	}
+	if err := os.WriteFile(filepath.Join(dir, "g.csv"), []byte("name,label\na,A\nb,B\n"), 0o644); err != nil {
+		t.Fatal(err)
+	}
 	if err := os.WriteFile(filepath.Join(dir, "t.csv"), []byte("id,v,grp\n1,1,a\n2,2,a\n3,3,b\n4,-5,b\n"), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	args := []string{model, "-m", "total,top", "-b", "t.grp", "--totals", "grand", "-w", "t.c40 > 0"}
+	args := []string{model, "-m", "total,top", "-b", "t.grp", "--totals", "grand", "-w", "t.c40 > 0 and g.label <> 'x'"}
 	for _, d := range []string{"duckdb", "postgres", "sqlite", "mysql", "sqlserver"} {
 		var out, errb bytes.Buffer
 		if code := Main(append([]string{"sql", "-d", d}, args...), nil, &out, &errb); code != 0 {
