@@ -42,7 +42,13 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 		if err != nil {
 			return "", err
 		}
-		rt, err := side(e.R)
+		right := e.R
+		if e.Op == "/" {
+			// Divide gives NULL on a zero divisor already: x / nullif(y, 0)
+			// need not say it twice.
+			right = nonZero(right)
+		}
+		rt, err := side(right)
 		if err != nil {
 			return "", err
 		}
@@ -134,6 +140,16 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 		return s, nil
 	}
 	return "", fmt.Errorf("internal error: cannot render %T", e)
+}
+
+// nonZero returns y for nullif(y, 0), and e otherwise.
+func nonZero(e planner.Expr) planner.Expr {
+	if f, ok := e.(*planner.Func); ok && f.Name == "nullif" && len(f.Args) == 2 {
+		if z, ok := f.Args[1].(*planner.Lit); ok && z.T != planner.TypeNull && z.T != planner.TypeText && z.Text == "0" && f.Args[0].Type() == f.T {
+			return f.Args[0]
+		}
+	}
+	return e
 }
 
 // pred renders e where a predicate is due, value where a value is due;
