@@ -2,6 +2,7 @@ package dialects
 
 import (
 	"fmt"
+	"slices"
 	"strconv"
 	"strings"
 
@@ -101,6 +102,11 @@ func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
 		}
 		conds = append(conds, eq)
 	}
+	for _, l := range s.Leaves {
+		if l.Func == "median" && windowMedians(r.d) {
+			return r.rangeMedians(ctx, rel, ends, rowsName, col, conds)
+		}
+	}
 	group := []string{a + "." + r.q(GroupingColumn)}
 	for _, k := range ctx.Keys {
 		group = append(group, a+"."+r.q(k.Name))
@@ -117,6 +123,70 @@ func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
 	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(sel, ", ")+"\n  FROM "+r.q(ends)+" AS "+a+
 		"\n  JOIN "+r.q(rowsName)+" AS "+x+" ON "+strings.Join(conds, "\n    AND ")+
 		"\n  GROUP BY "+strings.Join(group, ", "))
+	return nil
+}
+
+// rangeMedians finishes a range scan whose leaves include a median the
+// dialect computes with windows (render_median.go): the cells' rows (each
+// cell of ends joined to the rows in its date range, on conds) go to a CTE
+// of their own, numbered within each cell, and the cells CTE aggregates
+// them by cell.
+func (r *renderer) rangeMedians(ctx *planner.Context, rel *planner.Rel, ends, rowsName string, col func(string) string, conds []string) error {
+	s := rel.Scan
+	a, x := r.q("a"), r.q("x")
+	cols := []string{GroupingColumn}
+	sel := []string{a + "." + r.q(GroupingColumn) + " AS " + r.q(GroupingColumn)}
+	part := []string{r.q(GroupingColumn)}
+	for _, k := range ctx.Keys {
+		cols = append(cols, k.Name)
+		sel = append(sel, a+"."+r.q(k.Name)+" AS "+r.q(k.Name))
+		part = append(part, r.q(k.Name))
+	}
+	group := append([]string{}, part...)
+	var vals []rankedValue
+	var meds []*planner.Leaf
+	for _, l := range s.Leaves {
+		for _, in := range []*planner.Input{l.Arg, l.Filter} {
+			if in != nil && !slices.Contains(cols, col(in.Name)) {
+				cols = append(cols, col(in.Name))
+				sel = append(sel, x+"."+r.q(col(in.Name))+" AS "+r.q(col(in.Name)))
+			}
+		}
+		if l.Func == "median" {
+			v := r.q(col(l.Arg.Name))
+			if l.Filter != nil {
+				v = "CASE WHEN " + r.d.Truth(r.q(col(l.Filter.Name))) + " THEN " + v + " END"
+			}
+			vals = append(vals, rankedValue{name: l.Name, value: v})
+			meds = append(meds, l)
+		}
+	}
+	joined := r.cteName(rel.Name + "_range_rows")
+	r.addCTE(joined, "  SELECT "+strings.Join(sel, ", ")+"\n  FROM "+r.q(ends)+" AS "+a+
+		"\n  JOIN "+r.q(rowsName)+" AS "+x+" ON "+strings.Join(conds, "\n    AND "))
+	ranked, median, err := r.ranks(rel.Name, r.q(joined), cols, vals, [][]string{part})
+	if err != nil {
+		return err
+	}
+	out := append([]string{}, group...)
+	for _, l := range s.Leaves {
+		i := slices.Index(meds, l)
+		if i < 0 {
+			agg, err := r.leafAgg(l, "", col)
+			if err != nil {
+				return err
+			}
+			out = append(out, agg)
+			continue
+		}
+		m, err := median(i, 0)
+		if err != nil {
+			return err
+		}
+		out = append(out, m+" AS "+r.q(l.Name))
+	}
+	r.cte[rel] = r.cteName(rel.Name + "_cells")
+	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(out, ", ")+"\n  FROM "+r.q(ranked)+"\n  GROUP BY "+strings.Join(group, ", "))
 	return nil
 }
 
