@@ -265,7 +265,44 @@ func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, b
 		out = out.edit(ctx, r)
 	}
 	x := pl.compile(ctx, e.X, out)
-	return x, x != nil
+	if x == nil {
+		return nil, false
+	}
+	if nullOverNoRows(e.X, map[*Measure]bool{}) {
+		return x, true
+	}
+	// A cell without E (no row of X's table, or no date) has NULL, even
+	// where X itself is not NULL over no rows (a count, a coalesce):
+	// language.md, Time.
+	return &CaseExpr{Pos: ed.Pos, Whens: []WhenArm{{Cond: &IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: x}}, T: e.X.Type()}, true
+}
+
+// nullOverNoRows reports whether e is NULL whenever its aggregates see no
+// row: every aggregate is one that is NULL over no rows (not a count) and
+// nothing between them turns a NULL into a value (coalesce, case, is
+// null). Where it may not be, a window edit guards its value with E.
+func nullOverNoRows(e Expr, seen map[*Measure]bool) bool {
+	ok := true
+	Walk(e, func(x Expr) bool {
+		switch x := x.(type) {
+		case *Agg:
+			ok = ok && x.Func != "count"
+			return false
+		case *PerAgg, *CaseExpr, *IsNullExpr, *InExpr, *EditExpr:
+			ok = false
+		case *Func:
+			ok = ok && x.Name != "coalesce" && x.Name != "nullif"
+		case *BinOp:
+			ok = ok && x.Op != "and" && x.Op != "or"
+		case *MeasureRef:
+			if !seen[x.Measure] {
+				seen[x.Measure] = true
+				ok = ok && nullOverNoRows(x.Measure.Expr, seen)
+			}
+		}
+		return ok
+	})
+	return ok
 }
 
 // rangeRel finds or adds the relation of a window edit's scan of t in cell
