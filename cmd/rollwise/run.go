@@ -189,12 +189,25 @@ func rejected(engineName string, err error) error {
 func reportColumns(c *compiled) []report.Column {
 	var cols []report.Column
 	for i, g := range c.query.GroupNames {
-		cols = append(cols, report.Column{Name: g, Group: true, Type: c.query.Groups[i].Type})
+		col := c.query.Groups[i]
+		cols = append(cols, report.Column{Name: g, Group: true, Type: col.Type, Period: periodOf(col)})
 	}
 	for _, o := range c.plan.Outputs {
 		cols = append(cols, report.Column{Name: o.Name, Format: o.Measure.Format, Type: o.Expr.Type()})
 	}
 	return cols
+}
+
+// periodOf is the period whose starts a group column holds, when it is
+// derived as date_trunc(month|quarter|year, ...), or "".
+func periodOf(c *planner.Column) string {
+	if f, ok := c.Derived.(*planner.Func); ok && f.Name == "date_trunc" {
+		switch f.Unit {
+		case "month", "quarter", "year":
+			return f.Unit
+		}
+	}
+	return ""
 }
 
 // shape turns engine rows into report rows: group columns, measures, and

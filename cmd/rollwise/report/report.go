@@ -33,6 +33,11 @@ type Column struct {
 	// (TypeNull), Write shows a column as dates when all its time values
 	// fall on midnight UTC.
 	Type planner.Type
+	// Period is "month", "quarter" or "year" for a column whose values
+	// are known to be the starts of such periods (date_trunc): the table
+	// and markdown formats show 2024-01, 2024-Q1 or 2024; JSON and CSV
+	// keep the ISO date.
+	Period string
 }
 
 // Row is one result row.

@@ -54,6 +54,10 @@ func renderValue(v any, c Column, asDate bool) (rendered, error) {
 		s := strconv.FormatBool(x)
 		return rendered{cell: cell{json: s, raw: s, show: s}}, nil
 	case time.Time:
+		if label, ok := periodLabel(x, c.Period); ok {
+			s := x.Format(time.DateOnly)
+			return rendered{cell: cell{json: jsonString(s), raw: s, show: label}}, nil
+		}
 		if asDate {
 			s := x.Format(time.DateOnly)
 			return rendered{cell: cell{json: jsonString(s), raw: s, show: s}}, nil
@@ -62,6 +66,24 @@ func renderValue(v any, c Column, asDate bool) (rendered, error) {
 		return rendered{cell: cell{json: jsonString(s), raw: s, show: x.Format("2006-01-02 15:04:05.999999999")}}, nil
 	}
 	return rendered{}, fmt.Errorf("unsupported value type %T", v)
+}
+
+// periodLabel names the period that starts at t (midnight UTC on the
+// first day of a month, quarter or year): 2024-01, 2024-Q1, 2024. A value
+// that is no such start is shown in full.
+func periodLabel(t time.Time, period string) (string, bool) {
+	if t.Day() != 1 || t.Hour() != 0 || t.Minute() != 0 || t.Second() != 0 || t.Nanosecond() != 0 {
+		return "", false
+	}
+	switch {
+	case period == "month":
+		return t.Format("2006-01"), true
+	case period == "quarter" && (t.Month()-1)%3 == 0:
+		return fmt.Sprintf("%d-Q%d", t.Year(), (t.Month()-1)/3+1), true
+	case period == "year" && t.Month() == time.January:
+		return strconv.Itoa(t.Year()), true
+	}
+	return "", false
 }
 
 // normalize maps the accepted Go types onto the few renderValue handles.
