@@ -63,7 +63,7 @@ func runDocs(e *env, o *docsOptions) error {
 		}
 		return &exitError{code: exitInternal, err: err}
 	}
-	fmt.Fprintf(e.stderr, "%s: catalog of %s and %s, %s written; open %s/index.html\n", o.out,
+	fmt.Fprintf(e.stderr, "ok: %s: catalog of %s and %s, %s written; open %s/index.html\n", o.out,
 		report.Count(len(m.Measures), "measure"), report.Count(len(m.Tables), "table"), report.Count(len(files), "file"), o.out)
 	return nil
 }

@@ -96,7 +96,7 @@ func runViews(e *env, o *viewsOptions) error {
 			return &exitError{code: exitInternal, err: err}
 		}
 		if len(drifts) == 0 {
-			fmt.Fprintf(e.stderr, "%s is up to date: %s\n", o.check, report.Count(len(set.Views), "view"))
+			fmt.Fprintf(e.stderr, "ok: %s is up to date: %s\n", o.check, report.Count(len(set.Views), "view"))
 			return nil
 		}
 		for _, dr := range drifts {
@@ -112,7 +112,7 @@ func runViews(e *env, o *viewsOptions) error {
 		if err != nil {
 			return &exitError{code: exitInternal, err: err}
 		}
-		fmt.Fprintf(e.stderr, "%s: %s; %s written, %d unchanged, %d removed\n",
+		fmt.Fprintf(e.stderr, "ok: %s: %s; %s written, %d unchanged, %d removed\n",
 			o.out, report.Count(len(set.Views), "view"), report.Count(len(rep.Written), "file"), len(rep.Unchanged), len(rep.Removed))
 		for _, f := range rep.Foreign {
 			fmt.Fprintf(e.stderr, "note: %s was not written by rollwise; it is left alone, and --check reports it\n", f)
