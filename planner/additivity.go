@@ -62,21 +62,34 @@ func join(a, b valueKind) valueKind {
 }
 
 // rowKind is the additivity of row expression e.
-func rowKind(e Expr) valueKind {
+func rowKind(e Expr) valueKind { return rowKinds{}.of(e) }
+
+// rowKinds remembers the kind of each derived column met, so that a chain
+// of derived columns that read the one before twice is walked once per
+// column, not once per path (c2 = c1 + c1, c3 = c2 + c2, ...).
+type rowKinds map[*Column]valueKind
+
+func (m rowKinds) of(e Expr) valueKind {
 	switch e := e.(type) {
 	case nil, *Lit:
 		return valueKind{constant: true}
 	case *ColRef:
 		if e.Col.Derived != nil && e.Col.Additivity == Additive {
-			return rowKind(e.Col.Derived) // a derived column declared so keeps its declaration
+			// A derived column declared so keeps its declaration.
+			k, ok := m[e.Col]
+			if !ok {
+				k = m.of(e.Col.Derived)
+				m[e.Col] = k
+			}
+			return k
 		}
 		return valueKind{add: e.Col.Additivity, date: e.Col.SemiDate, from: e.Col}
 	case *UnOp:
 		if e.Op == "-" {
-			return rowKind(e.X)
+			return m.of(e.X)
 		}
 	case *BinOp:
-		l, r := rowKind(e.L), rowKind(e.R)
+		l, r := m.of(e.L), m.of(e.R)
 		switch e.Op {
 		case "+", "-":
 			return join(l, r)
@@ -99,13 +112,13 @@ func rowKind(e Expr) valueKind {
 		}
 		k := valueKind{constant: true}
 		for _, a := range args {
-			k = join(k, rowKind(a))
+			k = join(k, m.of(a))
 		}
 		return k
 	case *CaseExpr:
-		k := rowKind(e.Else)
+		k := m.of(e.Else)
 		for _, w := range e.Whens {
-			k = join(k, rowKind(w.Then))
+			k = join(k, m.of(w.Then))
 		}
 		return k
 	}
