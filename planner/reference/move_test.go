@@ -24,8 +24,8 @@ func TestMoveAndWeekStart(t *testing.T) {
 		s    step
 		want string
 	}{
-		{"2026-03-31", step{1, "month"}, "2026-04-30"}, // PostgreSQL 9.9.1
-		{"2026-03-31", step{2, "month"}, "2026-05-31"}, // PostgreSQL 9.9.1
+		{"2026-03-31", step{1, "month"}, "2026-04-30"},  // PostgreSQL 9.9.1
+		{"2026-03-31", step{2, "month"}, "2026-05-31"},  // PostgreSQL 9.9.1
 		{"2026-03-31", step{-1, "month"}, "2026-02-28"}, // language.md, Time
 		{"2024-02-29", step{1, "year"}, "2025-02-28"},
 		{"2024-02-29", step{4, "year"}, "2028-02-29"},
