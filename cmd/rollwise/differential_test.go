@@ -114,24 +114,32 @@ func TestDifferentialEditsAndPerGrain(t *testing.T) {
 	diffRun(t, casegen.DefaultOptions, nil)
 }
 
+// openCase writes a drawn case (c, or a case that embeds it: w) into a
+// folder of t's and opens it on DuckDB; the caller closes it.
+func openCase(t *testing.T, rt *rapid.T, w interface{ Write(string) error }, c *casegen.Case) *diffOpened {
+	dir, err := os.MkdirTemp(t.TempDir(), "case")
+	if err != nil {
+		rt.Fatal(err)
+	}
+	if err := w.Write(dir); err != nil {
+		rt.Fatal(err)
+	}
+	dc, err := diffOpen(dir)
+	if err != nil {
+		rt.Fatalf("%v\n\nthe case:\n%s", err, c)
+	}
+	return dc
+}
+
 // diffRun checks the property on DuckDB, or on the live engine when live
 // is set (each case's tables are loaded into its database).
 func diffRun(t *testing.T, o casegen.Options, live *livetest.Engine) *diffStats {
 	var st diffStats
 	rapid.Check(t, func(rt *rapid.T) {
 		c := casegen.Generator(o).Draw(rt, "case")
-		dir, err := os.MkdirTemp(t.TempDir(), "case")
-		if err != nil {
-			rt.Fatal(err)
-		}
-		if err := c.Write(dir); err != nil {
-			rt.Fatal(err)
-		}
-		dc, err := diffOpen(dir)
-		if err != nil {
-			rt.Fatalf("%v\n\nthe case:\n%s", err, c)
-		}
+		dc := openCase(t, rt, c, c)
 		defer dc.close()
+		var err error
 		tg := dc.duckdb()
 		if live != nil {
 			if tg, err = dc.loadInto(live); err != nil {

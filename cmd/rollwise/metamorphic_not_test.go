@@ -1,7 +1,6 @@
 package main
 
 import (
-	"os"
 	"strings"
 	"testing"
 
@@ -22,17 +21,7 @@ func TestMetamorphicNegatedFilters(t *testing.T) {
 	checked := 0
 	rapid.Check(t, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
-		dir, err := os.MkdirTemp(t.TempDir(), "case")
-		if err != nil {
-			rt.Fatal(err)
-		}
-		if err := c.Write(dir); err != nil {
-			rt.Fatal(err)
-		}
-		dc, err := diffOpen(dir)
-		if err != nil {
-			rt.Fatalf("%v\n%s", err, c)
-		}
+		dc := openCase(t, rt, c, c)
 		defer dc.close()
 		for _, q := range c.Queries {
 			if len(q.Filters) < 2 {

@@ -3,7 +3,6 @@ package main
 import (
 	"encoding/json"
 	"fmt"
-	"os"
 	"slices"
 	"strings"
 	"testing"
@@ -85,17 +84,7 @@ func TestMetamorphicPartition(t *testing.T) {
 	checked := 0
 	rapid.Check(t, func(rt *rapid.T) {
 		p := casegen.PartitionGenerator(casegen.DefaultOptions).Draw(rt, "case")
-		dir, err := os.MkdirTemp(t.TempDir(), "case")
-		if err != nil {
-			rt.Fatal(err)
-		}
-		if err := p.Write(dir); err != nil {
-			rt.Fatal(err)
-		}
-		dc, err := diffOpen(dir)
-		if err != nil {
-			rt.Fatalf("%v\n%s", err, p.Case)
-		}
+		dc := openCase(t, rt, p, p.Case)
 		defer dc.close()
 		var parts [][]map[string]any
 		for _, q := range p.Queries {
@@ -216,17 +205,7 @@ func TestMetamorphicTotals(t *testing.T) {
 	checked := 0
 	rapid.Check(t, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
-		dir, err := os.MkdirTemp(t.TempDir(), "case")
-		if err != nil {
-			rt.Fatal(err)
-		}
-		if err := c.Write(dir); err != nil {
-			rt.Fatal(err)
-		}
-		dc, err := diffOpen(dir)
-		if err != nil {
-			rt.Fatalf("%v\n%s", err, c)
-		}
+		dc := openCase(t, rt, c, c)
 		defer dc.close()
 		for _, q := range c.Queries {
 			if len(q.By) == 0 || q.Totals == "none" {
