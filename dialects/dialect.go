@@ -199,8 +199,8 @@ func castWith(d interface{ TypeName(planner.Type) string }, arg string, to plann
 // ignored (DuckDB's meaning: NULL only when every argument is NULL) on an
 // engine whose function returns NULL as soon as one argument is NULL:
 // each argument is replaced by the first non-NULL of it and the others,
-// which never changes the extreme. (The dbt-utils nullsafe_greatest macro
-// uses the same construction.)
+// which never changes the extreme (common practice: coalesce-wrapping the
+// arguments is the usual way to make greatest and least skip NULLs).
 func nullIgnoring(fn string, args []string) string {
 	if len(args) == 1 {
 		return args[0]
