@@ -3,10 +3,9 @@
 // functions) and the capabilities the renderer consults to pick a rewrite
 // or to refuse a construct with an error naming the dialect.
 //
-// The facts behind each dialect's rules are in
-// ../shared/design/dialects.md (section numbers are cited as "§N" beside
-// the rules), with the engines' own documents as sources; docs/dialects.md
-// in the project is the users' summary.
+// The facts behind each dialect's rules are in docs/engine-facts.md
+// (section numbers are cited as "§N" beside the rules), with the engines'
+// own documents as sources; docs/dialects.md is the users' summary.
 package dialects
 
 import (

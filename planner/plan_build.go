@@ -33,14 +33,14 @@ type planner struct {
 	// scans (a window edit's relation reads them on their own).
 	timeEnds map[*Rel]bool
 	// computed holds each measure's value compiled in a cell of a context
-	// (see measureValue); iterTables each measure's iteration tables.
+	// (see measureValue); iterTables the iteration tables found per measure.
 	computed   map[string]Expr
 	iterTables map[*Measure][]*Table
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
-// aggregates, each aggregate computed by a scan of its iteration table in
-// the measure's (possibly edited) cell, or by a per-grain sub-context.
+// aggregates, each computed in the (possibly edited) cell of its measure
+// by a scan of its iteration table, or by a per-grain sub-context.
 func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
 		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{},

@@ -17,9 +17,9 @@ Language Server Protocol starts it and talks to it on standard input and
 output. It checks the model as it is typed (the messages of rollwise check,
 with their positions and hints; the model is every .roll file of the
 document's folder), shows a measure's definition, type, description,
-iteration tables and additivity on hover, goes to where a measure, table or
-column is declared, finds its uses, and completes measure names and
-table.column after a dot.`,
+iteration tables and additivity on hover, goes to where a name is declared
+(of a measure, of a table, of a column), finds its uses, and completes
+measure names and table.column after a dot.`,
 		Args: cobra.NoArgs,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			return langserver.Serve(context.Background(), e.stdin, e.stdout, nil)

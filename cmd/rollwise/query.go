@@ -42,7 +42,7 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 
 // approximateUsage describes --approximate (run, sql, views).
 const approximateUsage = "compute approximately, and say so, what the dialect computes exactly only the slow way " +
-	"(a median on Trino, BigQuery or SQL Server by its approximate aggregate instead of window functions) or not at all (SQLite's upper and lower beyond ASCII)"
+	"(a median on Trino, BigQuery or SQL Server by its approximate aggregate instead of window functions) or cannot compute: SQLite's upper and lower beyond ASCII"
 
 // compiled is a planned and rendered query.
 type compiled struct {
