@@ -136,6 +136,16 @@ func (r *renderer) ranks(base, from string, cols []string, vals []rankedValue, p
 	}, nil
 }
 
+// leafRanked is a median leaf's value on a row of a CTE whose columns col
+// names: its argument, where its filter holds.
+func (r *renderer) leafRanked(l *planner.Leaf, col func(string) string) rankedValue {
+	v := r.q(col(l.Arg.Name))
+	if l.Filter != nil {
+		v = "CASE WHEN " + r.d.Truth(r.q(col(l.Filter.Name))) + " THEN " + v + " END"
+	}
+	return rankedValue{name: l.Name, value: v}
+}
+
 // scanMedians computes a scan's medians with windows where the dialect
 // needs it (windowMedians): it renders the ranks CTE over the scan's rows
 // (rowsName, whose columns col names) and returns the relation the cells
@@ -168,11 +178,7 @@ func (r *renderer) scanMedians(rel *planner.Rel, rowsName string, col func(strin
 	}
 	var vals []rankedValue
 	for _, l := range meds {
-		v := r.q(col(l.Arg.Name))
-		if l.Filter != nil {
-			v = "CASE WHEN " + r.d.Truth(r.q(col(l.Filter.Name))) + " THEN " + v + " END"
-		}
-		vals = append(vals, rankedValue{name: l.Name, value: v})
+		vals = append(vals, r.leafRanked(l, col))
 	}
 	var keys []string
 	for _, k := range s.Keys {

@@ -153,11 +153,7 @@ func (r *renderer) rangeMedians(ctx *planner.Context, rel *planner.Rel, ends, ro
 			}
 		}
 		if l.Func == "median" {
-			v := r.q(col(l.Arg.Name))
-			if l.Filter != nil {
-				v = "CASE WHEN " + r.d.Truth(r.q(col(l.Filter.Name))) + " THEN " + v + " END"
-			}
-			vals = append(vals, rankedValue{name: l.Name, value: v})
+			vals = append(vals, r.leafRanked(l, col))
 			meds = append(meds, l)
 		}
 	}

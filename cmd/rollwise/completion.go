@@ -1,8 +1,6 @@
 package main
 
 import (
-	"os"
-	"path/filepath"
 	"sort"
 	"strings"
 
@@ -91,11 +89,7 @@ func completeListItem(names []string, toComplete string) []string {
 func quietModel(args []string) *planner.Model {
 	var files []*grammar.File
 	for _, p := range args {
-		names := []string{p}
-		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
-			names, _ = filepath.Glob(filepath.Join(p, "*.roll"))
-		}
-		for _, name := range names {
+		for _, name := range modelFileNames(p) {
 			b, err := readModelFile(name)
 			if err != nil {
 				continue

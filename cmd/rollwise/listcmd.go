@@ -3,6 +3,7 @@ package main
 import (
 	"encoding/json"
 	"fmt"
+	"slices"
 	"strings"
 	"text/tabwriter"
 
@@ -29,7 +30,7 @@ func newListCmd(e *env) *cobra.Command {
   rollwise list garden.roll measures        # names, types, formats, descriptions
   rollwise list models/ tables --format json`,
 		RunE: func(cmd *cobra.Command, args []string) error {
-			for len(args) > 0 && isListKind(args[len(args)-1]) {
+			for len(args) > 0 && slices.Contains(listKinds, args[len(args)-1]) {
 				o.kinds = append([]string{args[len(args)-1]}, o.kinds...)
 				args = args[:len(args)-1]
 			}
@@ -48,15 +49,6 @@ func newListCmd(e *env) *cobra.Command {
 	}
 	onceStringVarP(cmd.Flags(), &o.format, "format", "", "table", "table or json")
 	return cmd
-}
-
-func isListKind(s string) bool {
-	for _, k := range listKinds {
-		if s == k {
-			return true
-		}
-	}
-	return false
 }
 
 // listed is what list shows, by kind; each entry is a JSON object.

@@ -21,13 +21,9 @@ func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) 
 	var files []*grammar.File
 	var diags grammar.Diagnostics
 	for _, p := range paths {
-		names := []string{p}
-		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
-			names, _ = filepath.Glob(filepath.Join(p, "*.roll"))
-			sort.Strings(names)
-			if len(names) == 0 {
-				return nil, nil, usageErr("folder %s holds no .roll files", p)
-			}
+		names := modelFileNames(p)
+		if len(names) == 0 {
+			return nil, nil, usageErr("folder %s holds no .roll files", p)
 		}
 		for _, name := range names {
 			b, err := readModelFile(name)
@@ -51,6 +47,17 @@ func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) 
 		return nil, src, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
 	}
 	return m, src, nil
+}
+
+// modelFileNames are the model files a path stands for: itself, or, for a
+// folder, the .roll files in it, sorted (none for a folder without).
+func modelFileNames(p string) []string {
+	if fi, err := os.Stat(p); err != nil || !fi.IsDir() {
+		return []string{p}
+	}
+	names, _ := filepath.Glob(filepath.Join(p, "*.roll"))
+	sort.Strings(names)
+	return names
 }
 
 // readModelFile reads one model file, at most grammar.MaxSourceBytes+1

@@ -2,6 +2,7 @@ package langserver
 
 import (
 	"fmt"
+	"slices"
 	"strings"
 	"unicode/utf8"
 
@@ -258,7 +259,7 @@ func iterationTables(m *planner.Measure) []string {
 		planner.Walk(e, func(x planner.Expr) bool {
 			switch x := x.(type) {
 			case *planner.Agg:
-				if x.Table != nil && !containsName(out, x.Table.Name) {
+				if x.Table != nil && !slices.Contains(out, x.Table.Name) {
 					out = append(out, x.Table.Name)
 				}
 			case *planner.MeasureRef:
@@ -272,15 +273,6 @@ func iterationTables(m *planner.Measure) []string {
 	}
 	walk(m.Expr)
 	return out
-}
-
-func containsName(list []string, s string) bool {
-	for _, x := range list {
-		if x == s {
-			return true
-		}
-	}
-	return false
 }
 
 // additive reports whether e is sums and counts joined by + and -, so

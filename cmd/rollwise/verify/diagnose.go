@@ -3,6 +3,7 @@ package verify
 import (
 	"context"
 	"fmt"
+	"slices"
 	"sort"
 	"strings"
 
@@ -370,25 +371,16 @@ func (p columnPair) String() string { return p.fan.String() + " = " + p.row.Stri
 func alsoMatched(t, u *planner.Table, l *planner.Link) [][]columnPair {
 	out := [][]columnPair{nil}
 	for _, cu := range u.Columns {
-		if !cu.Stored() || containsColumn(l.FromCols, cu) || containsColumn(u.Key, cu) {
+		if !cu.Stored() || slices.Contains(l.FromCols, cu) || slices.Contains(u.Key, cu) {
 			continue
 		}
 		ct := t.Column(cu.Name)
-		if ct == nil || !ct.Stored() || ct.Type != cu.Type || containsColumn(t.Key, ct) {
+		if ct == nil || !ct.Stored() || ct.Type != cu.Type || slices.Contains(t.Key, ct) {
 			continue
 		}
 		out = append(out, []columnPair{{fan: cu, row: ct}})
 	}
 	return out
-}
-
-func containsColumn(list []*planner.Column, c *planner.Column) bool {
-	for _, x := range list {
-		if x == c {
-			return true
-		}
-	}
-	return false
 }
 
 // weightColumn picks a column name t does not have.
