@@ -238,24 +238,7 @@ func TestLayeredModelLive(t *testing.T) {
 // target: under 100 ms and 1 MB of SQL).
 func BenchmarkLayered50(b *testing.B) {
 	const n = 5000
-	m, err := loadSynth(layeredModel(n, false))
-	if err != nil {
-		b.Fatal(err)
-	}
-	spec := layeredQuery(n, 50)
-	sql, err := planSQL(m, spec)
-	if err != nil {
-		b.Fatal(err)
-	}
-	b.ReportAllocs()
-	cpu := processCPU()
-	for b.Loop() {
-		if _, err := planSQL(m, spec); err != nil {
-			b.Fatal(err)
-		}
-	}
-	reportMS(b, processCPU()-cpu)
-	b.ReportMetric(float64(len(sql))/1024, "sql-KiB")
+	benchPlan(b, layeredModel(n, false), layeredQuery(n, 50))
 }
 
 // BenchmarkCheckLayered5000 parses and checks the 5,000-measure layered
