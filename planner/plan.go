@@ -305,6 +305,12 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 		return true
 	}
 	out := cell{removed: c.removed, moved: c.moved, window: c.window}
+	if c.window != nil && ed.Kind != EditUngroup && hit(c.window.ed.Col) {
+		// The window's date range is a constraint on D: an edit that
+		// removes what mentions D (drop, drop D, drop D's table, a pin on
+		// D) removes it too, as it does in the reference evaluator.
+		out.window = nil
+	}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
 		if hit(k.Col) {
