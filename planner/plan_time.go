@@ -268,11 +268,12 @@ func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, b
 	if x == nil {
 		return nil, false
 	}
-	if nullOverNoRows(e.X, map[*Measure]bool{}) {
+	if out.window != nil && nullOverNoRows(e.X, map[*Measure]bool{}) {
 		return x, true
 	}
 	// A cell without E (no row of X's table, or no date) has NULL, even
-	// where X itself is not NULL over no rows (a count, a coalesce):
+	// where X itself is not NULL over no rows (a count, a coalesce), or
+	// where a later edit removed the range and X reads other rows:
 	// language.md, Time.
 	return &CaseExpr{Pos: ed.Pos, Whens: []WhenArm{{Cond: &IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: x}}, T: e.X.Type()}, true
 }
