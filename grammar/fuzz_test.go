@@ -22,7 +22,7 @@ import (
 // skipped so that fuzzing can look past it; testdata/crashers holds the
 // minimal input of every crash found, run by TestKnownCrashers.
 func FuzzParse(f *testing.F) {
-	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/demo/*.roll"} {
+	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/internal/demo/*.roll"} {
 		paths, _ := filepath.Glob(pattern)
 		for _, p := range paths {
 			if b, err := os.ReadFile(p); err == nil {

@@ -21,7 +21,7 @@ import (
 //
 //	go test -run='^$' -fuzz='^FuzzCheckPlan$' -fuzztime=10m ./planner
 func FuzzCheckPlan(f *testing.F) {
-	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/demo/*.roll"} {
+	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/internal/demo/*.roll"} {
 		paths, _ := filepath.Glob(pattern)
 		for _, p := range paths {
 			if b, err := os.ReadFile(p); err == nil && len(b) < 8000 {

@@ -6,8 +6,8 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
-	"github.com/rollwise/rollwise/cmd/tpchgen/tpch"
+	"github.com/rollwise/rollwise/cmd/internal/tpch"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/planner"
 )
 

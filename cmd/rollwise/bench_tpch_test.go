@@ -12,7 +12,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/cmd/tpchgen/tpch"
+	"github.com/rollwise/rollwise/cmd/internal/tpch"
 )
 
 // Benchmarks of the SQL rollwise generates, on TPC-H data (scale factor 1

@@ -3,7 +3,7 @@ package main
 import (
 	"fmt"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"

@@ -4,7 +4,7 @@ import (
 	"context"
 	"fmt"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"

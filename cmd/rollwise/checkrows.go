@@ -7,7 +7,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/verify"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"

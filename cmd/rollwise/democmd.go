@@ -9,8 +9,8 @@ import (
 	"github.com/shopspring/decimal"
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/demo"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 )
 
 type demoOptions struct {

@@ -4,7 +4,7 @@ import (
 	"errors"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner"

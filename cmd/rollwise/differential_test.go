@@ -18,9 +18,9 @@ import (
 	"github.com/shopspring/decimal"
 	"pgregory.net/rapid"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"

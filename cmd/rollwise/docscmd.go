@@ -6,8 +6,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/catalog"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/catalog"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 )
 
 // docsOptions are the flags of `rollwise docs`.

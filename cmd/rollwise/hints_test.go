@@ -7,7 +7,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 )
 
 // runErr runs the CLI in-process and returns its exit code and stderr.

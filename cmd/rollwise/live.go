@@ -8,9 +8,9 @@ import (
 	"fmt"
 	"github.com/spf13/pflag"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
-	"github.com/rollwise/rollwise/cmd/rollwise/verify"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/planner"
 )
 

@@ -5,7 +5,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/langserver"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/langserver"
 )
 
 func newLSPCmd(e *env) *cobra.Command {

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/demo"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
 )
 
 // htmlPageOf runs `rollwise run ... --format html` and returns the page.

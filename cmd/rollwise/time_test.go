@@ -7,7 +7,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/demo"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
 	"github.com/rollwise/rollwise/planner"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/expect"

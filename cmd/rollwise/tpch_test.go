@@ -14,7 +14,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/cmd/tpchgen/tpch"
+	"github.com/rollwise/rollwise/cmd/internal/tpch"
 )
 
 // TPC-H as an outside check. The queries are those of the TPC Benchmark H

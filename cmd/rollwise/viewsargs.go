@@ -6,7 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/views"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 )
 
 // maxFileName is the longest file name, in bytes, that the usual file

@@ -7,8 +7,8 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/report"
-	"github.com/rollwise/rollwise/cmd/rollwise/views"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
 )
 

@@ -12,9 +12,9 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/demo"
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
-	"github.com/rollwise/rollwise/cmd/rollwise/views"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner"
 )

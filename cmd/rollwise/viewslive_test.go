@@ -20,7 +20,7 @@ import (
 	"github.com/shopspring/decimal"
 	_ "modernc.org/sqlite" // registers the "sqlite" driver
 
-	"github.com/rollwise/rollwise/cmd/rollwise/views"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner"
 )

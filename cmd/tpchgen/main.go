@@ -19,7 +19,7 @@ import (
 	"os/signal"
 	"time"
 
-	"github.com/rollwise/rollwise/cmd/tpchgen/tpch"
+	"github.com/rollwise/rollwise/cmd/internal/tpch"
 )
 
 func main() {

@@ -24,7 +24,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/planner"
 )
 

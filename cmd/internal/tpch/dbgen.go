@@ -108,7 +108,7 @@ func initGenerator() error {
 
 // errLayout says the go-tpc version differs from the one this file was
 // written against.
-var errLayout = errors.New("tpch: github.com/pingcap/go-tpc/tpch/dbgen does not hold the state this package expects (written for v1.0.7); check cmd/tpchgen/tpch/dbgen.go against the new version")
+var errLayout = errors.New("tpch: github.com/pingcap/go-tpc/tpch/dbgen does not hold the state this package expects (written for v1.0.7); check cmd/internal/tpch/dbgen.go against the new version")
 
 func checkLayout() error {
 	if len(dbgenTables) != len(expectedTables) {

@@ -18,7 +18,7 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner"
 )

@@ -10,7 +10,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/drawing"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/drawing"
 )
 
 // HTML limits. The html format needs every row before it writes (a chart

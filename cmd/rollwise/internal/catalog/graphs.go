@@ -3,7 +3,7 @@ package catalog
 import (
 	"fmt"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/drawing"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/drawing"
 	"github.com/rollwise/rollwise/planner"
 )
 

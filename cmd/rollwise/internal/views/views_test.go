@@ -15,7 +15,7 @@ import (
 // the model change.
 func shopSource(t *testing.T) string {
 	t.Helper()
-	b, err := os.ReadFile("../../../testdata/views/shop.roll")
+	b, err := os.ReadFile("../../../../testdata/views/shop.roll")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -6,7 +6,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/drawing"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/drawing"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner"
 )

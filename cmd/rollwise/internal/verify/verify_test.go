@@ -159,7 +159,7 @@ func TestMapColumns(t *testing.T) {
 func loadShop(t *testing.T) *planner.Model {
 	t.Helper()
 	var files []*grammar.File
-	for _, name := range []string{"../../../testdata/exec/shop.roll", "../../../testdata/exec/edits.roll", "../../../testdata/verify/extra.roll"} {
+	for _, name := range []string{"../../../../testdata/exec/shop.roll", "../../../../testdata/exec/edits.roll", "../../../../testdata/verify/extra.roll"} {
 		b, err := os.ReadFile(name)
 		if err != nil {
 			t.Fatal(err)
