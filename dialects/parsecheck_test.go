@@ -1,4 +1,4 @@
-package main
+package dialects_test
 
 import (
 	"os"
@@ -12,7 +12,7 @@ import (
 // parseCheckDir holds the Node script that parses the golden SQL of Spark
 // SQL and Trino with the engines' grammars (the npm package dt-sql-parser,
 // pinned in its package-lock.json).
-const parseCheckDir = "../../testdata/dialects/parsecheck"
+const parseCheckDir = root + "testdata/dialects/parsecheck"
 
 // Every golden statement for Spark SQL and Trino parses with the grammar
 // dt-sql-parser keeps for that engine (DTStack's ANTLR grammars, derived
