@@ -5,7 +5,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // approximator is implemented by dialects with an approximate median.
@@ -17,7 +17,7 @@ type approximator interface {
 // function they can only approximate: it returns the approximate spelling
 // and a note that says what is approximate.
 type callApproximator interface {
-	approxCall(name string, args []string, types []planner.Type) (sql, note string, ok bool)
+	approxCall(name string, args []string, types []model.Type) (sql, note string, ok bool)
 }
 
 // Approximate is a dialect allowed to answer approximately what it cannot
@@ -67,7 +67,7 @@ func (a *Approximate) Agg(fn string, distinct bool, arg string) (string, error) 
 }
 
 // Call spells a function the engine refuses approximately, if it can.
-func (a *Approximate) Call(name string, args []string, types []planner.Type) (string, error) {
+func (a *Approximate) Call(name string, args []string, types []model.Type) (string, error) {
 	s, err := a.Dialect.Call(name, args, types)
 	var ue *UnsupportedError
 	if ap, ok := a.Dialect.(callApproximator); ok && errors.As(err, &ue) {

@@ -5,7 +5,7 @@ import (
 	"strings"
 	"unicode"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // bigquery is BigQuery (GoogleSQL).
@@ -86,28 +86,28 @@ func (bigquery) String(s string) string { return bqEscape(s, '\'') }
 // is the civil date and time, its TIMESTAMP an instant.
 func (bigquery) Timestamp(s string) string { return "DATETIME '" + s + "'" }
 
-func (bigquery) TypeName(t planner.Type) string {
+func (bigquery) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "INT64"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		// NUMERIC: 38 digits, 9 after the point (zetasql data-types).
 		return "NUMERIC"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "FLOAT64"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "DATETIME"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOL"
 	}
 	return "STRING"
 }
 
-func (d bigquery) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d bigquery) ColumnType(t model.Type) string { return d.TypeName(t) }
 
-func (d bigquery) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d bigquery) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 // Agg: avg of a NUMERIC is a NUMERIC, so the inputs of avg and the
 // statistics are made FLOAT64, as DuckDB computes them
@@ -142,12 +142,12 @@ func (bigquery) Divide(l, r string) string {
 // DateTrunc: the part comes second, unquoted (§9); DATETIME values use
 // DATETIME_TRUNC; WEEK starts on Sunday, ISOWEEK on Monday as in DuckDB
 // (zetasql date_functions.md#date_trunc).
-func (bigquery) DateTrunc(unit, arg string, t planner.Type) string {
+func (bigquery) DateTrunc(unit, arg string, t model.Type) string {
 	part := strings.ToUpper(unit)
 	if unit == "week" {
 		part = "ISOWEEK"
 	}
-	if t == planner.TypeTimestamp {
+	if t == model.TypeTimestamp {
 		return "DATETIME_TRUNC(" + arg + ", " + part + ")"
 	}
 	return "DATE_TRUNC(" + arg + ", " + part + ")"
@@ -165,7 +165,7 @@ func (bigquery) Extract(unit, arg string) string {
 // Call: GREATEST and LEAST return NULL when an argument is NULL
 // (zetasql mathematical_functions.md), so NULLs are stepped over as
 // DuckDB does.
-func (bigquery) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (bigquery) Call(name string, args []string, _ []model.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
 		return nullIgnoring(strings.ToUpper(name), args), nil

@@ -6,7 +6,7 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // This file is the DDL layer: how each engine creates a view so that
@@ -94,7 +94,7 @@ func QualifiedName(d Dialect, parts []string) string {
 // RenderView renders a plan as the query of a view: the statement Render
 // prints, without its final ORDER BY where the dialect allows none in a
 // view (the rows are the same; their order is then up to the reader).
-func RenderView(p *planner.Plan, d Dialect) (string, error) {
+func RenderView(p *plan.Plan, d Dialect) (string, error) {
 	ddl, err := ViewDDLOf(d)
 	if err != nil {
 		return "", err

@@ -6,7 +6,8 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // renamed is DuckDB's spelling under another engine's name, to see which
@@ -50,13 +51,13 @@ measure units = sum(sales.qty)
 view by_area = units by sales.area with totals
 `
 
-func loadDDLModel(t *testing.T, src string) *planner.Model {
+func loadDDLModel(t *testing.T, src string) *model.Model {
 	t.Helper()
 	f, d := grammar.Parse("m.roll", src)
 	if d.HasErrors() {
 		t.Fatalf("parse: %v", d)
 	}
-	m, d := planner.Load([]*grammar.File{f})
+	m, d := model.Load([]*grammar.File{f})
 	if d.HasErrors() {
 		t.Fatalf("load: %v", d)
 	}
@@ -168,7 +169,7 @@ func TestSQLServerLiteralsHaveNoBatchLines(t *testing.T) {
 // and loses exactly that clause where it does not.
 func TestRenderViewOrderBy(t *testing.T) {
 	m := loadDDLModel(t, ddlModel)
-	p, d := planner.NewPlan(m.ViewQuery(m.Views[0]))
+	p, d := plan.NewPlan(m.ViewQuery(m.Views[0]))
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
@@ -222,8 +223,8 @@ FROM "shop"."sales" AS "sales"
 func TestRenderRowsRefusesUnreachable(t *testing.T) {
 	m := loadDDLModel(t, ddlModel)
 	sales := m.Table("sales")
-	sales.Columns = append(sales.Columns, &planner.Column{Table: sales, Name: "odd", Type: planner.TypeInteger,
-		Derived: &planner.ColRef{Col: m.Table("lonely").Column("id")}})
+	sales.Columns = append(sales.Columns, &model.Column{Table: sales, Name: "odd", Type: model.TypeInteger,
+		Derived: &model.ColRef{Col: m.Table("lonely").Column("id")}})
 	_, err := RenderRows(sales, duckdb{})
 	if err == nil || !strings.Contains(err.Error(), "sales.odd") || !strings.Contains(err.Error(), "lonely") {
 		t.Fatalf("want an error naming sales.odd and lonely, got %v", err)

@@ -13,7 +13,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Caps are what an engine can do, as data.
@@ -65,11 +65,11 @@ type Dialect interface {
 	// Bool renders the literal true or false.
 	Bool(v bool) string
 	// TypeName is the SQL type for casts.
-	TypeName(t planner.Type) string
+	TypeName(t model.Type) string
 	// ColumnType is the SQL type of a stored column in CREATE TABLE.
-	ColumnType(t planner.Type) string
+	ColumnType(t model.Type) string
 	// Cast converts an already rendered value of type from to type to.
-	Cast(arg string, from, to planner.Type) string
+	Cast(arg string, from, to model.Type) string
 	// Agg spells an aggregate call over an already rendered argument
 	// ("" for count(*)). It refuses, with an *UnsupportedError, an
 	// aggregate the engine cannot compute exactly.
@@ -77,7 +77,7 @@ type Dialect interface {
 	// Divide spells fractional division that gives NULL on a zero divisor.
 	Divide(l, r string) string
 	// DateTrunc and Extract spell the date functions.
-	DateTrunc(unit, arg string, t planner.Type) string
+	DateTrunc(unit, arg string, t model.Type) string
 	Extract(unit, arg string) string
 	// BitAnd spells a & b on integers.
 	BitAnd(a, b string) string
@@ -89,7 +89,7 @@ type Dialect interface {
 	// abs, round, least, greatest, lower, upper) with DuckDB's meaning;
 	// types are the arguments' types. It refuses, with an
 	// *UnsupportedError, a function the engine cannot compute exactly.
-	Call(name string, args []string, types []planner.Type) (string, error)
+	Call(name string, args []string, types []model.Type) (string, error)
 	// GroupingID spells the grouping id of quoted group keys: a bit mask
 	// of the rolled-up keys, the last key the lowest bit.
 	GroupingID(keys []string) string
@@ -181,7 +181,7 @@ func (ansi) Truth(value string) string       { return value }
 
 // Call spells the scalar functions as DuckDB names them; dialects whose
 // functions differ in name or in meaning override it.
-func (ansi) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (ansi) Call(name string, args []string, _ []model.Type) (string, error) {
 	return plainCall(name, args), nil
 }
 
@@ -190,7 +190,7 @@ func plainCall(name string, args []string) string {
 }
 
 // castWith is CAST(arg AS type), the cast most dialects spell.
-func castWith(d interface{ TypeName(planner.Type) string }, arg string, to planner.Type) string {
+func castWith(d interface{ TypeName(model.Type) string }, arg string, to model.Type) string {
 	return "CAST(" + arg + " AS " + d.TypeName(to) + ")"
 }
 

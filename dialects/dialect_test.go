@@ -5,7 +5,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // spelling is one dialect's expected spelling of each construct; the
@@ -116,7 +116,7 @@ func aggOrError(d Dialect, fn string) string {
 	return s
 }
 
-func callOrError(d Dialect, name string, args []string, types []planner.Type) string {
+func callOrError(d Dialect, name string, args []string, types []model.Type) string {
 	s, err := d.Call(name, args, types)
 	if err != nil {
 		return "error: " + err.Error()
@@ -140,12 +140,12 @@ func TestSpellings(t *testing.T) {
 			ident: d.Ident(`a"b`), str: d.String(`it's \ ok`), date: d.Date("2026-03-01"), ts: d.Timestamp("2026-03-01 10:00:00"),
 			divide: d.Divide("x", "y"), stddev: aggOrError(d, "stddev"), variance: aggOrError(d, "variance"),
 			avg: aggOrError(d, "avg"), median: aggOrError(d, "median"),
-			truncMonth: d.DateTrunc("month", "d", planner.TypeDate), truncWeekTS: d.DateTrunc("week", "d", planner.TypeTimestamp),
+			truncMonth: d.DateTrunc("month", "d", model.TypeDate), truncWeekTS: d.DateTrunc("week", "d", model.TypeTimestamp),
 			extractWeek: d.Extract("week", "d"), bitAnd: d.BitAnd("g", "1"), nullSafe: d.NullSafeEqual("a", "b"),
 			concat: d.Concat("a", "b"), grouping2: d.GroupingID([]string{d.Ident("a"), d.Ident("b")}),
-			greatest2:    callOrError(d, "greatest", []string{"a", "b"}, []planner.Type{planner.TypeInteger, planner.TypeInteger}),
-			roundFloat:   callOrError(d, "round", []string{"x"}, []planner.Type{planner.TypeFloat}),
-			castFloatInt: d.Cast("x", planner.TypeFloat, planner.TypeInteger),
+			greatest2:    callOrError(d, "greatest", []string{"a", "b"}, []model.Type{model.TypeInteger, model.TypeInteger}),
+			roundFloat:   callOrError(d, "round", []string{"x"}, []model.Type{model.TypeFloat}),
+			castFloatInt: d.Cast("x", model.TypeFloat, model.TypeInteger),
 			count:        aggOrError(d, "count"), limit: top + "|" + tail,
 		}
 		if got != w {

@@ -1,6 +1,6 @@
 package dialects
 
-import "github.com/rollwise/rollwise/planner"
+import "github.com/rollwise/rollwise/planner/model"
 
 // duckdb is the embedded engine's dialect, and the reference meaning of
 // every construct: the other dialects reproduce DuckDB's results.
@@ -13,27 +13,27 @@ func (duckdb) Caps() Caps {
 		SampleStats: true, NullsLast: true, DistinctWindow: true, PredicateValues: true, FullOuterJoin: true}
 }
 
-func (duckdb) TypeName(t planner.Type) string {
+func (duckdb) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "VARCHAR"
 }
 
-func (d duckdb) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d duckdb) ColumnType(t model.Type) string { return d.TypeName(t) }
 
-func (d duckdb) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d duckdb) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 func (duckdb) Agg(fn string, distinct bool, arg string) (string, error) {
 	switch {
@@ -58,9 +58,9 @@ func (duckdb) Agg(fn string, distinct bool, arg string) (string, error) {
 	return fn + "(" + arg + ")", nil
 }
 
-func (duckdb) DateTrunc(unit, arg string, t planner.Type) string {
+func (duckdb) DateTrunc(unit, arg string, t model.Type) string {
 	s := "date_trunc('" + unit + "', " + arg + ")"
-	if t == planner.TypeDate {
+	if t == model.TypeDate {
 		return "CAST(" + s + " AS DATE)"
 	}
 	return s

@@ -15,7 +15,8 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 var update = flag.Bool("update", false, "rewrite the golden SQL files (read the diff first)")
@@ -78,7 +79,7 @@ func goldenCases(t *testing.T) []goldenCase {
 
 // loadModel parses and resolves model files (paths from the repository's
 // root), as `rollwise sql` loads them.
-func loadModel(t *testing.T, paths []string) *planner.Model {
+func loadModel(t *testing.T, paths []string) *model.Model {
 	t.Helper()
 	var files []*grammar.File
 	for _, p := range paths {
@@ -92,7 +93,7 @@ func loadModel(t *testing.T, paths []string) *planner.Model {
 		}
 		files = append(files, f)
 	}
-	m, diags := planner.Load(files)
+	m, diags := model.Load(files)
 	if diags.HasErrors() {
 		t.Fatalf("%v: %v", paths, diags.Errors()[0])
 	}
@@ -101,8 +102,8 @@ func loadModel(t *testing.T, paths []string) *planner.Model {
 
 // casePlan reads a case's arguments as `rollwise sql` reads its flags
 // (-m and -b are lists, repeated -w combine with and) and plans the query.
-func casePlan(m *planner.Model, args []string) (*planner.Plan, error) {
-	var spec planner.QuerySpec
+func casePlan(m *model.Model, args []string) (*plan.Plan, error) {
+	var spec model.QuerySpec
 	var wheres []string
 	view := ""
 	for i := 0; i < len(args); i += 2 {
@@ -112,9 +113,9 @@ func casePlan(m *planner.Model, args []string) (*planner.Plan, error) {
 		v := args[i+1]
 		switch args[i] {
 		case "-m", "--measures":
-			spec.Measures = append(spec.Measures, planner.SplitList(v)...)
+			spec.Measures = append(spec.Measures, model.SplitList(v)...)
 		case "-b", "--by":
-			spec.By = append(spec.By, planner.SplitList(v)...)
+			spec.By = append(spec.By, model.SplitList(v)...)
 		case "-w", "--where":
 			wheres = append(wheres, v)
 		case "--totals":
@@ -137,7 +138,7 @@ func casePlan(m *planner.Model, args []string) (*planner.Plan, error) {
 	if len(wheres) > 1 {
 		spec.Where = "(" + spec.Where + ")"
 	}
-	var q *planner.Query
+	var q *model.Query
 	var diags grammar.Diagnostics
 	if view != "" {
 		for _, v := range m.Views {
@@ -148,14 +149,14 @@ func casePlan(m *planner.Model, args []string) (*planner.Plan, error) {
 		if q == nil {
 			return nil, fmt.Errorf("no view %s", view)
 		}
-		diags = q.Override(planner.QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit})
+		diags = q.Override(model.QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit})
 	} else {
 		q, diags = m.NewQuery(spec)
 	}
 	if diags.HasErrors() {
 		return nil, diags.Errors()[0]
 	}
-	p, diags := planner.NewPlan(q)
+	p, diags := plan.NewPlan(q)
 	if diags.HasErrors() {
 		return nil, diags.Errors()[0]
 	}
@@ -163,7 +164,7 @@ func casePlan(m *planner.Model, args []string) (*planner.Plan, error) {
 }
 
 func TestDialectGoldenSQL(t *testing.T) {
-	models := map[string]*planner.Model{}
+	models := map[string]*model.Model{}
 	for _, c := range goldenCases(t) {
 		key := strings.Join(c.models, " ")
 		if models[key] == nil {

@@ -3,7 +3,7 @@ package dialects
 import (
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // mysql is MySQL 8 and MariaDB 10.5 or later (checked live against
@@ -43,17 +43,17 @@ func (mysql) Bool(v bool) string        { return ansi{}.Bool(v) }
 
 // TypeName names CAST targets, which differ from column types in MySQL:
 // SIGNED for integers, CHAR for text, DOUBLE (MySQL 8.0.17+, MariaDB).
-func (mysql) TypeName(t planner.Type) string {
+func (mysql) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger, planner.TypeBoolean:
+	case model.TypeInteger, model.TypeBoolean:
 		return "SIGNED"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "DATETIME(6)"
 	}
 	return "CHAR"
@@ -64,19 +64,19 @@ func (mysql) TypeName(t planner.Type) string {
 // ones trailing spaces. utf8mb4_bin is the binary collation both MySQL and
 // MariaDB have; MariaDB's utf8mb4_nopad_bin (and MySQL's utf8mb4_0900_bin)
 // also keep trailing spaces significant; the loader picks one by server.
-func (mysql) ColumnType(t planner.Type) string {
+func (mysql) ColumnType(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38,6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "DATETIME(6)"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "TEXT CHARACTER SET utf8mb4 COLLATE utf8mb4_bin"
@@ -84,7 +84,7 @@ func (mysql) ColumnType(t planner.Type) string {
 
 // Cast: a double becomes an integer rounding half to even and a decimal
 // half away from zero, as in DuckDB (checked), so the plain CAST is right.
-func (d mysql) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d mysql) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 // Agg: avg of integers and decimals is a DECIMAL with 4 more digits
 // (div_precision_increment, §3), so the input is made a double, as DuckDB
@@ -113,7 +113,7 @@ func (mysql) Divide(l, r string) string {
 
 // DateTrunc: MySQL has no date_trunc (§9). WEEKDAY is 0 on Monday, so
 // weeks start on Monday as in DuckDB.
-func (mysql) DateTrunc(unit, arg string, t planner.Type) string {
+func (mysql) DateTrunc(unit, arg string, t model.Type) string {
 	d := "CAST(" + arg + " AS DATE)"
 	var s string
 	switch unit {
@@ -128,7 +128,7 @@ func (mysql) DateTrunc(unit, arg string, t planner.Type) string {
 	default:
 		s = "MAKEDATE(YEAR(" + arg + "), 1)"
 	}
-	if t == planner.TypeTimestamp {
+	if t == model.TypeTimestamp {
 		return "CAST(" + s + " AS DATETIME(6))"
 	}
 	return s
@@ -157,12 +157,12 @@ func (mysql) Concat(a, b string) string { return "CONCAT(" + a + ", " + b + ")" 
 // even (checked: ROUND(2.5e0) = 2) while DECIMAL rounds half away from
 // zero, as DuckDB, so a double is rounded as a DECIMAL(65, 30) where it
 // fits (a double of 1e30 or more has no fraction to round).
-func (mysql) Call(name string, args []string, types []planner.Type) (string, error) {
+func (mysql) Call(name string, args []string, types []model.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
 		return nullIgnoring(strings.ToUpper(name), args), nil
 	case "round":
-		if len(types) > 0 && types[0] == planner.TypeFloat {
+		if len(types) > 0 && types[0] == model.TypeFloat {
 			x := args[0]
 			a := append([]string{"CAST(" + x + " AS DECIMAL(65, 30))"}, args[1:]...)
 			return "CASE WHEN ABS(" + x + ") < 1e30 THEN CAST(ROUND(" + strings.Join(a, ", ") +

@@ -3,7 +3,7 @@ package dialects
 import (
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // postgres is PostgreSQL (checked live against PostgreSQL 15).
@@ -32,30 +32,30 @@ func (postgres) String(s string) string {
 	return "'" + q + "'"
 }
 
-func (postgres) TypeName(t planner.Type) string {
+func (postgres) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "NUMERIC(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE PRECISION"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "TEXT"
 }
 
-func (d postgres) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d postgres) ColumnType(t model.Type) string { return d.TypeName(t) }
 
 // Cast: a double is cast to bigint rounding half to even, as DuckDB does,
 // and a numeric rounding half away from zero, as DuckDB does for decimals
 // (both checked on the engines), so the plain CAST is right.
-func (d postgres) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d postgres) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 // Agg casts the inputs of avg and the statistics to double precision:
 // PostgreSQL's avg and stddev_samp of integers and numerics return
@@ -86,8 +86,8 @@ func (postgres) Divide(l, r string) string {
 // DateTrunc: date_trunc of a date returns a timestamp with time zone
 // (checked), which depends on the session's time zone, so the date is
 // made a timestamp first and the result a date again.
-func (postgres) DateTrunc(unit, arg string, t planner.Type) string {
-	if t == planner.TypeDate {
+func (postgres) DateTrunc(unit, arg string, t model.Type) string {
+	if t == model.TypeDate {
 		return "CAST(date_trunc('" + unit + "', CAST(" + arg + " AS TIMESTAMP)) AS DATE)"
 	}
 	return "date_trunc('" + unit + "', " + arg + ")"
@@ -104,8 +104,8 @@ func (postgres) Extract(unit, arg string) string {
 // form, while DuckDB rounds half away from zero; numeric's round does, so
 // a float is rounded as numeric. greatest and least ignore NULLs as in
 // DuckDB (functions-conditional).
-func (postgres) Call(name string, args []string, types []planner.Type) (string, error) {
-	if name == "round" && len(types) > 0 && types[0] == planner.TypeFloat {
+func (postgres) Call(name string, args []string, types []model.Type) (string, error) {
+	if name == "round" && len(types) > 0 && types[0] == model.TypeFloat {
 		a := append([]string{"CAST(" + args[0] + " AS NUMERIC)"}, args[1:]...)
 		return "CAST(round(" + strings.Join(a, ", ") + ") AS DOUBLE PRECISION)", nil
 	}

@@ -5,7 +5,8 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // GroupingColumn is the name of the result column that tells total rows
@@ -14,10 +15,10 @@ import (
 const GroupingColumn = "grouping_id"
 
 // Render prints a plan as one SQL statement for the dialect.
-func Render(p *planner.Plan, d Dialect) (string, error) {
-	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*planner.Rel]string{}, keyRel: map[*planner.Context]string{},
-		froms: map[*planner.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{},
-		derived: map[*planner.Table]*derivedRel{}}
+func Render(p *plan.Plan, d Dialect) (string, error) {
+	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*plan.Rel]string{}, keyRel: map[*plan.Context]string{},
+		froms: map[*plan.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{},
+		derived: map[*model.Table]*derivedRel{}}
 	spelled := map[string]string{}
 	for _, o := range p.Outputs {
 		spelled[o.Name] = o.Name
@@ -29,22 +30,22 @@ func Render(p *planner.Plan, d Dialect) (string, error) {
 }
 
 type renderer struct {
-	p     *planner.Plan
+	p     *plan.Plan
 	d     Dialect
 	names map[string]bool
 	ctes  []string
 	// cte names the CTE holding each relation's cells; keyRel the CTE
 	// holding each context's rows.
-	cte    map[*planner.Rel]string
-	keyRel map[*planner.Context]string
+	cte    map[*plan.Rel]string
+	keyRel map[*plan.Context]string
 	// froms holds each context's FROM clause, built once its CTEs are.
-	froms map[*planner.Context]fromClause
+	froms map[*plan.Context]fromClause
 	// ctx is the context whose expressions are being rendered.
-	ctx *planner.Context
+	ctx *plan.Context
 	// iter is the iteration table of the scan being rendered; found are
 	// the tables its inner joins reach, which every row finds.
-	iter  *planner.Table
-	found map[*planner.Table]bool
+	iter  *model.Table
+	found map[*model.Table]bool
 	// rename spells key columns for dialects that need it (ColumnNamer).
 	rename map[string]string
 	// rows holds the rows CTEs of each FROM clause (see rowsOf).
@@ -53,8 +54,8 @@ type renderer struct {
 	layer *layering
 	// derived holds each table's CTE of shared derived columns (nil when
 	// it has none); useDerived those the scan being rendered reads.
-	derived    map[*planner.Table]*derivedRel
-	useDerived map[*planner.Table]*derivedRel
+	derived    map[*model.Table]*derivedRel
+	useDerived map[*model.Table]*derivedRel
 }
 
 func (r *renderer) q(name string) string {
@@ -75,7 +76,7 @@ type ColumnNamer interface {
 // plants__family on BigQuery) are refused: the SQL could not tell them
 // apart, nor a key spelled as a measure is named. spelled maps each
 // spelling to the name it stands for.
-func (r *renderer) renameKeys(ctx *planner.Context, spelled map[string]string) error {
+func (r *renderer) renameKeys(ctx *plan.Context, spelled map[string]string) error {
 	cn, ok := r.d.(ColumnNamer)
 	if !ok {
 		return nil
@@ -136,7 +137,7 @@ func (r *renderer) render() (string, error) {
 		return "", err
 	}
 	r.ctx = root
-	var exprs []planner.Expr
+	var exprs []model.Expr
 	var names []string
 	for _, o := range r.p.Outputs {
 		exprs = append(exprs, o.Expr)
@@ -173,8 +174,8 @@ func (r *renderer) render() (string, error) {
 
 // context renders the CTEs of every relation of ctx, and of its key
 // relation.
-func (r *renderer) context(ctx *planner.Context) error {
-	var ranges []*planner.Rel
+func (r *renderer) context(ctx *plan.Context) error {
+	var ranges []*plan.Rel
 	for _, rel := range ctx.Rels {
 		var err error
 		switch {
@@ -232,13 +233,13 @@ type fromClause struct {
 
 // from is ctx's FROM clause (and whether it is single), as context built
 // it: every expression of ctx asks for it.
-func (r *renderer) from(ctx *planner.Context) (string, bool) {
+func (r *renderer) from(ctx *plan.Context) (string, bool) {
 	f := r.froms[ctx]
 	return f.sql, f.single
 }
 
 // joinRels joins every relation of ctx to its key relation.
-func (r *renderer) joinRels(ctx *planner.Context) fromClause {
+func (r *renderer) joinRels(ctx *plan.Context) fromClause {
 	key := r.q(r.keyRel[ctx])
 	from := key
 	joined := 0
@@ -255,7 +256,7 @@ func (r *renderer) joinRels(ctx *planner.Context) fromClause {
 
 // joinOn is the condition that joins rel's cells to ctx's rows (key is
 // the quoted key relation).
-func (r *renderer) joinOn(ctx *planner.Context, key string, rel *planner.Rel) string {
+func (r *renderer) joinOn(ctx *plan.Context, key string, rel *plan.Rel) string {
 	c := r.q(r.cte[rel])
 	var conds []string
 	if len(rel.Sets) > 1 {
@@ -272,7 +273,7 @@ func (r *renderer) joinOn(ctx *planner.Context, key string, rel *planner.Rel) st
 }
 
 // gidMap spells the relation's grouping id for the context's grouping id.
-func (r *renderer) gidMap(ctx *planner.Context, rel *planner.Rel, gid string) string {
+func (r *renderer) gidMap(ctx *plan.Context, rel *plan.Rel, gid string) string {
 	identity := true
 	for _, s := range ctx.Sets {
 		identity = identity && rel.GidOf[s] == s
@@ -289,7 +290,7 @@ func (r *renderer) gidMap(ctx *planner.Context, rel *planner.Rel, gid string) st
 }
 
 // keyCol is a key column (or the grouping column) of ctx's rows.
-func (r *renderer) keyCol(ctx *planner.Context, name string) string {
+func (r *renderer) keyCol(ctx *plan.Context, name string) string {
 	if _, single := r.from(ctx); single {
 		return r.q(name)
 	}
@@ -335,7 +336,7 @@ func (r *renderer) orderBy(plain bool) []string {
 // scan renders a scan's rows CTE (group values and aggregate inputs of
 // each row that passes the filters) and cells CTE (the aggregates in every
 // cell of its grouping sets).
-func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
+func (r *renderer) scan(ctx *plan.Context, rel *plan.Rel) error {
 	s := rel.Scan
 	rowsName, col, err := r.scanRows(rel)
 	if err != nil {
@@ -368,7 +369,7 @@ func (r *renderer) scan(ctx *planner.Context, rel *planner.Rel) error {
 
 // leafAgg spells a scan's aggregate over its rows CTE, whose columns col
 // names (qualified by from when set).
-func (r *renderer) leafAgg(l *planner.Leaf, from string, col func(string) string) (string, error) {
+func (r *renderer) leafAgg(l *plan.Leaf, from string, col func(string) string) (string, error) {
 	arg := ""
 	if l.Arg != nil {
 		arg = from + r.q(col(l.Arg.Name))
@@ -384,9 +385,9 @@ func (r *renderer) leafAgg(l *planner.Leaf, from string, col func(string) string
 // scanRows renders a scan's rows CTE (group values and aggregate inputs of
 // each row that passes the filters): its name, and the names of its
 // columns.
-func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, error) {
+func (r *renderer) scanRows(rel *plan.Rel) (string, func(string) string, error) {
 	s := rel.Scan
-	r.iter, r.found = s.Table, map[*planner.Table]bool{}
+	r.iter, r.found = s.Table, map[*model.Table]bool{}
 	defer func() { r.iter, r.found = nil, nil }()
 	for _, l := range s.Joins {
 		r.found[l.To] = s.Inner[l]
@@ -410,7 +411,7 @@ func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, erro
 		if err != nil {
 			return "", nil, err
 		}
-		c, ok := in.Expr.(*planner.ColRef)
+		c, ok := in.Expr.(*model.ColRef)
 		cols = append(cols, rowCol{name: in.Name, expr: e, computed: !ok || !c.Col.Stored()})
 	}
 	rows := "\n  FROM " + r.source(s.Table) + " AS " + r.q(s.Table.Name)
@@ -443,14 +444,14 @@ func (r *renderer) scanRows(rel *planner.Rel) (string, func(string) string, erro
 // per renders a per-grain relation: its sub-context's CTEs, a CTE with
 // the sub-context's values per group, and the aggregate of those values
 // back at the relation's keys.
-func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
+func (r *renderer) per(ctx *plan.Context, rel *plan.Rel) error {
 	sub := rel.Per.Sub
 	if err := r.context(sub); err != nil {
 		return err
 	}
 	outer := r.ctx
 	r.ctx = sub
-	var exprs []planner.Expr
+	var exprs []model.Expr
 	var names []string
 	for _, v := range sub.Values {
 		exprs = append(exprs, v.Expr)
@@ -488,7 +489,7 @@ func (r *renderer) per(ctx *planner.Context, rel *planner.Rel) error {
 	for _, i := range rel.Keys {
 		keys = append(keys, r.q(ctx.Keys[i].Name))
 	}
-	conds := map[*planner.PerLeaf]string{}
+	conds := map[*plan.PerLeaf]string{}
 	for _, l := range rel.Per.Leaves {
 		var cond []string
 		for _, pk := range l.PerKeys {
@@ -555,7 +556,7 @@ var extremeOf = map[string]string{"latest": "MAX", "earliest": "MIN"}
 // cells (the base scan's cells are the context's rows): each cell's value
 // combines the cells of its grouping set that share the keys the edit
 // keeps.
-func (r *renderer) window(ctx *planner.Context, w *planner.WindowRel, column string) (string, error) {
+func (r *renderer) window(ctx *plan.Context, w *plan.WindowRel, column string) (string, error) {
 	col := func(name string) string {
 		if _, single := r.from(ctx); single {
 			return r.q(name)
@@ -574,7 +575,7 @@ func (r *renderer) window(ctx *planner.Context, w *planner.WindowRel, column str
 	return "", fmt.Errorf("internal error: no window column %s", column)
 }
 
-func (r *renderer) relation(t *planner.Table) string {
+func (r *renderer) relation(t *model.Table) string {
 	var parts []string
 	for _, p := range t.Relation {
 		parts = append(parts, r.q(p))

@@ -4,7 +4,8 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // Derived columns computed once per row. A derived column is written
@@ -22,30 +23,30 @@ import (
 // derivedRel is the CTE of a table's shared derived columns.
 type derivedRel struct {
 	name string
-	cols map[*planner.Column]bool
+	cols map[*model.Column]bool
 }
 
 // derivedOf returns the CTE of t's shared derived columns, rendering it on
 // first use, or nil when t has none.
-func (r *renderer) derivedOf(t *planner.Table) (*derivedRel, error) {
+func (r *renderer) derivedOf(t *model.Table) (*derivedRel, error) {
 	if d, ok := r.derived[t]; ok {
 		return d, nil
 	}
 	r.derived[t] = nil
-	uses := map[*planner.Column]int{}
+	uses := map[*model.Column]int{}
 	for _, c := range t.Columns {
 		if c.Derived == nil {
 			continue
 		}
-		planner.Walk(c.Derived, func(x planner.Expr) bool {
-			if ref, ok := x.(*planner.ColRef); ok && ref.Col.Derived != nil {
+		model.Walk(c.Derived, func(x model.Expr) bool {
+			if ref, ok := x.(*model.ColRef); ok && ref.Col.Derived != nil {
 				uses[ref.Col]++
 			}
 			return true
 		})
 	}
-	named := map[*planner.Column]bool{}
-	var order []*planner.Column
+	named := map[*model.Column]bool{}
+	var order []*model.Column
 	for _, c := range t.Columns {
 		if uses[c] > 1 && ownColumns(c) {
 			named[c] = true
@@ -57,12 +58,12 @@ func (r *renderer) derivedOf(t *planner.Table) (*derivedRel, error) {
 	}
 	// A column's level is one more than the highest level among the
 	// named columns its expression reads (through unnamed ones).
-	level := map[*planner.Column]int{}
-	var levelOf func(e planner.Expr) int
-	levelOf = func(e planner.Expr) int {
+	level := map[*model.Column]int{}
+	var levelOf func(e model.Expr) int
+	levelOf = func(e model.Expr) int {
 		top := 0
-		planner.Walk(e, func(x planner.Expr) bool {
-			ref, ok := x.(*planner.ColRef)
+		model.Walk(e, func(x model.Expr) bool {
+			ref, ok := x.(*model.ColRef)
 			if !ok || ref.Col.Derived == nil {
 				return true
 			}
@@ -83,13 +84,13 @@ func (r *renderer) derivedOf(t *planner.Table) (*derivedRel, error) {
 		level[c] = levelOf(c.Derived) + 1
 		depth = max(depth, level[c])
 	}
-	byLevel := make([][]*planner.Column, depth+1)
+	byLevel := make([][]*model.Column, depth+1)
 	for _, c := range order {
 		byLevel[level[c]] = append(byLevel[level[c]], c)
 	}
-	d := &derivedRel{cols: map[*planner.Column]bool{}}
+	d := &derivedRel{cols: map[*model.Column]bool{}}
 	outerIter, outerFound, outerUse := r.iter, r.found, r.useDerived
-	r.iter, r.found, r.useDerived = nil, nil, map[*planner.Table]*derivedRel{t: d}
+	r.iter, r.found, r.useDerived = nil, nil, map[*model.Table]*derivedRel{t: d}
 	defer func() { r.iter, r.found, r.useDerived = outerIter, outerFound, outerUse }()
 	tq := r.q(t.Name)
 	var stored []string
@@ -126,8 +127,8 @@ func (r *renderer) derivedOf(t *planner.Table) (*derivedRel, error) {
 
 // ownColumns reports whether derived column c is computed from its own
 // table's columns alone.
-func ownColumns(c *planner.Column) bool {
-	for _, used := range planner.Columns(c.Derived) {
+func ownColumns(c *model.Column) bool {
+	for _, used := range model.Columns(c.Derived) {
 		if used.Table != c.Table {
 			return false
 		}
@@ -139,18 +140,18 @@ func ownColumns(c *planner.Column) bool {
 // and the tables it joins), the CTE of shared derived columns the scan's
 // expressions read, if any: the scan then reads that CTE in place of the
 // table.
-func (r *renderer) derivedSources(s *planner.Scan) (map[*planner.Table]*derivedRel, error) {
-	var exprs []planner.Expr
+func (r *renderer) derivedSources(s *plan.Scan) (map[*model.Table]*derivedRel, error) {
+	var exprs []model.Expr
 	exprs = append(exprs, s.Where...)
 	for _, in := range s.Inputs {
 		exprs = append(exprs, in.Expr)
 	}
 	for _, k := range s.Keys {
-		exprs = append(exprs, &planner.ColRef{Col: k.Col})
+		exprs = append(exprs, &model.ColRef{Col: k.Col})
 	}
-	out := map[*planner.Table]*derivedRel{}
+	out := map[*model.Table]*derivedRel{}
 	for _, e := range exprs {
-		for _, c := range planner.Columns(e) {
+		for _, c := range model.Columns(e) {
 			if c.Derived == nil || out[c.Table] != nil {
 				continue
 			}
@@ -168,7 +169,7 @@ func (r *renderer) derivedSources(s *planner.Scan) (map[*planner.Table]*derivedR
 
 // source is what a scan reads for table t: its relation, or the CTE of its
 // shared derived columns.
-func (r *renderer) source(t *planner.Table) string {
+func (r *renderer) source(t *model.Table) string {
 	if d := r.useDerived[t]; d != nil {
 		return r.q(d.name)
 	}

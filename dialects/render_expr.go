@@ -4,15 +4,16 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // expr renders a row or measure expression. Literals are rendered by the
 // dialect; numbers were checked by the lexer to hold only digits, a dot and
 // an exponent.
-func (r *renderer) expr(e planner.Expr) (string, error) {
+func (r *renderer) expr(e model.Expr) (string, error) {
 	switch e := e.(type) {
-	case *planner.ColRef:
+	case *model.ColRef:
 		if d := r.useDerived[e.Col.Table]; d != nil && d.cols[e.Col] {
 			return r.q(e.Col.Table.Name) + "." + r.q(e.Col.Name), nil
 		}
@@ -31,9 +32,9 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return "(" + x + ")", nil
 		}
 		return r.q(e.Col.Table.Name) + "." + r.q(e.Col.Name), nil
-	case *planner.Lit:
+	case *model.Lit:
 		return r.lit(e), nil
-	case *planner.BinOp:
+	case *model.BinOp:
 		side := r.value
 		if e.Op == "and" || e.Op == "or" {
 			side = r.pred
@@ -59,7 +60,7 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return r.d.Concat(l, rt), nil
 		}
 		return "(" + l + " " + strings.ToUpper(e.Op) + " " + rt + ")", nil
-	case *planner.UnOp:
+	case *model.UnOp:
 		render := r.expr
 		if e.Op == "not" {
 			render = r.pred
@@ -72,9 +73,9 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return "(NOT " + x + ")", nil
 		}
 		return "(-" + x + ")", nil
-	case *planner.Func:
+	case *model.Func:
 		return r.fn(e)
-	case *planner.CaseExpr:
+	case *model.CaseExpr:
 		s := "CASE"
 		for _, w := range e.Whens {
 			c, err := r.pred(w.Cond)
@@ -95,7 +96,7 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			s += " ELSE " + r.unify(x, e.T)
 		}
 		return s + " END", nil
-	case *planner.InExpr:
+	case *model.InExpr:
 		x, err := r.value(e.X)
 		if err != nil {
 			return "", err
@@ -109,7 +110,7 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			not = "NOT "
 		}
 		return "(" + x + " " + not + "IN (" + list + "))", nil
-	case *planner.IsNullExpr:
+	case *model.IsNullExpr:
 		x, err := r.value(e.X)
 		if err != nil {
 			return "", err
@@ -118,9 +119,9 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 			return "(" + x + " IS NOT NULL)", nil
 		}
 		return "(" + x + " IS NULL)", nil
-	case *planner.Computed:
+	case *plan.Computed:
 		return r.computed(e)
-	case *planner.ValueRef:
+	case *plan.ValueRef:
 		if r.layer != nil {
 			if name, ok := r.layer.values[valueKey(e)]; ok {
 				return r.q(name), nil
@@ -143,9 +144,9 @@ func (r *renderer) expr(e planner.Expr) (string, error) {
 }
 
 // nonZero returns y for nullif(y, 0), and e otherwise.
-func nonZero(e planner.Expr) planner.Expr {
-	if f, ok := e.(*planner.Func); ok && f.Name == "nullif" && len(f.Args) == 2 {
-		if z, ok := f.Args[1].(*planner.Lit); ok && z.T != planner.TypeNull && z.T != planner.TypeText && z.Text == "0" && f.Args[0].Type() == f.T {
+func nonZero(e model.Expr) model.Expr {
+	if f, ok := e.(*model.Func); ok && f.Name == "nullif" && len(f.Args) == 2 {
+		if z, ok := f.Args[1].(*model.Lit); ok && z.T != model.TypeNull && z.T != model.TypeText && z.Text == "0" && f.Args[0].Type() == f.T {
 			return f.Args[0]
 		}
 	}
@@ -154,7 +155,7 @@ func nonZero(e planner.Expr) planner.Expr {
 
 // pred renders e where a predicate is due, value where a value is due;
 // they differ only where the dialect has no boolean values (SQL Server).
-func (r *renderer) pred(e planner.Expr) (string, error) {
+func (r *renderer) pred(e model.Expr) (string, error) {
 	s, err := r.expr(e)
 	if err != nil || IsPredicate(e) {
 		return s, err
@@ -162,7 +163,7 @@ func (r *renderer) pred(e planner.Expr) (string, error) {
 	return r.d.Truth(s), nil
 }
 
-func (r *renderer) value(e planner.Expr) (string, error) {
+func (r *renderer) value(e model.Expr) (string, error) {
 	s, err := r.expr(e)
 	if err != nil || !IsPredicate(e) {
 		return s, err
@@ -170,7 +171,7 @@ func (r *renderer) value(e planner.Expr) (string, error) {
 	return r.d.BoolValue(s), nil
 }
 
-func (r *renderer) list(es []planner.Expr) (string, error) {
+func (r *renderer) list(es []model.Expr) (string, error) {
 	var parts []string
 	for _, a := range es {
 		x, err := r.value(a)
@@ -182,25 +183,25 @@ func (r *renderer) list(es []planner.Expr) (string, error) {
 	return strings.Join(parts, ", "), nil
 }
 
-func (r *renderer) lit(e *planner.Lit) string {
+func (r *renderer) lit(e *model.Lit) string {
 	switch e.T {
-	case planner.TypeText:
+	case model.TypeText:
 		return r.d.String(e.Text)
-	case planner.TypeDate:
+	case model.TypeDate:
 		return r.d.Date(e.Text)
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return r.d.Timestamp(e.Text)
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return r.d.Bool(strings.EqualFold(e.Text, "true"))
-	case planner.TypeNull:
+	case model.TypeNull:
 		return "NULL"
 	}
 	return e.Text
 }
 
-func (r *renderer) fn(e *planner.Func) (string, error) {
+func (r *renderer) fn(e *model.Func) (string, error) {
 	var args []string
-	var types []planner.Type
+	var types []model.Type
 	for _, a := range e.Args {
 		x, err := r.value(a)
 		if err != nil {
@@ -235,8 +236,8 @@ type DecimalUnifier interface {
 }
 
 // unify widens a branch of a decimal-typed union where the dialect needs it.
-func (r *renderer) unify(x string, t planner.Type) string {
-	if u, ok := r.d.(DecimalUnifier); ok && t == planner.TypeDecimal {
+func (r *renderer) unify(x string, t model.Type) string {
+	if u, ok := r.d.(DecimalUnifier); ok && t == model.TypeDecimal {
 		return u.UnifyDecimal(x)
 	}
 	return x

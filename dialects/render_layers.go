@@ -4,11 +4,12 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // Layers. A measure built on measures compiles to a graph: each measure's
-// value in a cell is one planner.Computed node, whatever the number of
+// value in a cell is one plan.Computed node, whatever the number of
 // expressions that use it. Written out as text, a node used twice would be
 // written twice, and a chain of such measures doubles the SQL at every
 // step. So a node used by more than one expression is computed once, as a
@@ -24,7 +25,7 @@ import (
 // layering is the state of one context's layers while they are rendered:
 // the column each shared node and each relation value is read as.
 type layering struct {
-	nodes  map[*planner.Computed]string
+	nodes  map[*plan.Computed]string
 	values map[string]string
 }
 
@@ -33,13 +34,13 @@ type layering struct {
 // once in layers. When there are layers, ctx's FROM clause becomes the
 // last layer, whose columns are the context's keys, grouping column and
 // layered values.
-func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []string) ([]string, error) {
-	uses := map[*planner.Computed]int{}
-	var order []*planner.Computed
-	var count func(e planner.Expr)
-	count = func(e planner.Expr) {
-		planner.Walk(e, func(x planner.Expr) bool {
-			if c, ok := x.(*planner.Computed); ok {
+func (r *renderer) layers(ctx *plan.Context, exprs []model.Expr, names []string) ([]string, error) {
+	uses := map[*plan.Computed]int{}
+	var order []*plan.Computed
+	var count func(e model.Expr)
+	count = func(e model.Expr) {
+		model.Walk(e, func(x model.Expr) bool {
+			if c, ok := x.(*plan.Computed); ok {
 				if uses[c]++; uses[c] == 1 {
 					count(c.X)
 					order = append(order, c)
@@ -51,7 +52,7 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 	for _, e := range exprs {
 		count(e)
 	}
-	var shared []*planner.Computed
+	var shared []*plan.Computed
 	for _, c := range order {
 		if uses[c] > 1 {
 			shared = append(shared, c)
@@ -60,7 +61,7 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 	if len(shared) == 0 {
 		return r.values(exprs)
 	}
-	lay := &layering{nodes: map[*planner.Computed]string{}, values: map[string]string{}}
+	lay := &layering{nodes: map[*plan.Computed]string{}, values: map[string]string{}}
 	taken := map[string]bool{GroupingColumn: true}
 	for _, k := range ctx.Keys {
 		taken[k.Name] = true
@@ -82,7 +83,7 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 	}
 	// An output that is a shared node gives it its own name.
 	for i, e := range exprs {
-		if c, ok := e.(*planner.Computed); ok && uses[c] > 1 && lay.nodes[c] == "" {
+		if c, ok := e.(*plan.Computed); ok && uses[c] > 1 && lay.nodes[c] == "" {
 			lay.nodes[c] = names[i]
 		}
 	}
@@ -94,12 +95,12 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 
 	// A node's level is one more than the highest level among the shared
 	// nodes it reads; the first layer computes level 1.
-	level := map[*planner.Computed]int{}
-	var levelOf func(e planner.Expr) int
-	levelOf = func(e planner.Expr) int {
+	level := map[*plan.Computed]int{}
+	var levelOf func(e model.Expr) int
+	levelOf = func(e model.Expr) int {
 		top := 0
-		planner.Walk(e, func(x planner.Expr) bool {
-			c, ok := x.(*planner.Computed)
+		model.Walk(e, func(x model.Expr) bool {
+			c, ok := x.(*plan.Computed)
 			if !ok {
 				return true
 			}
@@ -119,25 +120,25 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 	for _, e := range exprs {
 		depth = max(depth, levelOf(e))
 	}
-	byLevel := make([][]*planner.Computed, depth+1)
+	byLevel := make([][]*plan.Computed, depth+1)
 	for _, c := range shared {
 		byLevel[level[c]] = append(byLevel[level[c]], c)
 	}
 
 	// The relation values read above the first layer, in first-use order.
-	var carried []*planner.ValueRef
-	seen := map[*planner.Computed]bool{}
-	var reads func(e planner.Expr)
-	reads = func(e planner.Expr) {
-		planner.Walk(e, func(x planner.Expr) bool {
+	var carried []*plan.ValueRef
+	seen := map[*plan.Computed]bool{}
+	var reads func(e model.Expr)
+	reads = func(e model.Expr) {
+		model.Walk(e, func(x model.Expr) bool {
 			switch x := x.(type) {
-			case *planner.ValueRef:
+			case *plan.ValueRef:
 				k := valueKey(x)
 				if _, ok := lay.values[k]; !ok {
 					lay.values[k] = unique(x.Column)
 					carried = append(carried, x)
 				}
-			case *planner.Computed:
+			case *plan.Computed:
 				if _, named := lay.nodes[x]; !named && !seen[x] {
 					seen[x] = true
 					reads(x.X)
@@ -209,7 +210,7 @@ func (r *renderer) layers(ctx *planner.Context, exprs []planner.Expr, names []st
 // layerCols adds the columns computing nodes to cols: each node's
 // expression, over the columns of the layers before (r.layer, nil for the
 // first layer).
-func (r *renderer) layerCols(cols []string, nodes []*planner.Computed, lay *layering) ([]string, error) {
+func (r *renderer) layerCols(cols []string, nodes []*plan.Computed, lay *layering) ([]string, error) {
 	for _, c := range nodes {
 		s, err := r.value(c.X)
 		if err != nil {
@@ -221,7 +222,7 @@ func (r *renderer) layerCols(cols []string, nodes []*planner.Computed, lay *laye
 }
 
 // values renders expressions as values.
-func (r *renderer) values(exprs []planner.Expr) ([]string, error) {
+func (r *renderer) values(exprs []model.Expr) ([]string, error) {
 	out := make([]string, len(exprs))
 	for i, e := range exprs {
 		s, err := r.value(e)
@@ -234,13 +235,13 @@ func (r *renderer) values(exprs []planner.Expr) ([]string, error) {
 }
 
 // valueKey identifies a relation's column.
-func valueKey(v *planner.ValueRef) string {
+func valueKey(v *plan.ValueRef) string {
 	return fmt.Sprintf("%p|%s", v.Rel, v.Column)
 }
 
 // computed renders a Computed node: its layer column, or its expression
 // as a value (a node is never a predicate: see IsPredicate).
-func (r *renderer) computed(c *planner.Computed) (string, error) {
+func (r *renderer) computed(c *plan.Computed) (string, error) {
 	if r.layer != nil {
 		if name, ok := r.layer.nodes[c]; ok {
 			return r.q(name), nil

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // Exact medians on engines without a median aggregate (SQLite, MySQL and
@@ -138,7 +138,7 @@ func (r *renderer) ranks(base, from string, cols []string, vals []rankedValue, p
 
 // leafRanked is a median leaf's value on a row of a CTE whose columns col
 // names: its argument, where its filter holds.
-func (r *renderer) leafRanked(l *planner.Leaf, col func(string) string) rankedValue {
+func (r *renderer) leafRanked(l *plan.Leaf, col func(string) string) rankedValue {
 	v := r.q(col(l.Arg.Name))
 	if l.Filter != nil {
 		v = "CASE WHEN " + r.d.Truth(r.q(col(l.Filter.Name))) + " THEN " + v + " END"
@@ -151,9 +151,9 @@ func (r *renderer) leafRanked(l *planner.Leaf, col func(string) string) rankedVa
 // (rowsName, whose columns col names) and returns the relation the cells
 // CTE reads and the medians' columns by leaf. Without medians to compute
 // so, it returns the rows CTE and nil.
-func (r *renderer) scanMedians(rel *planner.Rel, rowsName string, col func(string) string) (string, map[*planner.Leaf]cellAgg, error) {
+func (r *renderer) scanMedians(rel *plan.Rel, rowsName string, col func(string) string) (string, map[*plan.Leaf]cellAgg, error) {
 	s := rel.Scan
-	var meds []*planner.Leaf
+	var meds []*plan.Leaf
 	for _, l := range s.Leaves {
 		if l.Func == "median" && windowMedians(r.d) {
 			meds = append(meds, l)
@@ -170,7 +170,7 @@ func (r *renderer) scanMedians(rel *planner.Rel, rowsName string, col func(strin
 		if l.Func == "median" {
 			continue
 		}
-		for _, in := range []*planner.Input{l.Arg, l.Filter} {
+		for _, in := range []*plan.Input{l.Arg, l.Filter} {
 			if in != nil {
 				cols = append(cols, col(in.Name))
 			}
@@ -196,7 +196,7 @@ func (r *renderer) scanMedians(rel *planner.Rel, rowsName string, col func(strin
 	if err != nil {
 		return "", nil, err
 	}
-	out := map[*planner.Leaf]cellAgg{}
+	out := map[*plan.Leaf]cellAgg{}
 	for i, l := range meds {
 		a := cellAgg{name: r.q(l.Name), bySet: map[uint64]string{}}
 		for j, set := range sets {
@@ -224,8 +224,8 @@ func setOf(sets []uint64) uint64 {
 // leaf's value where its condition cond holds, numbered within the
 // relation's cells (the grouping id and keys). It returns the relation the
 // aggregate reads and the medians' aggregates by leaf.
-func (r *renderer) perMedians(rel *planner.Rel, groups string, cols []string, cond map[*planner.PerLeaf]string, keys []string) (string, map[*planner.PerLeaf]string, error) {
-	var meds []*planner.PerLeaf
+func (r *renderer) perMedians(rel *plan.Rel, groups string, cols []string, cond map[*plan.PerLeaf]string, keys []string) (string, map[*plan.PerLeaf]string, error) {
+	var meds []*plan.PerLeaf
 	var vals []rankedValue
 	for _, l := range rel.Per.Leaves {
 		if l.Func == "median" && windowMedians(r.d) {
@@ -245,7 +245,7 @@ func (r *renderer) perMedians(rel *planner.Rel, groups string, cols []string, co
 	if err != nil {
 		return "", nil, err
 	}
-	out := map[*planner.PerLeaf]string{}
+	out := map[*plan.PerLeaf]string{}
 	for i, l := range meds {
 		m, err := median(i, 0)
 		if err != nil {

@@ -4,7 +4,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // Scans of the same rows share a rows CTE where that saves work: when the
@@ -14,7 +14,7 @@ import (
 // gets its own CTE.
 func TestRowsOfSharesWhereItSavesWork(t *testing.T) {
 	newRenderer := func() *renderer {
-		return &renderer{p: &planner.Plan{}, d: mustGet(t, "duckdb"), names: map[string]bool{}, rows: map[string][]*sharedRows{}}
+		return &renderer{p: &plan.Plan{}, d: mustGet(t, "duckdb"), names: map[string]bool{}, rows: map[string][]*sharedRows{}}
 	}
 	base := []rowCol{
 		{name: "t.g", expr: `"t"."g"`, key: true},

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // The rewrites below replace a construct an engine lacks by one it has,
@@ -16,7 +16,7 @@ import (
 // GroupingSetsSQL renders the aggregation of from over the grouping sets,
 // in the layout of the renderer's cells CTE (two-space indented SELECT
 // list, one clause a line). keys are the quoted group keys in --by order;
-// sets are the grouping sets as masks of rolled-up keys (planner.Plan.Sets:
+// sets are the grouping sets as masks of rolled-up keys (plan.Plan.Sets:
 // bit 1<<(n-1-i) is key i, the detail set 0 first); aggs are the rendered
 // aggregate columns ("sum(x) AS y"); from is the (quoted) relation. With
 // one set the grouping id is that set's mask (a literal).
@@ -177,20 +177,20 @@ func ApplyLimit(d Dialect, stmt string, n int) (string, error) {
 // but SQL Server, which cannot select a predicate or test a value: the
 // renderer puts d.BoolValue around a predicate where a value is due, and
 // d.Truth around a boolean value where a predicate is due.
-func IsPredicate(e planner.Expr) bool {
+func IsPredicate(e model.Expr) bool {
 	switch e := e.(type) {
-	case *planner.BinOp:
+	case *model.BinOp:
 		switch e.Op {
 		case "and", "or", "=", "<>", "<", "<=", ">", ">=":
 			return true
 		}
-	case *planner.UnOp:
+	case *model.UnOp:
 		return e.Op == "not"
-	case *planner.InExpr, *planner.IsNullExpr:
+	case *model.InExpr, *model.IsNullExpr:
 		return true
-	case *planner.Lit:
-		return e.T == planner.TypeBoolean
-	case *planner.ColRef:
+	case *model.Lit:
+		return e.T == model.TypeBoolean
+	case *model.ColRef:
 		return e.Col.Derived != nil && IsPredicate(e.Col.Derived)
 	}
 	return false

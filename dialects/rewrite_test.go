@@ -10,7 +10,8 @@ import (
 	_ "github.com/duckdb/duckdb-go/v2" // the reference engine
 	_ "modernc.org/sqlite"             // an engine without GROUPING SETS
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 func mustGet(t *testing.T, name string) Dialect {
@@ -26,7 +27,7 @@ func TestGroupingSetsSQLText(t *testing.T) {
 	duck, my := mustGet(t, "duckdb"), mustGet(t, "mysql")
 	keys := []string{`"a"`, `"b"`}
 	aggs := []string{`sum("v") AS "s"`}
-	sets := planner.GroupingSets(planner.TotalsRollup, 2)
+	sets := plan.GroupingSets(model.TotalsRollup, 2)
 	want := `  SELECT
     "a",
     "b",
@@ -87,11 +88,11 @@ func TestUnionGroupingSetsSameRows(t *testing.T) {
 		}
 	}
 	duck, sqliteD := mustGet(t, "duckdb"), mustGet(t, "sqlite")
-	for _, mode := range []planner.TotalsMode{planner.TotalsGrand, planner.TotalsRollup, planner.TotalsAll} {
+	for _, mode := range []model.TotalsMode{model.TotalsGrand, model.TotalsRollup, model.TotalsAll} {
 		for _, where := range []string{"", " WHERE v > 100"} {
 			for _, n := range []int{1, 2, 3} {
 				names := []string{"a", "b", "c"}[:n]
-				sets := planner.GroupingSets(mode, n)
+				sets := plan.GroupingSets(mode, n)
 				query := func(d Dialect, union, noAggs bool) string {
 					var keys []string
 					for _, k := range names {
@@ -237,25 +238,25 @@ func TestApplyLimit(t *testing.T) {
 }
 
 func TestIsPredicate(t *testing.T) {
-	flag := &planner.Column{Name: "flag", Type: planner.TypeBoolean}
-	n := &planner.Column{Name: "n", Type: planner.TypeInteger}
-	big := &planner.Column{Name: "big", Type: planner.TypeBoolean,
-		Derived: &planner.BinOp{Op: ">", L: &planner.ColRef{Col: n}, R: &planner.Lit{T: planner.TypeInteger, Text: "1"}, T: planner.TypeBoolean}}
+	flag := &model.Column{Name: "flag", Type: model.TypeBoolean}
+	n := &model.Column{Name: "n", Type: model.TypeInteger}
+	big := &model.Column{Name: "big", Type: model.TypeBoolean,
+		Derived: &model.BinOp{Op: ">", L: &model.ColRef{Col: n}, R: &model.Lit{T: model.TypeInteger, Text: "1"}, T: model.TypeBoolean}}
 	cases := []struct {
-		e    planner.Expr
+		e    model.Expr
 		want bool
 	}{
-		{&planner.ColRef{Col: flag}, false},
-		{&planner.ColRef{Col: big}, true},
-		{&planner.Lit{T: planner.TypeBoolean, Text: "true"}, true},
-		{&planner.Lit{T: planner.TypeInteger, Text: "1"}, false},
-		{&planner.BinOp{Op: "and", L: &planner.ColRef{Col: flag}, R: &planner.ColRef{Col: flag}, T: planner.TypeBoolean}, true},
-		{&planner.BinOp{Op: "+", L: &planner.ColRef{Col: n}, R: &planner.ColRef{Col: n}, T: planner.TypeInteger}, false},
-		{&planner.UnOp{Op: "not", X: &planner.ColRef{Col: flag}}, true},
-		{&planner.UnOp{Op: "-", X: &planner.ColRef{Col: n}}, false},
-		{&planner.IsNullExpr{X: &planner.ColRef{Col: n}}, true},
-		{&planner.InExpr{X: &planner.ColRef{Col: n}}, true},
-		{&planner.CaseExpr{T: planner.TypeBoolean}, false},
+		{&model.ColRef{Col: flag}, false},
+		{&model.ColRef{Col: big}, true},
+		{&model.Lit{T: model.TypeBoolean, Text: "true"}, true},
+		{&model.Lit{T: model.TypeInteger, Text: "1"}, false},
+		{&model.BinOp{Op: "and", L: &model.ColRef{Col: flag}, R: &model.ColRef{Col: flag}, T: model.TypeBoolean}, true},
+		{&model.BinOp{Op: "+", L: &model.ColRef{Col: n}, R: &model.ColRef{Col: n}, T: model.TypeInteger}, false},
+		{&model.UnOp{Op: "not", X: &model.ColRef{Col: flag}}, true},
+		{&model.UnOp{Op: "-", X: &model.ColRef{Col: n}}, false},
+		{&model.IsNullExpr{X: &model.ColRef{Col: n}}, true},
+		{&model.InExpr{X: &model.ColRef{Col: n}}, true},
+		{&model.CaseExpr{T: model.TypeBoolean}, false},
 	}
 	for i, c := range cases {
 		if got := IsPredicate(c.e); got != c.want {

@@ -6,7 +6,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // RowQuery is the row-level query of a table: every row of its relation,
@@ -15,9 +15,9 @@ type RowQuery struct {
 	// SQL selects the table's columns in declaration order.
 	SQL string
 	// Columns are the table's columns, in the order SQL selects them.
-	Columns []*planner.Column
+	Columns []*model.Column
 	// Joins are the links the derived columns follow, nearest first.
-	Joins []*planner.Link
+	Joins []*model.Link
 }
 
 // RenderRows renders the row-level query of table t. Derived columns are
@@ -25,7 +25,7 @@ type RowQuery struct {
 // read other tables do so through LEFT JOINs along the links that lead
 // there. Every link is many-to-one, so each row of t is kept and kept once
 // (a row whose link finds nothing reads NULL for that table's columns).
-func RenderRows(t *planner.Table, d Dialect) (*RowQuery, error) {
+func RenderRows(t *model.Table, d Dialect) (*RowQuery, error) {
 	joins, err := rowJoins(t)
 	if err != nil {
 		return nil, err
@@ -56,14 +56,14 @@ func RenderRows(t *planner.Table, d Dialect) (*RowQuery, error) {
 
 // rowJoins lists the links t's derived columns follow, nearest first (so
 // each join reads only tables joined before it), ties by table name.
-func rowJoins(t *planner.Table) ([]*planner.Link, error) {
-	reach := planner.Reach(t)
-	var links []*planner.Link
+func rowJoins(t *model.Table) ([]*model.Link, error) {
+	reach := model.Reach(t)
+	var links []*model.Link
 	for _, c := range t.Columns {
 		if c.Stored() {
 			continue
 		}
-		for _, used := range planner.Columns(c.Derived) {
+		for _, used := range model.Columns(c.Derived) {
 			path, ok := reach[used.Table]
 			if !ok {
 				return nil, fmt.Errorf("derived column %s reads %s, and no link leads from %s to %s",
@@ -76,7 +76,7 @@ func rowJoins(t *planner.Table) ([]*planner.Link, error) {
 			}
 		}
 	}
-	depth := func(l *planner.Link) int { return len(reach[l.To]) }
+	depth := func(l *model.Link) int { return len(reach[l.To]) }
 	sort.SliceStable(links, func(i, j int) bool {
 		if depth(links[i]) != depth(links[j]) {
 			return depth(links[i]) < depth(links[j])
@@ -89,7 +89,7 @@ func rowJoins(t *planner.Table) ([]*planner.Link, error) {
 // UnmatchedRows is the statement that counts the rows of l's table whose
 // link l finds no row of its target (a NULL link column finds none): 0
 // where a link declared required keeps its promise.
-func UnmatchedRows(l *planner.Link, d Dialect) string {
+func UnmatchedRows(l *model.Link, d Dialect) string {
 	r := &renderer{d: d}
 	from, to := r.q("source"), r.q("target")
 	var conds []string
@@ -107,7 +107,7 @@ func UnmatchedRows(l *planner.Link, d Dialect) string {
 // value is on one row at most); Example selects the most repeated one
 // (its columns, then its number of rows). A key that a table declares,
 // or a semiadditive column's key and date, must occur once.
-func RepeatedRows(t *planner.Table, cols []*planner.Column, d Dialect) (count, example string, err error) {
+func RepeatedRows(t *model.Table, cols []*model.Column, d Dialect) (count, example string, err error) {
 	r := &renderer{d: d}
 	var names []string
 	for _, c := range cols {

@@ -4,7 +4,7 @@ import (
 	"regexp"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // snowflake is Snowflake.
@@ -48,27 +48,27 @@ func (snowflake) String(s string) string {
 func (snowflake) Date(s string) string      { return "CAST('" + s + "' AS DATE)" }
 func (snowflake) Timestamp(s string) string { return "CAST('" + s + "' AS TIMESTAMP_NTZ)" }
 
-func (snowflake) TypeName(t planner.Type) string {
+func (snowflake) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "NUMBER(38, 0)"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "NUMBER(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "FLOAT"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP_NTZ"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "VARCHAR"
 }
 
-func (d snowflake) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d snowflake) ColumnType(t model.Type) string { return d.TypeName(t) }
 
-func (d snowflake) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d snowflake) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 // Agg: avg of a NUMBER is a NUMBER with a few more decimal places (§3's
 // scale rule), so the inputs of avg and the statistics are made FLOAT, as
@@ -98,7 +98,7 @@ func (snowflake) Divide(l, r string) string {
 
 // DateTrunc keeps a DATE a DATE (§9); weeks start on Monday under the
 // default WEEK_START = 0 (docs.snowflake.com, date and time parts).
-func (snowflake) DateTrunc(unit, arg string, _ planner.Type) string {
+func (snowflake) DateTrunc(unit, arg string, _ model.Type) string {
 	return "DATE_TRUNC('" + strings.ToUpper(unit) + "', " + arg + ")"
 }
 
@@ -116,7 +116,7 @@ func (snowflake) BitAnd(a, b string) string { return "BITAND(" + a + ", " + b + 
 // Call: GREATEST and LEAST return NULL when an argument is NULL;
 // GREATEST_IGNORE_NULLS and LEAST_IGNORE_NULLS ignore them as DuckDB does
 // (docs.snowflake.com greatest_ignore_nulls, bundle 2024_03).
-func (snowflake) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (snowflake) Call(name string, args []string, _ []model.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
 		if len(args) == 1 {

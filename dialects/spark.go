@@ -3,7 +3,7 @@ package dialects
 import (
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // spark is Spark SQL 3.4 or later and Databricks SQL.
@@ -36,30 +36,30 @@ func (spark) String(s string) string {
 // session time zone).
 func (spark) Timestamp(s string) string { return "TIMESTAMP_NTZ '" + s + "'" }
 
-func (spark) TypeName(t planner.Type) string {
+func (spark) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP_NTZ"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "STRING"
 }
 
-func (d spark) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d spark) ColumnType(t model.Type) string { return d.TypeName(t) }
 
 // Cast: a fractional number cast to an integer is truncated in Spark,
 // where DuckDB rounds, so it is rounded first.
-func (d spark) Cast(arg string, from, to planner.Type) string {
-	if to == planner.TypeInteger && (from == planner.TypeDecimal || from == planner.TypeFloat) {
+func (d spark) Cast(arg string, from, to model.Type) string {
+	if to == model.TypeInteger && (from == model.TypeDecimal || from == model.TypeFloat) {
 		arg = "round(" + arg + ")"
 	}
 	return castWith(d, arg, to)
@@ -94,9 +94,9 @@ func (spark) Divide(l, r string) string {
 
 // DateTrunc: date_trunc returns a TIMESTAMP (§9); weeks start on Monday
 // (api/sql date_trunc).
-func (spark) DateTrunc(unit, arg string, t planner.Type) string {
+func (spark) DateTrunc(unit, arg string, t model.Type) string {
 	s := "date_trunc('" + strings.ToUpper(unit) + "', " + arg + ")"
-	if t == planner.TypeDate {
+	if t == model.TypeDate {
 		return "CAST(" + s + " AS DATE)"
 	}
 	return "CAST(" + s + " AS TIMESTAMP_NTZ)"

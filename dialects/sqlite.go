@@ -3,7 +3,7 @@ package dialects
 import (
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // sqlite is SQLite 3.39 or later (checked live against 3.54 through
@@ -35,11 +35,11 @@ func (d sqlite) Date(s string) string      { return d.String(s) }
 func (d sqlite) Timestamp(s string) string { return d.String(s) }
 
 // TypeName names the storage class a CAST converts to (lang_expr.html#castexpr).
-func (sqlite) TypeName(t planner.Type) string {
+func (sqlite) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger, planner.TypeBoolean:
+	case model.TypeInteger, model.TypeBoolean:
 		return "INTEGER"
-	case planner.TypeDecimal, planner.TypeFloat:
+	case model.TypeDecimal, model.TypeFloat:
 		return "REAL"
 	}
 	return "TEXT"
@@ -47,18 +47,18 @@ func (sqlite) TypeName(t planner.Type) string {
 
 // ColumnType: REAL affinity for decimals, so that every value is a float
 // (NUMERIC affinity would store 10.00 as the integer 10).
-func (d sqlite) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d sqlite) ColumnType(t model.Type) string { return d.TypeName(t) }
 
 // Cast: dates are converted by the date functions; a number is made an
 // integer by rounding first, as CAST(x AS INTEGER) truncates in SQLite
 // where DuckDB rounds (checked: a decimal 2.5 becomes 3).
-func (d sqlite) Cast(arg string, from, to planner.Type) string {
+func (d sqlite) Cast(arg string, from, to model.Type) string {
 	switch {
-	case to == planner.TypeDate:
+	case to == model.TypeDate:
 		return "date(" + arg + ")"
-	case to == planner.TypeTimestamp:
+	case to == model.TypeTimestamp:
 		return "datetime(" + arg + ")"
-	case to == planner.TypeInteger && (from == planner.TypeDecimal || from == planner.TypeFloat):
+	case to == model.TypeInteger && (from == model.TypeDecimal || from == model.TypeFloat):
 		return "CAST(round(" + arg + ") AS INTEGER)"
 	}
 	return castWith(d, arg, to)
@@ -89,14 +89,14 @@ func (sqlite) Divide(l, r string) string {
 // DateTrunc uses the date function modifiers (lang_datefunc.html): weeks
 // start on Monday as in DuckDB ('-6 days' then 'weekday 1', the next
 // Monday on or after); a quarter steps back (month - 1) % 3 months.
-func (sqlite) DateTrunc(unit, arg string, t planner.Type) string {
+func (sqlite) DateTrunc(unit, arg string, t model.Type) string {
 	fn := "date"
-	if t == planner.TypeTimestamp {
+	if t == model.TypeTimestamp {
 		fn = "datetime"
 	}
 	switch unit {
 	case "day":
-		if t == planner.TypeTimestamp {
+		if t == model.TypeTimestamp {
 			return "datetime(" + arg + ", 'start of day')"
 		}
 		return "date(" + arg + ")"
@@ -131,7 +131,7 @@ func (sqlite) NullSafeEqual(a, b string) string { return a + " IS " + b }
 // are stepped over as DuckDB does. Its upper and lower change the case of
 // ASCII letters only (lang_corefunc.html#upper; checked: upper('ünï') is
 // 'üNï'), so they are refused, unless --approximate.
-func (d sqlite) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (d sqlite) Call(name string, args []string, _ []model.Type) (string, error) {
 	switch name {
 	case "upper", "lower":
 		return "", &UnsupportedError{Dialect: d.Name(), Construct: name + "() of non-ASCII letters",
@@ -145,7 +145,7 @@ func (d sqlite) Call(name string, args []string, _ []planner.Type) (string, erro
 }
 
 // approxCall: upper and lower for ASCII letters only.
-func (sqlite) approxCall(name string, args []string, _ []planner.Type) (string, string, bool) {
+func (sqlite) approxCall(name string, args []string, _ []model.Type) (string, string, bool) {
 	if name == "upper" || name == "lower" {
 		return plainCall(name, args), "SQLite's upper and lower change the case of ASCII letters only", true
 	}

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // sqlserver is SQL Server 2022 or later and Azure SQL (T-SQL): DATETRUNC,
@@ -79,31 +79,31 @@ func (sqlserver) Bool(v bool) string {
 	return "(1 = 0)"
 }
 
-func (sqlserver) TypeName(t planner.Type) string {
+func (sqlserver) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "FLOAT"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "DATETIME2"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BIT"
 	}
 	return "NVARCHAR(MAX)"
 }
 
-func (d sqlserver) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d sqlserver) ColumnType(t model.Type) string { return d.TypeName(t) }
 
 // Cast: converting a float or decimal to an integer truncates in T-SQL
 // (learn.microsoft.com/sql/t-sql/functions/cast-and-convert-transact-sql,
 // "truncated"), where DuckDB rounds, so it is rounded first.
-func (d sqlserver) Cast(arg string, from, to planner.Type) string {
-	if to == planner.TypeInteger && (from == planner.TypeDecimal || from == planner.TypeFloat) {
+func (d sqlserver) Cast(arg string, from, to model.Type) string {
+	if to == model.TypeInteger && (from == model.TypeDecimal || from == model.TypeFloat) {
 		arg = "ROUND(" + arg + ", 0)"
 	}
 	return castWith(d, arg, to)
@@ -150,7 +150,7 @@ func (sqlserver) Divide(l, r string) string {
 // DateTrunc: DATETRUNC keeps the argument's type; iso_week starts weeks on
 // Monday whatever DATEFIRST says
 // (learn.microsoft.com/sql/t-sql/functions/datetrunc-transact-sql).
-func (sqlserver) DateTrunc(unit, arg string, _ planner.Type) string {
+func (sqlserver) DateTrunc(unit, arg string, _ model.Type) string {
 	if unit == "week" {
 		unit = "iso_week"
 	}
@@ -179,7 +179,7 @@ func (sqlserver) Concat(a, b string) string {
 
 // Call: ROUND needs its length argument; GREATEST and LEAST (2022+)
 // ignore NULLs as DuckDB does.
-func (sqlserver) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (sqlserver) Call(name string, args []string, _ []model.Type) (string, error) {
 	if name == "round" && len(args) == 1 {
 		args = append(args, "0")
 	}

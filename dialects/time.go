@@ -6,7 +6,8 @@ import (
 	"strconv"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // DateMover is a dialect that can move a date or timestamp forward by a
@@ -14,12 +15,12 @@ import (
 // month's last day (2026-01-31 plus 1 month is 2026-02-28), as a time
 // edit's `back` needs (language.md, "Time").
 type DateMover interface {
-	MoveDate(arg string, n int, unit string, t planner.Type) string
+	MoveDate(arg string, n int, unit string, t model.Type) string
 }
 
 // moveDate spells the planner's date_move(D, N).
-func (r *renderer) moveDate(e *planner.Func, arg string, t planner.Type) (string, error) {
-	lit, _ := e.Args[1].(*planner.Lit)
+func (r *renderer) moveDate(e *model.Func, arg string, t model.Type) (string, error) {
+	lit, _ := e.Args[1].(*model.Lit)
 	n := 0
 	if lit != nil {
 		n, _ = strconv.Atoi(lit.Text)
@@ -29,7 +30,7 @@ func (r *renderer) moveDate(e *planner.Func, arg string, t planner.Type) (string
 
 // moveBy moves a date by n units: days and weeks as days, quarters and
 // years as months. what names the construct for a dialect that cannot.
-func (r *renderer) moveBy(arg string, n int, unit string, t planner.Type, what string) (string, error) {
+func (r *renderer) moveBy(arg string, n int, unit string, t model.Type, what string) (string, error) {
 	d := r.d
 	if a, wrapped := d.(*Approximate); wrapped {
 		d = a.Dialect
@@ -50,10 +51,10 @@ func (r *renderer) moveBy(arg string, n int, unit string, t planner.Type, what s
 	return m.MoveDate(arg, n, unit, t), nil
 }
 
-// rangeScan renders a window edit's scan (planner.TimeRange): the E of
+// rangeScan renders a window edit's scan (plan.TimeRange): the E of
 // every cell of ctx, then the aggregates of the rows that match each
 // cell's kept keys and whose date lies in the cell's range.
-func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
+func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 	s := rel.Scan
 	tr := s.Range
 	rowsName, col, err := r.scanRows(rel)
@@ -80,9 +81,9 @@ func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
 	end := a + "." + r.q(rel.Name+"_end")
 	conds := []string{at + " <= " + end}
 	switch tr.Kind {
-	case planner.EditToDate:
+	case model.EditToDate:
 		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.T))
-	case planner.EditLast:
+	case model.EditLast:
 		lo, err := r.moveBy(end, -tr.N, tr.Unit, tr.E.T, fmt.Sprintf("last %d %s", tr.N, tr.Unit))
 		if err != nil {
 			return err
@@ -131,7 +132,7 @@ func (r *renderer) rangeScan(ctx *planner.Context, rel *planner.Rel) error {
 // cell of ends joined to the rows in its date range, on conds) go to a CTE
 // of their own, numbered within each cell, and the cells CTE aggregates
 // them by cell.
-func (r *renderer) rangeMedians(ctx *planner.Context, rel *planner.Rel, ends, rowsName string, col func(string) string, conds []string) error {
+func (r *renderer) rangeMedians(ctx *plan.Context, rel *plan.Rel, ends, rowsName string, col func(string) string, conds []string) error {
 	s := rel.Scan
 	a, x := r.q("a"), r.q("x")
 	cols := []string{GroupingColumn}
@@ -144,9 +145,9 @@ func (r *renderer) rangeMedians(ctx *planner.Context, rel *planner.Rel, ends, ro
 	}
 	group := append([]string{}, part...)
 	var vals []rankedValue
-	var meds []*planner.Leaf
+	var meds []*plan.Leaf
 	for _, l := range s.Leaves {
-		for _, in := range []*planner.Input{l.Arg, l.Filter} {
+		for _, in := range []*plan.Input{l.Arg, l.Filter} {
 			if in != nil && !slices.Contains(cols, col(in.Name)) {
 				cols = append(cols, col(in.Name))
 				sel = append(sel, x+"."+r.q(col(in.Name))+" AS "+r.q(col(in.Name)))
@@ -190,28 +191,28 @@ func (r *renderer) rangeMedians(ctx *planner.Context, rel *planner.Rel, ends, ro
 // month arithmetic clamps to the month's last day (PostgreSQL documents
 // it in "Date/Time Functions and Operators", section 9.9). A date plus an
 // interval is a timestamp there: cast back.
-func intervalMove(arg string, n int, unit string, t planner.Type) string {
+func intervalMove(arg string, n int, unit string, t model.Type) string {
 	x := "(" + arg + " + INTERVAL '" + strconv.Itoa(n) + " " + unit + "')"
-	if t == planner.TypeDate {
+	if t == model.TypeDate {
 		return "CAST(" + x + " AS DATE)"
 	}
 	return x
 }
 
 // MoveDate adds an interval (see intervalMove).
-func (duckdb) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (duckdb) MoveDate(arg string, n int, unit string, t model.Type) string {
 	return intervalMove(arg, n, unit, t)
 }
 
 // MoveDate adds an interval (see intervalMove).
-func (postgres) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (postgres) MoveDate(arg string, n int, unit string, t model.Type) string {
 	return intervalMove(arg, n, unit, t)
 }
 
 // MoveDate is DATE_ADD, whose month arithmetic clamps to the month's last
 // day (MySQL and MariaDB manuals, DATE_ADD: "the day is adjusted to the
 // maximum days in the new month").
-func (mysql) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+func (mysql) MoveDate(arg string, n int, unit string, _ model.Type) string {
 	return "DATE_ADD(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + map[string]string{"day": "DAY", "month": "MONTH"}[unit] + ")"
 }
 
@@ -220,7 +221,7 @@ func (mysql) MoveDate(arg string, n int, unit string, _ planner.Type) string {
 // so a month move goes to the target month's first day and adds the
 // original day less one, at most the target month's last day less one.
 // A timestamp keeps its time of day (to the millisecond).
-func (sqlite) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (sqlite) MoveDate(arg string, n int, unit string, t model.Type) string {
 	var day string
 	if unit == "day" {
 		day = "date(" + arg + ", '" + strconv.Itoa(n) + " days')"
@@ -228,7 +229,7 @@ func (sqlite) MoveDate(arg string, n int, unit string, t planner.Type) string {
 		last := "CAST(strftime('%d', date(" + arg + ", 'start of month', '" + strconv.Itoa(n+1) + " months', '-1 day')) AS INTEGER)"
 		day = "date(" + arg + ", 'start of month', '" + strconv.Itoa(n) + " months', '+' || (MIN(CAST(strftime('%d', " + arg + ") AS INTEGER), " + last + ") - 1) || ' days')"
 	}
-	if t == planner.TypeTimestamp {
+	if t == model.TypeTimestamp {
 		return "strftime('%Y-%m-%d %H:%M:%f', " + day + " || ' ' || strftime('%H:%M:%f', " + arg + "))"
 	}
 	return day
@@ -237,22 +238,22 @@ func (sqlite) MoveDate(arg string, n int, unit string, t planner.Type) string {
 // MoveDate is DATEADD, which clamps a month move to the target month's
 // last day (learn.microsoft.com, DATEADD: "the last day of the return
 // month is returned").
-func (sqlserver) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+func (sqlserver) MoveDate(arg string, n int, unit string, _ model.Type) string {
 	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
 }
 
 // MoveDate is DATEADD, which clamps a month move (docs.snowflake.com,
 // DATEADD: adding a month to January 31 gives the last day of February).
-func (snowflake) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+func (snowflake) MoveDate(arg string, n int, unit string, _ model.Type) string {
 	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
 }
 
 // MoveDate is DATE_ADD (DATETIME_ADD for timestamps, which are DATETIME
 // here); both clamp a month move to the month's last day (cloud.google.com,
 // "Date functions", DATE_ADD).
-func (bigquery) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (bigquery) MoveDate(arg string, n int, unit string, t model.Type) string {
 	fn := "DATE_ADD"
-	if t == planner.TypeTimestamp {
+	if t == model.TypeTimestamp {
 		fn = "DATETIME_ADD"
 	}
 	return fn + "(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + strings.ToUpper(unit) + ")"
@@ -260,7 +261,7 @@ func (bigquery) MoveDate(arg string, n int, unit string, t planner.Type) string 
 
 // MoveDate is date_add, whose month arithmetic clamps to the month's last
 // day (trino.io, "Date and time functions", date_add).
-func (trino) MoveDate(arg string, n int, unit string, _ planner.Type) string {
+func (trino) MoveDate(arg string, n int, unit string, _ model.Type) string {
 	return "date_add('" + unit + "', " + strconv.Itoa(n) + ", " + arg + ")"
 }
 
@@ -268,9 +269,9 @@ func (trino) MoveDate(arg string, n int, unit string, _ planner.Type) string {
 // timestamps; since Spark 3.0 add_months clamps to the month's last day
 // without moving a month's last day to the next month's last day (Spark
 // SQL migration guide, 2.4 to 3.0).
-func (spark) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (spark) MoveDate(arg string, n int, unit string, t model.Type) string {
 	switch {
-	case t == planner.TypeTimestamp:
+	case t == model.TypeTimestamp:
 		return "timestampadd(" + strings.ToUpper(unit) + ", " + strconv.Itoa(n) + ", " + arg + ")"
 	case unit == "month":
 		return "add_months(" + arg + ", " + strconv.Itoa(n) + ")"

@@ -3,7 +3,7 @@ package dialects
 import (
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // trino is Trino (and Presto's SQL).
@@ -19,27 +19,27 @@ func (trino) Caps() Caps {
 		NullsLast: true, PredicateValues: true, FullOuterJoin: true}
 }
 
-func (trino) TypeName(t planner.Type) string {
+func (trino) TypeName(t model.Type) string {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT"
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return "DECIMAL(38, 6)"
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE"
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE"
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP"
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN"
 	}
 	return "VARCHAR"
 }
 
-func (d trino) ColumnType(t planner.Type) string { return d.TypeName(t) }
+func (d trino) ColumnType(t model.Type) string { return d.TypeName(t) }
 
-func (d trino) Cast(arg string, _, to planner.Type) string { return castWith(d, arg, to) }
+func (d trino) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
 
 // Agg: avg of a decimal is a decimal, so the inputs of avg and the
 // statistics are made DOUBLE, as DuckDB computes them
@@ -71,7 +71,7 @@ func (trino) Divide(l, r string) string {
 
 // DateTrunc: date_trunc keeps the argument's type; weeks start on Monday
 // (trino.io/docs/current/functions/datetime.html).
-func (trino) DateTrunc(unit, arg string, _ planner.Type) string {
+func (trino) DateTrunc(unit, arg string, _ model.Type) string {
 	return "date_trunc('" + unit + "', " + arg + ")"
 }
 
@@ -81,7 +81,7 @@ func (trino) BitAnd(a, b string) string { return "bitwise_and(" + a + ", " + b +
 
 // Call: greatest and least return NULL when an argument is NULL in Trino
 // (functions/comparison.html), so NULLs are stepped over as DuckDB does.
-func (trino) Call(name string, args []string, _ []planner.Type) (string, error) {
+func (trino) Call(name string, args []string, _ []model.Type) (string, error) {
 	switch name {
 	case "greatest", "least":
 		return nullIgnoring(name, args), nil

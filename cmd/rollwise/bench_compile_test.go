@@ -7,7 +7,7 @@ import (
 	"time"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Compile speed: how long checking a large model and planning a wide query
@@ -132,12 +132,12 @@ func synthMeasure(i int) string {
 }
 
 // loadSynth parses and checks a synthetic model.
-func loadSynth(src string) (*planner.Model, error) {
+func loadSynth(src string) (*model.Model, error) {
 	f, diags := grammar.Parse("synthetic.roll", src)
 	if diags.HasErrors() {
 		return nil, fmt.Errorf("parse: %v", diags.Errors()[0].Error())
 	}
-	m, diags := planner.Load([]*grammar.File{f})
+	m, diags := model.Load([]*grammar.File{f})
 	if diags.HasErrors() {
 		return nil, fmt.Errorf("check: %d errors, first: %v", len(diags.Errors()), diags.Errors()[0].Error())
 	}
@@ -147,8 +147,8 @@ func loadSynth(src string) (*planner.Model, error) {
 // synthQuery asks for 50 measures spread over the model (the deepest
 // chains included), by two columns of two tables, with rollup totals and
 // a filter.
-func synthQuery(n int) planner.QuerySpec {
-	q := planner.QuerySpec{
+func synthQuery(n int) model.QuerySpec {
+	q := model.QuerySpec{
 		By:     []string{"products.family", "regions.name"},
 		Where:  "orders.channel <> 'none'",
 		Totals: "rollup",
@@ -213,7 +213,7 @@ func BenchmarkPlan50(b *testing.B) {
 
 // benchPlan loads the model src once, then plans and renders spec in the
 // benchmark's loop, reporting CPU milliseconds and the SQL's size.
-func benchPlan(b *testing.B, src string, spec planner.QuerySpec) {
+func benchPlan(b *testing.B, src string, spec model.QuerySpec) {
 	b.Helper()
 	m, err := loadSynth(src)
 	if err != nil {

@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
@@ -75,8 +75,8 @@ func layeredMeasure(i int) string {
 
 // layeredQuery asks for k measures of the layered model of n measures,
 // each the last (deepest) of its block, spread over the model.
-func layeredQuery(n, k int) planner.QuerySpec {
-	q := planner.QuerySpec{
+func layeredQuery(n, k int) model.QuerySpec {
+	q := model.QuerySpec{
 		By:     []string{"products.family", "regions.name"},
 		Where:  "orders.channel <> 'none'",
 		Totals: "rollup",

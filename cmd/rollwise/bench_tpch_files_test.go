@@ -8,7 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/internal/tpch"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // BenchmarkTPCHFiles times each rollwise query as `rollwise run --data`
@@ -38,7 +38,7 @@ func BenchmarkTPCHFiles(b *testing.B) {
 	native := benchConn(b, func() (*sql.DB, error) { return engine.Open(ctx, m, dir, engine.Options{FileDecimals: true}) })
 	wide := benchConn(b, func() (*sql.DB, error) { return engine.OpenDuckDB(ctx, m, dir) })
 	raw := benchConn(b, func() (*sql.DB, error) { return rawParquetDB(ctx, dir) })
-	runner := &engineRunner{ctx: ctx, models: map[string]*planner.Model{}}
+	runner := &engineRunner{ctx: ctx, models: map[string]*model.Model{}}
 	b.Logf("TPC-H scale factor %v", sf)
 	for _, c := range readTPCHChecks(b, "queries.json") {
 		if strings.Contains(c.ID, "/") {

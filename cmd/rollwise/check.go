@@ -6,7 +6,7 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/plan"
 
 	"github.com/spf13/cobra"
 )
@@ -69,7 +69,7 @@ func runCheck(e *env, o *checkOptions) error {
 	// measures cannot reach fails here and not on first use.
 	var diags grammar.Diagnostics
 	for _, v := range m.Views {
-		_, d := planner.NewPlan(m.ViewQuery(v))
+		_, d := plan.NewPlan(m.ViewQuery(v))
 		for _, x := range d {
 			x.Message = fmt.Sprintf("view %s: %s", v.Name, x.Message)
 		}

@@ -7,13 +7,13 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // requiredLinks lists the links of m declared required, in declaration
 // order.
-func requiredLinks(m *planner.Model) []*planner.Link {
-	var out []*planner.Link
+func requiredLinks(m *model.Model) []*model.Link {
+	var out []*model.Link
 	for _, t := range m.Tables {
 		for _, l := range t.Links {
 			if l.Required {
@@ -29,7 +29,7 @@ func requiredLinks(m *planner.Model) []*planner.Link {
 // makes about it: each link declared required finds its row, and each
 // declared key (and each semiadditive column's key and date) is on one
 // row (checkUnique). Each broken promise is an error at its declaration.
-func checkData(ctx context.Context, m *planner.Model, dataDir, dsn string, lo engine.LiveOptions) (grammar.Diagnostics, error) {
+func checkData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engine.LiveOptions) (grammar.Diagnostics, error) {
 	links := requiredLinks(m)
 	if len(links) == 0 && len(uniquenesses(m)) == 0 {
 		return nil, nil

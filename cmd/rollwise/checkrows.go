@@ -10,15 +10,15 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // uniqueness is a promise that the values of some columns of a table are
 // on one row each: a declared key, or a semiadditive column's key and
 // date.
 type uniqueness struct {
-	table *planner.Table
-	cols  []*planner.Column
+	table *model.Table
+	cols  []*model.Column
 	pos   grammar.Pos
 	// what names the promise in a finding, up to "is" or "are".
 	what string
@@ -30,17 +30,17 @@ type uniqueness struct {
 // is on the table; a link to the date's table is among the link columns
 // otherwise). A semiadditive column is summed across everything but its
 // date: two rows of one item on one day would add the balance twice.
-func uniquenesses(m *planner.Model) []uniqueness {
+func uniquenesses(m *model.Model) []uniqueness {
 	var out []uniqueness
 	for _, t := range m.Tables {
 		if len(t.Key) > 0 {
 			out = append(out, uniqueness{table: t, cols: t.Key, pos: t.Pos, what: "the key (" + columnNames(t.Key) + ") is"})
 		}
 		for _, c := range t.Columns {
-			if c.Additivity != planner.SemiAdditive || c.SemiDate == nil {
+			if c.Additivity != model.SemiAdditive || c.SemiDate == nil {
 				continue
 			}
-			var cols []*planner.Column
+			var cols []*model.Column
 			for _, l := range t.Links {
 				for _, fc := range l.FromCols {
 					if !slices.Contains(cols, fc) {
@@ -61,7 +61,7 @@ func uniquenesses(m *planner.Model) []uniqueness {
 	return out
 }
 
-func columnNames(cols []*planner.Column) string {
+func columnNames(cols []*model.Column) string {
 	var names []string
 	for _, c := range cols {
 		names = append(names, c.Name)
@@ -69,7 +69,7 @@ func columnNames(cols []*planner.Column) string {
 	return strings.Join(names, ", ")
 }
 
-func sameColumns(a, b []*planner.Column) bool {
+func sameColumns(a, b []*model.Column) bool {
 	if len(a) != len(b) {
 		return false
 	}
@@ -84,7 +84,7 @@ func sameColumns(a, b []*planner.Column) bool {
 // checkUnique reports, as an error at its declaration, each promise of
 // uniqueness the data breaks: the table, the columns, how many values
 // repeat on how many rows, and the most repeated value.
-func checkUnique(ctx context.Context, runner verify.Runner, d dialects.Dialect, m *planner.Model) (grammar.Diagnostics, error) {
+func checkUnique(ctx context.Context, runner verify.Runner, d dialects.Dialect, m *model.Model) (grammar.Diagnostics, error) {
 	var diags grammar.Diagnostics
 	for _, u := range uniquenesses(m) {
 		count, example, err := dialects.RepeatedRows(u.table, u.cols, d)

@@ -8,7 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // addCompletions teaches the shell completion of `rollwise completion`
@@ -20,7 +20,7 @@ func addCompletions(cmd *cobra.Command) {
 	cmd.ValidArgsFunction = func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
 		return []string{"roll"}, cobra.ShellCompDirectiveFilterFileExt
 	}
-	fromModel := func(flag string, names func(*planner.Model) []string) {
+	fromModel := func(flag string, names func(*model.Model) []string) {
 		if cmd.Flags().Lookup(flag) == nil {
 			return
 		}
@@ -32,14 +32,14 @@ func addCompletions(cmd *cobra.Command) {
 			return completeListItem(names(m), toComplete), cobra.ShellCompDirectiveNoFileComp | cobra.ShellCompDirectiveNoSpace
 		})
 	}
-	fromModel("measures", func(m *planner.Model) []string {
+	fromModel("measures", func(m *model.Model) []string {
 		var out []string
 		for _, x := range m.Measures {
 			out = append(out, x.Name)
 		}
 		return out
 	})
-	fromModel("by", func(m *planner.Model) []string {
+	fromModel("by", func(m *model.Model) []string {
 		var out []string
 		for _, t := range m.Tables {
 			for _, c := range t.Columns {
@@ -48,7 +48,7 @@ func addCompletions(cmd *cobra.Command) {
 		}
 		return out
 	})
-	fromModel("view", func(m *planner.Model) []string {
+	fromModel("view", func(m *model.Model) []string {
 		var out []string
 		for _, v := range m.Views {
 			out = append(out, v.Name)
@@ -86,7 +86,7 @@ func completeListItem(names []string, toComplete string) []string {
 // quietModel reads the model files (or folders of them) among args for
 // completion, printing nothing: whatever resolves is offered, nil when
 // nothing can be read.
-func quietModel(args []string) *planner.Model {
+func quietModel(args []string) *model.Model {
 	var files []*grammar.File
 	for _, p := range args {
 		for _, name := range modelFileNames(p) {
@@ -103,6 +103,6 @@ func quietModel(args []string) *planner.Model {
 	if len(files) == 0 {
 		return nil
 	}
-	m, _ := planner.Load(files)
+	m, _ := model.Load(files)
 	return m
 }

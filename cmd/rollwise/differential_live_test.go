@@ -7,7 +7,7 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
@@ -70,7 +70,7 @@ func (dc *diffOpened) loadInto(e *livetest.Engine) (diffTarget, error) {
 		return diffTarget{}, err
 	}
 	return diffTarget{name: e.Name, d: d, floats: e.Name == "sqlite",
-		run: func(text string, types []planner.Type) (*engine.Result, error) {
+		run: func(text string, types []model.Type) (*engine.Result, error) {
 			return e.Live.Query(dc.ctx, text, types)
 		}}, nil
 }
@@ -93,31 +93,30 @@ func diffRefusal(tg diffTarget, err error) bool {
 // a wrong row. The live differential test counts such a difference on
 // SQLite as a float step (and logs the count) instead of failing; it was
 // seen about once in a thousand SQLite cases (round(sum(decimal), 1) * x).
-func floatStep(q *planner.Query) bool {
-	seen := map[*planner.Computed]bool{}
-	measures := map[*planner.Measure]bool{}
+func floatStep(q *model.Query) bool {
+	measures := map[*model.Measure]bool{}
 	step := false
-	var visit func(e planner.Expr)
-	visit = func(e planner.Expr) {
-		planner.WalkOnce(e, seen, func(x planner.Expr) bool {
+	var visit func(e model.Expr)
+	visit = func(e model.Expr) {
+		model.Walk(e, func(x model.Expr) bool {
 			switch x := x.(type) {
-			case *planner.MeasureRef:
+			case *model.MeasureRef:
 				if !measures[x.Measure] {
 					measures[x.Measure] = true
 					visit(x.Measure.Expr)
 				}
-			case *planner.Func:
-				if len(x.Args) > 0 && x.Args[0].Type() == planner.TypeDecimal &&
-					(x.Name == "round" || x.Name == "cast" && x.CastTo == planner.TypeInteger) {
+			case *model.Func:
+				if len(x.Args) > 0 && x.Args[0].Type() == model.TypeDecimal &&
+					(x.Name == "round" || x.Name == "cast" && x.CastTo == model.TypeInteger) {
 					step = true
 				}
-			case *planner.BinOp:
+			case *model.BinOp:
 				switch x.Op {
 				case "=", "<>", "<", "<=", ">", ">=":
-					step = step || x.L.Type() == planner.TypeDecimal || x.R.Type() == planner.TypeDecimal
+					step = step || x.L.Type() == model.TypeDecimal || x.R.Type() == model.TypeDecimal
 				}
-			case *planner.InExpr:
-				step = step || x.X.Type() == planner.TypeDecimal
+			case *model.InExpr:
+				step = step || x.X.Type() == model.TypeDecimal
 			}
 			return true
 		})

@@ -7,7 +7,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
@@ -104,12 +104,12 @@ func diffRegression(t *testing.T, dir string, live *livetest.Engine) {
 // its JSON rows with the reference's: the regression cases check the
 // command line itself, not only the SQL path it takes.
 func (dc *diffOpened) viaMain(q casegen.Query) string {
-	model := filepath.Join(dc.dir, casegen.ModelFile)
-	got, stderr, code := diffRunJSON(append(append([]string{"run", model}, q.Args()...), "--format", "json"))
+	modelFile := filepath.Join(dc.dir, casegen.ModelFile)
+	got, stderr, code := diffRunJSON(append(append([]string{"run", modelFile}, q.Args()...), "--format", "json"))
 	if code != 0 {
 		return "rollwise run fails: " + stderr
 	}
-	pq, diags := dc.m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return diags.Error()

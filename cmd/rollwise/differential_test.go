@@ -23,7 +23,8 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
@@ -195,7 +196,7 @@ func diffSave(name string, c *casegen.Case, q casegen.Query) {
 // data in the reference evaluator and in an embedded DuckDB.
 type diffOpened struct {
 	dir string
-	m   *planner.Model
+	m   *model.Model
 	ref *reference.Data
 	db  *sql.DB
 	ctx context.Context
@@ -206,7 +207,7 @@ type diffOpened struct {
 type diffTarget struct {
 	name string
 	d    dialects.Dialect
-	run  func(text string, types []planner.Type) (*engine.Result, error)
+	run  func(text string, types []model.Type) (*engine.Result, error)
 	// floats says that decimals are computed as 64-bit floats (SQLite).
 	floats bool
 }
@@ -234,7 +235,7 @@ func (dc *diffOpened) close() { dc.db.Close() }
 // duckdb is the embedded DuckDB holding the case, as `rollwise run` uses it.
 func (dc *diffOpened) duckdb() diffTarget {
 	d, _ := dialects.Get("duckdb")
-	return diffTarget{name: "duckdb", d: d, run: func(text string, _ []planner.Type) (*engine.Result, error) {
+	return diffTarget{name: "duckdb", d: d, run: func(text string, _ []model.Type) (*engine.Result, error) {
 		return engine.Query(dc.ctx, dc.db, text)
 	}}
 }
@@ -246,7 +247,7 @@ func (dc *diffOpened) duckdb() diffTarget {
 // plan, render for the engine's dialect, run, write the rows as the JSON
 // report.
 func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) string {
-	pq, diags := dc.m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return "the generated query does not resolve: " + diags.Error()
@@ -256,7 +257,7 @@ func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) str
 		return "the reference evaluator fails: " + err.Error()
 	}
 	want := res.JSON()
-	plan, pd := planner.NewPlan(pq)
+	plan, pd := plan.NewPlan(pq)
 	if pd.HasErrors() {
 		for _, d := range pd.Errors() {
 			if d.Code == "not-supported" {
@@ -291,7 +292,7 @@ func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) str
 
 // runSQL runs the SQL on tg and shapes its rows as `rollwise run --format
 // json` does (resultTypes, shape and the JSON report of run.go).
-func (dc *diffOpened) runSQL(tg diffTarget, q *planner.Query, plan *planner.Plan, text string) ([]map[string]any, error) {
+func (dc *diffOpened) runSQL(tg diffTarget, q *model.Query, plan *plan.Plan, text string) ([]map[string]any, error) {
 	c := &compiled{model: dc.m, query: q, plan: plan, sql: text}
 	res, err := tg.run(text, resultTypes(c))
 	if err != nil {
@@ -315,7 +316,7 @@ func (dc *diffOpened) runSQL(tg diffTarget, q *planner.Query, plan *planner.Plan
 }
 
 // diffLoadModel parses and resolves one model file.
-func diffLoadModel(path string) (*planner.Model, error) {
+func diffLoadModel(path string) (*model.Model, error) {
 	src, err := os.ReadFile(path)
 	if err != nil {
 		return nil, err
@@ -324,7 +325,7 @@ func diffLoadModel(path string) (*planner.Model, error) {
 	if diags.HasErrors() {
 		return nil, diags.Err()
 	}
-	m, diags := planner.Load([]*grammar.File{f})
+	m, diags := model.Load([]*grammar.File{f})
 	if diags.HasErrors() {
 		return nil, diags.Err()
 	}
@@ -350,7 +351,7 @@ func diffRunJSON(args []string) ([]map[string]any, string, int) {
 // diffRows compares the rows of run (got) with the reference's (want);
 // it returns "" when they agree. floats compares decimals as floats too
 // (see diffTarget).
-func diffRows(q *planner.Query, got, want []map[string]any, floats bool) string {
+func diffRows(q *model.Query, got, want []map[string]any, floats bool) string {
 	var b strings.Builder
 	if len(got) != len(want) {
 		fmt.Fprintf(&b, "run gives %d rows, the reference %d\n", len(got), len(want))
@@ -380,14 +381,14 @@ func diffRows(q *planner.Query, got, want []map[string]any, floats bool) string 
 // value by at least one input value, a cent (a row lost or counted twice,
 // a wrong branch or group); the one source of smaller errors on the exact
 // engines, a digit lost to a DECIMAL's scale, does not exist on SQLite.
-func diffSameRow(q *planner.Query, g, w map[string]any, floats bool) bool {
+func diffSameRow(q *model.Query, g, w map[string]any, floats bool) bool {
 	for i, name := range q.GroupNames {
-		if !diffSameJSON(g[name], w[name], floats && q.Groups[i].Type == planner.TypeDecimal) {
+		if !diffSameJSON(g[name], w[name], floats && q.Groups[i].Type == model.TypeDecimal) {
 			return false
 		}
 	}
 	for _, m := range q.Measures {
-		if !diffSameJSON(g[m.Name], w[m.Name], m.Type == planner.TypeFloat || floats && m.Type == planner.TypeDecimal) {
+		if !diffSameJSON(g[m.Name], w[m.Name], m.Type == model.TypeFloat || floats && m.Type == model.TypeDecimal) {
 			return false
 		}
 	}
@@ -412,7 +413,7 @@ func diffSameJSON(a, b any, approx bool) bool {
 	return err1 == nil && err2 == nil && p.Equal(r)
 }
 
-func diffRowText(q *planner.Query, r map[string]any) string {
+func diffRowText(q *model.Query, r map[string]any) string {
 	if r == nil {
 		return "(none)"
 	}

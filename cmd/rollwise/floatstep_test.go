@@ -5,14 +5,14 @@ import (
 	"path/filepath"
 	"testing"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // TestFloatStepFindsSteps: the SQLite excuse of the live differential
 // test applies only to measures that pass a decimal through a step, so
 // that every other SQLite difference still fails the test.
 func TestFloatStepFindsSteps(t *testing.T) {
-	model := `table sales from "sales.csv" {
+	src := `table sales from "sales.csv" {
   key id
   id     integer
   price  decimal
@@ -27,7 +27,7 @@ measure whole    = round(units * 1.0)
 measure counted  = round(units)
 `
 	path := filepath.Join(t.TempDir(), "m.roll")
-	if err := os.WriteFile(path, []byte(model), 0o644); err != nil {
+	if err := os.WriteFile(path, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}
 	m, err := diffLoadModel(path)
@@ -38,7 +38,7 @@ measure counted  = round(units)
 		"revenue": false, "units": false, "counted": false,
 		"rounded": true, "big": true, "via_ref": true, "whole": true,
 	} {
-		q, diags := m.NewQuery(planner.QuerySpec{Measures: []string{name}})
+		q, diags := m.NewQuery(model.QuerySpec{Measures: []string{name}})
 		if diags.HasErrors() {
 			t.Fatalf("%s: %v", name, diags.Error())
 		}

@@ -4,7 +4,7 @@ import (
 	"unicode/utf8"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // identLimit is the longest identifier an engine keeps as written.
@@ -35,7 +35,7 @@ var identLimits = map[string]identLimit{
 // identTooLong reports, for `check -d`, every name of the model that
 // becomes an identifier in the dialect's SQL (a relation's parts, a
 // column, a measure and a view) and is longer than the dialect keeps.
-func identTooLong(m *planner.Model, dialect string) grammar.Diagnostics {
+func identTooLong(m *model.Model, dialect string) grammar.Diagnostics {
 	lim, ok := identLimits[dialect]
 	if !ok {
 		return nil

@@ -9,7 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // listKinds are what `rollwise list` can show, in the order of a full list.
@@ -102,7 +102,7 @@ func runList(e *env, o *listOptions) error {
 		case "measures":
 			for _, x := range m.Measures {
 				l.Measures = append(l.Measures, listMeasure{Name: x.Name, Type: x.Type.String(), Format: string(x.Format),
-					Description: x.Doc, Definition: planner.Text(x.Expr), At: x.Pos.String()})
+					Description: x.Doc, Definition: model.Text(x.Expr), At: x.Pos.String()})
 			}
 		case "tables":
 			for _, t := range m.Tables {
@@ -144,8 +144,8 @@ func runList(e *env, o *listOptions) error {
 
 // linkEnds spells a link's two ends: "sales.store_id" and "stores.id", or
 // "(a, b)" lists for a link over several columns.
-func linkEnds(k *planner.Link) (string, string) {
-	side := func(cols []*planner.Column) string {
+func linkEnds(k *model.Link) (string, string) {
+	side := func(cols []*model.Column) string {
 		var names []string
 		for _, c := range cols {
 			names = append(names, c.String())

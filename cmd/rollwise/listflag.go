@@ -5,7 +5,7 @@ import (
 
 	"github.com/spf13/pflag"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // listValue is a comma-separated list flag (-m, -b) that understands
@@ -16,7 +16,7 @@ import (
 type listValue struct{ p *[]string }
 
 func (l *listValue) Set(s string) error {
-	*l.p = append(*l.p, planner.SplitList(s)...)
+	*l.p = append(*l.p, model.SplitList(s)...)
 	return nil
 }
 

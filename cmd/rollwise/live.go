@@ -11,7 +11,7 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // liveDialect settles the dialect of run --dsn: the one the URL implies,
@@ -81,7 +81,7 @@ func executeLive(ctx context.Context, c *compiled, dsn string, lo engine.LiveOpt
 // openData opens the data a command reads: the live database at dsn, or
 // else the embedded DuckDB over m's files (or dataDir). live is nil on
 // the embedded engine; closeData releases what was opened.
-func openData(ctx context.Context, m *planner.Model, dataDir, dsn string, lo engine.LiveOptions) (run verify.Runner, live *engine.Live, closeData func(), err error) {
+func openData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engine.LiveOptions) (run verify.Runner, live *engine.Live, closeData func(), err error) {
 	if dsn != "" {
 		l, err := engine.OpenLive(ctx, dsn, lo)
 		if err != nil {
@@ -118,7 +118,7 @@ func addLiveCautions(ctx context.Context, l *engine.Live, c *compiled) {
 		return
 	}
 	for _, o := range c.plan.Outputs {
-		if o.Expr.Type() == planner.TypeDecimal {
+		if o.Expr.Type() == model.TypeDecimal {
 			c.plan.Cautions = append(c.plan.Cautions,
 				"SQLite has no exact decimal type: decimal values were computed as 64-bit floats")
 			return
@@ -128,13 +128,13 @@ func addLiveCautions(ctx context.Context, l *engine.Live, c *compiled) {
 
 // resultTypes are the logical types of the statement's columns: the
 // groups, the measures, then the grouping id.
-func resultTypes(c *compiled) []planner.Type {
-	var out []planner.Type
+func resultTypes(c *compiled) []model.Type {
+	var out []model.Type
 	for _, g := range c.query.Groups {
 		out = append(out, g.Type)
 	}
 	for _, o := range c.plan.Outputs {
 		out = append(out, o.Expr.Type())
 	}
-	return append(out, planner.TypeInteger)
+	return append(out, model.TypeInteger)
 }

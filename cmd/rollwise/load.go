@@ -10,13 +10,13 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // loadModel reads, parses and resolves model files (a folder stands for
 // the .roll files in it). Diagnostics are printed to stderr; the error is
 // an exitError with code 1 when there are errors.
-func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) {
+func loadModel(e *env, paths []string) (*model.Model, grammar.Sources, error) {
 	src := grammar.Sources{}
 	var files []*grammar.File
 	var diags grammar.Diagnostics
@@ -36,10 +36,10 @@ func loadModel(e *env, paths []string) (*planner.Model, grammar.Sources, error) 
 			files = append(files, f)
 		}
 	}
-	var m *planner.Model
+	var m *model.Model
 	if !diags.HasErrors() {
 		var d grammar.Diagnostics
-		m, d = planner.Load(files)
+		m, d = model.Load(files)
 		diags.Append(d)
 	}
 	printDiags(e, diags, src)

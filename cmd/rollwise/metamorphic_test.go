@@ -12,7 +12,8 @@ import (
 	"pgregory.net/rapid"
 
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
@@ -22,13 +23,13 @@ import (
 // sqlRows runs a query through the SQL path (as `rollwise run --format
 // json` does). skip is true when the planner reports the query as not
 // supported yet.
-func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *planner.Query, skip bool, err error) {
-	pq, diags := dc.m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *model.Query, skip bool, err error) {
+	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return nil, nil, false, fmt.Errorf("the query does not resolve: %v", diags)
 	}
-	plan, pd := planner.NewPlan(pq)
+	pl, pd := plan.NewPlan(pq)
 	if pd.HasErrors() {
 		for _, d := range pd.Errors() {
 			if d.Code == "not-supported" {
@@ -38,11 +39,11 @@ func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *plann
 		return nil, pq, false, fmt.Errorf("the planner rejects the query: %v", pd)
 	}
 	tg := dc.duckdb()
-	text, err := dialects.Render(plan, tg.d)
+	text, err := dialects.Render(pl, tg.d)
 	if err != nil {
 		return nil, pq, false, err
 	}
-	rows, err = dc.runSQL(tg, pq, plan, text)
+	rows, err = dc.runSQL(tg, pq, pl, text)
 	return rows, pq, false, err
 }
 
@@ -274,11 +275,11 @@ func checkTotals(dc *diffOpened, q casegen.Query) (string, casegen.Query) {
 			}
 			for _, m := range pq.Measures {
 				got, want := tr[m.Name], sr[m.Name]
-				if m.Type == planner.TypeDate || m.Type == planner.TypeTimestamp {
+				if m.Type == model.TypeDate || m.Type == model.TypeTimestamp {
 					// Compared as instants (see groupKey).
 					got, want = instant(got), instant(want)
 				}
-				if !diffSameJSON(got, want, m.Type == planner.TypeFloat) {
+				if !diffSameJSON(got, want, m.Type == model.TypeFloat) {
 					return fmt.Sprintf("total row %s (rolled up %s): %s = %v, but the query by %v gives %v",
 						k, rolled, m.Name, got, sub.By, want), sub
 				}

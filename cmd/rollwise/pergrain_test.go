@@ -6,7 +6,8 @@ import (
 	"pgregory.net/rapid"
 
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
@@ -82,11 +83,11 @@ func TestPerGrainIdentities(t *testing.T) {
 		defer dc.close()
 		for _, id := range c.Identities {
 			q := id.Query
-			pq, diags := dc.m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
+			pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
 			if diags.HasErrors() {
 				rt.Fatalf("%v\n\nthe case:\n%s", diags, c)
 			}
-			plan, pd := planner.NewPlan(pq)
+			plan, pd := plan.NewPlan(pq)
 			if pd.HasErrors() {
 				rt.Fatalf("%v\n\nthe case:\n%s", pd, c)
 			}

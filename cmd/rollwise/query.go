@@ -7,7 +7,8 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // queryOptions are the flags that say what to compute, shared by sql and
@@ -46,9 +47,9 @@ const approximateUsage = "compute approximately, and say so, what the dialect co
 
 // compiled is a planned and rendered query.
 type compiled struct {
-	model *planner.Model
-	query *planner.Query
-	plan  *planner.Plan
+	model *model.Model
+	query *model.Query
+	plan  *plan.Plan
 	sql   string
 }
 
@@ -68,13 +69,13 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 	if err != nil {
 		return nil, err
 	}
-	var q *planner.Query
+	var q *model.Query
 	var diags grammar.Diagnostics
 	if o.view != "" {
 		if len(o.measures)+len(o.by) > 0 || o.where != "" {
 			return nil, usageErr("--view computes the view as declared; leave out -m, -b and -w")
 		}
-		var v *planner.View
+		var v *model.View
 		for _, x := range m.Views {
 			if x.Name == o.view {
 				v = x
@@ -92,16 +93,16 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", msg)}
 		}
 		q = m.ViewQuery(v)
-		diags = q.Override(planner.QuerySpec{Totals: o.totals, Order: o.order, Limit: o.limit})
+		diags = q.Override(model.QuerySpec{Totals: o.totals, Order: o.order, Limit: o.limit})
 	} else {
-		q, diags = m.NewQuery(planner.QuerySpec{Measures: o.measures, By: o.by, Where: o.where,
+		q, diags = m.NewQuery(model.QuerySpec{Measures: o.measures, By: o.by, Where: o.where,
 			Totals: o.totals, Order: o.order, Limit: o.limit})
 	}
 	src["--where"] = o.where
 	if !diags.HasErrors() {
-		var p *planner.Plan
+		var p *plan.Plan
 		var pd grammar.Diagnostics
-		p, pd = planner.NewPlan(q)
+		p, pd = plan.NewPlan(q)
 		diags.Append(pd)
 		if p != nil {
 			printDiags(e, diags, src)
@@ -160,7 +161,7 @@ func newSQLCmd(e *env) *cobra.Command {
 	return cmd
 }
 
-func printCautions(e *env, p *planner.Plan) {
+func printCautions(e *env, p *plan.Plan) {
 	for _, c := range p.Cautions {
 		fmt.Fprintf(e.stderr, "caution: %s\n", c)
 	}

@@ -11,7 +11,7 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 type runOptions struct {
@@ -126,7 +126,7 @@ func resultTitle(c *compiled) string {
 		s += " by " + strings.Join(c.query.GroupNames, ", ")
 	}
 	for _, f := range c.query.Filters {
-		s += " where " + planner.Text(f)
+		s += " where " + model.Text(f)
 	}
 	return s
 }
@@ -200,8 +200,8 @@ func reportColumns(c *compiled) []report.Column {
 
 // periodOf is the period whose starts a group column holds, when it is
 // derived as date_trunc(month|quarter|year, ...), or "".
-func periodOf(c *planner.Column) string {
-	if f, ok := c.Derived.(*planner.Func); ok && f.Name == "date_trunc" {
+func periodOf(c *model.Column) string {
+	if f, ok := c.Derived.(*model.Func); ok && f.Name == "date_trunc" {
 		switch f.Unit {
 		case "month", "quarter", "year":
 			return f.Unit

@@ -8,7 +8,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/expect"
 )
@@ -72,12 +72,12 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 	if err := demo.WriteFiles(dir); err != nil {
 		t.Fatal(err)
 	}
-	model := filepath.Join(dir, demo.ModelFile)
-	m, err := diffLoadModel(model)
+	modelFile := filepath.Join(dir, demo.ModelFile)
+	m, err := diffLoadModel(modelFile)
 	if err != nil {
 		t.Fatal(err)
 	}
-	spec := planner.QuerySpec{Measures: []string{"revenue", "revenue_ly", "growth", "revenue_ytd", "closing_stock"},
+	spec := model.QuerySpec{Measures: []string{"revenue", "revenue_ly", "growth", "revenue_ytd", "closing_stock"},
 		By: []string{"calendar.month_start"}, Where: "calendar.cal_year = 2026", Totals: "grand"}
 	q, diags := m.NewQuery(spec)
 	if diags.HasErrors() {
@@ -88,7 +88,7 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 		t.Fatal(err)
 	}
 	want := res.JSON()
-	got, stderr, code := diffRunJSON([]string{"run", model, "--view", "month_report", "--format", "json"})
+	got, stderr, code := diffRunJSON([]string{"run", modelFile, "--view", "month_report", "--format", "json"})
 	if code != 0 {
 		t.Fatalf("rollwise run --view month_report: exit %d\n%s", code, stderr)
 	}

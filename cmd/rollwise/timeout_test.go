@@ -15,7 +15,7 @@ import (
 	"time"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // silentServer accepts connections and never answers, as a hung or
@@ -94,7 +94,7 @@ func TestLiveConnectTimeout(t *testing.T) {
 }
 
 // shopForLive loads the shop model for a live test database of its own.
-func shopForLive(t *testing.T) *planner.Model {
+func shopForLive(t *testing.T) *model.Model {
 	t.Helper()
 	m, _, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &bytes.Buffer{}}, []string{shopModel})
 	if err != nil {

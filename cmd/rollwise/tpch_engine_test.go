@@ -15,7 +15,8 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // The scale factor 1 checks and the benchmarks run rollwise through its
@@ -25,7 +26,7 @@ import (
 // costs about 20 s of CPU per run (docs/benchmarks.md).
 
 // loadModelFiles parses and checks model files of testdata/tpch.
-func loadModelFiles(names []string) (*planner.Model, error) {
+func loadModelFiles(names []string) (*model.Model, error) {
 	var files []*grammar.File
 	for _, name := range names {
 		path := filepath.Join(tpchDir, name)
@@ -39,7 +40,7 @@ func loadModelFiles(names []string) (*planner.Model, error) {
 		}
 		files = append(files, f)
 	}
-	m, diags := planner.Load(files)
+	m, diags := model.Load(files)
 	if diags.HasErrors() {
 		return nil, fmt.Errorf("%s", diags.Errors()[0].Error())
 	}
@@ -47,12 +48,12 @@ func loadModelFiles(names []string) (*planner.Model, error) {
 }
 
 // planSQL checks a query against the model, plans it and renders it.
-func planSQL(m *planner.Model, spec planner.QuerySpec) (string, error) {
+func planSQL(m *model.Model, spec model.QuerySpec) (string, error) {
 	q, diags := m.NewQuery(spec)
 	if diags.HasErrors() {
 		return "", fmt.Errorf("query: %v", diags.Errors()[0].Error())
 	}
-	p, diags := planner.NewPlan(q)
+	p, diags := plan.NewPlan(q)
 	if diags.HasErrors() {
 		return "", fmt.Errorf("plan: %v", diags.Errors()[0].Error())
 	}
@@ -68,7 +69,7 @@ func planSQL(m *planner.Model, spec planner.QuerySpec) (string, error) {
 type engineRunner struct {
 	ctx    context.Context
 	db     *sql.DB
-	models map[string]*planner.Model
+	models map[string]*model.Model
 }
 
 // newEngineRunner opens the embedded engine over the data of dir for the
@@ -85,14 +86,14 @@ func newEngineRunner(ctx context.Context, dir string) (*engineRunner, error) {
 	if err != nil {
 		return nil, err
 	}
-	return &engineRunner{ctx: ctx, db: db, models: map[string]*planner.Model{}}, nil
+	return &engineRunner{ctx: ctx, db: db, models: map[string]*model.Model{}}, nil
 }
 
 // Close closes the database.
 func (r *engineRunner) Close() error { return r.db.Close() }
 
 // model loads (once) the model of the listed files.
-func (r *engineRunner) model(names []string) (*planner.Model, error) {
+func (r *engineRunner) model(names []string) (*model.Model, error) {
 	key := strings.Join(names, "+")
 	if m, ok := r.models[key]; ok {
 		return m, nil
@@ -105,9 +106,9 @@ func (r *engineRunner) model(names []string) (*planner.Model, error) {
 	return m, nil
 }
 
-// spec is the check's query as planner.NewQuery takes it.
-func (c tpchCheck) spec() planner.QuerySpec {
-	return planner.QuerySpec{Measures: c.Measures, By: c.By, Where: c.Where, Totals: c.Totals,
+// spec is the check's query as model.NewQuery takes it.
+func (c tpchCheck) spec() model.QuerySpec {
+	return model.QuerySpec{Measures: c.Measures, By: c.By, Where: c.Where, Totals: c.Totals,
 		Order: c.Order, Limit: c.Limit}
 }
 

@@ -16,7 +16,7 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // The views tests run the generated DDL on DuckDB and hold every view to
@@ -48,7 +48,7 @@ func viewsCases(t *testing.T) []viewsCase {
 // published is a model whose views were created on a DuckDB holding its
 // data.
 type published struct {
-	model *planner.Model
+	model *model.Model
 	set   *views.Set
 	db    *sql.DB
 }
@@ -64,7 +64,7 @@ func (a asEngine) Name() string { return a.name }
 
 // MoveDate is DuckDB's date arithmetic (time edits), which the embedded
 // interface would hide.
-func (a asEngine) MoveDate(arg string, n int, unit string, t planner.Type) string {
+func (a asEngine) MoveDate(arg string, n int, unit string, t model.Type) string {
 	return a.Dialect.(dialects.DateMover).MoveDate(arg, n, unit, t)
 }
 

@@ -22,7 +22,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // The views of testdata/views/shop.roll on live engines: SQLite always
@@ -112,7 +112,7 @@ func liveDBs(t *testing.T) []*liveDB {
 // load creates the model's tables in the schema, named schema.REL (the
 // relation's parts joined by _), fills them from their CSV files, and
 // points the model's tables there.
-func (l *liveDB) load(t *testing.T, m *planner.Model, d dialects.Dialect) {
+func (l *liveDB) load(t *testing.T, m *model.Model, d dialects.Dialect) {
 	t.Helper()
 	done := map[string]bool{}
 	for _, tb := range m.Tables {
@@ -131,7 +131,7 @@ func (l *liveDB) load(t *testing.T, m *planner.Model, d dialects.Dialect) {
 		if err != nil {
 			t.Fatal(err)
 		}
-		var stored []*planner.Column
+		var stored []*model.Column
 		var defs []string
 		for _, c := range tb.Columns {
 			if c.Stored() {
@@ -160,22 +160,22 @@ func (l *liveDB) load(t *testing.T, m *planner.Model, d dialects.Dialect) {
 }
 
 // literal renders a CSV value as the dialect's literal of type typ.
-func literal(t *testing.T, d dialects.Dialect, typ planner.Type, s string) string {
+func literal(t *testing.T, d dialects.Dialect, typ model.Type, s string) string {
 	t.Helper()
 	if s == "" {
 		return "NULL"
 	}
 	switch typ {
-	case planner.TypeInteger, planner.TypeDecimal, planner.TypeFloat:
+	case model.TypeInteger, model.TypeDecimal, model.TypeFloat:
 		if _, err := strconv.ParseFloat(s, 64); err != nil {
 			t.Fatalf("%q is not a number", s)
 		}
 		return s
-	case planner.TypeDate:
+	case model.TypeDate:
 		return d.Date(s)
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return d.Timestamp(s)
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return d.Bool(s == "true")
 	}
 	return d.String(s)

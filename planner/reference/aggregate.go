@@ -8,7 +8,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // aggregate applies an aggregate function to values, as language.md
@@ -17,7 +17,7 @@ import (
 // continuous median; stddev and variance are the sample statistics. t is
 // the aggregate's static type: a float sum is added in floats, an exact
 // one exactly. Exact statistics are computed exactly and rounded once.
-func aggregate(fn string, distinct bool, vals []Value, t planner.Type) (Value, error) {
+func aggregate(fn string, distinct bool, vals []Value, t model.Type) (Value, error) {
 	var xs []Value
 	seen := map[string]bool{}
 	for _, v := range vals {
@@ -61,7 +61,7 @@ func aggregate(fn string, distinct bool, vals []Value, t planner.Type) (Value, e
 	exact := allExact(xs)
 	switch fn {
 	case "sum":
-		if exact && t != planner.TypeFloat {
+		if exact && t != model.TypeFloat {
 			s := decimal.Zero
 			for _, x := range xs {
 				s = s.Add(x.(decimal.Decimal))

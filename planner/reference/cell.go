@@ -6,7 +6,7 @@ import (
 	"sort"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // constraint is one condition of a cell.
@@ -18,11 +18,11 @@ import (
 // predicate writes (derived columns are not looked through).
 type constraint struct {
 	group    bool
-	col      *planner.Column
+	col      *model.Column
 	val      Value
-	pred     planner.Expr
+	pred     model.Expr
 	vals     []Value
-	mentions []*planner.Column
+	mentions []*model.Column
 	key      string
 	// shift is set for a constraint read on rows moved by `back`; rng
 	// for the date range of a window edit (see time.go).
@@ -32,19 +32,19 @@ type constraint struct {
 
 // colKey names a column in a constraint's key as the language writes it
 // (a.`b.c` and `a.b`.c are two columns with two keys).
-func colKey(col *planner.Column) string { return planner.Text(&planner.ColRef{Col: col}) }
+func colKey(col *model.Column) string { return model.Text(&model.ColRef{Col: col}) }
 
 // groupOn is the grouping col = v.
-func groupOn(col *planner.Column, v Value) *constraint {
-	return &constraint{group: true, col: col, val: v, mentions: []*planner.Column{col},
+func groupOn(col *model.Column, v Value) *constraint {
+	return &constraint{group: true, col: col, val: v, mentions: []*model.Column{col},
 		key: "G" + colKey(col) + "=" + key(v)}
 }
 
 // filterOn is a filter conjunct or narrowing predicate.
-func filterOn(pred planner.Expr) *constraint {
+func filterOn(pred model.Expr) *constraint {
 	c := &constraint{pred: pred, key: fmt.Sprintf("P%p", pred)}
-	planner.Walk(pred, func(e planner.Expr) bool {
-		if r, ok := e.(*planner.ColRef); ok && !slices.Contains(c.mentions, r.Col) {
+	model.Walk(pred, func(e model.Expr) bool {
+		if r, ok := e.(*model.ColRef); ok && !slices.Contains(c.mentions, r.Col) {
 			c.mentions = append(c.mentions, r.Col)
 		}
 		return true
@@ -53,13 +53,13 @@ func filterOn(pred planner.Expr) *constraint {
 }
 
 // pinOn is a pin col IN vals. A NULL value matches nothing, as with =.
-func pinOn(col *planner.Column, vals []Value) *constraint {
+func pinOn(col *model.Column, vals []Value) *constraint {
 	keys := make([]string, len(vals))
 	for i, v := range vals {
 		keys[i] = key(v)
 	}
 	sort.Strings(keys)
-	return &constraint{col: col, vals: vals, mentions: []*planner.Column{col},
+	return &constraint{col: col, vals: vals, mentions: []*model.Column{col},
 		key: "I" + colKey(col) + "=" + strings.Join(keys, ",")}
 }
 
@@ -152,12 +152,12 @@ func (c cell) id() string {
 	return strings.Join(keys, "\x01")
 }
 
-func (c *constraint) mentionsCol(col *planner.Column) bool {
+func (c *constraint) mentionsCol(col *model.Column) bool {
 	return slices.Contains(c.mentions, col)
 }
 
-func (c *constraint) mentionsTable(t *planner.Table) bool {
-	return slices.ContainsFunc(c.mentions, func(x *planner.Column) bool { return x.Table == t })
+func (c *constraint) mentionsTable(t *model.Table) bool {
+	return slices.ContainsFunc(c.mentions, func(x *model.Column) bool { return x.Table == t })
 }
 
 // edit applies one cell edit, as language.md defines it:
@@ -170,9 +170,9 @@ func (c *constraint) mentionsTable(t *planner.Table) bool {
 //	ungroup                remove every grouping, keep the filters
 //
 // A pin is a filter: a later ungroup keeps it, a later drop removes it.
-func (c cell) edit(ed *planner.CellEdit) (cell, error) {
+func (c cell) edit(ed *model.CellEdit) (cell, error) {
 	switch ed.Kind {
-	case planner.EditPin:
+	case model.EditPin:
 		if ed.Col == nil {
 			return nil, fmt.Errorf("a pin without a column")
 		}
@@ -185,7 +185,7 @@ func (c cell) edit(ed *planner.CellEdit) (cell, error) {
 			vals[i] = v
 		}
 		return c.without(func(x *constraint) bool { return x.mentionsCol(ed.Col) }).with(pinOn(ed.Col, vals)), nil
-	case planner.EditDrop:
+	case model.EditDrop:
 		switch {
 		case ed.Col != nil:
 			return c.without(func(x *constraint) bool { return x.mentionsCol(ed.Col) }), nil
@@ -193,7 +193,7 @@ func (c cell) edit(ed *planner.CellEdit) (cell, error) {
 			return c.without(func(x *constraint) bool { return x.mentionsTable(ed.Table) }), nil
 		}
 		return cell{}, nil
-	case planner.EditUngroup:
+	case model.EditUngroup:
 		if ed.Col != nil {
 			return c.without(func(x *constraint) bool { return x.group && x.col == ed.Col }), nil
 		}
@@ -258,16 +258,16 @@ func (ev *evaluator) constraintBits(td *tableData, c *constraint) (bits, error) 
 // reachable reports whether t is reachable from td's table (the table
 // itself included). A table without rows reaches only itself as far as
 // its data says; the model's links decide.
-func reachable(td *tableData, t *planner.Table) (int, bool) {
+func reachable(td *tableData, t *model.Table) (int, bool) {
 	if td.t == t {
 		return 0, true
 	}
-	seen := map[*planner.Table]bool{td.t: true}
-	queue := []*planner.Table{td.t}
+	seen := map[*model.Table]bool{td.t: true}
+	queue := []*model.Table{td.t}
 	depth := 0
 	for len(queue) > 0 {
 		depth++
-		var next []*planner.Table
+		var next []*model.Table
 		for _, x := range queue {
 			for _, l := range x.Links {
 				if l.To == t {

@@ -13,28 +13,28 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Data is a model with the rows of every table held in memory.
 type Data struct {
-	model  *planner.Model
-	tables map[*planner.Table]*tableData
+	model  *model.Model
+	tables map[*model.Table]*tableData
 }
 
 // tableData holds one table's stored values and, per row, the row that
 // each link path reaches.
 type tableData struct {
-	t *planner.Table
+	t *model.Table
 	// stored maps a stored column to its position in a row.
-	stored map[*planner.Column]int
+	stored map[*model.Column]int
 	rows   [][]Value
 	// reach[i] maps every table reachable from t along links to the row
 	// that row i reaches there, or -1 where a link finds no match.
-	reach []map[*planner.Table]int
+	reach []map[*model.Table]int
 	// derived caches derived column values per row (set[i] says whether
 	// vals[i] is computed).
-	derived map[*planner.Column]*derivedCache
+	derived map[*model.Column]*derivedCache
 }
 
 type derivedCache struct {
@@ -47,11 +47,11 @@ type derivedCache struct {
 // dataDir/NAME.csv instead), each stored column in its declared type.
 // Empty fields are NULL, and so are the texts the table declares with
 // `with null`.
-func Load(m *planner.Model, dataDir string) (*Data, error) {
+func Load(m *model.Model, dataDir string) (*Data, error) {
 	if m == nil {
 		return nil, errors.New("reference: no model")
 	}
-	d := &Data{model: m, tables: map[*planner.Table]*tableData{}}
+	d := &Data{model: m, tables: map[*model.Table]*tableData{}}
 	var errs []error
 	for _, t := range m.Tables {
 		file := t.File
@@ -78,7 +78,7 @@ func Load(m *planner.Model, dataDir string) (*Data, error) {
 
 // readTable reads one table's CSV file: a header row naming the columns
 // (matched exactly, else without regard to case), then one record a row.
-func readTable(t *planner.Table, file string) (*tableData, error) {
+func readTable(t *model.Table, file string) (*tableData, error) {
 	if file == "" {
 		return nil, fmt.Errorf("table %s has no data file", t.Name)
 	}
@@ -96,8 +96,8 @@ func readTable(t *planner.Table, file string) (*tableData, error) {
 	if len(header) > 0 {
 		header[0] = strings.TrimPrefix(header[0], "\ufeff")
 	}
-	td := &tableData{t: t, stored: map[*planner.Column]int{}, derived: map[*planner.Column]*derivedCache{}}
-	var cols []*planner.Column
+	td := &tableData{t: t, stored: map[*model.Column]int{}, derived: map[*model.Column]*derivedCache{}}
+	var cols []*model.Column
 	var at []int
 	for _, c := range t.Columns {
 		if !c.Stored() {
@@ -152,40 +152,40 @@ func readTable(t *planner.Table, file string) (*tableData, error) {
 }
 
 // parseField reads one CSV field as a value of type t; "" is NULL.
-func parseField(s string, t planner.Type) (Value, error) {
+func parseField(s string, t model.Type) (Value, error) {
 	if s == "" {
 		return nil, nil
 	}
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		d, err := decimal.NewFromString(strings.TrimSpace(s))
 		if err != nil || !d.Equal(d.Truncate(0)) {
 			return nil, fmt.Errorf("%q is not a whole number", s)
 		}
 		return d.Truncate(0), nil
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		d, err := decimal.NewFromString(strings.TrimSpace(s))
 		if err != nil {
 			return nil, fmt.Errorf("%q is not a decimal number", s)
 		}
 		return d, nil
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		f, err := strconv.ParseFloat(strings.TrimSpace(s), 64)
 		if err != nil {
 			return nil, fmt.Errorf("%q is not a number", s)
 		}
 		return f, nil
-	case planner.TypeText:
+	case model.TypeText:
 		return s, nil
-	case planner.TypeDate:
+	case model.TypeDate:
 		tm, err := parseTime(strings.TrimSpace(s))
 		if err != nil {
 			return nil, err
 		}
 		return truncate("day", tm), nil
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return parseTime(strings.TrimSpace(s))
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return parseBool(s)
 	}
 	return nil, fmt.Errorf("type %s cannot be stored", t)
@@ -195,11 +195,11 @@ func parseField(s string, t planner.Type) (Value, error) {
 // links holds for it. Links always match on stored columns of the table
 // they leave; a NULL in any link column matches nothing.
 func (d *Data) link(td *tableData) error {
-	index := map[*planner.Link]map[string]int{}
+	index := map[*model.Link]map[string]int{}
 	for i := range td.rows {
-		reach := map[*planner.Table]int{td.t: i}
+		reach := map[*model.Table]int{td.t: i}
 		type step struct {
-			t   *planner.Table
+			t   *model.Table
 			row int
 		}
 		queue := []step{{td.t, i}}
@@ -249,7 +249,7 @@ func (d *Data) link(td *tableData) error {
 // keyIndex maps the key values of the link's target rows to row numbers.
 // Keys are unique by declaration; where the data repeats one, the first
 // row wins.
-func keyIndex(cache map[*planner.Link]map[string]int, l *planner.Link, to *tableData) (map[string]int, error) {
+func keyIndex(cache map[*model.Link]map[string]int, l *model.Link, to *tableData) (map[string]int, error) {
 	if idx, ok := cache[l]; ok {
 		return idx, nil
 	}
@@ -280,8 +280,8 @@ func keyIndex(cache map[*planner.Link]map[string]int, l *planner.Link, to *table
 // errUnreachable says that a cell constraint or an expression reads a
 // column that the iteration table cannot reach along links.
 type errUnreachable struct {
-	col  *planner.Column
-	from *planner.Table
+	col  *model.Column
+	from *model.Table
 }
 
 func (e *errUnreachable) Error() string {
@@ -291,7 +291,7 @@ func (e *errUnreachable) Error() string {
 // column reads column c for row i of td: stored values directly, derived
 // ones computed from the row of c's table (NULL when the link path to
 // that table finds no row).
-func (d *Data) column(td *tableData, i int, c *planner.Column) (Value, error) {
+func (d *Data) column(td *tableData, i int, c *model.Column) (Value, error) {
 	r, ok := td.reach[i][c.Table]
 	if !ok {
 		return nil, &errUnreachable{col: c, from: td.t}
@@ -329,13 +329,13 @@ func (d *Data) column(td *tableData, i int, c *planner.Column) (Value, error) {
 }
 
 // row evaluates a row expression for row i of td.
-func (d *Data) row(td *tableData, i int, e planner.Expr) (Value, error) {
-	if c, ok := e.(*planner.ColRef); ok {
+func (d *Data) row(td *tableData, i int, e model.Expr) (Value, error) {
+	if c, ok := e.(*model.ColRef); ok {
 		return d.column(td, i, c.Col)
 	}
-	v, ok, err := scalar(e, func(x planner.Expr) (Value, error) { return d.row(td, i, x) })
+	v, ok, err := scalar(e, func(x model.Expr) (Value, error) { return d.row(td, i, x) })
 	if !ok && err == nil {
-		return nil, fmt.Errorf("%s cannot appear in a row expression", planner.Text(e))
+		return nil, fmt.Errorf("%s cannot appear in a row expression", model.Text(e))
 	}
 	return v, err
 }
@@ -343,7 +343,7 @@ func (d *Data) row(td *tableData, i int, e planner.Expr) (Value, error) {
 // Unmatched counts the rows of l's table whose link l finds no row (a NULL
 // link column included): none where a link declared required keeps its
 // promise.
-func (d *Data) Unmatched(l *planner.Link) int {
+func (d *Data) Unmatched(l *model.Link) int {
 	n := 0
 	if td := d.tables[l.From]; td != nil {
 		for _, reach := range td.reach {

@@ -6,7 +6,7 @@ import (
 	"strconv"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
@@ -24,10 +24,10 @@ func (r *Result) JSON() []map[string]any {
 	nCols := len(q.Groups) + len(q.Measures)
 	dates := make([]bool, 0, nCols)
 	for _, g := range q.Groups {
-		dates = append(dates, g.Type == planner.TypeDate)
+		dates = append(dates, g.Type == model.TypeDate)
 	}
 	for _, meas := range q.Measures {
-		dates = append(dates, meas.Type == planner.TypeDate)
+		dates = append(dates, meas.Type == model.TypeDate)
 	}
 	out := make([]map[string]any, 0, len(r.Rows))
 	for _, row := range r.Rows {

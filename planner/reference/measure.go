@@ -6,7 +6,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // evaluator evaluates measure expressions in cells, caching what does
@@ -30,7 +30,7 @@ func newEvaluator(d *Data) *evaluator {
 const maxDepth = 10000
 
 // measure evaluates a measure expression in a cell.
-func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
+func (ev *evaluator) measure(e model.Expr, c cell) (Value, error) {
 	ev.depth++
 	defer func() { ev.depth-- }()
 	if ev.depth > maxDepth {
@@ -39,9 +39,9 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 	switch e := e.(type) {
 	case nil:
 		return nil, fmt.Errorf("missing expression")
-	case *planner.Agg:
+	case *model.Agg:
 		return ev.agg(e, c)
-	case *planner.MeasureRef:
+	case *model.MeasureRef:
 		if e.Measure == nil || e.Measure.Expr == nil {
 			return nil, fmt.Errorf("measure reference without a definition")
 		}
@@ -55,9 +55,9 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 		}
 		ev.memo[k] = v
 		return v, nil
-	case *planner.NarrowExpr:
+	case *model.NarrowExpr:
 		return ev.measure(e.X, c.with(filterOn(e.Pred)))
-	case *planner.EditExpr:
+	case *model.EditExpr:
 		edited := c
 		for _, ed := range e.Edits {
 			var err error
@@ -73,7 +73,7 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 			}
 		}
 		return ev.measure(e.X, edited)
-	case *planner.PerAgg:
+	case *model.PerAgg:
 		k := fmt.Sprintf("A%p|%s", e, c.id())
 		if v, ok := ev.memo[k]; ok {
 			return v, nil
@@ -84,10 +84,10 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 		}
 		ev.memo[k] = v
 		return v, nil
-	case *planner.ColRef:
+	case *model.ColRef:
 		return nil, fmt.Errorf("column %s used outside an aggregate", e.Col)
 	}
-	v, ok, err := scalar(e, func(x planner.Expr) (Value, error) { return ev.measure(x, c) })
+	v, ok, err := scalar(e, func(x model.Expr) (Value, error) { return ev.measure(x, c) })
 	if !ok && err == nil {
 		return nil, fmt.Errorf("cannot evaluate %T", e)
 	}
@@ -95,7 +95,7 @@ func (ev *evaluator) measure(e planner.Expr, c cell) (Value, error) {
 }
 
 // agg aggregates the rows of the iteration table that satisfy the cell.
-func (ev *evaluator) agg(a *planner.Agg, c cell) (Value, error) {
+func (ev *evaluator) agg(a *model.Agg, c cell) (Value, error) {
 	td := ev.d.tables[a.Table]
 	if td == nil {
 		return nil, fmt.Errorf("table %v is not loaded", a.Table)
@@ -119,7 +119,7 @@ func (ev *evaluator) agg(a *planner.Agg, c cell) (Value, error) {
 }
 
 // argValues evaluates a row expression on every row of td, once.
-func (ev *evaluator) argValues(td *tableData, e planner.Expr) ([]Value, error) {
+func (ev *evaluator) argValues(td *tableData, e model.Expr) ([]Value, error) {
 	k := fmt.Sprintf("%s|%p", td.t.Name, e)
 	if v, ok := ev.args[k]; ok {
 		return v, nil
@@ -143,7 +143,7 @@ func (ev *evaluator) argValues(td *tableData, e planner.Expr) ([]Value, error) {
 // with or without a having clause (NULL is not a group); the having
 // clause decides for the others. The kept groups' values of X are aggregated with AGG;
 // count(* per ...) counts the kept groups.
-func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
+func (ev *evaluator) perAgg(p *model.PerAgg, c cell) (Value, error) {
 	tables, err := ev.perTables(p)
 	if err != nil {
 		return nil, err
@@ -214,11 +214,11 @@ func (ev *evaluator) perAgg(p *planner.PerAgg, c cell) (Value, error) {
 // (count(* per ...), a literal), the table among the per columns' tables
 // from which the others are reachable. The having clause never changes
 // the groups (language.md, "Per-grain groups and NULL").
-func (ev *evaluator) perTables(p *planner.PerAgg) ([]*planner.Table, error) {
-	var tables []*planner.Table
+func (ev *evaluator) perTables(p *model.PerAgg) ([]*model.Table, error) {
+	var tables []*model.Table
 	var err error
 	if p.X != nil {
-		if tables, err = iterationTables(p.X, nil, map[*planner.Measure]bool{}); err != nil || len(tables) > 0 {
+		if tables, err = iterationTables(p.X, nil, map[*model.Measure]bool{}); err != nil || len(tables) > 0 {
 			return tables, err
 		}
 	}
@@ -226,19 +226,19 @@ func (ev *evaluator) perTables(p *planner.PerAgg) ([]*planner.Table, error) {
 	if err != nil {
 		return nil, err
 	}
-	return []*planner.Table{t}, nil
+	return []*model.Table{t}, nil
 }
 
 // perColumnsTable is the one table among the per columns' tables from
 // which every other is reachable.
-func perColumnsTable(per []*planner.Column) (*planner.Table, error) {
-	var tables []*planner.Table
+func perColumnsTable(per []*model.Column) (*model.Table, error) {
+	var tables []*model.Table
 	for _, c := range per {
 		if !slices.Contains(tables, c.Table) {
 			tables = append(tables, c.Table)
 		}
 	}
-	var cands []*planner.Table
+	var cands []*model.Table
 	for _, t := range tables {
 		all := true
 		for _, o := range tables {
@@ -256,45 +256,45 @@ func perColumnsTable(per []*planner.Column) (*planner.Table, error) {
 	return cands[0], nil
 }
 
-func reachableTable(from, to *planner.Table) (int, bool) {
+func reachableTable(from, to *model.Table) (int, bool) {
 	return reachable(&tableData{t: from}, to)
 }
 
 // iterationTables adds to acc the iteration tables of every aggregate in
 // e, following measure references and per-grain aggregates.
-func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Measure]bool) ([]*planner.Table, error) {
+func iterationTables(e model.Expr, acc []*model.Table, seen map[*model.Measure]bool) ([]*model.Table, error) {
 	var err error
-	add := func(t *planner.Table) {
+	add := func(t *model.Table) {
 		if t != nil && !slices.Contains(acc, t) {
 			acc = append(acc, t)
 		}
 	}
-	planner.Walk(e, func(x planner.Expr) bool {
+	model.Walk(e, func(x model.Expr) bool {
 		if err != nil {
 			return false
 		}
 		switch x := x.(type) {
-		case *planner.Agg:
+		case *model.Agg:
 			add(x.Table)
 			return false
-		case *planner.MeasureRef:
+		case *model.MeasureRef:
 			if x.Measure != nil && !seen[x.Measure] {
 				seen[x.Measure] = true
 				acc, err = iterationTables(x.Measure.Expr, acc, seen)
 			}
 			return false
-		case *planner.PerAgg:
+		case *model.PerAgg:
 			// The per-grain's own tables (measure references already
 			// seen elsewhere count again here).
 			// Its groups come from the rows of X's iteration tables; a
 			// having clause only keeps or drops groups. count(* per ...)
 			// has no X: then the per columns' table.
-			var own []*planner.Table
+			var own []*model.Table
 			if x.X != nil {
-				own, err = iterationTables(x.X, own, map[*planner.Measure]bool{})
+				own, err = iterationTables(x.X, own, map[*model.Measure]bool{})
 			}
 			if err == nil && len(own) == 0 {
-				var t *planner.Table
+				var t *model.Table
 				if t, err = perColumnsTable(x.Per); err == nil {
 					own = append(own, t)
 				}
@@ -303,7 +303,7 @@ func iterationTables(e planner.Expr, acc []*planner.Table, seen map[*planner.Mea
 				add(t)
 			}
 			return false
-		case *planner.NarrowExpr:
+		case *model.NarrowExpr:
 			acc, err = iterationTables(x.X, acc, seen)
 			return false
 		}

@@ -1,7 +1,7 @@
 // Package reference is rollwise's reference evaluator: it computes a
 // query's result from a resolved model and rows held in memory, cell by
 // cell, exactly as language.md defines a value, with simple loops and no
-// SQL. It shares no planning code with the SQL path (planner.NewPlan and
+// SQL. It shares no planning code with the SQL path (plan.NewPlan and
 // the dialects), so that the two can disagree: the differential tests run
 // both on random models and data and compare their rows.
 //
@@ -32,7 +32,7 @@ import (
 	"slices"
 	"sort"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Row is one result row: each group reference as written, each measure's
@@ -49,12 +49,12 @@ type Row struct {
 
 // Result is a query's rows in order.
 type Result struct {
-	Query *planner.Query
+	Query *model.Query
 	Rows  []Row
 }
 
 // Evaluate loads the model's data (see Load) and runs the query.
-func Evaluate(m *planner.Model, q *planner.Query, dataDir string) (*Result, error) {
+func Evaluate(m *model.Model, q *model.Query, dataDir string) (*Result, error) {
 	d, err := Load(m, dataDir)
 	if err != nil {
 		return nil, err
@@ -63,7 +63,7 @@ func Evaluate(m *planner.Model, q *planner.Query, dataDir string) (*Result, erro
 }
 
 // Run computes the query's rows.
-func (d *Data) Run(q *planner.Query) (*Result, error) {
+func (d *Data) Run(q *model.Query) (*Result, error) {
 	if q == nil {
 		return nil, fmt.Errorf("reference: no query")
 	}
@@ -122,11 +122,11 @@ func (d *Data) Run(q *planner.Query) (*Result, error) {
 
 // combinations lists the distinct combinations of group values among the
 // iteration rows of the query's measures that pass the filters.
-func (ev *evaluator) combinations(q *planner.Query, filters cell) ([][]Value, error) {
-	var tables []*planner.Table
+func (ev *evaluator) combinations(q *model.Query, filters cell) ([][]Value, error) {
+	var tables []*model.Table
 	for _, m := range q.Measures {
 		var err error
-		if tables, err = iterationTables(m.Expr, tables, map[*planner.Measure]bool{}); err != nil {
+		if tables, err = iterationTables(m.Expr, tables, map[*model.Measure]bool{}); err != nil {
 			return nil, fmt.Errorf("measure %s: %w", m.Name, err)
 		}
 	}
@@ -166,7 +166,7 @@ func (ev *evaluator) combinations(q *planner.Query, filters cell) ([][]Value, er
 // set rolls up, the detail set first: none (detail only), grand (and
 // everything rolled up), rollup (the last j groups rolled up, j = 1..n),
 // all (every subset, fewest rolled up first).
-func groupingSets(mode planner.TotalsMode, n int) [][]bool {
+func groupingSets(mode model.TotalsMode, n int) [][]bool {
 	set := func(f func(i int) bool) []bool {
 		out := make([]bool, n)
 		for i := range out {
@@ -179,13 +179,13 @@ func groupingSets(mode planner.TotalsMode, n int) [][]bool {
 		return sets
 	}
 	switch mode {
-	case planner.TotalsGrand:
+	case model.TotalsGrand:
 		sets = append(sets, set(func(int) bool { return true }))
-	case planner.TotalsRollup:
+	case model.TotalsRollup:
 		for j := 1; j <= n; j++ {
 			sets = append(sets, set(func(i int) bool { return i >= n-j }))
 		}
-	case planner.TotalsAll:
+	case model.TotalsAll:
 		for k := 1; k <= n; k++ {
 			for mask := 0; mask < 1<<n; mask++ {
 				if popcount(mask) == k {
@@ -223,7 +223,7 @@ func popcount(x int) int {
 //
 // --limit N keeps the first N detail rows, in that order, the total rows of
 // the groups they belong to, and the grand total (docs/language.md).
-func order(q *planner.Query, rows []Row) ([]Row, error) {
+func order(q *model.Query, rows []Row) ([]Row, error) {
 	// at[k] is the index among the measures of measure key k, or -1.
 	at := make([]int, len(q.Order))
 	for k, key := range q.Order {
@@ -238,7 +238,7 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 		}
 	}
 	n := len(q.Groups)
-	hier := len(q.Order) > 0 && n > 1 && (q.Totals == planner.TotalsRollup || q.Totals == planner.TotalsAll)
+	hier := len(q.Order) > 0 && n > 1 && (q.Totals == model.TotalsRollup || q.Totals == model.TotalsAll)
 	var err error
 	sortVal := map[int]func(r Row, i int) Value{}
 	if hier {
@@ -353,7 +353,7 @@ func order(q *planner.Query, rows []Row) ([]Row, error) {
 // after i.
 // keyValues are the values of one --order key in rows a and b: measure
 // m's (at its index among the measures), or the key's group column's.
-func keyValues(a, b Row, key planner.OrderKey, m int) (Value, Value) {
+func keyValues(a, b Row, key model.OrderKey, m int) (Value, Value) {
 	if m >= 0 {
 		return a.Measures[m], b.Measures[m]
 	}

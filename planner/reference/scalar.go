@@ -9,25 +9,25 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // subEval evaluates a child expression in the caller's context: a row for
 // row expressions, a cell for measure expressions.
-type subEval func(planner.Expr) (Value, error)
+type subEval func(model.Expr) (Value, error)
 
 // scalar evaluates the operators that row and measure expressions share
 // (literals, arithmetic, comparisons, logic, functions, case, in, is
 // null), with sub evaluating the operands. ok is false for any other node.
-func scalar(e planner.Expr, sub subEval) (v Value, ok bool, err error) {
+func scalar(e model.Expr, sub subEval) (v Value, ok bool, err error) {
 	switch e := e.(type) {
-	case *planner.Lit:
+	case *model.Lit:
 		v, err = litValue(e)
 		return v, true, err
-	case *planner.BinOp:
+	case *model.BinOp:
 		v, err = binOp(e, sub)
 		return v, true, err
-	case *planner.UnOp:
+	case *model.UnOp:
 		x, err := sub(e.X)
 		if err != nil || x == nil {
 			return nil, true, err
@@ -46,7 +46,7 @@ func scalar(e planner.Expr, sub subEval) (v Value, ok bool, err error) {
 			return -n, true, nil
 		}
 		return nil, true, fmt.Errorf("cannot negate a %s value", kindOf(x))
-	case *planner.Func:
+	case *model.Func:
 		args := make([]Value, len(e.Args))
 		for i, a := range e.Args {
 			if args[i], err = sub(a); err != nil {
@@ -55,7 +55,7 @@ func scalar(e planner.Expr, sub subEval) (v Value, ok bool, err error) {
 		}
 		v, err = function(e, args)
 		return v, true, err
-	case *planner.CaseExpr:
+	case *model.CaseExpr:
 		for _, w := range e.Whens {
 			c, err := sub(w.Cond)
 			if err != nil {
@@ -71,10 +71,10 @@ func scalar(e planner.Expr, sub subEval) (v Value, ok bool, err error) {
 		}
 		v, err = sub(e.Else)
 		return v, true, err
-	case *planner.InExpr:
+	case *model.InExpr:
 		v, err = in(e, sub)
 		return v, true, err
-	case *planner.IsNullExpr:
+	case *model.IsNullExpr:
 		x, err := sub(e.X)
 		if err != nil {
 			return nil, true, err
@@ -84,7 +84,7 @@ func scalar(e planner.Expr, sub subEval) (v Value, ok bool, err error) {
 	return nil, false, nil
 }
 
-func binOp(e *planner.BinOp, sub subEval) (Value, error) {
+func binOp(e *model.BinOp, sub subEval) (Value, error) {
 	l, err := sub(e.L)
 	if err != nil {
 		return nil, err
@@ -111,7 +111,7 @@ func binOp(e *planner.BinOp, sub subEval) (Value, error) {
 
 // in is x [not] in (list) with SQL's NULL rules: NULL when x is NULL, or
 // when no item matches and some item is NULL.
-func in(e *planner.InExpr, sub subEval) (Value, error) {
+func in(e *model.InExpr, sub subEval) (Value, error) {
 	x, err := sub(e.X)
 	if err != nil || x == nil {
 		return nil, err
@@ -141,7 +141,7 @@ func in(e *planner.InExpr, sub subEval) (Value, error) {
 }
 
 // function applies a scalar function to evaluated arguments.
-func function(f *planner.Func, args []Value) (Value, error) {
+func function(f *model.Func, args []Value) (Value, error) {
 	switch f.Name {
 	case "coalesce":
 		for _, a := range args {
@@ -241,12 +241,12 @@ func round(args []Value) (Value, error) {
 // cast converts v from type from to type to, as DuckDB does for the
 // conversions the language needs (decimals hold six places; a decimal
 // cast to integer rounds half away from zero, a float half to even).
-func cast(v Value, from, to planner.Type) (Value, error) {
+func cast(v Value, from, to model.Type) (Value, error) {
 	if v == nil {
 		return nil, nil
 	}
 	switch to {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		switch x := v.(type) {
 		case decimal.Decimal:
 			return x.Round(0), nil
@@ -264,7 +264,7 @@ func cast(v Value, from, to planner.Type) (Value, error) {
 			}
 			return decimal.NewFromInt(0), nil
 		}
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		switch x := v.(type) {
 		case decimal.Decimal:
 			return x.Round(6), nil
@@ -277,7 +277,7 @@ func cast(v Value, from, to planner.Type) (Value, error) {
 			}
 			return d.Round(6), nil
 		}
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		switch x := v.(type) {
 		case decimal.Decimal, float64:
 			return toFloat(x), nil
@@ -288,9 +288,9 @@ func cast(v Value, from, to planner.Type) (Value, error) {
 			}
 			return f, nil
 		}
-	case planner.TypeText:
+	case model.TypeText:
 		return text(v, from), nil
-	case planner.TypeDate:
+	case model.TypeDate:
 		switch x := v.(type) {
 		case time.Time:
 			return truncate("day", x), nil
@@ -301,14 +301,14 @@ func cast(v Value, from, to planner.Type) (Value, error) {
 			}
 			return truncate("day", t), nil
 		}
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		switch x := v.(type) {
 		case time.Time:
 			return x, nil
 		case string:
 			return parseTime(strings.TrimSpace(x))
 		}
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		switch x := v.(type) {
 		case bool:
 			return x, nil

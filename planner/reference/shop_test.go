@@ -7,7 +7,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/expect"
 )
@@ -30,7 +30,7 @@ import (
 const shopModel = "../../testdata/exec/shop.roll"
 
 // loadModel parses and resolves model files.
-func loadModel(t *testing.T, paths ...string) *planner.Model {
+func loadModel(t *testing.T, paths ...string) *model.Model {
 	t.Helper()
 	var files []*grammar.File
 	for _, p := range paths {
@@ -44,7 +44,7 @@ func loadModel(t *testing.T, paths ...string) *planner.Model {
 		}
 		files = append(files, f)
 	}
-	m, d := planner.Load(files)
+	m, d := model.Load(files)
 	if d.HasErrors() {
 		t.Fatalf("load: %v", d)
 	}
@@ -52,12 +52,12 @@ func loadModel(t *testing.T, paths ...string) *planner.Model {
 }
 
 // evaluate runs a query on the shop model with the reference evaluator.
-func evaluate(t *testing.T, spec planner.QuerySpec) []map[string]any {
+func evaluate(t *testing.T, spec model.QuerySpec) []map[string]any {
 	t.Helper()
 	return evaluateOn(t, loadModel(t, shopModel), spec)
 }
 
-func evaluateOn(t *testing.T, m *planner.Model, spec planner.QuerySpec) []map[string]any {
+func evaluateOn(t *testing.T, m *model.Model, spec model.QuerySpec) []map[string]any {
 	t.Helper()
 	if spec.Totals == "" {
 		spec.Totals = "none"
@@ -78,8 +78,8 @@ type row = expect.Row
 
 var expectRows, none = expect.Rows, expect.None
 
-func spec(measures, by string, totals string) planner.QuerySpec {
-	s := planner.QuerySpec{Measures: strings.Split(measures, ","), Totals: totals}
+func spec(measures, by string, totals string) model.QuerySpec {
+	s := model.QuerySpec{Measures: strings.Split(measures, ","), Totals: totals}
 	if by != "" {
 		s.By = strings.Split(by, ",")
 	}

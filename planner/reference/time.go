@@ -5,7 +5,7 @@ import (
 	"slices"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // The time edits of language.md ("Time"), evaluated cell by cell:
@@ -23,14 +23,14 @@ import (
 
 // axis is the date column of a time edit and its calendar.
 type axis struct {
-	d *planner.Column
+	d *model.Column
 	// cal is the calendar table (nil without one); calKey is its column
 	// that holds D's value.
-	cal    *planner.Table
-	calKey *planner.Column
+	cal    *model.Table
+	calKey *model.Column
 }
 
-func axisOf(d *planner.Column) axis {
+func axisOf(d *model.Column) axis {
 	a := axis{d: d}
 	if len(d.Table.Key) == 1 && d.Table.Key[0] == d {
 		a.cal, a.calKey = d.Table, d
@@ -44,7 +44,7 @@ func axisOf(d *planner.Column) axis {
 }
 
 // bound reports whether col is time-bound to the axis.
-func (a axis) bound(col *planner.Column) bool {
+func (a axis) bound(col *model.Column) bool {
 	switch {
 	case col == a.d || (a.cal != nil && col.Table == a.cal):
 		return true
@@ -56,7 +56,7 @@ func (a axis) bound(col *planner.Column) bool {
 
 // boundConstraint reports whether every column x mentions is time-bound.
 func (a axis) boundConstraint(x *constraint) bool {
-	return len(x.mentions) > 0 && !slices.ContainsFunc(x.mentions, func(c *planner.Column) bool { return !a.bound(c) })
+	return len(x.mentions) > 0 && !slices.ContainsFunc(x.mentions, func(c *model.Column) bool { return !a.bound(c) })
 }
 
 // step is one move of a date: N units forward (back negative).
@@ -143,7 +143,7 @@ func (d *Data) holdsShifted(s *shifted, td *tableData, i int) (bool, error) {
 		}
 		moved = t
 	}
-	col := func(c *planner.Column) (Value, error) { return d.movedColumn(s.axis, td, i, c, moved) }
+	col := func(c *model.Column) (Value, error) { return d.movedColumn(s.axis, td, i, c, moved) }
 	x := s.inner
 	switch {
 	case x.group || x.vals != nil:
@@ -167,7 +167,7 @@ func (d *Data) holdsShifted(s *shifted, td *tableData, i int) (bool, error) {
 
 // movedColumn reads column c of row i of td as if the row's D were moved
 // (NULL when D is): c is time-bound, or read as it is.
-func (d *Data) movedColumn(a axis, td *tableData, i int, c *planner.Column, moved Value) (Value, error) {
+func (d *Data) movedColumn(a axis, td *tableData, i int, c *model.Column, moved Value) (Value, error) {
 	switch {
 	case !a.bound(c):
 		return d.column(td, i, c)
@@ -178,7 +178,7 @@ func (d *Data) movedColumn(a axis, td *tableData, i int, c *planner.Column, move
 	case c.Table == a.d.Table && c.Derived != nil && a.fromDAlone(c):
 		// a derived column computed from D alone moves by its formula
 		// (a calendar's too, when D is the calendar's key)
-		return d.rowWith(td, i, c.Derived, func(x *planner.Column) (Value, error) { return d.movedColumn(a, td, i, x, moved) })
+		return d.rowWith(td, i, c.Derived, func(x *model.Column) (Value, error) { return d.movedColumn(a, td, i, x, moved) })
 	case a.cal != nil && c.Table == a.cal:
 		cd := d.tables[a.cal]
 		pos, ok := cd.stored[a.calKey]
@@ -199,9 +199,9 @@ func (d *Data) movedColumn(a axis, td *tableData, i int, c *planner.Column, move
 
 // fromDAlone reports whether the derived column c reads no stored column
 // but D.
-func (a axis) fromDAlone(c *planner.Column) bool {
+func (a axis) fromDAlone(c *model.Column) bool {
 	stored := 0
-	for _, x := range planner.Columns(c.Derived) {
+	for _, x := range model.Columns(c.Derived) {
 		if x.Stored() {
 			if x != a.d {
 				return false
@@ -214,13 +214,13 @@ func (a axis) fromDAlone(c *planner.Column) bool {
 
 // rowWith evaluates a row expression for row i of td, reading columns
 // through col.
-func (d *Data) rowWith(td *tableData, i int, e planner.Expr, col func(*planner.Column) (Value, error)) (Value, error) {
-	if c, ok := e.(*planner.ColRef); ok {
+func (d *Data) rowWith(td *tableData, i int, e model.Expr, col func(*model.Column) (Value, error)) (Value, error) {
+	if c, ok := e.(*model.ColRef); ok {
 		return col(c.Col)
 	}
-	v, ok, err := scalar(e, func(x planner.Expr) (Value, error) { return d.rowWith(td, i, x, col) })
+	v, ok, err := scalar(e, func(x model.Expr) (Value, error) { return d.rowWith(td, i, x, col) })
 	if !ok && err == nil {
-		return nil, fmt.Errorf("%s cannot appear in a row expression", planner.Text(e))
+		return nil, fmt.Errorf("%s cannot appear in a row expression", model.Text(e))
 	}
 	return v, err
 }
@@ -243,20 +243,20 @@ func (r *timeRange) holds(v Value) bool {
 }
 
 // rangeOn is the constraint that D lies in r.
-func rangeOn(col *planner.Column, r *timeRange) *constraint {
+func rangeOn(col *model.Column, r *timeRange) *constraint {
 	k := "R" + colKey(col) + "|" + key(*r.hi)
 	if r.lo != nil {
 		k += fmt.Sprintf("|%v|%s", r.loIn, key(*r.lo))
 	}
-	return &constraint{col: col, rng: r, mentions: []*planner.Column{col}, key: k}
+	return &constraint{col: col, rng: r, mentions: []*model.Column{col}, key: k}
 }
 
 // timeEdit applies a time edit to cell c of a measure expression x. ok is
 // false where the edit needs E and the cell has no rows of x: the value
 // there is NULL.
-func (ev *evaluator) timeEdit(c cell, ed *planner.CellEdit, x planner.Expr) (out cell, ok bool, err error) {
+func (ev *evaluator) timeEdit(c cell, ed *model.CellEdit, x model.Expr) (out cell, ok bool, err error) {
 	a := axisOf(ed.Col)
-	if ed.Kind == planner.EditBack {
+	if ed.Kind == model.EditBack {
 		out = cell{}
 		for _, k := range c {
 			if a.boundConstraint(k) {
@@ -272,15 +272,15 @@ func (ev *evaluator) timeEdit(c cell, ed *planner.CellEdit, x planner.Expr) (out
 	if err != nil || !found {
 		return nil, false, err
 	}
-	if ed.Kind == planner.EditLatest || ed.Kind == planner.EditEarliest {
+	if ed.Kind == model.EditLatest || ed.Kind == model.EditEarliest {
 		return c.without(func(k *constraint) bool { return k.mentionsCol(ed.Col) }).with(pinOn(ed.Col, []Value{e})), true, nil
 	}
 	r := &timeRange{hi: &e}
 	switch ed.Kind {
-	case planner.EditToDate:
+	case model.EditToDate:
 		lo := truncate(ed.Unit, e)
 		r.lo, r.loIn = &lo, true
-	case planner.EditLast:
+	case model.EditLast:
 		lo := move(e, step{n: -ed.N, unit: ed.Unit})
 		r.lo = &lo
 	}
@@ -289,8 +289,8 @@ func (ev *evaluator) timeEdit(c cell, ed *planner.CellEdit, x planner.Expr) (out
 
 // extreme is E (the latest D) or, for `= earliest`, F (the earliest)
 // among the cell's rows of x's iteration tables.
-func (ev *evaluator) extreme(c cell, ed *planner.CellEdit, x planner.Expr) (time.Time, bool, error) {
-	tables, err := iterationTables(x, nil, map[*planner.Measure]bool{})
+func (ev *evaluator) extreme(c cell, ed *model.CellEdit, x model.Expr) (time.Time, bool, error) {
+	tables, err := iterationTables(x, nil, map[*model.Measure]bool{})
 	if err != nil {
 		return time.Time{}, false, err
 	}
@@ -317,7 +317,7 @@ func (ev *evaluator) extreme(c cell, ed *planner.CellEdit, x planner.Expr) (time
 			if !ok {
 				continue
 			}
-			if !found || (ed.Kind == planner.EditEarliest && tv.Before(best)) || (ed.Kind != planner.EditEarliest && tv.After(best)) {
+			if !found || (ed.Kind == model.EditEarliest && tv.Before(best)) || (ed.Kind != model.EditEarliest && tv.After(best)) {
 				best, found = tv, true
 			}
 		}

@@ -9,7 +9,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Value is one value in the evaluator: nil (NULL), decimal.Decimal (every
@@ -18,27 +18,27 @@ import (
 type Value = any
 
 // litValue converts a literal to a value of its own type.
-func litValue(l *planner.Lit) (Value, error) {
+func litValue(l *model.Lit) (Value, error) {
 	switch l.T {
-	case planner.TypeNull:
+	case model.TypeNull:
 		return nil, nil
-	case planner.TypeInteger, planner.TypeDecimal:
+	case model.TypeInteger, model.TypeDecimal:
 		d, err := decimal.NewFromString(l.Text)
 		if err != nil {
 			return nil, fmt.Errorf("literal %s: %v", l.Text, err)
 		}
 		return d, nil
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		var f float64
 		if _, err := fmt.Sscan(l.Text, &f); err != nil {
 			return nil, fmt.Errorf("literal %s: %v", l.Text, err)
 		}
 		return f, nil
-	case planner.TypeText:
+	case model.TypeText:
 		return l.Text, nil
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return l.Text == "true", nil
-	case planner.TypeDate, planner.TypeTimestamp:
+	case model.TypeDate, model.TypeTimestamp:
 		return parseTime(l.Text)
 	}
 	return nil, fmt.Errorf("literal of unknown type %v", l.T)
@@ -205,7 +205,7 @@ func truth(v Value) bool {
 
 // arith applies + - * / to two values; t is the static result type. A
 // NULL operand gives NULL; / is fractional and NULL on a zero divisor.
-func arith(op string, a, b Value, t planner.Type) (Value, error) {
+func arith(op string, a, b Value, t model.Type) (Value, error) {
 	if a == nil || b == nil {
 		return nil, nil
 	}
@@ -217,7 +217,7 @@ func arith(op string, a, b Value, t planner.Type) (Value, error) {
 	}
 	x, xok := a.(decimal.Decimal)
 	y, yok := b.(decimal.Decimal)
-	if xok && yok && t != planner.TypeFloat {
+	if xok && yok && t != model.TypeFloat {
 		switch op {
 		case "+":
 			return x.Add(y), nil
@@ -304,10 +304,10 @@ func or3(a, b Value) Value {
 
 // text renders a value as DuckDB casts it to VARCHAR (decimal columns
 // hold six places).
-func text(v Value, t planner.Type) string {
+func text(v Value, t model.Type) string {
 	switch x := v.(type) {
 	case decimal.Decimal:
-		if t == planner.TypeDecimal {
+		if t == model.TypeDecimal {
 			return x.StringFixed(6)
 		}
 		return x.String()
@@ -318,7 +318,7 @@ func text(v Value, t planner.Type) string {
 	case bool:
 		return fmt.Sprint(x)
 	case time.Time:
-		if t == planner.TypeDate {
+		if t == model.TypeDate {
 			return x.Format(time.DateOnly)
 		}
 		return x.Format("2006-01-02 15:04:05")

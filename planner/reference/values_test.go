@@ -7,7 +7,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 func dec(s string) decimal.Decimal { return decimal.RequireFromString(s) }
@@ -20,22 +20,22 @@ func TestAggregateRules(t *testing.T) {
 		fn       string
 		distinct bool
 		vals     []Value
-		typ      planner.Type
+		typ      model.Type
 		want     Value
 	}{
-		{"sum", false, []Value{nil, nil}, planner.TypeDecimal, nil},
-		{"count", false, []Value{nil, nil}, planner.TypeInteger, dec("0")},
-		{"avg", false, nil, planner.TypeFloat, nil},
-		{"sum", false, []Value{dec("2.50"), nil, dec("0.25")}, planner.TypeDecimal, dec("2.75")},
-		{"count", true, []Value{dec("2.50"), dec("2.5"), dec("1")}, planner.TypeInteger, dec("2")},  // 2.50 = 2.5
-		{"median", false, []Value{dec("3"), dec("1"), dec("10"), dec("4")}, planner.TypeFloat, 3.5}, // (3+4)/2
-		{"median", false, []Value{dec("3"), dec("1"), dec("10")}, planner.TypeFloat, 3.0},
-		{"variance", false, []Value{dec("7")}, planner.TypeFloat, nil},                                   // one value: no sample variance
-		{"variance", false, []Value{dec("1"), dec("2"), dec("3"), dec("4")}, planner.TypeFloat, 5.0 / 3}, // mean 2.5; 2.25+0.25+0.25+2.25 = 5; 5/3
-		{"stddev", false, []Value{dec("2"), dec("4")}, planner.TypeFloat, math.Sqrt(2)},                  // mean 3; 1+1 = 2; 2/1
-		{"min", false, []Value{"b", nil, "B", "a"}, planner.TypeText, "B"},                               // byte order: upper case first
-		{"avg", false, []Value{dec("1"), dec("2")}, planner.TypeFloat, 1.5},
-		{"sum", false, []Value{0.25, 0.5}, planner.TypeFloat, 0.75},
+		{"sum", false, []Value{nil, nil}, model.TypeDecimal, nil},
+		{"count", false, []Value{nil, nil}, model.TypeInteger, dec("0")},
+		{"avg", false, nil, model.TypeFloat, nil},
+		{"sum", false, []Value{dec("2.50"), nil, dec("0.25")}, model.TypeDecimal, dec("2.75")},
+		{"count", true, []Value{dec("2.50"), dec("2.5"), dec("1")}, model.TypeInteger, dec("2")},  // 2.50 = 2.5
+		{"median", false, []Value{dec("3"), dec("1"), dec("10"), dec("4")}, model.TypeFloat, 3.5}, // (3+4)/2
+		{"median", false, []Value{dec("3"), dec("1"), dec("10")}, model.TypeFloat, 3.0},
+		{"variance", false, []Value{dec("7")}, model.TypeFloat, nil},                                   // one value: no sample variance
+		{"variance", false, []Value{dec("1"), dec("2"), dec("3"), dec("4")}, model.TypeFloat, 5.0 / 3}, // mean 2.5; 2.25+0.25+0.25+2.25 = 5; 5/3
+		{"stddev", false, []Value{dec("2"), dec("4")}, model.TypeFloat, math.Sqrt(2)},                  // mean 3; 1+1 = 2; 2/1
+		{"min", false, []Value{"b", nil, "B", "a"}, model.TypeText, "B"},                               // byte order: upper case first
+		{"avg", false, []Value{dec("1"), dec("2")}, model.TypeFloat, 1.5},
+		{"sum", false, []Value{0.25, 0.5}, model.TypeFloat, 0.75},
 	}
 	for _, c := range cases {
 		got, err := aggregate(c.fn, c.distinct, c.vals, c.typ)
@@ -65,31 +65,31 @@ func sameValue(a, b Value) bool {
 
 // SQL's three-valued logic and NULL rules in operators and functions.
 func TestScalarNullRules(t *testing.T) {
-	lit := func(v string, ty planner.Type) planner.Expr { return &planner.Lit{T: ty, Text: v} }
-	null := &planner.Lit{T: planner.TypeNull}
-	one, two := lit("1", planner.TypeInteger), lit("2", planner.TypeInteger)
+	lit := func(v string, ty model.Type) model.Expr { return &model.Lit{T: ty, Text: v} }
+	null := &model.Lit{T: model.TypeNull}
+	one, two := lit("1", model.TypeInteger), lit("2", model.TypeInteger)
 	cases := []struct {
 		name string
-		e    planner.Expr
+		e    model.Expr
 		want Value
 	}{
-		{"2 in (1, null)", &planner.InExpr{X: two, List: []planner.Expr{one, null}}, nil},
-		{"1 in (1, null)", &planner.InExpr{X: one, List: []planner.Expr{one, null}}, true},
-		{"2 not in (1, null)", &planner.InExpr{X: two, List: []planner.Expr{one, null}, Not: true}, nil},
-		{"null in (1)", &planner.InExpr{X: null, List: []planner.Expr{one}}, nil},
-		{"1 / 0", &planner.BinOp{Op: "/", L: one, R: lit("0", planner.TypeInteger), T: planner.TypeFloat}, nil},
-		{"1 / 2", &planner.BinOp{Op: "/", L: one, R: two, T: planner.TypeFloat}, 0.5},
-		{"null and false", &planner.BinOp{Op: "and", L: null, R: lit("false", planner.TypeBoolean)}, false},
-		{"null or true", &planner.BinOp{Op: "or", L: null, R: lit("true", planner.TypeBoolean)}, true},
-		{"null or false", &planner.BinOp{Op: "or", L: null, R: lit("false", planner.TypeBoolean)}, nil},
-		{"least(null, 2, 1)", &planner.Func{Name: "least", Args: []planner.Expr{null, two, one}}, dec("1")},
-		{"nullif(1, 1)", &planner.Func{Name: "nullif", Args: []planner.Expr{one, one}}, nil},
-		{"round(-2.5)", &planner.Func{Name: "round", Args: []planner.Expr{lit("-2.5", planner.TypeDecimal)}}, dec("-3")},
-		{"null is null", &planner.IsNullExpr{X: null}, true},
-		{"'a' || null", &planner.BinOp{Op: "||", L: lit("a", planner.TypeText), R: null, T: planner.TypeText}, nil},
+		{"2 in (1, null)", &model.InExpr{X: two, List: []model.Expr{one, null}}, nil},
+		{"1 in (1, null)", &model.InExpr{X: one, List: []model.Expr{one, null}}, true},
+		{"2 not in (1, null)", &model.InExpr{X: two, List: []model.Expr{one, null}, Not: true}, nil},
+		{"null in (1)", &model.InExpr{X: null, List: []model.Expr{one}}, nil},
+		{"1 / 0", &model.BinOp{Op: "/", L: one, R: lit("0", model.TypeInteger), T: model.TypeFloat}, nil},
+		{"1 / 2", &model.BinOp{Op: "/", L: one, R: two, T: model.TypeFloat}, 0.5},
+		{"null and false", &model.BinOp{Op: "and", L: null, R: lit("false", model.TypeBoolean)}, false},
+		{"null or true", &model.BinOp{Op: "or", L: null, R: lit("true", model.TypeBoolean)}, true},
+		{"null or false", &model.BinOp{Op: "or", L: null, R: lit("false", model.TypeBoolean)}, nil},
+		{"least(null, 2, 1)", &model.Func{Name: "least", Args: []model.Expr{null, two, one}}, dec("1")},
+		{"nullif(1, 1)", &model.Func{Name: "nullif", Args: []model.Expr{one, one}}, nil},
+		{"round(-2.5)", &model.Func{Name: "round", Args: []model.Expr{lit("-2.5", model.TypeDecimal)}}, dec("-3")},
+		{"null is null", &model.IsNullExpr{X: null}, true},
+		{"'a' || null", &model.BinOp{Op: "||", L: lit("a", model.TypeText), R: null, T: model.TypeText}, nil},
 	}
 	for _, c := range cases {
-		got, ok, err := scalar(c.e, func(x planner.Expr) (Value, error) {
+		got, ok, err := scalar(c.e, func(x model.Expr) (Value, error) {
 			v, _, err := scalar(x, nil)
 			return v, err
 		})

@@ -9,7 +9,7 @@ import (
 	"pgregory.net/rapid"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
@@ -30,7 +30,7 @@ func TestCasesAreValid(t *testing.T) {
 			rt.Fatalf("%v\n%s", err, c)
 		}
 		for _, q := range c.Queries {
-			pq, diags := m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+			pq, diags := m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
 				Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 			if diags.HasErrors() {
 				rt.Fatalf("query %s: %v\n%s", q.Command("model.roll"), diags, c)
@@ -54,7 +54,7 @@ func TestCasesAreValid(t *testing.T) {
 	})
 }
 
-func load(rt *rapid.T, c *casegen.Case, dir string) *planner.Model {
+func load(rt *rapid.T, c *casegen.Case, dir string) *model.Model {
 	path := filepath.Join(dir, casegen.ModelFile)
 	src, err := os.ReadFile(path)
 	if err != nil {
@@ -64,7 +64,7 @@ func load(rt *rapid.T, c *casegen.Case, dir string) *planner.Model {
 	if diags.HasErrors() {
 		rt.Fatalf("parse: %v\n%s", diags, c)
 	}
-	m, diags := planner.Load([]*grammar.File{f})
+	m, diags := model.Load([]*grammar.File{f})
 	if diags.HasErrors() {
 		rt.Fatalf("load: %v\n%s", strings.TrimSpace(diags.Error()), c)
 	}
@@ -90,7 +90,7 @@ func TestIdentitiesHoldInReference(t *testing.T) {
 		}
 		for _, id := range c.Identities {
 			q := id.Query
-			pq, diags := m.NewQuery(planner.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
+			pq, diags := m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
 			if diags.HasErrors() {
 				rt.Fatalf("query %s: %v\n%s", q.Command("model.roll"), diags, c)
 			}

@@ -14,46 +14,46 @@ import (
 	"strings"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // measureFacts is what the catalog says about one measure.
 type measureFacts struct {
-	m *planner.Measure
+	m *model.Measure
 	// definition is the declaration as written in its file.
 	definition string
 	// tables are the tables the measure reads itself (its aggregates'
 	// tables and the tables of its columns), columns the columns, both in
 	// model order; uses are the measures it names, usedBy the measures
 	// that name it, in declaration order.
-	tables  []*planner.Table
-	columns []*planner.Column
-	uses    []*planner.Measure
-	usedBy  []*planner.Measure
+	tables  []*model.Table
+	columns []*model.Column
+	uses    []*model.Measure
+	usedBy  []*model.Measure
 }
 
 // facts gathers the measures' facts, in declaration order.
 type facts struct {
-	model    *planner.Model
+	model    *model.Model
 	measures []*measureFacts
-	byName   map[*planner.Measure]*measureFacts
+	byName   map[*model.Measure]*measureFacts
 	// readers[t] are the measures that read table t themselves.
-	readers map[*planner.Table][]*planner.Measure
+	readers map[*model.Table][]*model.Measure
 	// linksIn[t] are the links that lead to table t.
-	linksIn map[*planner.Table][]*planner.Link
+	linksIn map[*model.Table][]*model.Link
 }
 
-func gather(m *planner.Model, src grammar.Sources) *facts {
-	f := &facts{model: m, byName: map[*planner.Measure]*measureFacts{},
-		readers: map[*planner.Table][]*planner.Measure{}, linksIn: map[*planner.Table][]*planner.Link{}}
-	tableOrder := map[*planner.Table]int{}
+func gather(m *model.Model, src grammar.Sources) *facts {
+	f := &facts{model: m, byName: map[*model.Measure]*measureFacts{},
+		readers: map[*model.Table][]*model.Measure{}, linksIn: map[*model.Table][]*model.Link{}}
+	tableOrder := map[*model.Table]int{}
 	for i, t := range m.Tables {
 		tableOrder[t] = i
 		for _, l := range t.Links {
 			f.linksIn[l.To] = append(f.linksIn[l.To], l)
 		}
 	}
-	measureOrder := map[*planner.Measure]int{}
+	measureOrder := map[*model.Measure]int{}
 	for i, ms := range m.Measures {
 		measureOrder[ms] = i
 	}
@@ -93,7 +93,7 @@ func gather(m *planner.Model, src grammar.Sources) *facts {
 	return f
 }
 
-func columnIndex(c *planner.Column) int {
+func columnIndex(c *model.Column) int {
 	for i, x := range c.Table.Columns {
 		if x == c {
 			return i
@@ -104,51 +104,51 @@ func columnIndex(c *planner.Column) int {
 
 // definition is the measure's declaration as written, or the expression
 // as rollwise prints it when the source is not at hand.
-func definition(m *planner.Measure, src grammar.Sources) string {
+func definition(m *model.Measure, src grammar.Sources) string {
 	if text := grammar.DeclarationText(src[m.Pos.File], m.Pos.Offset); text != "" {
 		return text
 	}
-	return fmt.Sprintf("measure %s = %s", m.Name, planner.Text(m.Expr))
+	return fmt.Sprintf("measure %s = %s", m.Name, model.Text(m.Expr))
 }
 
 // reads walks a measure expression (not into the measures it names) for
 // the tables its aggregates run over, the columns it reads (through
 // derived columns, per-grain groups and cell edits) and the measures it
 // names.
-func reads(e planner.Expr) (map[*planner.Table]bool, []*planner.Column, map[*planner.Measure]bool) {
-	tables := map[*planner.Table]bool{}
-	uses := map[*planner.Measure]bool{}
-	seen := map[*planner.Column]bool{}
-	var cols []*planner.Column
-	var add func(cs ...*planner.Column)
-	add = func(cs ...*planner.Column) {
+func reads(e model.Expr) (map[*model.Table]bool, []*model.Column, map[*model.Measure]bool) {
+	tables := map[*model.Table]bool{}
+	uses := map[*model.Measure]bool{}
+	seen := map[*model.Column]bool{}
+	var cols []*model.Column
+	var add func(cs ...*model.Column)
+	add = func(cs ...*model.Column) {
 		for _, c := range cs {
 			if c != nil && !seen[c] {
 				seen[c] = true
 				cols = append(cols, c)
 				if c.Derived != nil {
-					add(planner.Columns(c.Derived)...)
+					add(model.Columns(c.Derived)...)
 				}
 			}
 		}
 	}
-	add(planner.Columns(e)...)
-	planner.Walk(e, func(x planner.Expr) bool {
+	add(model.Columns(e)...)
+	model.Walk(e, func(x model.Expr) bool {
 		switch x := x.(type) {
-		case *planner.Agg:
+		case *model.Agg:
 			if x.Table != nil {
 				tables[x.Table] = true
 			}
-		case *planner.PerAgg:
+		case *model.PerAgg:
 			add(x.Per...)
-		case *planner.EditExpr:
+		case *model.EditExpr:
 			for _, ed := range x.Edits {
 				add(ed.Col)
 				if ed.Table != nil {
 					tables[ed.Table] = true
 				}
 			}
-		case *planner.MeasureRef:
+		case *model.MeasureRef:
 			uses[x.Measure] = true
 		}
 		return true
@@ -158,8 +158,8 @@ func reads(e planner.Expr) (map[*planner.Table]bool, []*planner.Column, map[*pla
 
 // upstream returns the measures mf builds on, directly or not, in
 // declaration order.
-func (f *facts) upstream(mf *measureFacts) []*planner.Measure {
-	seen := map[*planner.Measure]bool{}
+func (f *facts) upstream(mf *measureFacts) []*model.Measure {
+	seen := map[*model.Measure]bool{}
 	var visit func(*measureFacts)
 	visit = func(x *measureFacts) {
 		for _, u := range x.uses {
@@ -170,7 +170,7 @@ func (f *facts) upstream(mf *measureFacts) []*planner.Measure {
 		}
 	}
 	visit(mf)
-	var out []*planner.Measure
+	var out []*model.Measure
 	for _, m := range f.model.Measures {
 		if seen[m] {
 			out = append(out, m)
@@ -197,5 +197,5 @@ func pageName(kind, name string) string {
 	return b.String() + ".html"
 }
 
-func measurePage(m *planner.Measure) string { return pageName("measure", m.Name) }
-func tablePage(t *planner.Table) string     { return pageName("table", t.Name) }
+func measurePage(m *model.Measure) string { return pageName("measure", m.Name) }
+func tablePage(t *model.Table) string     { return pageName("table", t.Name) }

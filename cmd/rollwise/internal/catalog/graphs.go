@@ -4,7 +4,7 @@ import (
 	"fmt"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/drawing"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Boxes of the pictures, in SVG units.
@@ -78,7 +78,7 @@ func (f *facts) measureGraph(mf *measureFacts) string {
 	index := map[any]int{}
 	var nodes []graphNode
 	var edges []graphEdge
-	addMeasure := func(m *planner.Measure, class string) int {
+	addMeasure := func(m *model.Measure, class string) int {
 		if i, ok := index[m]; ok {
 			return i
 		}
@@ -86,7 +86,7 @@ func (f *facts) measureGraph(mf *measureFacts) string {
 		nodes = append(nodes, graphNode{label: m.Name, class: class, href: measurePage(m), title: "measure " + m.Name})
 		return index[m]
 	}
-	addTable := func(t *planner.Table) int {
+	addTable := func(t *model.Table) int {
 		if i, ok := index[t]; ok {
 			return i
 		}
@@ -98,7 +98,7 @@ func (f *facts) measureGraph(mf *measureFacts) string {
 		addMeasure(u, "measure")
 	}
 	addMeasure(mf.m, "measure focus")
-	inGraph := append([]*planner.Measure{mf.m}, f.upstream(mf)...)
+	inGraph := append([]*model.Measure{mf.m}, f.upstream(mf)...)
 	for _, m := range inGraph {
 		addMeasure(m, "measure")
 	}
@@ -119,8 +119,8 @@ func (f *facts) measureGraph(mf *measureFacts) string {
 
 // tableDiagram draws the tables with their columns and links; an arrow
 // goes from the table that holds a link to the table it leads to.
-func tableDiagram(tables []*planner.Table, label string) string {
-	index := map[*planner.Table]int{}
+func tableDiagram(tables []*model.Table, label string) string {
+	index := map[*model.Table]int{}
 	var nodes []graphNode
 	for _, t := range tables {
 		index[t] = len(nodes)
@@ -143,7 +143,7 @@ func tableDiagram(tables []*planner.Table, label string) string {
 
 // columnLine is a column as a table box shows it: a key mark, the name,
 // the type, and where a link from it leads.
-func columnLine(t *planner.Table, c *planner.Column) string {
+func columnLine(t *model.Table, c *model.Column) string {
 	mark := "  "
 	for _, k := range t.Key {
 		if k == c {

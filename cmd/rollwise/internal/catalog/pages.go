@@ -8,7 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/drawing"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // File is one file of a catalog.
@@ -21,7 +21,7 @@ type File struct {
 // index.html, a page per measure and per table, style.css, and the
 // manifest that tells Write the folder is the catalog's. Files come in
 // name order; the same model gives the same bytes.
-func Build(m *planner.Model, src grammar.Sources) ([]File, error) {
+func Build(m *model.Model, src grammar.Sources) ([]File, error) {
 	f := gather(m, src)
 	var files []File
 	add := func(name, tmpl string, data any) error {
@@ -59,7 +59,7 @@ type ref struct {
 	Name, Href string
 }
 
-func measureRefs(ms []*planner.Measure) []ref {
+func measureRefs(ms []*model.Measure) []ref {
 	var out []ref
 	for _, m := range ms {
 		out = append(out, ref{m.Name, measurePage(m)})
@@ -67,7 +67,7 @@ func measureRefs(ms []*planner.Measure) []ref {
 	return out
 }
 
-func tableRefs(ts []*planner.Table) []ref {
+func tableRefs(ts []*model.Table) []ref {
 	var out []ref
 	for _, t := range ts {
 		out = append(out, ref{t.Name, tablePage(t)})
@@ -76,15 +76,15 @@ func tableRefs(ts []*planner.Table) []ref {
 }
 
 // formatText says in words how a format shows values.
-func formatText(f planner.Format) string {
+func formatText(f model.Format) string {
 	switch f {
-	case planner.FormatPercent:
+	case model.FormatPercent:
 		return "percent: 0.256 shows as 25.6%"
-	case planner.FormatCurrency:
+	case model.FormatCurrency:
 		return "currency: two decimals, thousands grouped (1,234.50)"
-	case planner.FormatInteger:
+	case model.FormatInteger:
 		return "integer: rounded to a whole number, thousands grouped"
-	case planner.FormatNumber:
+	case model.FormatNumber:
 		return "number: up to four decimals, thousands grouped"
 	}
 	return "none: up to four decimals"
@@ -193,7 +193,7 @@ type linkRow struct {
 	Required bool
 }
 
-func (f *facts) tablePage(t *planner.Table) tableData {
+func (f *facts) tablePage(t *model.Table) tableData {
 	d := tableData{Title: t.Name, Relation: strings.Join(t.Relation, "."), File: t.File, Where: t.Pos.String(),
 		NullTexts: t.NullTexts, Readers: measureRefs(f.readers[t])}
 	for _, k := range t.Key {
@@ -202,7 +202,7 @@ func (f *facts) tablePage(t *planner.Table) tableData {
 	for _, c := range t.Columns {
 		r := columnRow{Name: c.Name, Type: c.Type.String(), Source: "stored", Additivity: additivity(c)}
 		if c.Derived != nil {
-			r.Source = "= " + planner.Text(c.Derived)
+			r.Source = "= " + model.Text(c.Derived)
 		}
 		for _, k := range t.Key {
 			r.Key = r.Key || k == c
@@ -214,8 +214,8 @@ func (f *facts) tablePage(t *planner.Table) tableData {
 		}
 		d.Columns = append(d.Columns, r)
 	}
-	near := []*planner.Table{}
-	seen := map[*planner.Table]bool{}
+	near := []*model.Table{}
+	seen := map[*model.Table]bool{}
 	for _, l := range t.Links {
 		d.LinksOut = append(d.LinksOut, linkRow{l.String(), ref{l.To.Name, tablePage(l.To)}, l.Required})
 		seen[l.To] = true
@@ -234,11 +234,11 @@ func (f *facts) tablePage(t *planner.Table) tableData {
 	return d
 }
 
-func additivity(c *planner.Column) string {
+func additivity(c *model.Column) string {
 	switch c.Additivity {
-	case planner.NonAdditive:
+	case model.NonAdditive:
 		return "nonadditive"
-	case planner.SemiAdditive:
+	case model.SemiAdditive:
 		if c.SemiDate != nil {
 			return "semiadditive over " + c.SemiDate.String()
 		}

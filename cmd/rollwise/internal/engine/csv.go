@@ -14,7 +14,7 @@ import (
 	"slices"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // loadCSV creates r as a table filled from its CSV file: comma-separated,
@@ -70,15 +70,15 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 // are parsed with their time zone offset, if any, and then held in UTC
 // (DuckDB's TIMESTAMP would drop the offset).
 func parseType(c column) string {
-	if c.typ == planner.TypeTimestamp {
+	if c.typ == model.TypeTimestamp {
 		return "TIMESTAMPTZ"
 	}
 	return c.duckType
 }
 
 // scaleOf is the number of decimal places a column of type t holds.
-func scaleOf(t planner.Type) int {
-	if t == planner.TypeDecimal {
+func scaleOf(t model.Type) int {
+	if t == model.TypeDecimal {
 		return DecimalScale
 	}
 	return 0
@@ -214,7 +214,7 @@ func diagnoseCSV(ctx context.Context, conn *sql.Conn, r *relation, at []int, fie
 	var bad []badValue
 	total := 0
 	for i, c := range r.columns {
-		if c.typ == planner.TypeText {
+		if c.typ == model.TypeText {
 			continue
 		}
 		k := fmt.Sprintf("k%d", i)
@@ -288,12 +288,12 @@ func (b *badValue) explain() string {
 	if !b.unreadable {
 		// The value converts, but not exactly.
 		switch b.col.typ {
-		case planner.TypeInteger:
+		case model.TypeInteger:
 			return fmt.Sprintf("%q is not a whole number; declare the column decimal or float to keep the fraction", v)
-		case planner.TypeDecimal:
+		case model.TypeDecimal:
 			return fmt.Sprintf("%q has more than %d decimal places; decimal columns hold exactly %d (%s) and rollwise does not round data (declare the column float if approximate values will do)",
 				v, DecimalScale, DecimalScale, DecimalType)
-		case planner.TypeFloat:
+		case model.TypeFloat:
 			return fmt.Sprintf("%q is out of range for float (64-bit, at most about 1.8e308); write inf if an infinity is meant", v)
 		}
 		return fmt.Sprintf("%q would change when stored as %s", v, b.col.typ)
@@ -315,23 +315,23 @@ func missingMark(v string) bool {
 func (b *badValue) explainAs() string {
 	v := b.value
 	switch b.col.typ {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		if b.numeric {
 			return fmt.Sprintf("%q is out of range for integer (64 bits); declare the column decimal", v)
 		}
 		return fmt.Sprintf("cannot read %q as a whole number (write decimal digits, as 1000)", v)
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		if b.numeric {
 			return fmt.Sprintf("%q is out of range for decimal (at most %d digits before the point)", v, DecimalWidth-DecimalScale)
 		}
 		return fmt.Sprintf("cannot read %q as a decimal (write digits with an optional point, as 1234.50)", v)
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return fmt.Sprintf("cannot read %q as a float (write digits with an optional point and exponent, as 1.5e3)", v)
-	case planner.TypeDate:
+	case model.TypeDate:
 		return fmt.Sprintf("cannot read %q as a date (write YYYY-MM-DD)", v)
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return fmt.Sprintf("cannot read %q as a timestamp (write YYYY-MM-DD HH:MM:SS, optionally with an offset from +14:00 to -14:00)", v)
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return fmt.Sprintf("cannot read %q as a boolean (write true or false)", v)
 	}
 	return fmt.Sprintf("cannot read %q as %s", v, b.col.typ)

@@ -6,7 +6,7 @@ import (
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // TestCSVReportsEveryBadValueAtOnce: a dirty file is reported whole in one
@@ -20,8 +20,8 @@ func TestCSVReportsEveryBadValueAtOnce(t *testing.T) {
 		"2,NA,2024-01-02,1.50\n"+ // line 3: qty
 		"3,1,02/01/2024,2.1234567\n"+ // line 4: sold_on, then price
 		"4,1,2024-01-03,1.00\n")
-	m := model(table("sales", nil, file, col("id", planner.TypeInteger), col("qty", planner.TypeInteger),
-		col("sold_on", planner.TypeDate), col("price", planner.TypeDecimal)))
+	m := newModel(table("sales", nil, file, col("id", model.TypeInteger), col("qty", model.TypeInteger),
+		col("sold_on", model.TypeDate), col("price", model.TypeDecimal)))
 	_, err := OpenDuckDB(context.Background(), m, "")
 	if err == nil {
 		t.Fatal("OpenDuckDB loaded a dirty file")
@@ -52,7 +52,7 @@ func TestCSVBadValuesAreCappedAndCounted(t *testing.T) {
 		fmt.Fprintf(&b, "%d,x%d\n", i, i)
 	}
 	file := writeFile(t, t.TempDir(), "t.csv", b.String())
-	_, err := OpenDuckDB(context.Background(), model(table("t", nil, file, col("id", planner.TypeInteger), col("qty", planner.TypeInteger))), "")
+	_, err := OpenDuckDB(context.Background(), newModel(table("t", nil, file, col("id", model.TypeInteger), col("qty", model.TypeInteger))), "")
 	if err == nil {
 		t.Fatal("OpenDuckDB loaded a file of garbage")
 	}
@@ -68,12 +68,12 @@ func TestCSVBadValuesAreCappedAndCounted(t *testing.T) {
 // the other reads as it is.
 func TestNullTextsOfOneFileMustAgree(t *testing.T) {
 	file := writeFile(t, t.TempDir(), "t.csv", "id,qty\n1,NA\n")
-	a := table("a", []string{"t"}, file, col("id", planner.TypeInteger), col("qty", planner.TypeInteger))
-	b := table("b", []string{"t"}, file, col("id", planner.TypeInteger))
+	a := table("a", []string{"t"}, file, col("id", model.TypeInteger), col("qty", model.TypeInteger))
+	b := table("b", []string{"t"}, file, col("id", model.TypeInteger))
 	a.NullTexts = []string{"NA"}
-	expectOpenError(t, model(a, b), "", "tables a and b read", `different NULL texts (["NA"] and [])`, "same `with null` list")
+	expectOpenError(t, newModel(a, b), "", "tables a and b read", `different NULL texts (["NA"] and [])`, "same `with null` list")
 	b.NullTexts = []string{"NA"}
-	db, err := OpenDuckDB(context.Background(), model(a, b), "")
+	db, err := OpenDuckDB(context.Background(), newModel(a, b), "")
 	if err != nil {
 		t.Fatal(err)
 	}

@@ -13,7 +13,8 @@ import (
 	"strings"
 
 	_ "github.com/duckdb/duckdb-go/v2" // registers the "duckdb" driver
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // relation is one warehouse relation to create and the model tables that
@@ -22,7 +23,7 @@ import (
 // columns.
 type relation struct {
 	name    []string
-	tables  []*planner.Table
+	tables  []*model.Table
 	file    string
 	columns []column
 	// fileDecimals is Options.FileDecimals.
@@ -32,9 +33,9 @@ type relation struct {
 // column is a stored column of a relation.
 type column struct {
 	name     string
-	typ      planner.Type
+	typ      model.Type
 	duckType string
-	table    *planner.Table
+	table    *model.Table
 }
 
 // OpenDuckDB opens an in-memory DuckDB and creates every table of m under its
@@ -44,7 +45,7 @@ type column struct {
 // otherwise it is the table's `from` file. All problems found are returned
 // together; on error no database is returned. The database's time zone
 // is UTC.
-func OpenDuckDB(ctx context.Context, m *planner.Model, dataDir string) (*sql.DB, error) {
+func OpenDuckDB(ctx context.Context, m *model.Model, dataDir string) (*sql.DB, error) {
 	return Open(ctx, m, dataDir, Options{})
 }
 
@@ -62,7 +63,7 @@ type Options struct {
 	// Tables, when set, are the only tables of the model loaded: a query
 	// that reads a few tables of a large model loads just those (see
 	// TablesRead).
-	Tables []*planner.Table
+	Tables []*model.Table
 }
 
 // Overflowed reports whether err is DuckDB's out-of-range error (a decimal
@@ -73,7 +74,7 @@ func Overflowed(err error) bool {
 }
 
 // Open is OpenDuckDB with options.
-func Open(ctx context.Context, m *planner.Model, dataDir string, o Options) (*sql.DB, error) {
+func Open(ctx context.Context, m *model.Model, dataDir string, o Options) (*sql.DB, error) {
 	if m == nil {
 		return nil, errors.New("no model to load")
 	}
@@ -144,7 +145,7 @@ func lockDown(ctx context.Context, conn *sql.Conn, rels []*relation) error {
 
 // relations groups tables by relation and resolves each relation's data
 // file and columns.
-func relations(tables []*planner.Table, dataDir string) ([]*relation, error) {
+func relations(tables []*model.Table, dataDir string) ([]*relation, error) {
 	var errs []error
 	byKey := map[string]*relation{}
 	var rels []*relation
@@ -175,15 +176,15 @@ func relations(tables []*planner.Table, dataDir string) ([]*relation, error) {
 
 // TablesRead lists the tables plan p reads: the table of each scan and
 // the tables its joins reach, each once, in the model's order.
-func TablesRead(m *planner.Model, p *planner.Plan) []*planner.Table {
-	read := map[*planner.Table]bool{}
+func TablesRead(m *model.Model, p *plan.Plan) []*model.Table {
+	read := map[*model.Table]bool{}
 	for _, s := range p.Scans {
 		read[s.Table] = true
 		for _, l := range s.Joins {
 			read[l.To] = true
 		}
 	}
-	var out []*planner.Table
+	var out []*model.Table
 	for _, t := range m.Tables {
 		if read[t] {
 			out = append(out, t)
@@ -195,7 +196,7 @@ func TablesRead(m *planner.Model, p *planner.Plan) []*planner.Table {
 // relationKey is the identity of a table's relation in DuckDB, which
 // matches names without regard to case and puts unqualified names in the
 // main schema of the memory catalog.
-func relationKey(t *planner.Table) (string, error) {
+func relationKey(t *model.Table) (string, error) {
 	parts := t.Relation
 	if len(parts) == 0 {
 		parts = []string{t.Name}
@@ -241,7 +242,7 @@ func (r *relation) tableNames() string {
 // resolveFile finds the one data file of r.
 func (r *relation) resolveFile(dataDir string) error {
 	var errs []error
-	var from *planner.Table
+	var from *model.Table
 	for _, t := range r.tables {
 		f, err := dataFile(t, dataDir)
 		if err != nil {
@@ -285,7 +286,7 @@ func (r *relation) resolveFile(dataDir string) error {
 }
 
 // dataFile returns the data file of t, or "" when it has none.
-func dataFile(t *planner.Table, dataDir string) (string, error) {
+func dataFile(t *model.Table, dataDir string) (string, error) {
 	if dataDir != "" {
 		return dataFileNamed(t.Name, dataDir)
 	}

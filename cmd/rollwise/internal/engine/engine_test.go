@@ -10,30 +10,30 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
 // col declares a stored column.
-func col(name string, typ planner.Type) *planner.Column {
-	return &planner.Column{Name: name, Type: typ}
+func col(name string, typ model.Type) *model.Column {
+	return &model.Column{Name: name, Type: typ}
 }
 
 // derived declares a derived column, which the engine must not load.
-func derived(name string, typ planner.Type) *planner.Column {
-	return &planner.Column{Name: name, Type: typ, Derived: &planner.Lit{T: typ, Text: "1"}}
+func derived(name string, typ model.Type) *model.Column {
+	return &model.Column{Name: name, Type: typ, Derived: &model.Lit{T: typ, Text: "1"}}
 }
 
 // table declares a table reading relation from file.
-func table(name string, relation []string, file string, cols ...*planner.Column) *planner.Table {
-	t := &planner.Table{Name: name, Relation: relation, File: file, Columns: cols}
+func table(name string, relation []string, file string, cols ...*model.Column) *model.Table {
+	t := &model.Table{Name: name, Relation: relation, File: file, Columns: cols}
 	for _, c := range cols {
 		c.Table = t
 	}
 	return t
 }
 
-func model(tables ...*planner.Table) *planner.Model { return &planner.Model{Tables: tables} }
+func newModel(tables ...*model.Table) *model.Model { return &model.Model{Tables: tables} }
 
 func writeFile(t *testing.T, dir, name, content string) string {
 	t.Helper()
@@ -44,7 +44,7 @@ func writeFile(t *testing.T, dir, name, content string) string {
 	return p
 }
 
-func open(t *testing.T, m *planner.Model, dataDir string) *sql.DB {
+func open(t *testing.T, m *model.Model, dataDir string) *sql.DB {
 	t.Helper()
 	db, err := OpenDuckDB(context.Background(), m, dataDir)
 	if err != nil {
@@ -64,7 +64,7 @@ func query(t *testing.T, db *sql.DB, q string) *Result {
 }
 
 // expectOpenError opens m and checks that the error mentions every want.
-func expectOpenError(t *testing.T, m *planner.Model, dataDir string, want ...string) {
+func expectOpenError(t *testing.T, m *model.Model, dataDir string, want ...string) {
 	t.Helper()
 	db, err := OpenDuckDB(context.Background(), m, dataDir)
 	if err == nil {
@@ -111,18 +111,18 @@ func expectRows(t *testing.T, got *Result, wantCols []string, want [][]any) {
 	}
 }
 
-func salesModel(file string) *planner.Model {
-	return model(table("sales", []string{"retail", "sales_lines"}, file,
-		col("line_id", planner.TypeInteger),
-		col("receipt_id", planner.TypeText),
-		col("sold_on", planner.TypeDate),
-		col("unit_price", planner.TypeDecimal),
-		col("qty", planner.TypeInteger),
-		col("unit_cost", planner.TypeDecimal),
-		col("discount", planner.TypeFloat),
-		col("paid", planner.TypeBoolean),
-		col("rung_at", planner.TypeTimestamp),
-		derived("line_total", planner.TypeDecimal),
+func salesModel(file string) *model.Model {
+	return newModel(table("sales", []string{"retail", "sales_lines"}, file,
+		col("line_id", model.TypeInteger),
+		col("receipt_id", model.TypeText),
+		col("sold_on", model.TypeDate),
+		col("unit_price", model.TypeDecimal),
+		col("qty", model.TypeInteger),
+		col("unit_cost", model.TypeDecimal),
+		col("discount", model.TypeFloat),
+		col("paid", model.TypeBoolean),
+		col("rung_at", model.TypeTimestamp),
+		derived("line_total", model.TypeDecimal),
 	))
 }
 
@@ -173,11 +173,11 @@ func TestDecimalSumsOfProductsStayExact(t *testing.T) {
 		"2,0.1,3,0.2\n" +
 		"3,0.000001,1000000001,0.000001\n" +
 		"4,-45.67,2,12.345678\n"
-	m := model(table("sales", []string{"sales"}, writeFile(t, dir, "sales.csv", csv),
-		col("line_id", planner.TypeInteger),
-		col("unit_price", planner.TypeDecimal),
-		col("qty", planner.TypeInteger),
-		col("unit_cost", planner.TypeDecimal),
+	m := newModel(table("sales", []string{"sales"}, writeFile(t, dir, "sales.csv", csv),
+		col("line_id", model.TypeInteger),
+		col("unit_price", model.TypeDecimal),
+		col("qty", model.TypeInteger),
+		col("unit_cost", model.TypeDecimal),
 	))
 	db := open(t, m, "")
 	res := query(t, db, `SELECT sum("unit_price" * "qty"), sum("unit_price" * "unit_cost"),
@@ -201,11 +201,11 @@ func TestDecimalSumsOfProductsStayExact(t *testing.T) {
 func TestCSVTooPreciseDecimalIsRefused(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "sales.csv", "line_id,unit_price\n1,1.5\n2,2.1234500\n3,2.1234567\n4,1.5e-9\n")
-	m := model(table("sales", nil, file, col("line_id", planner.TypeInteger), col("unit_price", planner.TypeDecimal)))
+	m := newModel(table("sales", nil, file, col("line_id", model.TypeInteger), col("unit_price", model.TypeDecimal)))
 	expectOpenError(t, m, "", file+":4:", "unit_price", `"2.1234567"`, "more than 6 decimal places")
 
 	file2 := writeFile(t, dir, "exp.csv", "line_id,unit_price\n1,1.5e-9\n")
-	m2 := model(table("sales", nil, file2, col("line_id", planner.TypeInteger), col("unit_price", planner.TypeDecimal)))
+	m2 := newModel(table("sales", nil, file2, col("line_id", model.TypeInteger), col("unit_price", model.TypeDecimal)))
 	expectOpenError(t, m2, "", file2+":2:", `"1.5e-9"`)
 }
 
@@ -213,22 +213,22 @@ func TestCSVWrongTypeNamesFileLineColumnAndValue(t *testing.T) {
 	dir := t.TempDir()
 	cases := []struct {
 		name, csv string
-		typ       planner.Type
+		typ       model.Type
 		want      []string
 	}{
-		{"text in integer", "id,v\n1,2\n2,abc\n", planner.TypeInteger, []string{":3:", "column t.v (integer)", `"abc"`}},
-		{"fraction in integer", "id,v\n1,3.5\n", planner.TypeInteger, []string{":2:", `"3.5"`, "not a whole number"}},
-		{"huge integer", "id,v\n1,99999999999999999999\n", planner.TypeInteger, []string{":2:", "out of range"}},
-		{"bad date", "id,v\n1,2026-01-31\n2,2026-02-30\n", planner.TypeDate, []string{":3:", "column t.v (date)", `"2026-02-30"`, "YYYY-MM-DD"}},
-		{"bad boolean", "id,v\n1,maybe\n", planner.TypeBoolean, []string{":2:", `"maybe"`}},
-		{"bad float", "id,v\n1,1.5\n2,1,5\n", planner.TypeFloat, []string{"Line: 3"}},
-		{"huge decimal", "id,v\n1,1" + strings.Repeat("0", 33) + "\n", planner.TypeDecimal, []string{":2:", "out of range for decimal"}},
-		{"text in decimal", "id,v\n1,12 EUR\n", planner.TypeDecimal, []string{":2:", `"12 EUR"`}},
+		{"text in integer", "id,v\n1,2\n2,abc\n", model.TypeInteger, []string{":3:", "column t.v (integer)", `"abc"`}},
+		{"fraction in integer", "id,v\n1,3.5\n", model.TypeInteger, []string{":2:", `"3.5"`, "not a whole number"}},
+		{"huge integer", "id,v\n1,99999999999999999999\n", model.TypeInteger, []string{":2:", "out of range"}},
+		{"bad date", "id,v\n1,2026-01-31\n2,2026-02-30\n", model.TypeDate, []string{":3:", "column t.v (date)", `"2026-02-30"`, "YYYY-MM-DD"}},
+		{"bad boolean", "id,v\n1,maybe\n", model.TypeBoolean, []string{":2:", `"maybe"`}},
+		{"bad float", "id,v\n1,1.5\n2,1,5\n", model.TypeFloat, []string{"Line: 3"}},
+		{"huge decimal", "id,v\n1,1" + strings.Repeat("0", 33) + "\n", model.TypeDecimal, []string{":2:", "out of range for decimal"}},
+		{"text in decimal", "id,v\n1,12 EUR\n", model.TypeDecimal, []string{":2:", `"12 EUR"`}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			file := writeFile(t, dir, strings.ReplaceAll(c.name, " ", "_")+".csv", c.csv)
-			m := model(table("t", nil, file, col("id", planner.TypeInteger), col("v", c.typ)))
+			m := newModel(table("t", nil, file, col("id", model.TypeInteger), col("v", c.typ)))
 			expectOpenError(t, m, "", append([]string{file}, c.want...)...)
 		})
 	}
@@ -237,14 +237,14 @@ func TestCSVWrongTypeNamesFileLineColumnAndValue(t *testing.T) {
 func TestCSVAcceptsExactSpellings(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "t.csv", "i,d\n12.000,2.50000000\n-3,1.5e2\n 7 ,.5\n")
-	db := open(t, model(table("t", nil, file, col("i", planner.TypeInteger), col("d", planner.TypeDecimal))), "")
+	db := open(t, newModel(table("t", nil, file, col("i", model.TypeInteger), col("d", model.TypeDecimal))), "")
 	expectRows(t, query(t, db, `SELECT * FROM "t" ORDER BY "i"`), []string{"i", "d"}, [][]any{
 		{int64(-3), dec("150")}, {int64(7), dec("0.5")}, {int64(12), dec("2.5")},
 	})
 }
 
 func TestLossyExpr(t *testing.T) {
-	db := open(t, model(), "")
+	db := open(t, newModel(), "")
 	cases := []struct {
 		v     string
 		scale int
@@ -277,24 +277,24 @@ func TestCSVMissingColumns(t *testing.T) {
 func TestCSVEmptyFileAndHeaderOnly(t *testing.T) {
 	dir := t.TempDir()
 	empty := writeFile(t, dir, "empty.csv", "")
-	expectOpenError(t, model(table("t", nil, empty, col("a", planner.TypeInteger))), "", empty, "header row")
+	expectOpenError(t, newModel(table("t", nil, empty, col("a", model.TypeInteger))), "", empty, "header row")
 
 	header := writeFile(t, dir, "header.csv", "\xEF\xBB\xBFa,b\n")
-	db := open(t, model(table("t", nil, header, col("a", planner.TypeInteger), col("b", planner.TypeDecimal))), "")
+	db := open(t, newModel(table("t", nil, header, col("a", model.TypeInteger), col("b", model.TypeDecimal))), "")
 	expectRows(t, query(t, db, `SELECT count(*) FROM "t"`), []string{"count_star()"}, [][]any{{int64(0)}})
 }
 
 func TestCSVMalformedRow(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "t.csv", "a,b\n1,2\n3,4,5\n")
-	expectOpenError(t, model(table("t", nil, file, col("a", planner.TypeInteger))), "", file, "Line: 3")
+	expectOpenError(t, newModel(table("t", nil, file, col("a", model.TypeInteger))), "", file, "Line: 3")
 }
 
 func TestQuotesInNames(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "it's.csv", "\"we\"\"ird\",plain\n1,x\n")
-	m := model(table("odd", []string{`sch"ema`, `rel "one"`}, file,
-		col(`we"ird`, planner.TypeInteger), col("plain", planner.TypeText)))
+	m := newModel(table("odd", []string{`sch"ema`, `rel "one"`}, file,
+		col(`we"ird`, model.TypeInteger), col("plain", model.TypeText)))
 	db := open(t, m, "")
 	expectRows(t, query(t, db, `SELECT "we""ird", "plain" FROM "sch""ema"."rel ""one"""`),
 		[]string{`we"ird`, "plain"}, [][]any{{int64(1), "x"}})
@@ -303,24 +303,24 @@ func TestQuotesInNames(t *testing.T) {
 func TestThreePartRelation(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "t.csv", "a\n5\n")
-	db := open(t, model(table("t", []string{"wh", "retail", "t"}, file, col("a", planner.TypeInteger))), "")
+	db := open(t, newModel(table("t", []string{"wh", "retail", "t"}, file, col("a", model.TypeInteger))), "")
 	expectRows(t, query(t, db, `SELECT "a" FROM "wh"."retail"."t"`), []string{"a"}, [][]any{{int64(5)}})
 }
 
 func TestRolePlayingTablesShareOneRelation(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "dates.csv", "day,year\n2026-01-01,2026\n")
-	m := model(
-		table("order_date", []string{"dates"}, file, col("day", planner.TypeDate), col("year", planner.TypeInteger)),
-		table("ship_date", []string{"DATES"}, file, col("day", planner.TypeDate)),
+	m := newModel(
+		table("order_date", []string{"dates"}, file, col("day", model.TypeDate), col("year", model.TypeInteger)),
+		table("ship_date", []string{"DATES"}, file, col("day", model.TypeDate)),
 	)
 	db := open(t, m, "")
 	expectRows(t, query(t, db, `SELECT * FROM "dates"`), []string{"day", "year"}, [][]any{{date(2026, 1, 1), int64(2026)}})
 
 	other := writeFile(t, dir, "other.csv", "day\n2026-01-01\n")
-	m2 := model(
-		table("order_date", []string{"dates"}, file, col("day", planner.TypeDate)),
-		table("ship_date", []string{"dates"}, other, col("day", planner.TypeText)),
+	m2 := newModel(
+		table("order_date", []string{"dates"}, file, col("day", model.TypeDate)),
+		table("ship_date", []string{"dates"}, other, col("day", model.TypeText)),
 	)
 	expectOpenError(t, m2, "", "order_date and ship_date", "different files", "declare column day as date and text")
 }
@@ -333,8 +333,8 @@ func TestDataFileResolution(t *testing.T) {
 	}
 	fromFile := writeFile(t, dir, "stores.csv", "store_id\n1\n")
 	writeFile(t, data, "stores.csv", "store_id\n2\n")
-	stores := func(file string) *planner.Model {
-		return model(table("stores", []string{"retail", "stores"}, file, col("store_id", planner.TypeInteger)))
+	stores := func(file string) *model.Model {
+		return newModel(table("stores", []string{"retail", "stores"}, file, col("store_id", model.TypeInteger)))
 	}
 
 	// --data overrides `from`.
@@ -344,16 +344,16 @@ func TestDataFileResolution(t *testing.T) {
 	expectOpenError(t, stores(""), "", "table stores has no data file", `from "FILE"`, "--data")
 	expectOpenError(t, stores(filepath.Join(dir, "stores.xlsx")), "", "stores.xlsx", ".csv and .parquet")
 	expectOpenError(t, stores(filepath.Join(dir, "nope.csv")), "", "nope.csv")
-	expectOpenError(t, model(table("plants", nil, "", col("a", planner.TypeInteger))), data, "plants.csv", "plants.parquet", data)
+	expectOpenError(t, newModel(table("plants", nil, "", col("a", model.TypeInteger))), data, "plants.csv", "plants.parquet", data)
 
 	writeFile(t, data, "stores.parquet", "")
 	expectOpenError(t, stores(""), data, "stores.csv", "stores.parquet", "keep only one")
 }
 
 func TestErrorsFromSeveralTablesAreAllReported(t *testing.T) {
-	expectOpenError(t, model(
-		table("a", nil, "", col("x", planner.TypeInteger)),
-		table("b", nil, "", col("x", planner.TypeInteger)),
+	expectOpenError(t, newModel(
+		table("a", nil, "", col("x", model.TypeInteger)),
+		table("b", nil, "", col("x", model.TypeInteger)),
 	), "", "table a has no data file", "table b has no data file")
 }
 
@@ -364,10 +364,10 @@ func TestTimestampsAreHeldInUTC(t *testing.T) {
 	file := writeFile(t, dir, "t.csv", "id,at\n1,2026-03-01T10:00:00+02:00\n2,2026-03-01 10:00:00\n3,2026-03-01\n")
 	pq := writeParquet(t, dir, "t.parquet", "SELECT * FROM (VALUES (1, TIMESTAMPTZ '2026-03-01 10:00:00+02'), (2, NULL)) v(id, \"at\")")
 	pqText := writeParquet(t, dir, "u.parquet", "SELECT 1 AS id, '2026-03-01T10:00:00+02:00' AS \"at\"")
-	m := model(
-		table("t", nil, file, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
-		table("p", nil, pq, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
-		table("u", nil, pqText, col("id", planner.TypeInteger), col("at", planner.TypeTimestamp)),
+	m := newModel(
+		table("t", nil, file, col("id", model.TypeInteger), col("at", model.TypeTimestamp)),
+		table("p", nil, pq, col("id", model.TypeInteger), col("at", model.TypeTimestamp)),
+		table("u", nil, pqText, col("id", model.TypeInteger), col("at", model.TypeTimestamp)),
 	)
 	db := open(t, m, "")
 	at := func(h int) time.Time { return time.Date(2026, 3, 1, h, 0, 0, 0, time.UTC) }
@@ -381,7 +381,7 @@ func TestTimestampsAreHeldInUTC(t *testing.T) {
 func TestTableWithoutStoredColumns(t *testing.T) {
 	dir := t.TempDir()
 	file := writeFile(t, dir, "t.csv", "a\n1\n")
-	expectOpenError(t, model(table("t", nil, file, derived("d", planner.TypeInteger))), "", "table t declares no stored columns")
+	expectOpenError(t, newModel(table("t", nil, file, derived("d", model.TypeInteger))), "", "table t declares no stored columns")
 }
 
 // Tables that play two roles of one relation (at "nation") read the
@@ -389,8 +389,8 @@ func TestTableWithoutStoredColumns(t *testing.T) {
 func TestDataFileFallsBackToRelationName(t *testing.T) {
 	dir := t.TempDir()
 	writeFile(t, dir, "nation.csv", "n_nationkey\n7\n")
-	m := model(table("cust_nation", []string{"nation"}, "", col("n_nationkey", planner.TypeInteger)),
-		table("supp_nation", []string{"nation"}, "", col("n_nationkey", planner.TypeInteger)))
+	m := newModel(table("cust_nation", []string{"nation"}, "", col("n_nationkey", model.TypeInteger)),
+		table("supp_nation", []string{"nation"}, "", col("n_nationkey", model.TypeInteger)))
 	db := open(t, m, dir)
 	expectRows(t, query(t, db, `SELECT * FROM "nation"`), []string{"n_nationkey"}, [][]any{{int64(7)}})
 }

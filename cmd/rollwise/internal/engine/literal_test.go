@@ -6,7 +6,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // multiline are texts whose line breaks must survive a dialect's literal
@@ -41,7 +41,7 @@ func TestMultilineLiteralsReadBack(t *testing.T) {
 			l := liveEngine(t, name)
 			d, _ := dialects.Get(name)
 			for _, v := range multiline {
-				res, err := l.Query(ctx, "SELECT "+d.String(v)+" AS v", []planner.Type{planner.TypeText})
+				res, err := l.Query(ctx, "SELECT "+d.String(v)+" AS v", []model.Type{model.TypeText})
 				if err != nil || len(res.Rows) != 1 || res.Rows[0][0] != v {
 					t.Errorf("%s: %s reads back as %v (%v), want %q", name, d.String(v), res, err, v)
 				}

@@ -11,7 +11,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
@@ -72,26 +72,26 @@ func TestLiveValue(t *testing.T) {
 	day := time.Date(2026, 3, 1, 0, 0, 0, 0, time.UTC)
 	cases := []struct {
 		in   any
-		want planner.Type
+		want model.Type
 		out  any
 	}{
-		{"25.000000", planner.TypeDecimal, d("25")},
-		{[]byte("-1.200000"), planner.TypeDecimal, d("-1.2")},
-		{2.5, planner.TypeDecimal, d("2.5")},
-		{int64(7), planner.TypeDecimal, d("7")},
-		{"20", planner.TypeInteger, int64(20)},
-		{"9007199254740993", planner.TypeInteger, int64(9007199254740993)},
-		{"123456789012345678901234", planner.TypeInteger, d("123456789012345678901234")},
-		{5.0, planner.TypeInteger, int64(5)},
-		{"0.52000000000000000000", planner.TypeFloat, 0.52},
-		{int64(3), planner.TypeFloat, 3.0},
-		{"2026-03-01", planner.TypeDate, day},
-		{time.Date(2026, 3, 1, 0, 0, 0, 0, time.FixedZone("x", 3600)), planner.TypeDate, time.Date(2026, 2, 28, 0, 0, 0, 0, time.UTC)},
-		{"2026-03-01 10:00:00.5", planner.TypeTimestamp, day.Add(10*time.Hour + 500*time.Millisecond)},
-		{"1", planner.TypeBoolean, true},
-		{int64(0), planner.TypeBoolean, false},
-		{[]byte("it's"), planner.TypeText, "it's"},
-		{nil, planner.TypeInteger, nil},
+		{"25.000000", model.TypeDecimal, d("25")},
+		{[]byte("-1.200000"), model.TypeDecimal, d("-1.2")},
+		{2.5, model.TypeDecimal, d("2.5")},
+		{int64(7), model.TypeDecimal, d("7")},
+		{"20", model.TypeInteger, int64(20)},
+		{"9007199254740993", model.TypeInteger, int64(9007199254740993)},
+		{"123456789012345678901234", model.TypeInteger, d("123456789012345678901234")},
+		{5.0, model.TypeInteger, int64(5)},
+		{"0.52000000000000000000", model.TypeFloat, 0.52},
+		{int64(3), model.TypeFloat, 3.0},
+		{"2026-03-01", model.TypeDate, day},
+		{time.Date(2026, 3, 1, 0, 0, 0, 0, time.FixedZone("x", 3600)), model.TypeDate, time.Date(2026, 2, 28, 0, 0, 0, 0, time.UTC)},
+		{"2026-03-01 10:00:00.5", model.TypeTimestamp, day.Add(10*time.Hour + 500*time.Millisecond)},
+		{"1", model.TypeBoolean, true},
+		{int64(0), model.TypeBoolean, false},
+		{[]byte("it's"), model.TypeText, "it's"},
+		{nil, model.TypeInteger, nil},
 	}
 	for _, c := range cases {
 		got, err := liveValue(c.in, "", c.want)
@@ -105,8 +105,8 @@ func TestLiveValue(t *testing.T) {
 	}
 	for _, c := range []struct {
 		in   any
-		want planner.Type
-	}{{"2.5", planner.TypeInteger}, {"x", planner.TypeDecimal}, {"2026-13-45", planner.TypeDate}, {"2", planner.TypeBoolean}} {
+		want model.Type
+	}{{"2.5", model.TypeInteger}, {"x", model.TypeDecimal}, {"2026-13-45", model.TypeDate}, {"2", model.TypeBoolean}} {
 		if v, err := liveValue(c.in, "", c.want); err == nil {
 			t.Errorf("%v as %s = %v; want an error", c.in, c.want, v)
 		}
@@ -182,12 +182,12 @@ func TestLoadIntoAndReadBack(t *testing.T) {
 		`4,12345678901234567.123456,2.5,"ünï 名 🌱` + "\n" + `line",1999-12-31,2000-01-01 00:00:00,true,0`,
 	}, "\n")+"\n")
 	things := table("things", []string{schema, "things"}, filepath.Join(dir, "things.csv"),
-		col("id", planner.TypeInteger), col("price", planner.TypeDecimal), col("ratio", planner.TypeFloat),
-		col("name", planner.TypeText), col("day", planner.TypeDate), col("at", planner.TypeTimestamp),
-		col("flag", planner.TypeBoolean), col("big", planner.TypeInteger))
-	m := model(things)
-	types := []planner.Type{planner.TypeInteger, planner.TypeDecimal, planner.TypeFloat, planner.TypeText,
-		planner.TypeDate, planner.TypeTimestamp, planner.TypeBoolean, planner.TypeInteger}
+		col("id", model.TypeInteger), col("price", model.TypeDecimal), col("ratio", model.TypeFloat),
+		col("name", model.TypeText), col("day", model.TypeDate), col("at", model.TypeTimestamp),
+		col("flag", model.TypeBoolean), col("big", model.TypeInteger))
+	m := newModel(things)
+	types := []model.Type{model.TypeInteger, model.TypeDecimal, model.TypeFloat, model.TypeText,
+		model.TypeDate, model.TypeTimestamp, model.TypeBoolean, model.TypeInteger}
 	duck := open(t, m, "")
 	want := query(t, duck, `SELECT * FROM "`+schema+`"."things" ORDER BY "id"`)
 	for _, name := range []string{"sqlite", "postgres", "mysql"} {
@@ -219,7 +219,7 @@ func TestLoadIntoAndReadBack(t *testing.T) {
 			for i := range want.Rows {
 				for j := range want.Rows[i] {
 					w, g := want.Rows[i][j], got.Rows[i][j]
-					if name == "sqlite" && types[j] == planner.TypeDecimal && w != nil {
+					if name == "sqlite" && types[j] == model.TypeDecimal && w != nil {
 						// SQLite stores decimals as floats: 17 significant digits.
 						wf, _ := w.(decimal.Decimal).Float64()
 						w = decimal.NewFromFloat(wf)
@@ -238,7 +238,7 @@ func TestLoadIntoAndReadBack(t *testing.T) {
 func TestLoadIntoSQLiteNeedsAttachedSchema(t *testing.T) {
 	dir := t.TempDir()
 	writeFile(t, dir, "t.csv", "id\n1\n")
-	m := model(table("t", []string{"shop", "t"}, filepath.Join(dir, "t.csv"), col("id", planner.TypeInteger)))
+	m := newModel(table("t", []string{"shop", "t"}, filepath.Join(dir, "t.csv"), col("id", model.TypeInteger)))
 	l, err := OpenLive(context.Background(), "sqlite:"+filepath.Join(dir, "main.db")+"?mode=rwc", LiveOptions{Writable: true})
 	if err != nil {
 		t.Fatal(err)
@@ -270,10 +270,10 @@ func TestLoadIntoTwiceOnOneConnection(t *testing.T) {
 			}
 			for _, c := range []struct {
 				file string
-				typ  planner.Type
+				typ  model.Type
 				want string
-			}{{"a.csv", planner.TypeInteger, "5"}, {"b.csv", planner.TypeDecimal, "4.75"}} {
-				m := model(table("t", rel, filepath.Join(dir, c.file), col("id", planner.TypeInteger), col("v", c.typ)))
+			}{{"a.csv", model.TypeInteger, "5"}, {"b.csv", model.TypeDecimal, "4.75"}} {
+				m := newModel(table("t", rel, filepath.Join(dir, c.file), col("id", model.TypeInteger), col("v", c.typ)))
 				if err := LoadInto(ctx, l, m, ""); err != nil {
 					t.Fatalf("loading %s: %v", c.file, err)
 				}
@@ -281,7 +281,7 @@ func TestLoadIntoTwiceOnOneConnection(t *testing.T) {
 				if name == "postgres" {
 					q = strings.ReplaceAll(q, "`", `"`)
 				}
-				got, err := l.Query(ctx, q, []planner.Type{c.typ})
+				got, err := l.Query(ctx, q, []model.Type{c.typ})
 				if err != nil {
 					t.Fatal(err)
 				}

@@ -8,7 +8,7 @@ import (
 	"regexp"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // collationName is what a collation or character set name may look like;
@@ -26,13 +26,13 @@ var collationName = regexp.MustCompile(`^[A-Za-z0-9_]+$`)
 // Whether a collation ignores case or trailing spaces is asked of the
 // server, by comparing two probes under it, rather than guessed from its
 // name.
-func (l *Live) LooseGroupCollations(ctx context.Context, groups []*planner.Column) ([]string, error) {
+func (l *Live) LooseGroupCollations(ctx context.Context, groups []*model.Column) ([]string, error) {
 	if l.Dialect != "mysql" {
 		return nil, nil
 	}
 	var out []string
 	for _, g := range groups {
-		if g.Type != planner.TypeText || !g.Stored() {
+		if g.Type != model.TypeText || !g.Stored() {
 			continue
 		}
 		what, coll, err := l.looseCollation(ctx, g)
@@ -51,7 +51,7 @@ func (l *Live) LooseGroupCollations(ctx context.Context, groups []*planner.Colum
 // looseCollation says what the collation of column c ignores ("" when
 // nothing) and names it. A column the server does not list (its relation
 // is not a base table or view of this database) is left alone.
-func (l *Live) looseCollation(ctx context.Context, c *planner.Column) (what, coll string, err error) {
+func (l *Live) looseCollation(ctx context.Context, c *model.Column) (what, coll string, err error) {
 	schema, table := any(nil), c.Table.Name
 	if r := c.Table.Relation; len(r) > 0 {
 		table = r[len(r)-1]

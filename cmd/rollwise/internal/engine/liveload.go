@@ -9,7 +9,7 @@ import (
 	"time"
 
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
@@ -21,7 +21,7 @@ import (
 // (PostgreSQL schemas, MySQL databases); in SQLite a schema must be an
 // attached database (sqlite:PATH?attach=NAME=FILE). Existing tables of
 // those names are dropped first: never point it at a warehouse.
-func LoadInto(ctx context.Context, l *Live, m *planner.Model, dataDir string) error {
+func LoadInto(ctx context.Context, l *Live, m *model.Model, dataDir string) error {
 	d, err := dialects.Get(l.Dialect)
 	if err != nil {
 		return err
@@ -84,9 +84,9 @@ func (l *Live) createNamespaceLive(ctx context.Context, d dialects.Dialect, r *r
 // columnType is the column's type in the live database. On MySQL and
 // MariaDB text takes the session's binary NO PAD collation (openMySQL),
 // which compares like DuckDB also at trailing spaces.
-func (l *Live) columnType(d dialects.Dialect, t planner.Type) string {
+func (l *Live) columnType(d dialects.Dialect, t model.Type) string {
 	s := d.ColumnType(t)
-	if t == planner.TypeText && l.textCollation != "" {
+	if t == model.TypeText && l.textCollation != "" {
 		s = strings.Replace(s, "utf8mb4_bin", l.textCollation, 1)
 	}
 	return s
@@ -144,7 +144,7 @@ func (l *Live) loadRelation(ctx context.Context, d dialects.Dialect, src *sql.DB
 // decimals as exact text; dates and timestamps as ISO text for MySQL and
 // SQLite (which stores them as text, in the form the sqlite dialect's
 // literals use), as times for PostgreSQL.
-func (l *Live) param(v any, t planner.Type) any {
+func (l *Live) param(v any, t model.Type) any {
 	switch x := v.(type) {
 	case decimal.Decimal:
 		return x.String()
@@ -152,7 +152,7 @@ func (l *Live) param(v any, t planner.Type) any {
 		if l.Dialect == "postgres" {
 			return x
 		}
-		if t == planner.TypeDate {
+		if t == model.TypeDate {
 			return x.Format(time.DateOnly)
 		}
 		return x.Format("2006-01-02 15:04:05.999999")

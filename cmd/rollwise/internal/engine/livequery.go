@@ -7,65 +7,65 @@ import (
 	"strings"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
 // typeOfColumn reads a result column's logical type from the type the
 // server reports, for a query whose types nobody else knows (a handwritten
 // SQL file): TypeNull keeps the driver's value.
-func typeOfColumn(name string) planner.Type {
+func typeOfColumn(name string) model.Type {
 	n := strings.ToUpper(name)
 	switch {
 	case strings.Contains(n, "INT"):
-		return planner.TypeInteger
+		return model.TypeInteger
 	case strings.Contains(n, "NUMERIC"), strings.Contains(n, "DECIMAL"):
-		return planner.TypeDecimal
+		return model.TypeDecimal
 	case strings.Contains(n, "FLOAT"), strings.Contains(n, "DOUBLE"), strings.Contains(n, "REAL"):
-		return planner.TypeFloat
+		return model.TypeFloat
 	case n == "DATE":
-		return planner.TypeDate
+		return model.TypeDate
 	case strings.Contains(n, "TIMESTAMP"), n == "DATETIME":
-		return planner.TypeTimestamp
+		return model.TypeTimestamp
 	case strings.Contains(n, "BOOL"):
-		return planner.TypeBoolean
+		return model.TypeBoolean
 	case strings.Contains(n, "CHAR"), strings.Contains(n, "TEXT"):
-		return planner.TypeText
+		return model.TypeText
 	}
-	return planner.TypeNull
+	return model.TypeNull
 }
 
 // liveValue converts a driver value to the Go type Result promises for a
 // column of logical type want. dbType is the driver's type name, for
 // messages.
-func liveValue(v any, dbType string, want planner.Type) (any, error) {
+func liveValue(v any, dbType string, want model.Type) (any, error) {
 	if b, ok := v.([]byte); ok {
 		v = string(b)
 	}
 	if v == nil {
 		return nil, nil
 	}
-	if want == planner.TypeNull {
+	if want == model.TypeNull {
 		return normalize(v, dbType)
 	}
 	var out any
 	var err error
 	switch want {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		out, err = toInteger(v)
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		out, err = toDecimal(v)
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		out, err = toFloat(v)
-	case planner.TypeText:
+	case model.TypeText:
 		out, err = toText(v)
-	case planner.TypeDate:
+	case model.TypeDate:
 		var t time.Time
 		t, err = toTime(v)
 		out = time.Date(t.Year(), t.Month(), t.Day(), 0, 0, 0, 0, time.UTC)
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		out, err = toTime(v)
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		out, err = toBool(v)
 	default:
 		return normalize(v, dbType)

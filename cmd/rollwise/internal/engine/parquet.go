@@ -7,7 +7,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // loadParquet creates r as a view over its Parquet file that selects the
@@ -42,7 +42,7 @@ func loadParquet(ctx context.Context, conn *sql.Conn, r *relation) error {
 			selects[i] = field + " AS " + quoteIdent(c.name)
 			continue
 		}
-		if s.typ == "VARCHAR" && c.typ == planner.TypeTimestamp {
+		if s.typ == "VARCHAR" && c.typ == model.TypeTimestamp {
 			// Keep the instant of a text timestamp with an offset.
 			field = "CAST(" + field + " AS TIMESTAMPTZ)"
 		}
@@ -97,7 +97,7 @@ func checkParquetColumn(ctx context.Context, conn *sql.Conn, r *relation, c colu
 	case s.typ == "VARCHAR":
 		// Text is checked as a CSV field is.
 		cond, unreadable = textRefused(x, c), textUnreadable(x, c)
-	case c.typ == planner.TypeText || c.typ == planner.TypeFloat:
+	case c.typ == model.TypeText || c.typ == model.TypeFloat:
 		// Any value has a text form; a float column is approximate by
 		// declaration.
 		unreadable = fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", x, c.duckType)

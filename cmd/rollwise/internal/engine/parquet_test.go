@@ -8,7 +8,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // writeParquet writes the rows of a DuckDB query to dir/name with COPY.
@@ -34,15 +34,15 @@ func TestParquetColumnsCastToDeclaredTypes(t *testing.T) {
 			(2::INTEGER, NULL, NULL, 1234.123456::DOUBLE, NULL, NULL, NULL, 'x'),
 			(3::INTEGER, 'R3', DATE '2026-03-02', NULL, 99999999.99::DECIMAL(10,2), 7::SMALLINT, TIMESTAMP '2026-03-02 00:00:00', 'y')
 		) v(line_id, receipt_id, sold_on, unit_price, unit_cost, qty, rung_at, note)`)
-	m := model(table("sales", []string{"retail", "sales_lines"}, file,
-		col("line_id", planner.TypeInteger),
-		col("receipt_id", planner.TypeText),
-		col("sold_on", planner.TypeDate),
-		col("unit_price", planner.TypeDecimal),
-		col("unit_cost", planner.TypeDecimal),
-		col("QTY", planner.TypeInteger), // matched without regard to case
-		col("rung_at", planner.TypeTimestamp),
-		derived("line_total", planner.TypeDecimal),
+	m := newModel(table("sales", []string{"retail", "sales_lines"}, file,
+		col("line_id", model.TypeInteger),
+		col("receipt_id", model.TypeText),
+		col("sold_on", model.TypeDate),
+		col("unit_price", model.TypeDecimal),
+		col("unit_cost", model.TypeDecimal),
+		col("QTY", model.TypeInteger), // matched without regard to case
+		col("rung_at", model.TypeTimestamp),
+		derived("line_total", model.TypeDecimal),
 	))
 	db := open(t, m, "")
 	res := query(t, db, `SELECT * FROM "retail"."sales_lines" ORDER BY "line_id"`)
@@ -64,31 +64,31 @@ func TestParquetValuesThatWouldChangeAreRefused(t *testing.T) {
 	dir := t.TempDir()
 	cases := []struct {
 		name, query string
-		typ         planner.Type
+		typ         model.Type
 		want        []string
 	}{
-		{"too precise double", "SELECT * FROM (VALUES (1.5::DOUBLE), (0.1234567::DOUBLE)) v(x)", planner.TypeDecimal,
+		{"too precise double", "SELECT * FROM (VALUES (1.5::DOUBLE), (0.1234567::DOUBLE)) v(x)", model.TypeDecimal,
 			[]string{"row 2", "column t.x (decimal)", "0.1234567", "more than 6 decimal places"}},
-		{"too precise decimal", "SELECT 1.12345678::DECIMAL(18,8) AS x", planner.TypeDecimal,
+		{"too precise decimal", "SELECT 1.12345678::DECIMAL(18,8) AS x", model.TypeDecimal,
 			[]string{"row 1", "1.12345678", "more than 6 decimal places"}},
 		// 34 integer digits: more than DECIMAL(38,6) holds, so a wide
 		// DECIMAL column is still read and checked.
-		{"too large decimal", "SELECT 1234567890123456789012345678901234.5::DECIMAL(38,2) AS x", planner.TypeDecimal,
+		{"too large decimal", "SELECT 1234567890123456789012345678901234.5::DECIMAL(38,2) AS x", model.TypeDecimal,
 			[]string{"row 1", "1234567890123456789012345678901234.5"}},
-		{"unsigned beyond integer", "SELECT 18446744073709551615::UBIGINT AS x", planner.TypeInteger,
+		{"unsigned beyond integer", "SELECT 18446744073709551615::UBIGINT AS x", model.TypeInteger,
 			[]string{"row 1", "18446744073709551615"}},
-		{"too precise text", "SELECT '2.0000001' AS x", planner.TypeDecimal, []string{"row 1", `"2.0000001"`}},
-		{"fraction in integer", "SELECT * FROM (VALUES (1.0::DOUBLE), (2.5::DOUBLE)) v(x)", planner.TypeInteger,
+		{"too precise text", "SELECT '2.0000001' AS x", model.TypeDecimal, []string{"row 1", `"2.0000001"`}},
+		{"fraction in integer", "SELECT * FROM (VALUES (1.0::DOUBLE), (2.5::DOUBLE)) v(x)", model.TypeInteger,
 			[]string{"row 2", `"2.5"`, "not a whole number"}},
-		{"nan in decimal", "SELECT 'NaN'::DOUBLE AS x", planner.TypeDecimal, []string{"row 1", "cannot read"}},
-		{"time of day in date", "SELECT TIMESTAMP '2026-01-01 10:00:00' AS x", planner.TypeDate,
+		{"nan in decimal", "SELECT 'NaN'::DOUBLE AS x", model.TypeDecimal, []string{"row 1", "cannot read"}},
+		{"time of day in date", "SELECT TIMESTAMP '2026-01-01 10:00:00' AS x", model.TypeDate,
 			[]string{"row 1", "2026-01-01 10:00:00", "would change"}},
-		{"text in date", "SELECT 'soon' AS x", planner.TypeDate, []string{"row 1", `"soon"`, "YYYY-MM-DD"}},
+		{"text in date", "SELECT 'soon' AS x", model.TypeDate, []string{"row 1", `"soon"`, "YYYY-MM-DD"}},
 	}
 	for _, c := range cases {
 		t.Run(c.name, func(t *testing.T) {
 			file := writeParquet(t, dir, c.name+".parquet", c.query)
-			m := model(table("t", nil, file, col("x", c.typ)))
+			m := newModel(table("t", nil, file, col("x", c.typ)))
 			expectOpenError(t, m, "", append([]string{file}, c.want...)...)
 		})
 	}
@@ -97,20 +97,20 @@ func TestParquetValuesThatWouldChangeAreRefused(t *testing.T) {
 func TestParquetMissingColumns(t *testing.T) {
 	dir := t.TempDir()
 	file := writeParquet(t, dir, "t.parquet", "SELECT 1 AS a, 2 AS b")
-	m := model(table("t", nil, file, col("a", planner.TypeInteger), col("c", planner.TypeInteger), col("d", planner.TypeText)))
+	m := newModel(table("t", nil, file, col("a", model.TypeInteger), col("c", model.TypeInteger), col("d", model.TypeText)))
 	expectOpenError(t, m, "", file, "lacks columns c, d", "it has: a, b")
 }
 
 func TestParquetFromDataDir(t *testing.T) {
 	dir := t.TempDir()
 	writeParquet(t, dir, "stores.parquet", "SELECT 4::BIGINT AS store_id, 'North' AS region")
-	m := model(table("stores", []string{"retail", "stores"}, "", col("store_id", planner.TypeInteger), col("region", planner.TypeText)))
+	m := newModel(table("stores", []string{"retail", "stores"}, "", col("store_id", model.TypeInteger), col("region", model.TypeText)))
 	db := open(t, m, dir)
 	expectRows(t, query(t, db, `SELECT * FROM "retail"."stores"`), []string{"store_id", "region"}, [][]any{{int64(4), "North"}})
 }
 
 func TestQueryNormalisesValues(t *testing.T) {
-	db := open(t, model(), "")
+	db := open(t, newModel(), "")
 	res := query(t, db, `SELECT NULL AS n, 7::TINYINT AS i8, 300::SMALLINT AS i16, 70000::INTEGER AS i32,
 		200::UTINYINT AS u8, 4000000000::UINTEGER AS u32, 18446744073709551615::UBIGINT AS u64,
 		170141183460469231731687303715884105727::HUGEINT AS huge, 0.1::FLOAT AS f32, 0.1::DOUBLE AS f64,
@@ -135,7 +135,7 @@ func TestQueryNormalisesValues(t *testing.T) {
 }
 
 func TestQueryRefusesUnsupportedTypes(t *testing.T) {
-	db := open(t, model(), "")
+	db := open(t, newModel(), "")
 	for q, want := range map[string]string{
 		"SELECT INTERVAL 1 DAY AS v":  "INTERVAL",
 		"SELECT TIME '10:00:00' AS v": "TIME",
@@ -209,8 +209,8 @@ func TestParquetFileDecimals(t *testing.T) {
 			(100000000.00::DECIMAL(15,2), 10000000.00::DECIMAL(15,2), 0.5::DECIMAL(12,8)),
 			(0.01::DECIMAL(15,2), 2.50::DECIMAL(15,2), 0.25::DECIMAL(12,8))
 		) v(price, qty, rate)`)
-	m := model(table("lines", nil, file,
-		col("price", planner.TypeDecimal), col("qty", planner.TypeDecimal), col("rate", planner.TypeDecimal)))
+	m := newModel(table("lines", nil, file,
+		col("price", model.TypeDecimal), col("qty", model.TypeDecimal), col("rate", model.TypeDecimal)))
 	db, err := Open(context.Background(), m, "", Options{FileDecimals: true})
 	if err != nil {
 		t.Fatal(err)

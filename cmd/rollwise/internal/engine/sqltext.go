@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // DecimalWidth and DecimalScale are the precision and scale of the DuckDB
@@ -30,21 +30,21 @@ const (
 const DecimalType = "DECIMAL(38,6)"
 
 // duckType returns the DuckDB type that stores a column of type t.
-func duckType(t planner.Type) (string, error) {
+func duckType(t model.Type) (string, error) {
 	switch t {
-	case planner.TypeInteger:
+	case model.TypeInteger:
 		return "BIGINT", nil
-	case planner.TypeDecimal:
+	case model.TypeDecimal:
 		return DecimalType, nil
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return "DOUBLE", nil
-	case planner.TypeText:
+	case model.TypeText:
 		return "VARCHAR", nil
-	case planner.TypeDate:
+	case model.TypeDate:
 		return "DATE", nil
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		return "TIMESTAMP", nil
-	case planner.TypeBoolean:
+	case model.TypeBoolean:
 		return "BOOLEAN", nil
 	}
 	return "", fmt.Errorf("type %s cannot be stored", t)

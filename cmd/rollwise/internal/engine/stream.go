@@ -5,7 +5,7 @@ import (
 	"database/sql"
 	"fmt"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Each is what a streamed query calls: Columns once with the result's
@@ -101,7 +101,7 @@ func QueryEach(ctx context.Context, db *sql.DB, query string, each Each) error {
 // text, MySQL sends everything as text, SQLite has no date or decimal
 // type). A column past the end of want, or of TypeNull, keeps the
 // driver's value; with want nil, the type the server reports decides.
-func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*Result, error) {
+func (l *Live) Query(ctx context.Context, query string, want []model.Type) (*Result, error) {
 	res := &Result{Rows: [][]any{}}
 	if err := l.QueryEach(ctx, query, want, collect(res)); err != nil {
 		return nil, err
@@ -113,21 +113,21 @@ func (l *Live) Query(ctx context.Context, query string, want []planner.Type) (*R
 // each, normalised as by Query, within the session's statement timeout
 // (each's work included); past it, or when ctx ends, the statement is
 // cancelled on the server.
-func (l *Live) QueryEach(ctx context.Context, query string, want []planner.Type, each Each) error {
+func (l *Live) QueryEach(ctx context.Context, query string, want []model.Type, each Each) error {
 	ctx, cancel := l.withStatementTimeout(ctx)
 	defer cancel()
 	return l.explain(ctx, l.queryEach(ctx, query, want, each))
 }
 
 // queryEach is QueryEach within the statement's time.
-func (l *Live) queryEach(ctx context.Context, query string, want []planner.Type, each Each) error {
+func (l *Live) queryEach(ctx context.Context, query string, want []model.Type, each Each) error {
 	rows, done, err := l.rows(ctx, query)
 	if err != nil {
 		return fmt.Errorf("query failed: %w", err)
 	}
 	defer done() //nolint:errcheck // rolls back a read-only transaction: nothing to keep
 	return stream(rows, func(i int, v any, dbType string) (any, error) {
-		t := planner.TypeNull
+		t := model.TypeNull
 		switch {
 		case i < len(want):
 			t = want[i]

@@ -3,7 +3,7 @@ package engine
 import (
 	"fmt"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // numberPattern is how a number must be written in a data file: decimal
@@ -37,17 +37,17 @@ const maxOffsetMinutes = 14 * 60
 func textUnreadable(v string, c column) string {
 	cast := fmt.Sprintf("TRY_CAST(%s AS %s) IS NULL", v, parseType(c))
 	switch c.typ {
-	case planner.TypeInteger, planner.TypeDecimal:
+	case model.TypeInteger, model.TypeDecimal:
 		return fmt.Sprintf("(NOT regexp_full_match(%s, '%s') OR %s)", v, numberPattern, cast)
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		return fmt.Sprintf("(NOT (regexp_full_match(%[1]s, '%[2]s') OR regexp_full_match(%[1]s, '%[3]s')) OR %[4]s)",
 			v, numberPattern, nonFinitePattern, cast)
-	case planner.TypeTimestamp:
+	case model.TypeTimestamp:
 		offset := fmt.Sprintf("coalesce(TRY_CAST(regexp_extract(%[1]s, '^%[2]s$', 1) AS INTEGER), 0) * 60 + coalesce(TRY_CAST(regexp_extract(%[1]s, '^%[2]s$', 2) AS INTEGER), 0)",
 			v, timestampPattern)
 		return fmt.Sprintf("(NOT regexp_full_match(%[1]s, '%[2]s') OR %[3]s OR %[4]s > %[5]d OR regexp_extract(%[1]s, '^%[2]s$', 2) >= '60')",
 			v, timestampPattern, cast, offset, maxOffsetMinutes)
-	case planner.TypeText:
+	case model.TypeText:
 		return "false"
 	}
 	return cast
@@ -60,9 +60,9 @@ func textUnreadable(v string, c column) string {
 func textRefused(v string, c column) string {
 	cond := textUnreadable(v, c)
 	switch c.typ {
-	case planner.TypeInteger, planner.TypeDecimal:
+	case model.TypeInteger, model.TypeDecimal:
 		cond += " OR " + lossyExpr(v, scaleOf(c.typ))
-	case planner.TypeFloat:
+	case model.TypeFloat:
 		cond += fmt.Sprintf(" OR (isinf(TRY_CAST(%s AS DOUBLE)) AND NOT regexp_full_match(%s, '%s'))", v, v, nonFinitePattern)
 	}
 	return fmt.Sprintf("(%s IS NOT NULL AND (%s))", v, cond)
@@ -79,7 +79,7 @@ func textNumeric(v string) string {
 // textRefused, as column c's DuckDB type. Timestamps are parsed with
 // their offset and held in UTC.
 func textParsed(v string, c column) string {
-	if c.typ == planner.TypeTimestamp {
+	if c.typ == model.TypeTimestamp {
 		return fmt.Sprintf("CAST(CAST(%s AS TIMESTAMPTZ) AS TIMESTAMP)", v)
 	}
 	return fmt.Sprintf("CAST(%s AS %s)", v, c.duckType)
@@ -88,9 +88,9 @@ func textParsed(v string, c column) string {
 // readsAsText reports whether a CSV column of type t is read as text and
 // checked by textRefused, rather than parsed by the CSV reader (which
 // reads 0x10 as 16 and an unreadable timestamp as NULL).
-func readsAsText(t planner.Type) bool {
+func readsAsText(t model.Type) bool {
 	switch t {
-	case planner.TypeInteger, planner.TypeDecimal, planner.TypeFloat, planner.TypeTimestamp:
+	case model.TypeInteger, model.TypeDecimal, model.TypeFloat, model.TypeTimestamp:
 		return true
 	}
 	return false

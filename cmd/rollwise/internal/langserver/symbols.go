@@ -10,14 +10,14 @@ import (
 	protocol "github.com/tliron/glsp/protocol_3_16"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // symbol is what a name in a model file stands for.
 type symbol struct {
-	measure *planner.Measure
-	table   *planner.Table
-	column  *planner.Column
+	measure *model.Measure
+	table   *model.Table
+	column  *model.Column
 }
 
 func (y symbol) same(o symbol) bool {
@@ -33,13 +33,13 @@ type occurrence struct {
 // occurrences resolves every name token of a file: a measure, a table
 // (before a dot, after `table` or `->`), a column (after table and a dot,
 // or a bare name inside a table's braces).
-func occurrences(m *planner.Model, path, src string) []occurrence {
+func occurrences(m *model.Model, path, src string) []occurrence {
 	if m == nil {
 		return nil
 	}
 	toks := grammar.Tokens(path, src)
 	var out []occurrence
-	var current, pending *planner.Table
+	var current, pending *model.Table
 	for i, t := range toks {
 		prev, next := grammar.Token{}, grammar.Token{}
 		if i > 0 {
@@ -188,7 +188,7 @@ func describe(y symbol) string {
 	switch {
 	case y.measure != nil:
 		m := y.measure
-		fmt.Fprintf(&b, "```\nmeasure %s = %s\n```\n\n", m.Name, planner.Text(m.Expr))
+		fmt.Fprintf(&b, "```\nmeasure %s = %s\n```\n\n", m.Name, model.Text(m.Expr))
 		fmt.Fprintf(&b, "type %s", m.Type)
 		if m.Format != "" {
 			fmt.Fprintf(&b, ", format %s", m.Format)
@@ -200,7 +200,7 @@ func describe(y symbol) string {
 		if ts := iterationTables(m); len(ts) > 0 {
 			fmt.Fprintf(&b, "iterates over: %s\n\n", strings.Join(ts, ", "))
 		}
-		if additive(m.Expr, map[*planner.Measure]bool{}) {
+		if additive(m.Expr, map[*model.Measure]bool{}) {
 			b.WriteString("additive: its subtotals equal the sums of their rows")
 		} else {
 			b.WriteString("not additive: every total is re-evaluated in its own cell, never summed")
@@ -212,7 +212,7 @@ func describe(y symbol) string {
 			b.WriteString(", " + a)
 		}
 		if c.Derived != nil {
-			fmt.Fprintf(&b, "\n\n```\n%s = %s\n```", c.Name, planner.Text(c.Derived))
+			fmt.Fprintf(&b, "\n\n```\n%s = %s\n```", c.Name, model.Text(c.Derived))
 		}
 		fmt.Fprintf(&b, "\n\ntable %s", c.Table.Name)
 		for _, l := range c.Table.Links {
@@ -239,11 +239,11 @@ func describe(y symbol) string {
 	return b.String()
 }
 
-func additivityWord(c *planner.Column) string {
+func additivityWord(c *model.Column) string {
 	switch {
 	case c.SemiDate != nil:
 		return "semiadditive over " + c.SemiDate.String()
-	case c.Additivity == planner.NonAdditive:
+	case c.Additivity == model.NonAdditive:
 		return "nonadditive"
 	}
 	return ""
@@ -251,18 +251,18 @@ func additivityWord(c *planner.Column) string {
 
 // iterationTables names the tables whose rows a measure's aggregates
 // iterate over, through the measures it builds on, in first-use order.
-func iterationTables(m *planner.Measure) []string {
+func iterationTables(m *model.Measure) []string {
 	var out []string
-	seen := map[*planner.Measure]bool{}
-	var walk func(e planner.Expr)
-	walk = func(e planner.Expr) {
-		planner.Walk(e, func(x planner.Expr) bool {
+	seen := map[*model.Measure]bool{}
+	var walk func(e model.Expr)
+	walk = func(e model.Expr) {
+		model.Walk(e, func(x model.Expr) bool {
 			switch x := x.(type) {
-			case *planner.Agg:
+			case *model.Agg:
 				if x.Table != nil && !slices.Contains(out, x.Table.Name) {
 					out = append(out, x.Table.Name)
 				}
-			case *planner.MeasureRef:
+			case *model.MeasureRef:
 				if !seen[x.Measure] {
 					seen[x.Measure] = true
 					walk(x.Measure.Expr)
@@ -278,17 +278,17 @@ func iterationTables(m *planner.Measure) []string {
 // additive reports whether e is sums and counts joined by + and -, so
 // that its value over a set of rows is the sum of its values over the
 // parts (common practice: the definition of an additive measure).
-func additive(e planner.Expr, seen map[*planner.Measure]bool) bool {
+func additive(e model.Expr, seen map[*model.Measure]bool) bool {
 	switch x := e.(type) {
-	case *planner.Agg:
+	case *model.Agg:
 		return (x.Func == "sum" || x.Func == "count") && !x.Distinct
-	case *planner.MeasureRef:
+	case *model.MeasureRef:
 		if seen[x.Measure] {
 			return false
 		}
 		seen[x.Measure] = true
 		return additive(x.Measure.Expr, seen)
-	case *planner.BinOp:
+	case *model.BinOp:
 		return (x.Op == "+" || x.Op == "-") && additive(x.L, seen) && additive(x.R, seen)
 	}
 	return false
@@ -326,7 +326,7 @@ func (s *Server) completion(_ *glsp.Context, p *protocol.CompletionParams) (any,
 		return items, nil
 	}
 	for _, m := range w.model.Measures {
-		add(m.Name, protocol.CompletionItemKindFunction, "measure: "+planner.Text(m.Expr))
+		add(m.Name, protocol.CompletionItemKindFunction, "measure: "+model.Text(m.Expr))
 	}
 	for _, t := range w.model.Tables {
 		add(t.Name, protocol.CompletionItemKindClass, "table")

@@ -8,14 +8,14 @@ import (
 	protocol "github.com/tliron/glsp/protocol_3_16"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // workspace is one model: the files of a folder, parsed and resolved.
 type workspace struct {
 	paths []string
 	src   map[string]string
-	model *planner.Model // nil when the files do not parse
+	model *model.Model // nil when the files do not parse
 	diags grammar.Diagnostics
 }
 
@@ -38,13 +38,13 @@ func (s *Server) workspace(path string) *workspace {
 		}
 	}
 	if !w.diags.HasErrors() {
-		m, d := planner.Load(files)
+		m, d := model.Load(files)
 		w.model = m
 		w.diags.Append(d)
 	} else {
 		// Offer what resolves in the files that parse, for hover and
 		// completion while one file is being typed.
-		w.model, _ = planner.Load(files)
+		w.model, _ = model.Load(files)
 	}
 	return w
 }

@@ -25,7 +25,7 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // EnvPostgres and EnvMySQL name the environment variables that hold the
@@ -71,7 +71,7 @@ var unsafeChars = regexp.MustCompile(`[^a-z0-9_]`)
 // Open returns engine name loaded with m's data (dataDir as for --data),
 // in databases named after tag (letters, digits and _): two packages that
 // test in parallel must use different tags. The caller closes it.
-func Open(t testing.TB, name, tag string, m *planner.Model, dataDir string) *Engine {
+func Open(t testing.TB, name, tag string, m *model.Model, dataDir string) *Engine {
 	t.Helper()
 	e := connect(t, name, dbPrefix()+safeName(tag), schemas(m))
 	if err := engine.LoadInto(context.Background(), e.Live, m, dataDir); err != nil {
@@ -147,7 +147,7 @@ func connect(t testing.TB, name, db string, schemas []string) *Engine {
 func (e *Engine) Close() { e.Live.Close() }
 
 // schemas lists the schemas the model's relations name, sorted.
-func schemas(m *planner.Model) []string {
+func schemas(m *model.Model) []string {
 	seen := map[string]bool{}
 	for _, t := range m.Tables {
 		if len(t.Relation) == 2 {

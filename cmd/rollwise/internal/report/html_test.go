@@ -6,7 +6,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 func TestHTMLSetsTotalsApartAndChartsTheSubtotals(t *testing.T) {
@@ -35,7 +35,7 @@ func TestHTMLSetsTotalsApartAndChartsTheSubtotals(t *testing.T) {
 }
 
 func TestHTMLDrawsALineByDate(t *testing.T) {
-	tb := &Table{Columns: []Column{{Name: "sales.month", Group: true}, {Name: "rate", Format: planner.FormatPercent}}}
+	tb := &Table{Columns: []Column{{Name: "sales.month", Group: true}, {Name: "rate", Format: model.FormatPercent}}}
 	// Rows out of time order: the line joins them in time order.
 	for _, m := range []int{3, 1, 2} {
 		tb.Rows = append(tb.Rows, Row{Values: []any{time.Date(2026, time.Month(m), 1, 0, 0, 0, 0, time.UTC), 0.5 + float64(m)/100}})

@@ -15,7 +15,7 @@ import (
 	"io"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Column describes one column of a result.
@@ -27,12 +27,12 @@ type Column struct {
 	Group bool
 	// Format says how a measure's values are shown in the table and
 	// markdown formats.
-	Format planner.Format
+	Format model.Format
 	// Type is the column's type where known: a date column shows its
 	// values as dates, a timestamp column as timestamps. Unknown
 	// (TypeNull), Write shows a column as dates when all its time values
 	// fall on midnight UTC.
-	Type planner.Type
+	Type model.Type
 	// Period is "month", "quarter" or "year" for a column whose values
 	// are known to be the starts of such periods (date_trunc): the table
 	// and markdown formats show 2024-01, 2024-Q1 or 2024; JSON and CSV

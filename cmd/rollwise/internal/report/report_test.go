@@ -8,7 +8,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
@@ -24,10 +24,10 @@ func sample() *Table {
 		Columns: []Column{
 			{Name: "plants.family", Group: true},
 			{Name: "sales.sold_month", Group: true},
-			{Name: "revenue", Format: planner.FormatCurrency},
+			{Name: "revenue", Format: model.FormatCurrency},
 			{Name: "basket"},
-			{Name: "margin_rate", Format: planner.FormatPercent},
-			{Name: "receipts", Format: planner.FormatInteger},
+			{Name: "margin_rate", Format: model.FormatPercent},
+			{Name: "receipts", Format: model.FormatInteger},
 		},
 		Rows: []Row{
 			{Values: []any{"Roses", march, dec("1234567.505"), noisy, 0.25, int64(1200)}},
@@ -92,7 +92,7 @@ func TestTableFormatColorBoldsTotalRowsOnly(t *testing.T) {
 
 func TestTableFormatWrapsTextToFitWidth(t *testing.T) {
 	tb := &Table{
-		Columns: []Column{{Name: "plants.name", Group: true}, {Name: "revenue", Format: planner.FormatCurrency}},
+		Columns: []Column{{Name: "plants.name", Group: true}, {Name: "revenue", Format: model.FormatCurrency}},
 		Rows: []Row{
 			{Values: []any{"Rosa 'Gertrude Jekyll' climbing rose", dec("1234.5")}},
 			{Values: []any{nil, dec("99999.99")}, RolledUp: []string{"plants.name"}},
@@ -185,30 +185,30 @@ func TestEmptyResults(t *testing.T) {
 func TestDisplayFormats(t *testing.T) {
 	cases := []struct {
 		v      any
-		format planner.Format
+		format model.Format
 		want   string
 	}{
-		{0.30000000000000004, planner.FormatNone, "0.3"},
-		{dec("1234567.123456"), planner.FormatNone, "1234567.1235"},
-		{dec("1234567.123456"), planner.FormatNumber, "1,234,567.1235"},
-		{dec("2"), planner.FormatNone, "2"},
-		{0.0000123456, planner.FormatNone, "0.00001235"},
-		{-0.00004, planner.FormatNone, "-0.00004"},
-		{int64(-1234567), planner.FormatNone, "-1234567"},
-		{int64(-1234567), planner.FormatInteger, "-1,234,567"},
-		{2.5, planner.FormatInteger, "3"},
-		{-2.5, planner.FormatInteger, "-3"},
-		{dec("999.995"), planner.FormatCurrency, "1,000.00"},
-		{dec("-0.001"), planner.FormatCurrency, "0.00"},
-		{int64(100), planner.FormatCurrency, "100.00"},
-		{0.12345, planner.FormatPercent, "12.3%"},
-		{dec("0.00049"), planner.FormatPercent, "0.0%"},
-		{dec("-0.5"), planner.FormatPercent, "-50.0%"},
-		{int64(12), planner.FormatPercent, "1,200.0%"},
-		{math.Inf(1), planner.FormatCurrency, "+Inf"},
-		{"text", planner.FormatPercent, "text"},
-		{float32(0.1), planner.FormatNone, "0.1"},
-		{uint64(math.MaxUint64), planner.FormatInteger, "18,446,744,073,709,551,615"},
+		{0.30000000000000004, model.FormatNone, "0.3"},
+		{dec("1234567.123456"), model.FormatNone, "1234567.1235"},
+		{dec("1234567.123456"), model.FormatNumber, "1,234,567.1235"},
+		{dec("2"), model.FormatNone, "2"},
+		{0.0000123456, model.FormatNone, "0.00001235"},
+		{-0.00004, model.FormatNone, "-0.00004"},
+		{int64(-1234567), model.FormatNone, "-1234567"},
+		{int64(-1234567), model.FormatInteger, "-1,234,567"},
+		{2.5, model.FormatInteger, "3"},
+		{-2.5, model.FormatInteger, "-3"},
+		{dec("999.995"), model.FormatCurrency, "1,000.00"},
+		{dec("-0.001"), model.FormatCurrency, "0.00"},
+		{int64(100), model.FormatCurrency, "100.00"},
+		{0.12345, model.FormatPercent, "12.3%"},
+		{dec("0.00049"), model.FormatPercent, "0.0%"},
+		{dec("-0.5"), model.FormatPercent, "-50.0%"},
+		{int64(12), model.FormatPercent, "1,200.0%"},
+		{math.Inf(1), model.FormatCurrency, "+Inf"},
+		{"text", model.FormatPercent, "text"},
+		{float32(0.1), model.FormatNone, "0.1"},
+		{uint64(math.MaxUint64), model.FormatInteger, "18,446,744,073,709,551,615"},
 	}
 	for _, c := range cases {
 		tb := &Table{Columns: []Column{{Name: "m", Format: c.format}}, Rows: []Row{{Values: []any{c.v}}}}
@@ -223,7 +223,7 @@ func TestDisplayFormats(t *testing.T) {
 
 func TestGroupValuesShowInFull(t *testing.T) {
 	tb := &Table{
-		Columns: []Column{{Name: "g", Group: true}, {Name: "ts", Group: true}, {Name: "m", Format: planner.FormatCurrency}},
+		Columns: []Column{{Name: "g", Group: true}, {Name: "ts", Group: true}, {Name: "m", Format: model.FormatCurrency}},
 		Rows: []Row{
 			{Values: []any{dec("1234.56789"), time.Date(2026, 3, 1, 10, 30, 0, 0, time.UTC), 1.0}},
 			{Values: []any{"", time.Date(2026, 3, 2, 0, 0, 0, 0, time.UTC), 2.0}},

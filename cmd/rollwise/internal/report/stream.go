@@ -8,7 +8,7 @@ import (
 
 	"github.com/jedib0t/go-pretty/v6/table"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // BufferRows is how many rows the table and Markdown formats hold before
@@ -48,7 +48,7 @@ func NewStream(w io.Writer, cols []Column, o Options) (*Stream, error) {
 	}
 	dates := make([]bool, len(cols))
 	for j, c := range cols {
-		dates[j] = c.Type == planner.TypeDate
+		dates[j] = c.Type == model.TypeDate
 	}
 	return newStream(w, cols, o, dates)
 }

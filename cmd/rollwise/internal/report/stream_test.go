@@ -9,7 +9,7 @@ import (
 	"testing"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // countingWriter records when the first byte arrived, counted in rows
@@ -35,7 +35,7 @@ func streamRows(t *testing.T, f string, n int) (*countingWriter, string) {
 	t.Helper()
 	rows := 0
 	w := &countingWriter{rows: &rows}
-	s, err := NewStream(w, []Column{{Name: "name", Group: true, Type: planner.TypeText}, {Name: "n", Type: planner.TypeInteger}}, Options{Format: f})
+	s, err := NewStream(w, []Column{{Name: "name", Group: true, Type: model.TypeText}, {Name: "n", Type: model.TypeInteger}}, Options{Format: f})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -109,7 +109,7 @@ func TestTableFormatStreamsInChunks(t *testing.T) {
 func TestStreamShowsDeclaredTypes(t *testing.T) {
 	midnight := time.Date(2026, 1, 1, 0, 0, 0, 0, time.UTC)
 	var b bytes.Buffer
-	s, _ := NewStream(&b, []Column{{Name: "d", Type: planner.TypeDate}, {Name: "ts", Type: planner.TypeTimestamp}}, Options{Format: FormatCSV})
+	s, _ := NewStream(&b, []Column{{Name: "d", Type: model.TypeDate}, {Name: "ts", Type: model.TypeTimestamp}}, Options{Format: FormatCSV})
 	s.Row(Row{Values: []any{midnight, midnight}}) //nolint:errcheck // checked below
 	s.Close()                                     //nolint:errcheck // checked below
 	if got := b.String(); got != "d,ts,rolled_up\n2026-01-01,2026-01-01T00:00:00Z,\n" {

@@ -8,7 +8,7 @@ import (
 	"strings"
 	"time"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 	"github.com/shopspring/decimal"
 )
 
@@ -157,7 +157,7 @@ func jsonString(s string) string {
 func dateColumns(t *Table) []bool {
 	dates := make([]bool, len(t.Columns))
 	for j, c := range t.Columns {
-		dates[j] = c.Type == planner.TypeNull || c.Type == planner.TypeDate
+		dates[j] = c.Type == model.TypeNull || c.Type == model.TypeDate
 	}
 	for _, r := range t.Rows {
 		for j, v := range r.Values {
@@ -168,7 +168,7 @@ func dateColumns(t *Table) []bool {
 			if !ok {
 				continue
 			}
-			if t.Columns[j].Type != planner.TypeNull {
+			if t.Columns[j].Type != model.TypeNull {
 				continue
 			}
 			tv = tv.UTC()
@@ -187,13 +187,13 @@ func showNumber(d decimal.Decimal, c Column) string {
 		return d.String()
 	}
 	switch c.Format {
-	case planner.FormatPercent:
+	case model.FormatPercent:
 		return groupThousands(d.Shift(2).StringFixed(1)) + "%"
-	case planner.FormatCurrency:
+	case model.FormatCurrency:
 		return groupThousands(d.StringFixed(2))
-	case planner.FormatInteger:
+	case model.FormatInteger:
 		return groupThousands(d.StringFixed(0))
-	case planner.FormatNumber:
+	case model.FormatNumber:
 		return groupThousands(fewDecimals(d))
 	}
 	return fewDecimals(d)

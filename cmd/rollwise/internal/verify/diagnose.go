@@ -9,7 +9,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // variant is a wrong formula computed on the data: its value in every
@@ -258,7 +258,7 @@ func (v *verifier) rollwiseOnlyFits(u *Unmatched, vs []*variant) []fit {
 func (v *verifier) queryFilterVariants(ctx context.Context) []*variant {
 	fs := v.in.Query.Filters
 	var out []*variant
-	try := func(keep []planner.Expr, detail string) {
+	try := func(keep []model.Expr, detail string) {
 		q := *v.in.Query
 		q.Filters = keep
 		sql, err := v.planSQL(&q)
@@ -272,7 +272,7 @@ func (v *verifier) queryFilterVariants(ctx context.Context) []*variant {
 		v.note("could not compute %s (%s): %v", FilterIgnored, detail, err)
 	}
 	for i, f := range fs {
-		keep := append(append([]planner.Expr{}, fs[:i]...), fs[i+1:]...)
+		keep := append(append([]model.Expr{}, fs[:i]...), fs[i+1:]...)
 		try(keep, fmt.Sprintf("the query filter `%s` is not applied", bare(f)))
 	}
 	if len(fs) > 1 {
@@ -300,7 +300,7 @@ func (v *verifier) only(j int) []bool {
 // table that links to a table they reach (fan-out), or cut by an inner
 // join along a link they follow (dropped-unmatched).
 func (v *verifier) joinVariants(ctx context.Context) []*variant {
-	var tables []*planner.Table
+	var tables []*model.Table
 	for _, m := range v.measures {
 		for _, t := range iterationTables(m) {
 			if !containsTable(tables, t) {
@@ -309,7 +309,7 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 		}
 	}
 	var out []*variant
-	try := func(t *planner.Table, name, detail, body, weight string, rows int) {
+	try := func(t *model.Table, name, detail, body, weight string, rows int) {
 		c, has, err := v.throughRows(ctx, t, body, weight)
 		if err != nil {
 			v.note("could not compute %s (%s): %v", name, detail, err)
@@ -319,8 +319,8 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 	}
 	d := v.in.Dialect
 	for _, t := range tables {
-		reach := planner.Reach(t)
-		onPath := map[*planner.Link]bool{}
+		reach := model.Reach(t)
+		onPath := map[*model.Link]bool{}
 		for _, p := range reach {
 			for _, l := range p {
 				onPath[l] = true
@@ -360,7 +360,7 @@ func (v *verifier) joinVariants(ctx context.Context) []*variant {
 
 // columnPair is a column of a fanning table matched with a column of the
 // fact table's rows, beside the link (shifts.day = tills.day).
-type columnPair struct{ fan, row *planner.Column }
+type columnPair struct{ fan, row *model.Column }
 
 func (p columnPair) String() string { return p.fan.String() + " = " + p.row.String() }
 
@@ -368,7 +368,7 @@ func (p columnPair) String() string { return p.fan.String() + " = " + p.row.Stri
 // link l alone, or along l and one more pair of columns of the same name
 // and type that neither table uses as its key (a join on store and day).
 // Each way is a fan-out that repeats t's rows by a different count.
-func alsoMatched(t, u *planner.Table, l *planner.Link) [][]columnPair {
+func alsoMatched(t, u *model.Table, l *model.Link) [][]columnPair {
 	out := [][]columnPair{nil}
 	for _, cu := range u.Columns {
 		if !cu.Stored() || slices.Contains(l.FromCols, cu) || slices.Contains(u.Key, cu) {
@@ -384,7 +384,7 @@ func alsoMatched(t, u *planner.Table, l *planner.Link) [][]columnPair {
 }
 
 // weightColumn picks a column name t does not have.
-func weightColumn(t *planner.Table) string {
+func weightColumn(t *model.Table) string {
 	for i := 1; ; i++ {
 		name := "rollwise_repeat"
 		if i > 1 {
@@ -396,7 +396,7 @@ func weightColumn(t *planner.Table) string {
 	}
 }
 
-func containsTable(list []*planner.Table, t *planner.Table) bool {
+func containsTable(list []*model.Table, t *model.Table) bool {
 	for _, x := range list {
 		if x == t {
 			return true
@@ -408,26 +408,26 @@ func containsTable(list []*planner.Table, t *planner.Table) bool {
 // followedLinks lists the links rollwise follows from t for the report:
 // towards the tables of its groups, its filters and the columns its
 // aggregates over t read.
-func (v *verifier) followedLinks(t *planner.Table, reach map[*planner.Table][]*planner.Link) []*planner.Link {
-	var cols []*planner.Column
+func (v *verifier) followedLinks(t *model.Table, reach map[*model.Table][]*model.Link) []*model.Link {
+	var cols []*model.Column
 	for _, g := range v.in.Query.Groups {
 		cols = append(cols, g)
 		if g.Derived != nil {
-			cols = append(cols, planner.Columns(g.Derived)...)
+			cols = append(cols, model.Columns(g.Derived)...)
 		}
 	}
 	for _, f := range v.in.Query.Filters {
-		cols = append(cols, planner.Columns(f)...)
+		cols = append(cols, model.Columns(f)...)
 	}
 	for _, m := range v.measures {
-		planner.Walk(inline(m), func(x planner.Expr) bool {
-			if a, ok := x.(*planner.Agg); ok && a.Table == t && a.Arg != nil {
-				cols = append(cols, planner.Columns(a.Arg)...)
+		model.Walk(inline(m), func(x model.Expr) bool {
+			if a, ok := x.(*model.Agg); ok && a.Table == t && a.Arg != nil {
+				cols = append(cols, model.Columns(a.Arg)...)
 			}
 			return true
 		})
 	}
-	var out []*planner.Link
+	var out []*model.Link
 	for _, c := range cols {
 		for _, l := range reach[c.Table] {
 			if !containsLink(out, l) {
@@ -438,7 +438,7 @@ func (v *verifier) followedLinks(t *planner.Table, reach map[*planner.Table][]*p
 	return out
 }
 
-func containsLink(list []*planner.Link, l *planner.Link) bool {
+func containsLink(list []*model.Link, l *model.Link) bool {
 	for _, x := range list {
 		if x == l {
 			return true
@@ -611,7 +611,7 @@ func (v *verifier) perRowVariants(ctx context.Context, j int) []*variant {
 		}
 		by = append(by, refText(k))
 	}
-	q, diags := v.in.Model.NewQuery(planner.QuerySpec{Measures: []string{m.Name}, By: by, Where: v.in.Spec.Where, Totals: "none"})
+	q, diags := v.in.Model.NewQuery(model.QuerySpec{Measures: []string{m.Name}, By: by, Where: v.in.Spec.Where, Totals: "none"})
 	if diags.HasErrors() {
 		v.note("could not compute the per-row %s of %s: %v", m.Name, t.Name, diags.Err())
 		return nil

@@ -4,7 +4,7 @@ import (
 	"fmt"
 	"strings"
 
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // This file holds the wrong formulas that rewrite a measure's expression:
@@ -15,63 +15,63 @@ import (
 type formula struct {
 	name   string
 	detail string
-	expr   planner.Expr
+	expr   model.Expr
 }
 
 // rewrite copies e bottom-up; fn may replace a node (after its children
 // were rewritten) by returning a different expression. Measure references
 // are inlined, so that the copy never shares a node with the model.
-func rewrite(e planner.Expr, fn func(planner.Expr) planner.Expr) planner.Expr {
+func rewrite(e model.Expr, fn func(model.Expr) model.Expr) model.Expr {
 	if e == nil {
 		return nil
 	}
-	var out planner.Expr
+	var out model.Expr
 	switch x := e.(type) {
-	case *planner.MeasureRef:
+	case *model.MeasureRef:
 		return rewrite(x.Measure.Expr, fn)
-	case *planner.BinOp:
+	case *model.BinOp:
 		c := *x
 		c.L, c.R = rewrite(x.L, fn), rewrite(x.R, fn)
 		out = &c
-	case *planner.UnOp:
+	case *model.UnOp:
 		c := *x
 		c.X = rewrite(x.X, fn)
 		out = &c
-	case *planner.Func:
+	case *model.Func:
 		c := *x
 		c.Args = rewriteList(x.Args, fn)
 		out = &c
-	case *planner.CaseExpr:
+	case *model.CaseExpr:
 		c := *x
 		c.Whens = nil
 		for _, w := range x.Whens {
-			c.Whens = append(c.Whens, planner.WhenArm{Cond: rewrite(w.Cond, fn), Then: rewrite(w.Then, fn)})
+			c.Whens = append(c.Whens, model.WhenArm{Cond: rewrite(w.Cond, fn), Then: rewrite(w.Then, fn)})
 		}
 		c.Else = rewrite(x.Else, fn)
 		out = &c
-	case *planner.InExpr:
+	case *model.InExpr:
 		c := *x
 		c.X = rewrite(x.X, fn)
 		c.List = rewriteList(x.List, fn)
 		out = &c
-	case *planner.IsNullExpr:
+	case *model.IsNullExpr:
 		c := *x
 		c.X = rewrite(x.X, fn)
 		out = &c
-	case *planner.Agg:
+	case *model.Agg:
 		c := *x
 		c.Arg = rewrite(x.Arg, fn)
 		out = &c
-	case *planner.NarrowExpr:
+	case *model.NarrowExpr:
 		c := *x
 		c.X, c.Pred = rewrite(x.X, fn), rewrite(x.Pred, fn)
 		out = &c
-	case *planner.EditExpr:
+	case *model.EditExpr:
 		c := *x
 		c.X = rewrite(x.X, fn)
-		c.Edits = append([]*planner.CellEdit(nil), x.Edits...)
+		c.Edits = append([]*model.CellEdit(nil), x.Edits...)
 		out = &c
-	case *planner.PerAgg:
+	case *model.PerAgg:
 		c := *x
 		c.X, c.Having = rewrite(x.X, fn), rewrite(x.Having, fn)
 		out = &c
@@ -82,28 +82,28 @@ func rewrite(e planner.Expr, fn func(planner.Expr) planner.Expr) planner.Expr {
 	return fn(out)
 }
 
-func rewriteList(es []planner.Expr, fn func(planner.Expr) planner.Expr) []planner.Expr {
-	var out []planner.Expr
+func rewriteList(es []model.Expr, fn func(model.Expr) model.Expr) []model.Expr {
+	var out []model.Expr
 	for _, a := range es {
 		out = append(out, rewrite(a, fn))
 	}
 	return out
 }
 
-func keep(e planner.Expr) planner.Expr { return e }
+func keep(e model.Expr) model.Expr { return e }
 
 // inline is the measure's expression with every measure reference
 // replaced by the measure's own expression.
-func inline(m *planner.Measure) planner.Expr { return rewrite(m.Expr, keep) }
+func inline(m *model.Measure) model.Expr { return rewrite(m.Expr, keep) }
 
 // changer rewrites one node and says, in words, what it changed.
-type changer func(planner.Expr) (planner.Expr, string)
+type changer func(model.Expr) (model.Expr, string)
 
 // rewriteWhere rewrites the nodes for which pick holds, and returns the
 // copy and what was changed (each change said once).
-func rewriteWhere(e planner.Expr, pick func(planner.Expr) bool, change changer) (planner.Expr, []string) {
+func rewriteWhere(e model.Expr, pick func(model.Expr) bool, change changer) (model.Expr, []string) {
 	var notes []string
-	out := rewrite(e, func(x planner.Expr) planner.Expr {
+	out := rewrite(e, func(x model.Expr) model.Expr {
 		if !pick(x) {
 			return x
 		}
@@ -118,21 +118,21 @@ func rewriteWhere(e planner.Expr, pick func(planner.Expr) bool, change changer) 
 // (every copy of the same aggregate at once, as a handwritten query
 // repeats the same mistake) and, when there are several, to all of them:
 // one formula each.
-func variants(name string, e planner.Expr, match func(planner.Expr) bool, change changer) []formula {
+func variants(name string, e model.Expr, match func(model.Expr) bool, change changer) []formula {
 	var keys []string
-	planner.Walk(e, func(x planner.Expr) bool {
+	model.Walk(e, func(x model.Expr) bool {
 		if match(x) {
-			keys = appendOnce(keys, planner.Text(x))
+			keys = appendOnce(keys, model.Text(x))
 		}
 		return true
 	})
 	var out []formula
-	add := func(pick func(planner.Expr) bool) {
+	add := func(pick func(model.Expr) bool) {
 		x, notes := rewriteWhere(e, pick, change)
 		out = append(out, formula{name: name, detail: strings.Join(notes, "; "), expr: x})
 	}
 	for _, k := range keys {
-		add(func(x planner.Expr) bool { return match(x) && planner.Text(x) == k })
+		add(func(x model.Expr) bool { return match(x) && model.Text(x) == k })
 	}
 	if len(keys) > 1 {
 		add(match)
@@ -142,31 +142,31 @@ func variants(name string, e planner.Expr, match func(planner.Expr) bool, change
 
 // productOfSums: sum(a * b) written as sum(a) * sum(b). A derived column
 // that is a product (line = price * qty) counts as one.
-func productOfSums(m *planner.Measure) []formula {
-	match := func(x planner.Expr) bool { _, _, ok := product(x); return ok }
-	change := func(x planner.Expr) (planner.Expr, string) {
-		a := x.(*planner.Agg)
+func productOfSums(m *model.Measure) []formula {
+	match := func(x model.Expr) bool { _, _, ok := product(x); return ok }
+	change := func(x model.Expr) (model.Expr, string) {
+		a := x.(*model.Agg)
 		l, r, _ := product(x)
 		note := fmt.Sprintf("sum(%s) * sum(%s) in place of sum(%s * %s)", bare(l), bare(r), bare(l), bare(r))
 		la, ra := *a, *a
 		la.Arg, la.T = l, l.Type()
 		ra.Arg, ra.T = r, r.Type()
-		return &planner.BinOp{Pos: a.Pos, Op: "*", L: &la, R: &ra, T: a.T}, note
+		return &model.BinOp{Pos: a.Pos, Op: "*", L: &la, R: &ra, T: a.T}, note
 	}
 	return variants(ProductOfSums, inline(m), match, change)
 }
 
 // product splits the argument of sum(a * b).
-func product(x planner.Expr) (l, r planner.Expr, ok bool) {
-	a, isAgg := x.(*planner.Agg)
+func product(x model.Expr) (l, r model.Expr, ok bool) {
+	a, isAgg := x.(*model.Agg)
 	if !isAgg || a.Func != "sum" || a.Distinct || a.Arg == nil {
 		return nil, nil, false
 	}
 	arg := a.Arg
-	if c, isCol := arg.(*planner.ColRef); isCol && c.Col.Derived != nil {
+	if c, isCol := arg.(*model.ColRef); isCol && c.Col.Derived != nil {
 		arg = c.Col.Derived
 	}
-	b, isBin := arg.(*planner.BinOp)
+	b, isBin := arg.(*model.BinOp)
 	if !isBin || b.Op != "*" {
 		return nil, nil, false
 	}
@@ -174,8 +174,8 @@ func product(x planner.Expr) (l, r planner.Expr, ok bool) {
 }
 
 // bare is an expression's text without its outer parentheses.
-func bare(e planner.Expr) string {
-	s := planner.Text(e)
+func bare(e model.Expr) string {
+	s := model.Text(e)
 	if strings.HasPrefix(s, "(") && strings.HasSuffix(s, ")") && balanced(s[1:len(s)-1]) {
 		return s[1 : len(s)-1]
 	}
@@ -200,21 +200,21 @@ func balanced(s string) bool {
 
 // narrowingIgnored: a narrowing (`M where PRED`) or a pin
 // (`M[T.C = v]`) left out.
-func narrowingIgnored(m *planner.Measure) []formula {
+func narrowingIgnored(m *model.Measure) []formula {
 	e := inline(m)
-	isNarrow := func(x planner.Expr) bool { _, ok := x.(*planner.NarrowExpr); return ok }
-	drop := func(x planner.Expr) (planner.Expr, string) {
-		n := x.(*planner.NarrowExpr)
+	isNarrow := func(x model.Expr) bool { _, ok := x.(*model.NarrowExpr); return ok }
+	drop := func(x model.Expr) (model.Expr, string) {
+		n := x.(*model.NarrowExpr)
 		return n.X, fmt.Sprintf("the narrowing `where %s` is not applied", bare(n.Pred))
 	}
 	out := variants(FilterIgnored, e, isNarrow, drop)
-	hasPin := func(x planner.Expr) bool { return editsOf(x, planner.EditPin) > 0 }
-	unpin := func(x planner.Expr) (planner.Expr, string) {
-		ed := x.(*planner.EditExpr)
-		var kept []*planner.CellEdit
+	hasPin := func(x model.Expr) bool { return editsOf(x, model.EditPin) > 0 }
+	unpin := func(x model.Expr) (model.Expr, string) {
+		ed := x.(*model.EditExpr)
+		var kept []*model.CellEdit
 		var notes []string
 		for _, c := range ed.Edits {
-			if c.Kind == planner.EditPin {
+			if c.Kind == model.EditPin {
 				notes = append(notes, fmt.Sprintf("the pin [%s] is not applied", editText(c)))
 				continue
 			}
@@ -235,17 +235,17 @@ func narrowingIgnored(m *planner.Measure) []formula {
 // does. The wrong cell is the `ungroup` of the same target. The planner
 // does not plan cell edits yet, so these formulas are reported as not
 // computable until it does.
-func filterLeaked(m *planner.Measure) []formula {
-	hasDrop := func(x planner.Expr) bool { return editsOf(x, planner.EditDrop) > 0 }
-	leak := func(x planner.Expr) (planner.Expr, string) {
-		ed := x.(*planner.EditExpr)
+func filterLeaked(m *model.Measure) []formula {
+	hasDrop := func(x model.Expr) bool { return editsOf(x, model.EditDrop) > 0 }
+	leak := func(x model.Expr) (model.Expr, string) {
+		ed := x.(*model.EditExpr)
 		c := *ed
 		c.Edits = nil
 		var notes []string
 		for _, d := range ed.Edits {
-			if d.Kind == planner.EditDrop {
+			if d.Kind == model.EditDrop {
 				u := *d
-				u.Kind = planner.EditUngroup
+				u.Kind = model.EditUngroup
 				notes = append(notes, fmt.Sprintf("[%s] keeps the query's filters, as [%s] does", editText(d), editText(&u)))
 				d = &u
 			}
@@ -256,8 +256,8 @@ func filterLeaked(m *planner.Measure) []formula {
 	return variants(FilterLeaked, inline(m), hasDrop, leak)
 }
 
-func editsOf(x planner.Expr, kind planner.EditKind) int {
-	ed, ok := x.(*planner.EditExpr)
+func editsOf(x model.Expr, kind model.EditKind) int {
+	ed, ok := x.(*model.EditExpr)
 	if !ok {
 		return 0
 	}
@@ -271,8 +271,8 @@ func editsOf(x planner.Expr, kind planner.EditKind) int {
 }
 
 // editText is one edit as written in a measure.
-func editText(c *planner.CellEdit) string {
-	s := planner.Text(&planner.EditExpr{X: &planner.Lit{T: planner.TypeNull}, Edits: []*planner.CellEdit{c}})
+func editText(c *model.CellEdit) string {
+	s := model.Text(&model.EditExpr{X: &model.Lit{T: model.TypeNull}, Edits: []*model.CellEdit{c}})
 	// "(null)[EDIT]"
 	if i := strings.Index(s, "["); i >= 0 && strings.HasSuffix(s, "]") {
 		return s[i+1 : len(s)-1]
@@ -283,16 +283,16 @@ func editText(c *planner.CellEdit) string {
 // nullAsZero: every aggregate reads coalesce(x, 0) in place of x, so that
 // NULLs count as zeros (in an average, a count, a minimum, and a sum over
 // only NULLs).
-func nullAsZero(m *planner.Measure) []formula {
-	match := func(x planner.Expr) bool {
-		a, ok := x.(*planner.Agg)
-		return ok && a.Arg != nil && a.Arg.Type().Numeric() && a.Arg.Type() != planner.TypeNull
+func nullAsZero(m *model.Measure) []formula {
+	match := func(x model.Expr) bool {
+		a, ok := x.(*model.Agg)
+		return ok && a.Arg != nil && a.Arg.Type().Numeric() && a.Arg.Type() != model.TypeNull
 	}
-	change := func(x planner.Expr) (planner.Expr, string) {
-		a := *x.(*planner.Agg)
-		note := planner.Text(x)
-		zero := &planner.Lit{Pos: a.Pos, T: planner.TypeInteger, Text: "0"}
-		a.Arg = &planner.Func{Pos: a.Pos, Name: "coalesce", Args: []planner.Expr{a.Arg, zero}, T: a.Arg.Type()}
+	change := func(x model.Expr) (model.Expr, string) {
+		a := *x.(*model.Agg)
+		note := model.Text(x)
+		zero := &model.Lit{Pos: a.Pos, T: model.TypeInteger, Text: "0"}
+		a.Arg = &model.Func{Pos: a.Pos, Name: "coalesce", Args: []model.Expr{a.Arg, zero}, T: a.Arg.Type()}
 		return &a, note
 	}
 	if len(variants(NullAsZero, inline(m), match, change)) == 0 {
@@ -305,17 +305,17 @@ func nullAsZero(m *planner.Measure) []formula {
 // ratioKind says which wrong totals suit a measure: "ratio" for a ratio
 // or an average (sum-of-ratios, average-of-ratios), "distinct" for a
 // distinct count (sum-of-distinct-counts), "" otherwise.
-func ratioKind(m *planner.Measure) string {
+func ratioKind(m *model.Measure) string {
 	switch e := inline(m).(type) {
-	case *planner.BinOp:
+	case *model.BinOp:
 		if e.Op == "/" {
 			return "ratio"
 		}
-	case *planner.PerAgg:
+	case *model.PerAgg:
 		if e.Func == "avg" {
 			return "ratio"
 		}
-	case *planner.Agg:
+	case *model.Agg:
 		switch {
 		case e.Func == "avg":
 			return "ratio"
@@ -328,10 +328,10 @@ func ratioKind(m *planner.Measure) string {
 
 // iterationTables lists the tables a measure's aggregates iterate over,
 // in first-use order.
-func iterationTables(m *planner.Measure) []*planner.Table {
-	var out []*planner.Table
-	planner.Walk(inline(m), func(x planner.Expr) bool {
-		if a, ok := x.(*planner.Agg); ok && a.Table != nil {
+func iterationTables(m *model.Measure) []*model.Table {
+	var out []*model.Table
+	model.Walk(inline(m), func(x model.Expr) bool {
+		if a, ok := x.(*model.Agg); ok && a.Table != nil {
 			for _, t := range out {
 				if t == a.Table {
 					return true

@@ -8,7 +8,8 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // This file turns wrong formulas into SQL. Formulas over measure
@@ -23,8 +24,8 @@ import (
 type cells map[string][]Value
 
 // planSQL plans and renders a query.
-func (v *verifier) planSQL(q *planner.Query) (string, error) {
-	p, diags := planner.NewPlan(q)
+func (v *verifier) planSQL(q *model.Query) (string, error) {
+	p, diags := plan.NewPlan(q)
 	if diags.HasErrors() || p == nil {
 		if errs := diags.Errors(); len(errs) > 0 {
 			return "", errors.New(errs[0].Message)
@@ -36,9 +37,9 @@ func (v *verifier) planSQL(q *planner.Query) (string, error) {
 
 // measureQuery is the report's query computing one measure with the
 // expression e, under the given filters.
-func (v *verifier) measureQuery(m *planner.Measure, e planner.Expr, filters []planner.Expr) *planner.Query {
+func (v *verifier) measureQuery(m *model.Measure, e model.Expr, filters []model.Expr) *model.Query {
 	q := *v.in.Query
-	q.Measures = []*planner.Measure{{Name: m.Name, Expr: e, Format: m.Format, Doc: m.Doc, Pos: m.Pos, Type: e.Type()}}
+	q.Measures = []*model.Measure{{Name: m.Name, Expr: e, Format: m.Format, Doc: m.Doc, Pos: m.Pos, Type: e.Type()}}
 	q.Filters = filters
 	return &q
 }
@@ -102,7 +103,7 @@ func (v *verifier) rowsRelation() string {
 // reload loads the model again from its sources, with table t reading
 // relation rel and, when weight is not "", declaring one more integer
 // column of that name.
-func (v *verifier) reload(t *planner.Table, rel, weight string) (*planner.Model, error) {
+func (v *verifier) reload(t *model.Table, rel, weight string) (*model.Model, error) {
 	if len(v.in.Sources) == 0 {
 		return nil, errors.New("the model's sources are not at hand")
 	}
@@ -129,7 +130,7 @@ func (v *verifier) reload(t *planner.Table, rel, weight string) (*planner.Model,
 	if !found {
 		return nil, fmt.Errorf("table %s is not declared in the model's sources", t.Name)
 	}
-	m, diags := planner.Load(files)
+	m, diags := model.Load(files)
 	if diags.HasErrors() || m == nil {
 		return nil, fmt.Errorf("re-reading the model: %v", diags.Err())
 	}
@@ -143,13 +144,13 @@ func (v *verifier) reload(t *planner.Table, rel, weight string) (*planner.Model,
 // times: sums and counts weighted, distinct counts, minimums and maximums
 // unchanged. has marks the measures it computes: a median or a standard
 // deviation cannot be weighted.
-func (v *verifier) throughRows(ctx context.Context, t *planner.Table, body, weight string) (cells, []bool, error) {
+func (v *verifier) throughRows(ctx context.Context, t *model.Table, body, weight string) (cells, []bool, error) {
 	rel := v.rowsRelation()
 	m, err := v.reload(t, rel, weight)
 	if err != nil {
 		return nil, nil, err
 	}
-	q, diags := m.NewQuery(planner.QuerySpec{Measures: v.names, By: v.in.Query.GroupNames,
+	q, diags := m.NewQuery(model.QuerySpec{Measures: v.names, By: v.in.Query.GroupNames,
 		Where: v.in.Spec.Where, Totals: string(v.in.Query.Totals)})
 	if diags.HasErrors() {
 		return nil, nil, fmt.Errorf("re-planning the query: %v", diags.Err())
@@ -158,11 +159,11 @@ func (v *verifier) throughRows(ctx context.Context, t *planner.Table, body, weig
 	if weight != "" {
 		t2 := m.Table(t.Name)
 		w := t2.Column(weight)
-		var ms []*planner.Measure
+		var ms []*model.Measure
 		for j, x := range q.Measures {
 			e, ok := weighted(x, t2, w)
 			has[j] = ok
-			ms = append(ms, &planner.Measure{Name: x.Name, Expr: e, Format: x.Format, Doc: x.Doc, Pos: x.Pos, Type: e.Type()})
+			ms = append(ms, &model.Measure{Name: x.Name, Expr: e, Format: x.Format, Doc: x.Doc, Pos: x.Pos, Type: e.Type()})
 		}
 		q.Measures = ms
 	}
@@ -177,40 +178,40 @@ func (v *verifier) throughRows(ctx context.Context, t *planner.Table, body, weig
 // weighted rewrites the aggregates over t so that each row counts w times.
 // ok is false when an aggregate cannot be weighted (median, stddev,
 // variance).
-func weighted(m *planner.Measure, t *planner.Table, w *planner.Column) (planner.Expr, bool) {
+func weighted(m *model.Measure, t *model.Table, w *model.Column) (model.Expr, bool) {
 	ok := true
-	e := rewrite(m.Expr, func(x planner.Expr) planner.Expr {
-		a, isAgg := x.(*planner.Agg)
+	e := rewrite(m.Expr, func(x model.Expr) model.Expr {
+		a, isAgg := x.(*model.Agg)
 		if !isAgg || a.Table != t {
 			return x
 		}
-		wref := &planner.ColRef{Pos: a.Pos, Col: w}
-		zero := &planner.Lit{Pos: a.Pos, T: planner.TypeInteger, Text: "0"}
+		wref := &model.ColRef{Pos: a.Pos, Col: w}
+		zero := &model.Lit{Pos: a.Pos, T: model.TypeInteger, Text: "0"}
 		// weightIf is w where arg is not NULL.
-		weightIf := func(arg planner.Expr) planner.Expr {
-			return &planner.CaseExpr{Pos: a.Pos, T: planner.TypeInteger, Whens: []planner.WhenArm{{
-				Cond: &planner.IsNullExpr{Pos: a.Pos, X: arg, Not: true}, Then: wref}}}
+		weightIf := func(arg model.Expr) model.Expr {
+			return &model.CaseExpr{Pos: a.Pos, T: model.TypeInteger, Whens: []model.WhenArm{{
+				Cond: &model.IsNullExpr{Pos: a.Pos, X: arg, Not: true}, Then: wref}}}
 		}
-		sum := func(arg planner.Expr, t planner.Type) *planner.Agg {
+		sum := func(arg model.Expr, t model.Type) *model.Agg {
 			c := *a
 			c.Func, c.Distinct, c.Arg, c.T = "sum", false, arg, t
 			return &c
 		}
-		orZero := func(e planner.Expr) planner.Expr {
-			return &planner.Func{Pos: a.Pos, Name: "coalesce", Args: []planner.Expr{e, zero}, T: planner.TypeInteger}
+		orZero := func(e model.Expr) model.Expr {
+			return &model.Func{Pos: a.Pos, Name: "coalesce", Args: []model.Expr{e, zero}, T: model.TypeInteger}
 		}
 		switch {
 		case a.Distinct || a.Func == "min" || a.Func == "max":
 			return x
 		case a.Func == "count" && a.Arg == nil:
-			return orZero(sum(wref, planner.TypeInteger))
+			return orZero(sum(wref, model.TypeInteger))
 		case a.Func == "count":
-			return orZero(sum(weightIf(a.Arg), planner.TypeInteger))
+			return orZero(sum(weightIf(a.Arg), model.TypeInteger))
 		case a.Func == "sum":
-			return sum(&planner.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.T)
+			return sum(&model.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.T)
 		case a.Func == "avg":
-			num := sum(&planner.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.Arg.Type())
-			return &planner.BinOp{Pos: a.Pos, Op: "/", L: num, R: sum(weightIf(a.Arg), planner.TypeInteger), T: planner.TypeFloat}
+			num := sum(&model.BinOp{Pos: a.Pos, Op: "*", L: a.Arg, R: wref, T: a.Arg.Type()}, a.Arg.Type())
+			return &model.BinOp{Pos: a.Pos, Op: "/", L: num, R: sum(weightIf(a.Arg), model.TypeInteger), T: model.TypeFloat}
 		}
 		ok = false
 		return x
@@ -228,7 +229,7 @@ func withCTE(sql, name, body string) string {
 }
 
 // relation is a table's quoted relation name.
-func relation(d dialects.Dialect, t *planner.Table) string {
+func relation(d dialects.Dialect, t *model.Table) string {
 	parts := t.Relation
 	if len(parts) == 0 {
 		parts = []string{t.Name}
@@ -243,7 +244,7 @@ func relation(d dialects.Dialect, t *planner.Table) string {
 // joinedRows selects the columns of t's rows joined along path (links
 // leading away from t, each with join kind join), as a handwritten query
 // that inner-joins its dimensions does.
-func joinedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, join string) string {
+func joinedRows(d dialects.Dialect, t *model.Table, path []*model.Link, join string) string {
 	b, _ := pathJoins(d, t, path, join)
 	return "  SELECT " + d.Ident("t0") + ".*\n" + b
 }
@@ -254,7 +255,7 @@ func joinedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, join
 // that many times; with join INNER, rows without any are dropped, and
 // with LEFT they count once. Each pair of also adds a condition between a
 // column of fan.From and one of t (a join on store and day).
-func fannedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, fan *planner.Link, also []columnPair, join, weight string) string {
+func fannedRows(d dialects.Dialect, t *model.Table, path []*model.Link, fan *model.Link, also []columnPair, join, weight string) string {
 	q := d.Ident
 	b, alias := pathJoins(d, t, path, "LEFT")
 	var keys, conds []string
@@ -278,9 +279,9 @@ func fannedRows(d dialects.Dialect, t *planner.Table, path []*planner.Link, fan 
 
 // pathJoins writes the FROM clause of t joined along path, and the alias
 // of each table.
-func pathJoins(d dialects.Dialect, t *planner.Table, path []*planner.Link, join string) (string, map[*planner.Table]string) {
+func pathJoins(d dialects.Dialect, t *model.Table, path []*model.Link, join string) (string, map[*model.Table]string) {
 	q := d.Ident
-	alias := map[*planner.Table]string{t: "t0"}
+	alias := map[*model.Table]string{t: "t0"}
 	var b strings.Builder
 	b.WriteString("  FROM " + relation(d, t) + " AS " + q("t0"))
 	for i, l := range path {
@@ -342,7 +343,7 @@ func (v *verifier) perRowSQL(inner, name string) (string, error) {
 
 // refText writes a column as a --by reference, backquoting names that
 // are not plain identifiers.
-func refText(c *planner.Column) string {
+func refText(c *model.Column) string {
 	return identText(c.Table.Name) + "." + identText(c.Name)
 }
 

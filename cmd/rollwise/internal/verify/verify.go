@@ -20,7 +20,8 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // The diagnoses: the wrong formulas verify knows how to recognise.
@@ -95,9 +96,9 @@ type Spec struct {
 type Input struct {
 	Spec Spec
 	// Model, Query and Plan are the compiled query; Compiled its SQL.
-	Model    *planner.Model
-	Query    *planner.Query
-	Plan     *planner.Plan
+	Model    *model.Model
+	Query    *model.Query
+	Plan     *plan.Plan
 	Compiled string
 	// Handwritten is the SQL to check; SQLName names it in messages.
 	Handwritten string
@@ -232,7 +233,7 @@ type verifier struct {
 	run      Runner
 	stmt     string // the handwritten query, checked by CheckQuery
 	n        int    // number of --by columns
-	measures []*planner.Measure
+	measures []*model.Measure
 	names    []string
 	rep      *Report
 	comp     []resultRow

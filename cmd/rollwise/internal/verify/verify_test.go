@@ -10,7 +10,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 func dec(s string) Value { return exactValue(decimal.RequireFromString(s)) }
@@ -156,7 +156,7 @@ func TestMapColumns(t *testing.T) {
 }
 
 // loadShop loads the shop model with its edits.
-func loadShop(t *testing.T) *planner.Model {
+func loadShop(t *testing.T) *model.Model {
 	t.Helper()
 	var files []*grammar.File
 	for _, name := range []string{"../../../../testdata/exec/shop.roll", "../../../../testdata/exec/edits.roll", "../../../../testdata/verify/extra.roll"} {
@@ -170,7 +170,7 @@ func loadShop(t *testing.T) *planner.Model {
 		}
 		files = append(files, f)
 	}
-	m, diags := planner.Load(files)
+	m, diags := model.Load(files)
 	if diags.HasErrors() {
 		t.Fatal(diags.Err())
 	}
@@ -180,7 +180,7 @@ func loadShop(t *testing.T) *planner.Model {
 func formulaTexts(fs []formula) []string {
 	var out []string
 	for _, f := range fs {
-		out = append(out, f.name+": "+planner.Text(f.expr)+" | "+f.detail)
+		out = append(out, f.name+": "+model.Text(f.expr)+" | "+f.detail)
 	}
 	return out
 }
@@ -191,7 +191,7 @@ func TestFormulas(t *testing.T) {
 	m := loadShop(t)
 	cases := []struct {
 		measure string
-		make    func(*planner.Measure) []formula
+		make    func(*model.Measure) []formula
 		want    []string
 	}{
 		{"revenue", productOfSums, []string{
@@ -225,8 +225,8 @@ func TestFormulas(t *testing.T) {
 			t.Errorf("%s:\ngot:\n  %s\nwant:\n  %s", c.measure, strings.Join(got, "\n  "), strings.Join(c.want, "\n  "))
 		}
 		// The model's own measure is never changed.
-		if c.measure == "revenue" && planner.Text(mm.Expr) != "sum((sales.price * sales.qty))" {
-			t.Errorf("revenue was changed: %s", planner.Text(mm.Expr))
+		if c.measure == "revenue" && model.Text(mm.Expr) != "sum((sales.price * sales.qty))" {
+			t.Errorf("revenue was changed: %s", model.Text(mm.Expr))
 		}
 	}
 }
@@ -248,7 +248,7 @@ func TestRatioKind(t *testing.T) {
 func TestWeighted(t *testing.T) {
 	m := loadShop(t)
 	sales := m.Table("sales")
-	w := &planner.Column{Table: sales, Name: "w", Type: planner.TypeInteger}
+	w := &model.Column{Table: sales, Name: "w", Type: model.TypeInteger}
 	cases := map[string]string{
 		"revenue":   "sum(((sales.price * sales.qty) * sales.w))",
 		"lines":     "coalesce(sum(case when (sales.id is not null) then sales.w end), 0)",
@@ -259,7 +259,7 @@ func TestWeighted(t *testing.T) {
 	}
 	for name, want := range cases {
 		e, ok := weighted(m.Measure(name), sales, w)
-		if got := planner.Text(e); !ok || got != want {
+		if got := model.Text(e); !ok || got != want {
 			t.Errorf("weighted(%s) = %s (%v), want %s", name, got, ok, want)
 		}
 	}

@@ -25,7 +25,8 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // Kind says what a view computes.
@@ -104,7 +105,7 @@ type Set struct {
 // diagnostic: a view block the planner cannot plan yet, a construct the
 // dialect cannot express, two views with one name, views that read each
 // other in a circle.
-func Generate(m *planner.Model, d dialects.Dialect, o Options) (*Set, grammar.Diagnostics) {
+func Generate(m *model.Model, d dialects.Dialect, o Options) (*Set, grammar.Diagnostics) {
 	var diags grammar.Diagnostics
 	if _, err := dialects.ViewDDLOf(d); err != nil {
 		diags.Errorf(grammar.Pos{File: "--dialect"}, "unsupported", "%v", err)
@@ -165,7 +166,7 @@ type generator struct {
 	header map[*View]string
 }
 
-func hasDerived(t *planner.Table) bool {
+func hasDerived(t *model.Table) bool {
 	for _, c := range t.Columns {
 		if !c.Stored() {
 			return true
@@ -186,7 +187,7 @@ func (g *generator) add(v *View, pos grammar.Pos) {
 }
 
 // rowView builds the row-level view of table t.
-func (g *generator) rowView(t *planner.Table, diags *grammar.Diagnostics) {
+func (g *generator) rowView(t *model.Table, diags *grammar.Diagnostics) {
 	rq, err := dialects.RenderRows(t, g.d)
 	if err != nil {
 		diags.Errorf(t.Pos, "unpublishable", "cannot publish the derived columns of table %s: %v", t.Name, err)
@@ -202,7 +203,7 @@ func (g *generator) rowView(t *planner.Table, diags *grammar.Diagnostics) {
 	for _, c := range rq.Columns {
 		from := c.String()
 		if !c.Stored() {
-			from += " = " + planner.Text(c.Derived)
+			from += " = " + model.Text(c.Derived)
 		}
 		v.Columns = append(v.Columns, Column{Name: c.Name, Type: c.Type.String(), From: from})
 		names = append(names, c.Name)
@@ -231,9 +232,9 @@ func (g *generator) rowView(t *planner.Table, diags *grammar.Diagnostics) {
 
 // measureView builds the view of view block vb, planned and rendered as
 // `rollwise run --view` does.
-func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *grammar.Diagnostics) {
+func (g *generator) measureView(m *model.Model, vb *model.View, diags *grammar.Diagnostics) {
 	q := m.ViewQuery(vb)
-	p, pd := planner.NewPlan(q)
+	p, pd := plan.NewPlan(q)
 	for _, d := range pd {
 		d.Notes = append(d.Notes, "in view block "+vb.Name)
 	}
@@ -274,9 +275,9 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 	}
 	for _, o := range p.Outputs {
 		v.Columns = append(v.Columns, Column{Name: o.Name, Type: o.Measure.Type.String(),
-			From: "measure " + o.Name + " = " + planner.Text(o.Measure.Expr)})
+			From: "measure " + o.Name + " = " + model.Text(o.Measure.Expr)})
 	}
-	v.Columns = append(v.Columns, Column{Name: dialects.GroupingColumn, Type: planner.TypeInteger.String(),
+	v.Columns = append(v.Columns, Column{Name: dialects.GroupingColumn, Type: model.TypeInteger.String(),
 		From: "grouping: which groups a row rolls up"})
 	if dup := duplicateColumn(v.Columns); dup != "" {
 		diags.Errorf(vb.Pos, "name-clash", "view block %s would have two columns called %s", vb.Name, dup).
@@ -307,7 +308,7 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 		lines = append(lines, "Grouped by "+strings.Join(by, ", ")+"; total rows: "+string(q.Totals)+".")
 	}
 	if vb.Where != nil {
-		lines = append(lines, "Where "+planner.Text(vb.Where)+".")
+		lines = append(lines, "Where "+model.Text(vb.Where)+".")
 	}
 	lines = append(lines, groupingNote(q, p, groupNames))
 	if approximated {
@@ -316,7 +317,7 @@ func (g *generator) measureView(m *planner.Model, vb *planner.View, diags *gramm
 	g.header[v] = header(v, lines)
 }
 
-func outputNames(p *planner.Plan) []string {
+func outputNames(p *plan.Plan) []string {
 	var out []string
 	for _, o := range p.Outputs {
 		out = append(out, o.Name)
@@ -327,7 +328,7 @@ func outputNames(p *planner.Plan) []string {
 // groupColumnNames names a measure view's group columns: the column's own
 // name (family for plants.family) unless another column of the view has
 // it, then table_column (plants_family).
-func groupColumnNames(q *planner.Query, p *planner.Plan) ([]string, error) {
+func groupColumnNames(q *model.Query, p *plan.Plan) ([]string, error) {
 	count := map[string]int{strings.ToLower(dialects.GroupingColumn): 1}
 	for _, o := range p.Outputs {
 		count[strings.ToLower(o.Name)]++
@@ -367,7 +368,7 @@ func duplicateColumn(cols []Column) string {
 
 // groupingNote explains the grouping column of a measure view: the bit of
 // each group, and the values its rows take.
-func groupingNote(q *planner.Query, p *planner.Plan, names []string) string {
+func groupingNote(q *model.Query, p *plan.Plan, names []string) string {
 	if len(p.Sets) < 2 {
 		return dialects.GroupingColumn + " is 0 on every row: the view block asks for no total rows."
 	}
@@ -484,7 +485,7 @@ func safeFileName(s string) string {
 	return b.String()
 }
 
-func relationText(t *planner.Table) string { return strings.Join(t.Relation, ".") }
+func relationText(t *model.Table) string { return strings.Join(t.Relation, ".") }
 
 func sortedUnique(s []string) []string {
 	sort.Strings(s)

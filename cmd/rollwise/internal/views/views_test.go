@@ -8,7 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // shopSource is testdata/views/shop.roll: the tests edit its text to make
@@ -22,13 +22,13 @@ func shopSource(t *testing.T) string {
 	return string(b)
 }
 
-func loadModel(t *testing.T, src string) *planner.Model {
+func loadModel(t *testing.T, src string) *model.Model {
 	t.Helper()
 	f, d := grammar.Parse("m.roll", src)
 	if d.HasErrors() {
 		t.Fatalf("parse: %v", d)
 	}
-	m, d := planner.Load([]*grammar.File{f})
+	m, d := model.Load([]*grammar.File{f})
 	if d.HasErrors() {
 		t.Fatalf("load: %v", d)
 	}
@@ -159,7 +159,7 @@ func TestNameClashes(t *testing.T) {
 	// A measure cannot take the name of the grouping column: the model
 	// itself is refused.
 	f, d := grammar.Parse("m.roll", tiny+"measure grouping_id = count(sales.id)\nview v = grouping_id by stores.name")
-	if _, ld := planner.Load([]*grammar.File{f}); !ld.HasErrors() || !strings.Contains(ld.Error(), `"grouping_id" is the name of a result column`) || d.HasErrors() {
+	if _, ld := model.Load([]*grammar.File{f}); !ld.HasErrors() || !strings.Contains(ld.Error(), `"grouping_id" is the name of a result column`) || d.HasErrors() {
 		t.Errorf("a measure called grouping_id: %v", ld)
 	}
 }

@@ -1,11 +1,12 @@
-package planner_test
+package model_test
 
 import (
 	"strings"
 	"testing"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 const shop = `table sales {
@@ -33,15 +34,15 @@ table repairs {
 // load parses and resolves src (after the shop tables) and returns every
 // diagnostic as "line:col: severity: message". t may be nil (inside a
 // property).
-func load(t *testing.T, src string) (*planner.Model, []string) {
+func load(t *testing.T, src string) (*model.Model, []string) {
 	if t != nil {
 		t.Helper()
 	}
 	f, d := grammar.Parse("m.roll", shop+src)
-	var m *planner.Model
+	var m *model.Model
 	if !d.HasErrors() {
 		var d2 grammar.Diagnostics
-		m, d2 = planner.Load([]*grammar.File{f})
+		m, d2 = model.Load([]*grammar.File{f})
 		d = append(d, d2...)
 	}
 	var out []string
@@ -156,11 +157,11 @@ func TestUnreachableGrouping(t *testing.T) {
 	if m == nil {
 		t.Fatal(d)
 	}
-	q, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"fees"}, By: []string{"stores.region"}})
+	q, qd := m.NewQuery(model.QuerySpec{Measures: []string{"fees"}, By: []string{"stores.region"}})
 	if qd.HasErrors() {
 		t.Fatal(qd)
 	}
-	_, pd := planner.NewPlan(q)
+	_, pd := plan.NewPlan(q)
 	want := "--by:1:1: error: cannot group by stores.region: measure fees iterates over repairs, and no link leads from repairs to stores"
 	if len(pd) != 1 || pd[0].Error() != want {
 		t.Fatalf("got %v\nwant %s", pd, want)
@@ -172,7 +173,7 @@ func TestQueryErrorsHavePositions(t *testing.T) {
 	if m == nil {
 		t.Fatal(d)
 	}
-	_, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"units", "unts"}, By: []string{"stores.region", "sales.qtty"},
+	_, qd := m.NewQuery(model.QuerySpec{Measures: []string{"units", "unts"}, By: []string{"stores.region", "sales.qtty"},
 		Where: "stores.region = 'North' and sales.qty >"})
 	var got []string
 	for _, x := range qd {
@@ -252,7 +253,7 @@ func TestMeasureNamedLikeGroupColumn(t *testing.T) {
 		t.Fatal(d)
 	}
 	for _, name := range []string{"stores.region", "Stores.Region"} {
-		_, qd := m.NewQuery(planner.QuerySpec{Measures: []string{"`" + name + "`"}, By: []string{"stores.region"}})
+		_, qd := m.NewQuery(model.QuerySpec{Measures: []string{"`" + name + "`"}, By: []string{"stores.region"}})
 		if len(qd) != 1 || qd[0].Code != "name-clash" || !strings.Contains(qd[0].Message, "both be output columns") {
 			t.Errorf("%s: %v", name, qd)
 		}

@@ -1,4 +1,4 @@
-package planner
+package model
 
 import (
 	"github.com/rollwise/rollwise/grammar"
@@ -161,18 +161,6 @@ type PerAgg struct {
 	T      Type
 }
 
-// Computed is a measure's value in one cell of a context, compiled once:
-// every use of the measure in that cell reads this same node, so a plan's
-// expressions form a graph whose size grows with the distinct measures a
-// query needs, not with the paths between them. Walk does not descend
-// into X; WalkOnce does, once per node. A renderer computes a node used
-// more than once under a name (dialects: layers) and inlines the others.
-type Computed struct {
-	// Measure is the measure whose value this is.
-	Measure *Measure
-	X       Expr
-}
-
 // Type implementations.
 
 func (e *ColRef) Type() Type     { return e.Col.Type }
@@ -188,7 +176,6 @@ func (e *MeasureRef) Type() Type { return e.Measure.Type }
 func (e *NarrowExpr) Type() Type { return e.X.Type() }
 func (e *EditExpr) Type() Type   { return e.X.Type() }
 func (e *PerAgg) Type() Type     { return e.T }
-func (e *Computed) Type() Type   { return e.X.Type() }
 
 func unType(e *UnOp) Type {
 	if e.Op == "not" {
@@ -212,7 +199,6 @@ func (e *MeasureRef) Position() grammar.Pos { return e.Pos }
 func (e *NarrowExpr) Position() grammar.Pos { return e.Pos }
 func (e *EditExpr) Position() grammar.Pos   { return e.Pos }
 func (e *PerAgg) Position() grammar.Pos     { return e.Pos }
-func (e *Computed) Position() grammar.Pos   { return e.X.Position() }
 
 // Walk calls fn for e and every expression below it (not following measure
 // references nor going into a Computed node), depth first, parents first.
@@ -260,23 +246,6 @@ func Walk(e Expr, fn func(Expr) bool) {
 		Walk(e.X, fn)
 		Walk(e.Having, fn)
 	}
-}
-
-// WalkOnce is Walk over the graph of several compiled expressions: it
-// also goes into every Computed node below them, the first time it meets
-// it (seen records those met; share it between calls to visit each node
-// of a plan once).
-func WalkOnce(e Expr, seen map[*Computed]bool, fn func(Expr) bool) {
-	Walk(e, func(x Expr) bool {
-		if !fn(x) {
-			return false
-		}
-		if c, ok := x.(*Computed); ok && !seen[c] {
-			seen[c] = true
-			WalkOnce(c.X, seen, fn)
-		}
-		return true
-	})
 }
 
 // Columns returns the columns a row expression reads, in first-use order,

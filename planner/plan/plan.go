@@ -1,4 +1,9 @@
-package planner
+// Package plan is how rollwise plans a query: from a model.Query it builds
+// the dialect-free logical plan (contexts, scans with their joins and
+// leaves, grouping sets, edits as windows, ranges or join-backs,
+// per-grain sub-contexts, each measure value computed once per cell) that the dialects
+// package renders as SQL.
+package plan
 
 import (
 	"math/bits"
@@ -6,13 +11,14 @@ import (
 	"strings"
 
 	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 // Plan is the logical plan of one query, free of any SQL dialect. The root
 // context evaluates the query's measures at its grain; per-grain measures
 // open sub-contexts at a finer grain.
 type Plan struct {
-	Query *Query
+	Query *model.Query
 	// Sets are the query's grouping sets, each a mask of the rolled-up
 	// groups: bit 1<<(n-1-i) stands for group i, as SQL's
 	// GROUPING(g1, ..., gn) counts.
@@ -39,20 +45,20 @@ type SortKey struct {
 // Key is a key column of a context: a query group, or a per-grain column.
 type Key struct {
 	Name string
-	Col  *Column
+	Col  *model.Column
 	// Pos is where the key was asked for (a --by item, or a per list).
 	Pos grammar.Pos
 	// Expr, when set, is the row expression a scan groups by instead of
 	// Col: Col read on rows whose date a time edit moves (`back`).
-	Expr Expr
+	Expr model.Expr
 }
 
 // RowExpr is the row expression the key groups rows by.
-func (k Key) RowExpr() Expr {
+func (k Key) RowExpr() model.Expr {
 	if k.Expr != nil {
 		return k.Expr
 	}
-	return &ColRef{Pos: k.Pos, Col: k.Col}
+	return &model.ColRef{Pos: k.Pos, Col: k.Col}
 }
 
 // Context is one grain of evaluation: its key columns, grouping sets and
@@ -62,7 +68,7 @@ type Context struct {
 	Name    string
 	Keys    []Key
 	Sets    []uint64
-	Filters []Expr
+	Filters []model.Expr
 	// Rels are the scans and per-grain relations, in creation order.
 	Rels []*Rel
 	// Bases are the scans whose cells are the context's rows.
@@ -102,20 +108,20 @@ type WindowPart struct {
 	Name   string
 	Func   string
 	Source string
-	T      Type
+	T      model.Type
 }
 
 // Scan reads one iteration table (joined along links to what it needs),
 // keeps the rows that pass the filters, and computes its leaves per cell.
 type Scan struct {
 	Name  string
-	Table *Table
-	Joins []*Link
+	Table *model.Table
+	Joins []*model.Link
 	// Inner marks the joins that may drop a row whose link finds no
 	// match, rendered as inner joins: a row filter rejects such rows
 	// anyway (see innerJoins).
-	Inner  map[*Link]bool
-	Where  []Expr
+	Inner  map[*model.Link]bool
+	Where  []model.Expr
 	Keys   []Key
 	Inputs []*Input
 	Leaves []*Leaf
@@ -130,7 +136,7 @@ type Scan struct {
 // groups by them) and whose date D lies in the cell's range: up to E, and
 // from start_of_Unit(E) (to date) or after E - N Unit (last).
 type TimeRange struct {
-	Kind EditKind
+	Kind model.EditKind
 	N    int
 	Unit string
 	// D is the date read on each row; E is the cell's latest D.
@@ -157,14 +163,14 @@ type PerLeaf struct {
 	// group with a NULL per-key is always skipped (NULL is not a group).
 	Having  *Input
 	PerKeys []Key
-	T       Type
+	T       model.Type
 }
 
 // Input is a named value computed row by row (in a scan) or cell by cell
 // (in a context).
 type Input struct {
 	Name string
-	Expr Expr
+	Expr model.Expr
 }
 
 // Leaf is one aggregate computed by a scan in every cell.
@@ -175,7 +181,7 @@ type Leaf struct {
 	// Arg is nil for count(*); Filter is nil when every row counts.
 	Arg    *Input
 	Filter *Input
-	T      Type
+	T      model.Type
 }
 
 // ValueRef reads a column of a relation in the current cell.
@@ -185,12 +191,12 @@ type ValueRef struct {
 	Pos           grammar.Pos
 	Rel           *Rel
 	Column        string
-	T             Type
+	T             model.Type
 	ZeroIfMissing bool
 }
 
 // Type is the value's type.
-func (e *ValueRef) Type() Type { return e.T }
+func (e *ValueRef) Type() model.Type { return e.T }
 
 // Position is where the value was written.
 func (e *ValueRef) Position() grammar.Pos { return e.Pos }
@@ -198,20 +204,20 @@ func (e *ValueRef) Position() grammar.Pos { return e.Pos }
 // Output is one measure column of the result.
 type Output struct {
 	Name    string
-	Measure *Measure
-	Expr    Expr
+	Measure *model.Measure
+	Expr    model.Expr
 }
 
 // GroupingSets lists the grouping sets of a totals mode over n groups, the
 // detail set first.
-func GroupingSets(mode TotalsMode, n int) []uint64 {
+func GroupingSets(mode model.TotalsMode, n int) []uint64 {
 	full := uint64(1)<<n - 1
 	switch {
-	case n == 0 || mode == TotalsNone:
+	case n == 0 || mode == model.TotalsNone:
 		return []uint64{0}
-	case mode == TotalsGrand:
+	case mode == model.TotalsGrand:
 		return []uint64{0, full}
-	case mode == TotalsRollup:
+	case mode == model.TotalsRollup:
 		var out []uint64
 		for j := 0; j <= n; j++ {
 			out = append(out, uint64(1)<<j-1)
@@ -223,18 +229,6 @@ func GroupingSets(mode TotalsMode, n int) []uint64 {
 		out = append(out, s)
 	}
 	sort.SliceStable(out, func(i, j int) bool { return bits.OnesCount64(out[i]) < bits.OnesCount64(out[j]) })
-	return out
-}
-
-// RolledUp names the groups a grouping mask rolls up.
-func (q *Query) RolledUp(mask uint64) []string {
-	out := []string{}
-	n := len(q.Groups)
-	for i := range q.Groups {
-		if mask&(1<<(n-1-i)) != 0 {
-			out = append(out, q.GroupNames[i])
-		}
-	}
 	return out
 }
 
@@ -260,7 +254,7 @@ type cell struct {
 	removed uint64
 	filters []cellFilter
 	// moved maps a key (by index) that `back` moves to its row expression.
-	moved map[int]Expr
+	moved map[int]model.Expr
 	// window is set by a window edit (to date, running, last).
 	window *windowEdit
 }
@@ -268,12 +262,12 @@ type cell struct {
 // windowEdit is a window edit in force in a cell: the edit and the cell's
 // E, as a value of the context.
 type windowEdit struct {
-	ed *CellEdit
+	ed *model.CellEdit
 	e  *ValueRef
 }
 
 type cellFilter struct {
-	e    Expr
+	e    model.Expr
 	rows bool
 }
 
@@ -282,10 +276,10 @@ func (c cell) with(f cellFilter) cell {
 }
 
 // mentions reports whether e reads column c directly.
-func mentions(e Expr, c func(*Column) bool) bool {
+func mentions(e model.Expr, c func(*model.Column) bool) bool {
 	found := false
-	Walk(e, func(x Expr) bool {
-		if r, ok := x.(*ColRef); ok && c(r.Col) {
+	model.Walk(e, func(x model.Expr) bool {
+		if r, ok := x.(*model.ColRef); ok && c(r.Col) {
 			found = true
 		}
 		return !found
@@ -294,8 +288,8 @@ func mentions(e Expr, c func(*Column) bool) bool {
 }
 
 // edit applies one cell edit.
-func (c cell) edit(ctx *Context, ed *CellEdit) cell {
-	hit := func(col *Column) bool {
+func (c cell) edit(ctx *Context, ed *model.CellEdit) cell {
+	hit := func(col *model.Column) bool {
 		switch {
 		case ed.Col != nil:
 			return col == ed.Col
@@ -305,7 +299,7 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 		return true
 	}
 	out := cell{removed: c.removed, moved: c.moved, window: c.window}
-	if c.window != nil && ed.Kind != EditUngroup && hit(c.window.ed.Col) {
+	if c.window != nil && ed.Kind != model.EditUngroup && hit(c.window.ed.Col) {
 		// The window's date range is a constraint on D: an edit that
 		// removes what mentions D (drop, drop D, drop D's table, a pin on
 		// D) removes it too, as it does in the reference evaluator.
@@ -318,17 +312,17 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 		}
 	}
 	for _, f := range c.filters {
-		if ed.Kind == EditUngroup || !mentions(f.e, hit) {
+		if ed.Kind == model.EditUngroup || !mentions(f.e, hit) {
 			out.filters = append(out.filters, f)
 		}
 	}
-	if ed.Kind == EditPin {
-		ref := &ColRef{Pos: ed.Pos, Col: ed.Col}
-		var pred Expr
+	if ed.Kind == model.EditPin {
+		ref := &model.ColRef{Pos: ed.Pos, Col: ed.Col}
+		var pred model.Expr
 		if len(ed.Values) == 1 {
-			pred = &BinOp{Pos: ed.Pos, Op: "=", L: ref, R: ed.Values[0], T: TypeBoolean}
+			pred = &model.BinOp{Pos: ed.Pos, Op: "=", L: ref, R: ed.Values[0], T: model.TypeBoolean}
 		} else {
-			in := &InExpr{Pos: ed.Pos, X: ref}
+			in := &model.InExpr{Pos: ed.Pos, X: ref}
 			for _, v := range ed.Values {
 				in.List = append(in.List, v)
 			}
@@ -341,11 +335,11 @@ func (c cell) edit(ctx *Context, ed *CellEdit) cell {
 
 // text is Text(e), remembered: the plan's keys print the same
 // expressions over and over (an expression never changes once built).
-func (pl *planner) text(e Expr) string {
+func (pl *planner) text(e model.Expr) string {
 	if t, ok := pl.texts[e]; ok {
 		return t
 	}
-	t := Text(e)
+	t := model.Text(e)
 	pl.texts[e] = t
 	return t
 }
@@ -361,8 +355,8 @@ func (pl *planner) filterKey(fs []cellFilter, rows bool) string {
 	return strings.Join(t, " and ")
 }
 
-func conj(fs []cellFilter, rows bool) Expr {
-	var out Expr
+func conj(fs []cellFilter, rows bool) model.Expr {
+	var out model.Expr
 	for _, f := range fs {
 		if f.rows != rows {
 			continue
@@ -370,14 +364,14 @@ func conj(fs []cellFilter, rows bool) Expr {
 		if out == nil {
 			out = f.e
 		} else {
-			out = &BinOp{Pos: f.e.Position(), Op: "and", L: out, R: f.e, T: TypeBoolean}
+			out = &model.BinOp{Pos: f.e.Position(), Op: "and", L: out, R: f.e, T: model.TypeBoolean}
 		}
 	}
 	return out
 }
 
-func rowFilters(fs []cellFilter) []Expr {
-	var out []Expr
+func rowFilters(fs []cellFilter) []model.Expr {
+	var out []model.Expr
 	for _, f := range fs {
 		if f.rows {
 			out = append(out, f.e)

@@ -1,6 +1,9 @@
-package planner
+package plan
 
-import "slices"
+import (
+	"github.com/rollwise/rollwise/planner/model"
+	"slices"
+)
 
 // Inner joins. A scan joins the tables it reads along links with LEFT
 // JOIN, so that a row whose link finds no match is kept and reads NULL
@@ -25,24 +28,24 @@ import "slices"
 // where T is missing, and every required link whose own table is always
 // there (the iteration table, or a table joined by an inner join).
 // s.Joins lists parents before children.
-func innerJoins(s *Scan) map[*Link]bool {
-	into := map[*Table]*Link{}
+func innerJoins(s *Scan) map[*model.Link]bool {
+	into := map[*model.Table]*model.Link{}
 	for _, l := range s.Joins {
 		into[l.To] = l
 	}
 	// path lists the joins from the iteration table to t.
-	path := func(t *Table) []*Link {
-		var out []*Link
+	path := func(t *model.Table) []*model.Link {
+		var out []*model.Link
 		for l := into[t]; l != nil; l = into[l.From] {
 			out = append(out, l)
 		}
 		return out
 	}
-	inner := map[*Link]bool{}
+	inner := map[*model.Link]bool{}
 	for _, l := range s.Joins {
 		// gone: the tables that read NULL when l finds no match, l's
 		// target and everything joined through it.
-		gone := func(t *Table) bool {
+		gone := func(t *model.Table) bool {
 			return slices.Contains(path(t), l)
 		}
 		for _, w := range s.Where {
@@ -71,21 +74,21 @@ func innerJoins(s *Scan) map[*Link]bool {
 // promise, a row of A with no row of B would read NULL for C too.)
 // TPC-H: lineitem -(l_partkey, l_suppkey)-> partsupp -(ps_partkey)-> part
 // becomes lineitem.l_partkey = part.p_partkey.
-func shortcut(links []*Link, read map[*Table]bool) []*Link {
+func shortcut(links []*model.Link, read map[*model.Table]bool) []*model.Link {
 	for {
 		changed := false
 		for _, l1 := range links {
 			if !l1.Required || read[l1.To] {
 				continue
 			}
-			var next []*Link
+			var next []*model.Link
 			ok := true
 			for _, l2 := range links {
 				if l2.From != l1.To {
 					next = append(next, l2)
 					continue
 				}
-				via := &Link{From: l1.From, To: l2.To, ToCols: l2.ToCols, Pos: l2.Pos, Required: l2.Required}
+				via := &model.Link{From: l1.From, To: l2.To, ToCols: l2.ToCols, Pos: l2.Pos, Required: l2.Required}
 				for _, b := range l2.FromCols {
 					i := slices.Index(l1.ToCols, b)
 					if i < 0 {
@@ -97,7 +100,7 @@ func shortcut(links []*Link, read map[*Table]bool) []*Link {
 				next = append(next, via)
 			}
 			if ok {
-				links = slices.DeleteFunc(next, func(l *Link) bool { return l == l1 })
+				links = slices.DeleteFunc(next, func(l *model.Link) bool { return l == l1 })
 				changed = true
 				break
 			}
@@ -110,32 +113,32 @@ func shortcut(links []*Link, read map[*Table]bool) []*Link {
 
 // rejects reports whether predicate p is false or NULL on every row where
 // the tables for which gone holds read NULL (their link found no match).
-func rejects(p Expr, gone func(*Table) bool) bool {
-	return (&nulls{gone: gone, derived: map[*Column]bool{}}).rejects(p)
+func rejects(p model.Expr, gone func(*model.Table) bool) bool {
+	return (&nulls{gone: gone, derived: map[*model.Column]bool{}}).rejects(p)
 }
 
 // nulls answers rejects and nullOn for one gone, each derived column
 // once: a column that reads another twice (c2 = c1 + c1) would otherwise
 // be visited once per path, 2^n times for a chain of n.
 type nulls struct {
-	gone    func(*Table) bool
-	derived map[*Column]bool
+	gone    func(*model.Table) bool
+	derived map[*model.Column]bool
 }
 
-func (n *nulls) rejects(p Expr) bool {
+func (n *nulls) rejects(p model.Expr) bool {
 	switch p := p.(type) {
-	case *BinOp:
+	case *model.BinOp:
 		switch p.Op {
 		case "and":
 			return n.rejects(p.L) || n.rejects(p.R)
 		case "or":
 			return n.rejects(p.L) && n.rejects(p.R)
 		}
-	case *UnOp:
+	case *model.UnOp:
 		if p.Op == "not" {
 			return n.nullOn(p.X)
 		}
-	case *IsNullExpr:
+	case *model.IsNullExpr:
 		return p.Not && n.nullOn(p.X)
 	}
 	return n.nullOn(p)
@@ -143,10 +146,10 @@ func (n *nulls) rejects(p Expr) bool {
 
 // nullOn reports whether e is NULL on every row where the tables for
 // which gone holds read NULL. It answers false when unsure.
-func (n *nulls) nullOn(e Expr) bool {
+func (n *nulls) nullOn(e model.Expr) bool {
 	gone := n.gone
 	switch e := e.(type) {
-	case *ColRef:
+	case *model.ColRef:
 		if gone(e.Col.Table) {
 			// Stored columns are NULL; so are derived ones, which the
 			// SQL computes only where the row's link found a match.
@@ -161,20 +164,20 @@ func (n *nulls) nullOn(e Expr) bool {
 			n.derived[e.Col] = v
 		}
 		return v
-	case *Lit:
-		return e.T == TypeNull
-	case *BinOp:
+	case *model.Lit:
+		return e.T == model.TypeNull
+	case *model.BinOp:
 		if e.Op == "and" || e.Op == "or" {
 			// NULL and false is false; NULL or true is true.
 			return n.nullOn(e.L) && n.nullOn(e.R)
 		}
 		// Arithmetic, comparisons and || are NULL when a side is.
 		return n.nullOn(e.L) || n.nullOn(e.R)
-	case *UnOp:
+	case *model.UnOp:
 		return n.nullOn(e.X)
-	case *InExpr:
+	case *model.InExpr:
 		return n.nullOn(e.X)
-	case *Func:
+	case *model.Func:
 		switch e.Name {
 		case "coalesce", "least", "greatest":
 			// NULL only when every argument is (least and greatest skip

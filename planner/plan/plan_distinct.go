@@ -1,6 +1,9 @@
-package planner
+package plan
 
-import "slices"
+import (
+	"github.com/rollwise/rollwise/planner/model"
+	"slices"
+)
 
 // Distinct counts as per-grain counts. count(distinct T.C) equals the
 // per-grain count(* per T.C): the per-grain groups of a cell are the
@@ -18,24 +21,24 @@ import "slices"
 // distinctOrigin is the aggregate a per-grain count stands for, and the
 // cell it was planned in.
 type distinctOrigin struct {
-	agg  *Agg
+	agg  *model.Agg
 	cell cell
 }
 
 // distinctAsPer is count(distinct T.C) as count(* per T.C), or nil for
 // other aggregates (a distinct count of an expression stays a DISTINCT
 // aggregate).
-func distinctAsPer(a *Agg) *PerAgg {
-	col, ok := a.Arg.(*ColRef)
+func distinctAsPer(a *model.Agg) *model.PerAgg {
+	col, ok := a.Arg.(*model.ColRef)
 	if a.Func != "count" || !a.Distinct || !ok || col.Col.Table != a.Table {
 		return nil
 	}
-	return &PerAgg{Pos: a.Pos, Func: "count", Per: []*Column{col.Col}, T: a.T}
+	return &model.PerAgg{Pos: a.Pos, Func: "count", Per: []*model.Column{col.Col}, T: a.T}
 }
 
 // distinctPer plans a, a count(distinct T.C), as pa, its count(* per
 // T.C), and remembers where it came from.
-func (pl *planner) distinctPer(ctx *Context, a *Agg, pa *PerAgg, c cell) Expr {
+func (pl *planner) distinctPer(ctx *Context, a *model.Agg, pa *model.PerAgg, c cell) model.Expr {
 	v := pl.per(ctx, pa, c, pl.aggName(ctx, c))
 	if ref, ok := v.(*ValueRef); ok {
 		for _, l := range ref.Rel.Per.Leaves {
@@ -117,8 +120,8 @@ func (pl *planner) moveDistinct(ctx *Context, r, b *Rel) {
 // of relation to.
 func (pl *planner) repoint(from, to *Rel) {
 	seen := map[*Computed]bool{}
-	fix := func(e Expr) {
-		WalkOnce(e, seen, func(x Expr) bool {
+	fix := func(e model.Expr) {
+		WalkOnce(e, seen, func(x model.Expr) bool {
 			if v, ok := x.(*ValueRef); ok && v.Rel == from {
 				v.Rel = to
 			}

@@ -1,7 +1,8 @@
-package planner
+package plan
 
 import (
 	"fmt"
+	"github.com/rollwise/rollwise/planner/model"
 	"slices"
 	"sort"
 	"strings"
@@ -10,10 +11,10 @@ import (
 // measuresOf names the measures that read a scan.
 func (pl *planner) measuresOf(s *Scan) string {
 	var names []string
-	var visit func(e Expr, name string)
+	var visit func(e model.Expr, name string)
 	seen := map[*Computed]bool{}
-	visit = func(e Expr, name string) {
-		WalkOnce(e, seen, func(x Expr) bool {
+	visit = func(e model.Expr, name string) {
+		WalkOnce(e, seen, func(x model.Expr) bool {
 			if v, ok := x.(*ValueRef); ok {
 				if v.Rel.Scan == s && !slices.Contains(names, name) {
 					names = append(names, name)
@@ -50,7 +51,7 @@ func (pl *planner) measuresOf(s *Scan) string {
 
 // checkReach reports keys and filters the scan's table cannot reach.
 func (pl *planner) checkReach(s *Scan) {
-	reach := Reach(s.Table)
+	reach := model.Reach(s.Table)
 	for _, k := range s.Keys {
 		if _, ok := reach[k.Col.Table]; !ok {
 			what := "group by " + k.Name
@@ -66,8 +67,8 @@ func (pl *planner) checkReach(s *Scan) {
 			}
 		}
 	}
-	check := func(e Expr, what string) {
-		for _, c := range Columns(e) {
+	check := func(e model.Expr, what string) {
+		for _, c := range model.Columns(e) {
 			if _, ok := reach[c.Table]; !ok {
 				d := pl.diags.Errorf(e.Position(), "unreachable", "cannot %s %s: measure %s iterates over %s, and no link leads from %s to %s",
 					what, c, pl.measuresOf(s), s.Table.Name, s.Table.Name, c.Table.Name)
@@ -89,9 +90,9 @@ func (pl *planner) checkReach(s *Scan) {
 
 // joins lists the links the scan follows, nearest first.
 func (pl *planner) joins(s *Scan) {
-	reach := Reach(s.Table)
-	need := map[*Table]bool{}
-	var exprs []Expr
+	reach := model.Reach(s.Table)
+	need := map[*model.Table]bool{}
+	var exprs []model.Expr
 	exprs = append(exprs, s.Where...)
 	for _, in := range s.Inputs {
 		exprs = append(exprs, in.Expr)
@@ -103,11 +104,11 @@ func (pl *planner) joins(s *Scan) {
 		exprs = append(exprs, s.Range.D.Expr)
 	}
 	for _, e := range exprs {
-		for _, c := range Columns(e) {
+		for _, c := range model.Columns(e) {
 			need[c.Table] = true
 		}
 	}
-	var links []*Link
+	var links []*model.Link
 	for t := range need {
 		for _, l := range reach[t] {
 			if !slices.Contains(links, l) {
@@ -119,7 +120,7 @@ func (pl *planner) joins(s *Scan) {
 	// A shortcut joins a table from an earlier one on its path, so the
 	// depth along the model's links still puts every join after the one
 	// that reaches its own table.
-	depth := func(l *Link) int { return len(reach[l.To]) }
+	depth := func(l *model.Link) int { return len(reach[l.To]) }
 	sort.Slice(links, func(i, j int) bool {
 		if depth(links[i]) != depth(links[j]) {
 			return depth(links[i]) < depth(links[j])
@@ -134,7 +135,7 @@ func (pl *planner) joins(s *Scan) {
 func (pl *planner) cautions() {
 	for _, s := range pl.p.Scans {
 		for _, l := range s.Leaves {
-			if l.Arg != nil && l.Arg.Expr.Type() == TypeFloat && (l.Func == "sum" || l.Func == "avg") {
+			if l.Arg != nil && l.Arg.Expr.Type() == model.TypeFloat && (l.Func == "sum" || l.Func == "avg") {
 				pl.p.Cautions = append(pl.p.Cautions, fmt.Sprintf(
 					"%s adds float values: the last digits can change with the order the engine reads rows in; declare the column decimal for exact sums",
 					l.Name))
@@ -146,7 +147,7 @@ func (pl *planner) cautions() {
 // linkTowards is a one-column link from table from to table to, or nil:
 // the column whose distinct values are the rows of to that from's rows
 // point at.
-func linkTowards(from, to *Table) *Link {
+func linkTowards(from, to *model.Table) *model.Link {
 	for _, l := range from.Links {
 		if l.To == to && len(l.FromCols) == 1 {
 			return l

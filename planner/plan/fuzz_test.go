@@ -1,4 +1,4 @@
-package planner_test
+package plan_test
 
 import (
 	"os"
@@ -9,19 +9,20 @@ import (
 
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // FuzzCheckPlan runs arbitrary model text through the whole check and
-// plan path: parse, resolve and check (planner.Load), then for each of the
+// plan path: parse, resolve and check (model.Load), then for each of the
 // first measures a query alone, one grouped by the first columns of the
 // first tables with every total row, a --where filter and an order, and
-// planner.NewPlan on each (and on each view), rendered as DuckDB SQL. Nothing may panic or hang, and every error
+// plan.NewPlan on each (and on each view), rendered as DuckDB SQL. Nothing may panic or hang, and every error
 // must carry a position (file, line and column). Run it with:
 //
-//	go test -run='^$' -fuzz='^FuzzCheckPlan$' -fuzztime=10m ./planner
+//	go test -run='^$' -fuzz='^FuzzCheckPlan$' -fuzztime=10m ./planner/plan
 func FuzzCheckPlan(f *testing.F) {
-	for _, pattern := range []string{"../testdata/*/*.roll", "../cmd/rollwise/internal/demo/*.roll"} {
+	for _, pattern := range []string{"../../testdata/*/*.roll", "../../cmd/rollwise/internal/demo/*.roll"} {
 		paths, _ := filepath.Glob(pattern)
 		for _, p := range paths {
 			if b, err := os.ReadFile(p); err == nil && len(b) < 8000 {
@@ -55,7 +56,7 @@ func checkPlan(t *testing.T, src string) {
 	if diags.HasErrors() || file == nil {
 		return
 	}
-	m, diags := planner.Load([]*grammar.File{file})
+	m, diags := model.Load([]*grammar.File{file})
 	positioned(t, diags)
 	if diags.HasErrors() || m == nil {
 		return
@@ -74,7 +75,7 @@ func checkPlan(t *testing.T, src string) {
 		if i >= 6 {
 			break
 		}
-		specs := []planner.QuerySpec{
+		specs := []model.QuerySpec{
 			{Measures: []string{ms.Name}},
 			{Measures: []string{ms.Name}, By: by, Where: where, Totals: "all", Order: ms.Name + " desc", Limit: 3},
 		}
@@ -84,13 +85,13 @@ func checkPlan(t *testing.T, src string) {
 			if d.HasErrors() || q == nil {
 				continue
 			}
-			p, d := planner.NewPlan(q)
+			p, d := plan.NewPlan(q)
 			positioned(t, d)
 			render(t, p)
 		}
 	}
 	for _, v := range m.Views {
-		p, d := planner.NewPlan(m.ViewQuery(v))
+		p, d := plan.NewPlan(m.ViewQuery(v))
 		positioned(t, d)
 		render(t, p)
 	}
@@ -98,7 +99,7 @@ func checkPlan(t *testing.T, src string) {
 
 // render prints a plan as DuckDB SQL; a refusal must be an error with a
 // message, never a panic or empty text.
-func render(t *testing.T, p *planner.Plan) {
+func render(t *testing.T, p *plan.Plan) {
 	if p == nil {
 		return
 	}

@@ -1,4 +1,4 @@
-package planner_test
+package model_test
 
 import (
 	"strings"

@@ -1,4 +1,4 @@
-package planner
+package model
 
 import (
 	"strings"
@@ -14,12 +14,19 @@ func Text(e Expr) string {
 	return b.String()
 }
 
+// Texter is an expression of a later pass (a plan's values) that writes
+// its own text for Text.
+type Texter interface {
+	Expr
+	Text() string
+}
+
 func quoteLit(s string) string { return "'" + strings.ReplaceAll(s, "'", "''") + "'" }
 
-// quoteName writes a name as the language reads it back: in backquotes
+// QuoteName writes a name as the language reads it back: in backquotes
 // unless it is a plain identifier. So the text stays a canonical key:
 // a.`b.c` and `a.b`.c are two columns and print as two texts.
-func quoteName(s string) string {
+func QuoteName(s string) string {
 	for i, r := range s {
 		if r != '_' && !(r >= 'A' && r <= 'Z') && !(r >= 'a' && r <= 'z') && (i == 0 || !(r >= '0' && r <= '9')) {
 			return "`" + s + "`"
@@ -32,7 +39,7 @@ func quoteName(s string) string {
 }
 
 // columnText is a column reference as the text writes it.
-func columnText(c *Column) string { return quoteName(c.Table.Name) + "." + quoteName(c.Name) }
+func columnText(c *Column) string { return QuoteName(c.Table.Name) + "." + QuoteName(c.Name) }
 
 func writeText(b *strings.Builder, e Expr) {
 	switch e := e.(type) {
@@ -78,13 +85,13 @@ func writeText(b *strings.Builder, e Expr) {
 		case "date_trunc":
 			b.WriteString(e.Unit + ", ")
 			writeText(b, e.Args[0])
-		case movedFunc:
-			writeText(b, e.Args[0])
-			b.WriteString(", ")
-			writeText(b, e.Args[1])
-			b.WriteString(" " + e.Unit)
 		default:
+			// A function with a unit other than extract and date_trunc is
+			// a later pass's (a plan's date_move(D, N UNIT)).
 			writeList(b, e.Args)
+			if e.Unit != "" {
+				b.WriteString(" " + e.Unit)
+			}
 		}
 		b.WriteString(")")
 	case *CaseExpr:
@@ -130,7 +137,7 @@ func writeText(b *strings.Builder, e Expr) {
 		}
 		b.WriteString(")")
 	case *MeasureRef:
-		b.WriteString(quoteName(e.Measure.Name))
+		b.WriteString(QuoteName(e.Measure.Name))
 	case *NarrowExpr:
 		b.WriteString("(")
 		writeText(b, e.X)
@@ -167,10 +174,8 @@ func writeText(b *strings.Builder, e Expr) {
 			writeText(b, e.Having)
 		}
 		b.WriteString(")")
-	case *ValueRef:
-		b.WriteString(quoteName(e.Rel.Name) + "." + quoteName(e.Column))
-	case *Computed:
-		b.WriteString(quoteName(e.Measure.Name))
+	case Texter:
+		b.WriteString(e.Text())
 	}
 }
 
@@ -180,7 +185,7 @@ func writeEdit(b *strings.Builder, ed *CellEdit) {
 	case ed.Col != nil:
 		target = columnText(ed.Col)
 	case ed.Table != nil:
-		target = quoteName(ed.Table.Name)
+		target = QuoteName(ed.Table.Name)
 	}
 	switch ed.Kind {
 	case EditDrop:

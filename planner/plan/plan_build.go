@@ -1,4 +1,4 @@
-package planner
+package plan
 
 import (
 	"fmt"
@@ -7,16 +7,17 @@ import (
 	"strings"
 
 	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner/model"
 )
 
 type planner struct {
-	q     *Query
+	q     *model.Query
 	p     *Plan
 	diags grammar.Diagnostics
 	// owner is the innermost measure being compiled; narrowedBy and
 	// editedBy name the measures whose narrowing or edit is in force (for
 	// readable names).
-	owner      *Measure
+	owner      *model.Measure
 	narrowedBy string
 	editedBy   string
 	taken      map[string]bool
@@ -25,7 +26,7 @@ type planner struct {
 	rels         map[string]*Rel
 	values       map[string]*ValueRef
 	inputs       map[*Scan]map[string]*Input
-	texts        map[Expr]string
+	texts        map[model.Expr]string
 	// distinct maps the per-grain counts planned for distinct counts to
 	// the aggregates they stand for (see plan_distinct.go).
 	distinct map[*PerLeaf]distinctOrigin
@@ -34,18 +35,18 @@ type planner struct {
 	timeEnds map[*Rel]bool
 	// computed holds each measure's value compiled in a cell of a context
 	// (see measureValue); iterTables the iteration tables found per measure.
-	computed   map[string]Expr
-	iterTables map[*Measure][]*Table
+	computed   map[string]model.Expr
+	iterTables map[*model.Measure][]*model.Table
 }
 
 // NewPlan plans a query: every measure is compiled into arithmetic over
 // aggregates, each computed in the (possibly edited) cell of its measure
 // by a scan of its iteration table, or by a per-grain sub-context.
-func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
+func NewPlan(q *model.Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
-		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[Expr]string{},
+		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[model.Expr]string{},
 		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{},
-		computed: map[string]Expr{}, iterTables: map[*Measure][]*Table{}}
+		computed: map[string]model.Expr{}, iterTables: map[*model.Measure][]*model.Table{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
 		pl.measureNames[m.Name] = true
@@ -65,7 +66,7 @@ func NewPlan(q *Query) (*Plan, grammar.Diagnostics) {
 		for _, t := range pl.iterationTables(m.Expr) {
 			pl.base(root, t)
 		}
-		if e := pl.compile(root, &MeasureRef{Pos: m.Pos, Measure: m}, start); e != nil {
+		if e := pl.compile(root, &model.MeasureRef{Pos: m.Pos, Measure: m}, start); e != nil {
 			pl.p.Outputs = append(pl.p.Outputs, &Output{Name: m.Name, Measure: m, Expr: e})
 		}
 	}
@@ -119,27 +120,27 @@ func (pl *planner) name(base string) string {
 
 // iterationTables lists the tables whose rows a measure's value iterates
 // over: the tables of every aggregate inside it.
-func (pl *planner) iterationTables(e Expr) []*Table {
-	var out []*Table
-	add := func(ts ...*Table) {
+func (pl *planner) iterationTables(e model.Expr) []*model.Table {
+	var out []*model.Table
+	add := func(ts ...*model.Table) {
 		for _, t := range ts {
 			if t != nil && !slices.Contains(out, t) {
 				out = append(out, t)
 			}
 		}
 	}
-	Walk(e, func(x Expr) bool {
+	model.Walk(e, func(x model.Expr) bool {
 		switch x := x.(type) {
-		case *Agg:
+		case *model.Agg:
 			add(x.Table)
-		case *MeasureRef:
+		case *model.MeasureRef:
 			ts, ok := pl.iterTables[x.Measure]
 			if !ok {
 				ts = pl.iterationTables(x.Measure.Expr)
 				pl.iterTables[x.Measure] = ts
 			}
 			add(ts...)
-		case *PerAgg:
+		case *model.PerAgg:
 			add(pl.perTables(x)...)
 			return false
 		}
@@ -152,21 +153,21 @@ func (pl *planner) iterationTables(e Expr) []*Table {
 // aggregate: X's iteration tables, or where X reads no table (count(*
 // per ...)) the per columns' own table. The having clause only keeps or
 // drops groups: which tables it reads never changes the groups.
-func (pl *planner) perTables(pa *PerAgg) []*Table {
+func (pl *planner) perTables(pa *model.PerAgg) []*model.Table {
 	if pa.X != nil {
 		if ts := pl.iterationTables(pa.X); len(ts) > 0 {
 			return ts
 		}
 	}
 	for _, c := range pa.Per {
-		reach := Reach(c.Table)
+		reach := model.Reach(c.Table)
 		all := true
 		for _, o := range pa.Per {
 			_, ok := reach[o.Table]
 			all = all && ok
 		}
 		if all {
-			return []*Table{c.Table}
+			return []*model.Table{c.Table}
 		}
 	}
 	pl.diags.Errorf(pa.Pos, "no-iteration-table", "the per columns of this count(* per ...) are on tables that no one table reaches").Suggestion =
@@ -176,23 +177,23 @@ func (pl *planner) perTables(pa *PerAgg) []*Table {
 
 // compile turns a measure expression, evaluated in cell c of ctx, into
 // arithmetic over values of relations.
-func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
+func (pl *planner) compile(ctx *Context, e model.Expr, c cell) model.Expr {
 	switch e := e.(type) {
-	case *MeasureRef:
+	case *model.MeasureRef:
 		return pl.measureValue(ctx, e.Measure, c)
-	case *NarrowExpr:
+	case *model.NarrowExpr:
 		outer := pl.narrowedBy
 		pl.narrowedBy = pl.owner.Name
 		x := pl.compile(ctx, e.X, c.with(cellFilter{e: e.Pred}))
 		pl.narrowedBy = outer
 		return x
-	case *EditExpr:
+	case *model.EditExpr:
 		outer := pl.editedBy
 		pl.editedBy = pl.owner.Name
 		c2 := c
 		for i, ed := range e.Edits {
 			switch {
-			case ed.Kind == EditBack:
+			case ed.Kind == model.EditBack:
 				ok := false
 				if c2, ok = pl.back(ctx, c2, ed); !ok {
 					return nil
@@ -208,22 +209,22 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 		x := pl.compile(ctx, e.X, c2)
 		pl.editedBy = outer
 		return x
-	case *Agg:
+	case *model.Agg:
 		return pl.leaf(ctx, e, c)
-	case *PerAgg:
+	case *model.PerAgg:
 		return pl.per(ctx, e, c, pl.owner.Name)
-	case *BinOp:
+	case *model.BinOp:
 		l, r := pl.compile(ctx, e.L, c), pl.compile(ctx, e.R, c)
 		if l == nil || r == nil {
 			return nil
 		}
-		return &BinOp{Pos: e.Pos, Op: e.Op, L: l, R: r, T: e.T}
-	case *UnOp:
+		return &model.BinOp{Pos: e.Pos, Op: e.Op, L: l, R: r, T: e.T}
+	case *model.UnOp:
 		if x := pl.compile(ctx, e.X, c); x != nil {
-			return &UnOp{Pos: e.Pos, Op: e.Op, X: x}
+			return &model.UnOp{Pos: e.Pos, Op: e.Op, X: x}
 		}
 		return nil
-	case *Func:
+	case *model.Func:
 		f := *e
 		f.Args = nil
 		for _, a := range e.Args {
@@ -234,14 +235,14 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 			f.Args = append(f.Args, x)
 		}
 		return &f
-	case *CaseExpr:
-		out := &CaseExpr{Pos: e.Pos, T: e.T}
+	case *model.CaseExpr:
+		out := &model.CaseExpr{Pos: e.Pos, T: e.T}
 		for _, w := range e.Whens {
 			cond, then := pl.compile(ctx, w.Cond, c), pl.compile(ctx, w.Then, c)
 			if cond == nil || then == nil {
 				return nil
 			}
-			out.Whens = append(out.Whens, WhenArm{Cond: cond, Then: then})
+			out.Whens = append(out.Whens, model.WhenArm{Cond: cond, Then: then})
 		}
 		if e.Else != nil {
 			if out.Else = pl.compile(ctx, e.Else, c); out.Else == nil {
@@ -249,13 +250,13 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 			}
 		}
 		return out
-	case *IsNullExpr:
+	case *model.IsNullExpr:
 		if x := pl.compile(ctx, e.X, c); x != nil {
-			return &IsNullExpr{Pos: e.Pos, X: x, Not: e.Not}
+			return &model.IsNullExpr{Pos: e.Pos, X: x, Not: e.Not}
 		}
 		return nil
-	case *InExpr:
-		in := &InExpr{Pos: e.Pos, Not: e.Not}
+	case *model.InExpr:
+		in := &model.InExpr{Pos: e.Pos, Not: e.Not}
 		if in.X = pl.compile(ctx, e.X, c); in.X == nil {
 			return nil
 		}
@@ -267,7 +268,7 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 			in.List = append(in.List, x)
 		}
 		return in
-	case *Lit:
+	case *model.Lit:
 		return e
 	}
 	pl.diags.Errorf(e.Position(), "internal", "cannot plan %T in measure %s", e, pl.owner.Name)
@@ -278,7 +279,7 @@ func (pl *planner) compile(ctx *Context, e Expr, c cell) Expr {
 // of m in the same cell reads the same node. A value that is one column
 // of a relation (or a literal) is that column; any other is a Computed
 // node, which the renderer names where more than one expression uses it.
-func (pl *planner) measureValue(ctx *Context, m *Measure, c cell) Expr {
+func (pl *planner) measureValue(ctx *Context, m *model.Measure, c cell) model.Expr {
 	key := fmt.Sprintf("%p|%p|%d|%s|%s", ctx, m, c.removed, pl.filterKey(c.filters, true), pl.filterKey(c.filters, false))
 	if len(c.moved) > 0 {
 		keys := slices.Sorted(maps.Keys(c.moved))
@@ -297,7 +298,7 @@ func (pl *planner) measureValue(ctx *Context, m *Measure, c cell) Expr {
 	x := pl.compile(ctx, m.Expr, c)
 	pl.owner = outer
 	switch x.(type) {
-	case nil, *ValueRef, *Lit, *Computed:
+	case nil, *ValueRef, *model.Lit, *Computed:
 	default:
 		x = &Computed{Measure: m, X: x}
 	}
@@ -329,7 +330,7 @@ func localKeys(ctx *Context, removed uint64, shift int) ([]int, []uint64, map[ui
 
 // scanRel finds or adds the scan of t in ctx for a cell with the given
 // removed keys and row filters.
-func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr, moved map[int]Expr, nameBase string) *Rel {
+func (pl *planner) scanRel(ctx *Context, t *model.Table, removed uint64, where []model.Expr, moved map[int]model.Expr, nameBase string) *Rel {
 	key := pl.scanKey(ctx, t, removed, where)
 	if len(moved) > 0 {
 		key += "|moved " + pl.movedKey(moved)
@@ -350,12 +351,12 @@ func (pl *planner) scanRel(ctx *Context, t *Table, removed uint64, where []Expr,
 
 // scanKey identifies the scan of t in ctx for a cell with the given
 // removed keys and row filters.
-func (pl *planner) scanKey(ctx *Context, t *Table, removed uint64, where []Expr) string {
+func (pl *planner) scanKey(ctx *Context, t *model.Table, removed uint64, where []model.Expr) string {
 	return fmt.Sprintf("%p|%s|%d|%s", ctx, t.Name, removed, pl.whereKey(where))
 }
 
 // base adds t's scan to the scans whose cells are ctx's rows.
-func (pl *planner) base(ctx *Context, t *Table) {
+func (pl *planner) base(ctx *Context, t *model.Table) {
 	name := t.Name
 	if ctx.Name != "" {
 		name = ctx.Name + "_" + t.Name
@@ -367,7 +368,7 @@ func (pl *planner) base(ctx *Context, t *Table) {
 }
 
 // leaf finds or adds the scan leaf computing a in cell c.
-func (pl *planner) leaf(ctx *Context, a *Agg, c cell) Expr {
+func (pl *planner) leaf(ctx *Context, a *model.Agg, c cell) model.Expr {
 	if pa := distinctAsPer(a); pa != nil {
 		return pl.distinctPer(ctx, a, pa, c)
 	}
@@ -421,7 +422,7 @@ func (pl *planner) aggName(ctx *Context, c cell) string {
 }
 
 // input finds or adds a row-level value of the scan.
-func (pl *planner) input(s *Scan, name string, e Expr) *Input {
+func (pl *planner) input(s *Scan, name string, e model.Expr) *Input {
 	key := pl.text(e)
 	if in, ok := pl.inputs[s][key]; ok {
 		return in
@@ -438,7 +439,7 @@ func (pl *planner) input(s *Scan, name string, e Expr) *Input {
 // groups (the same per columns, iteration tables and cell) share one
 // sub-context, each a leaf of its relation. name is the base of the
 // leaf's name and of a new sub-context's.
-func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
+func (pl *planner) per(ctx *Context, pa *model.PerAgg, c cell, name string) model.Expr {
 	if c.window != nil {
 		pl.diags.Errorf(pa.Pos, "not-supported", "a per-grain aggregate (or a distinct count) under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
 			"write the time edit inside the per-grain aggregate, around its measure"
@@ -493,7 +494,7 @@ func (pl *planner) per(ctx *Context, pa *PerAgg, c cell, name string) Expr {
 // groups of pa in cell c: the cell's remaining keys plus the per columns,
 // over the rows of pa's iteration tables that pass every filter of the
 // cell. fresh reports a new relation, not yet among ctx's.
-func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel, fresh bool) {
+func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (r *Rel, fresh bool) {
 	tables := pl.perTables(pa)
 	var texts, tnames, cols []string
 	for _, f := range c.filters {
@@ -505,7 +506,7 @@ func (pl *planner) perRel(ctx *Context, pa *PerAgg, c cell, name string) (r *Rel
 	}
 	slices.Sort(tnames)
 	for _, col := range pa.Per {
-		cols = append(cols, columnText(col))
+		cols = append(cols, model.Text(&model.ColRef{Col: col}))
 	}
 	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved))
 	if r, ok := pl.rels[key]; ok {

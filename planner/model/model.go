@@ -1,7 +1,10 @@
-// Package planner resolves parsed .roll files into a model (tables, links,
-// measures, views), checks it, and plans queries into a dialect-free logical
-// plan that the dialects package renders as SQL.
-package planner
+// Package model is what the rollwise language means: it resolves parsed
+// .roll files into a model (tables, links, typed columns and measures,
+// views), checks it (names, types, additivity, paths, cycles), and
+// resolves a report's request into a Query. It knows nothing of plans or
+// SQL: planner/plan plans a Query, and the reference evaluator
+// (planner/reference) computes it from this package alone.
+package model
 
 import (
 	"github.com/rollwise/rollwise/grammar"

@@ -1,6 +1,7 @@
-package planner
+package plan
 
 import (
+	"github.com/rollwise/rollwise/planner/model"
 	"slices"
 	"sort"
 	"strings"
@@ -87,7 +88,7 @@ func (pl *planner) baseLeaf(base, s *Scan, l *Leaf) *Leaf {
 }
 
 // whereKey identifies a set of row filters, whatever their order.
-func (pl *planner) whereKey(ws []Expr) string {
+func (pl *planner) whereKey(ws []model.Expr) string {
 	var t []string
 	for _, w := range ws {
 		t = append(t, pl.text(w))

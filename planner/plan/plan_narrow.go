@@ -1,6 +1,9 @@
-package planner
+package plan
 
-import "slices"
+import (
+	"github.com/rollwise/rollwise/planner/model"
+	"slices"
+)
 
 // hoistNarrowings moves the narrowing conjuncts that every leaf of a scan
 // shares from the leaves' filters into the scan's WHERE: an engine pushes
@@ -37,21 +40,21 @@ func (pl *planner) hoist(s *Scan) {
 	if len(s.Leaves) == 0 {
 		return
 	}
-	var shared []Expr
+	var shared []model.Expr
 	for i, l := range s.Leaves {
 		if l.Filter == nil {
 			return
 		}
 		if i == 0 {
 			// Repeats are harmless: they go into the WHERE once (below).
-			shared = Conjuncts(l.Filter.Expr)
+			shared = model.Conjuncts(l.Filter.Expr)
 			continue
 		}
 		texts := map[string]bool{}
-		for _, c := range Conjuncts(l.Filter.Expr) {
+		for _, c := range model.Conjuncts(l.Filter.Expr) {
 			texts[pl.text(c)] = true
 		}
-		shared = slices.DeleteFunc(shared, func(c Expr) bool { return !texts[pl.text(c)] })
+		shared = slices.DeleteFunc(shared, func(c model.Expr) bool { return !texts[pl.text(c)] })
 		if len(shared) == 0 {
 			return
 		}
@@ -61,7 +64,7 @@ func (pl *planner) hoist(s *Scan) {
 	for _, c := range shared {
 		t := pl.text(c)
 		moved[t] = true
-		if !slices.ContainsFunc(where, func(w Expr) bool { return pl.text(w) == t }) {
+		if !slices.ContainsFunc(where, func(w model.Expr) bool { return pl.text(w) == t }) {
 			where = append(where, c)
 		}
 	}
@@ -74,15 +77,15 @@ func (pl *planner) hoist(s *Scan) {
 	for _, l := range s.Leaves {
 		in, done := rest[l.Filter]
 		if !done {
-			var e Expr
-			for _, c := range Conjuncts(l.Filter.Expr) {
+			var e model.Expr
+			for _, c := range model.Conjuncts(l.Filter.Expr) {
 				if moved[pl.text(c)] {
 					continue
 				}
 				if e == nil {
 					e = c
 				} else {
-					e = &BinOp{Pos: c.Position(), Op: "and", L: e, R: c, T: TypeBoolean}
+					e = &model.BinOp{Pos: c.Position(), Op: "and", L: e, R: c, T: model.TypeBoolean}
 				}
 			}
 			if e != nil {
@@ -102,7 +105,7 @@ func (pl *planner) hoist(s *Scan) {
 // reuse gives the input of s computing e, the rest of the filter old: one
 // the scan has already, or else old itself, recomputed (keeping its name),
 // unless a leaf reads old as its argument.
-func (pl *planner) reuse(s *Scan, old *Input, e Expr, isArg bool) *Input {
+func (pl *planner) reuse(s *Scan, old *Input, e model.Expr, isArg bool) *Input {
 	t := pl.text(e)
 	if in, ok := pl.inputs[s][t]; ok {
 		return in

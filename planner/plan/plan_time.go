@@ -1,7 +1,8 @@
-package planner
+package plan
 
 import (
 	"fmt"
+	"github.com/rollwise/rollwise/planner/model"
 	"slices"
 	"sort"
 	"strings"
@@ -28,7 +29,7 @@ const movedFunc = "date_move"
 // column d: col is d, a derived column of d's table computed from d alone,
 // or a column of d's calendar (d's own table when d is its key, or the
 // table d's link reaches).
-func timeBound(d, col *Column) bool {
+func timeBound(d, col *model.Column) bool {
 	if col == d || (calendarOf(d) != nil && col.Table == calendarOf(d)) {
 		return true
 	}
@@ -36,7 +37,7 @@ func timeBound(d, col *Column) bool {
 		return false
 	}
 	only := false
-	for _, c := range Columns(col.Derived) {
+	for _, c := range model.Columns(col.Derived) {
 		if c.Stored() {
 			if c != d {
 				return false
@@ -48,7 +49,7 @@ func timeBound(d, col *Column) bool {
 }
 
 // calendarOf is the calendar table of the date column d, or nil.
-func calendarOf(d *Column) *Table {
+func calendarOf(d *model.Column) *model.Table {
 	for _, l := range d.Table.Links {
 		if len(l.FromCols) == 1 && l.FromCols[0] == d {
 			return l.To
@@ -61,9 +62,9 @@ func calendarOf(d *Column) *Table {
 }
 
 // allBound reports whether e reads columns and every one is time-bound to d.
-func allBound(e Expr, d *Column) bool {
+func allBound(e model.Expr, d *model.Column) bool {
 	n := 0
-	ok := !mentions(e, func(c *Column) bool { n++; return !timeBound(d, c) })
+	ok := !mentions(e, func(c *model.Column) bool { n++; return !timeBound(d, c) })
 	return ok && n > 0
 }
 
@@ -71,13 +72,13 @@ func allBound(e Expr, d *Column) bool {
 // moved forward by ed's count and unit for d (derived columns are read
 // through). A column of a calendar other than d's own table cannot be
 // moved by an expression: ok is false.
-func moveTime(e Expr, ed *CellEdit) (out Expr, ok bool) {
+func moveTime(e model.Expr, ed *model.CellEdit) (out model.Expr, ok bool) {
 	ok = true
-	out = substitute(e, func(r *ColRef) Expr {
+	out = substitute(e, func(r *model.ColRef) model.Expr {
 		switch {
 		case r.Col == ed.Col:
-			return &Func{Pos: ed.Pos, Name: movedFunc, Unit: ed.Unit, T: r.Col.Type,
-				Args: []Expr{r, &Lit{Pos: ed.Pos, T: TypeInteger, Text: fmt.Sprint(ed.N)}}}
+			return &model.Func{Pos: ed.Pos, Name: movedFunc, Unit: ed.Unit, T: r.Col.Type,
+				Args: []model.Expr{r, &model.Lit{Pos: ed.Pos, T: model.TypeInteger, Text: fmt.Sprint(ed.N)}}}
 		case !timeBound(ed.Col, r.Col):
 			return r
 		case r.Col.Table != ed.Col.Table || r.Col.Derived == nil:
@@ -93,51 +94,51 @@ func moveTime(e Expr, ed *CellEdit) (out Expr, ok bool) {
 
 // substitute copies a row expression with every column reference replaced
 // by what f returns for it.
-func substitute(e Expr, f func(*ColRef) Expr) Expr {
-	sub := func(x Expr) Expr { return substitute(x, f) }
+func substitute(e model.Expr, f func(*model.ColRef) model.Expr) model.Expr {
+	sub := func(x model.Expr) model.Expr { return substitute(x, f) }
 	switch e := e.(type) {
-	case *ColRef:
+	case *model.ColRef:
 		return f(e)
-	case *BinOp:
-		return &BinOp{Pos: e.Pos, Op: e.Op, L: sub(e.L), R: sub(e.R), T: e.T}
-	case *UnOp:
-		return &UnOp{Pos: e.Pos, Op: e.Op, X: sub(e.X)}
-	case *Func:
+	case *model.BinOp:
+		return &model.BinOp{Pos: e.Pos, Op: e.Op, L: sub(e.L), R: sub(e.R), T: e.T}
+	case *model.UnOp:
+		return &model.UnOp{Pos: e.Pos, Op: e.Op, X: sub(e.X)}
+	case *model.Func:
 		out := *e
 		out.Args = nil
 		for _, a := range e.Args {
 			out.Args = append(out.Args, sub(a))
 		}
 		return &out
-	case *CaseExpr:
-		out := &CaseExpr{Pos: e.Pos, T: e.T}
+	case *model.CaseExpr:
+		out := &model.CaseExpr{Pos: e.Pos, T: e.T}
 		for _, w := range e.Whens {
-			out.Whens = append(out.Whens, WhenArm{Cond: sub(w.Cond), Then: sub(w.Then)})
+			out.Whens = append(out.Whens, model.WhenArm{Cond: sub(w.Cond), Then: sub(w.Then)})
 		}
 		if e.Else != nil {
 			out.Else = sub(e.Else)
 		}
 		return out
-	case *InExpr:
-		out := &InExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
+	case *model.InExpr:
+		out := &model.InExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
 		for _, a := range e.List {
 			out.List = append(out.List, sub(a))
 		}
 		return out
-	case *IsNullExpr:
-		return &IsNullExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
+	case *model.IsNullExpr:
+		return &model.IsNullExpr{Pos: e.Pos, X: sub(e.X), Not: e.Not}
 	}
 	return e
 }
 
 // back applies `D back N UNIT` to the cell: its time-bound keys and
 // filters read D moved forward N units.
-func (pl *planner) back(ctx *Context, c cell, ed *CellEdit) (cell, bool) {
-	out := cell{removed: c.removed, moved: map[int]Expr{}}
+func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
+	out := cell{removed: c.removed, moved: map[int]model.Expr{}}
 	for i, e := range c.moved {
 		out.moved[i] = e
 	}
-	refuse := func(col *Column) (cell, bool) {
+	refuse := func(col *model.Column) (cell, bool) {
 		d := pl.diags.Errorf(ed.Pos, "not-supported", "%s back moves %s, a column of the calendar %s: moving through a calendar table is not planned into SQL yet",
 			ed.Col, col, col.Table.Name)
 		d.Suggestion = "group and filter by the fact's own date or by derived columns computed from it (for example month = date_trunc(month, day))"
@@ -162,7 +163,7 @@ func (pl *planner) back(ctx *Context, c cell, ed *CellEdit) (cell, bool) {
 		if allBound(f.e, ed.Col) {
 			e, ok := moveTime(f.e, ed)
 			if !ok {
-				return refuse(Columns(f.e)[0])
+				return refuse(model.Columns(f.e)[0])
 			}
 			f = cellFilter{e: e, rows: f.rows}
 		}
@@ -173,7 +174,7 @@ func (pl *planner) back(ctx *Context, c cell, ed *CellEdit) (cell, bool) {
 
 // movedKey is a text for the moved keys of a cell, for finding shared
 // relations.
-func (pl *planner) movedKey(moved map[int]Expr) string {
+func (pl *planner) movedKey(moved map[int]model.Expr) string {
 	var t []string
 	for i, e := range moved {
 		t = append(t, fmt.Sprintf("%d:%s", i, pl.text(e)))
@@ -184,7 +185,7 @@ func (pl *planner) movedKey(moved map[int]Expr) string {
 
 // movedKeys copies ctx's keys kept in a cell, each moved key with its
 // expression.
-func movedKeys(ctx *Context, keep []int, moved map[int]Expr) []Key {
+func movedKeys(ctx *Context, keep []int, moved map[int]model.Expr) []Key {
 	var out []Key
 	for _, i := range keep {
 		k := ctx.Keys[i]
@@ -198,24 +199,24 @@ func movedKeys(ctx *Context, keep []int, moved map[int]Expr) []Key {
 
 // timeEdit compiles X edited by edits[i], a time edit, and the edits after
 // it, in cell c.
-func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, bool) {
+func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
 	switch ed.Kind {
-	case EditLatest, EditEarliest:
+	case model.EditLatest, model.EditEarliest:
 		x := e.X
 		if rest := e.Edits[i+1:]; len(rest) > 0 {
-			if slices.ContainsFunc(rest, func(r *CellEdit) bool { return r.Kind == EditUngroup || r.Kind.Time() }) {
+			if slices.ContainsFunc(rest, func(r *model.CellEdit) bool { return r.Kind == model.EditUngroup || r.Kind.Time() }) {
 				pl.diags.Errorf(ed.Pos, "not-supported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
 					"write that edit before the time edit, or in brackets of its own around the measure"
 				return nil, false
 			}
-			x = &EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
+			x = &model.EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
 		}
 		fn := "latest"
-		if ed.Kind == EditEarliest {
+		if ed.Kind == model.EditEarliest {
 			fn = "earliest"
 		}
-		pa := &PerAgg{Pos: ed.Pos, Func: fn, X: x, Per: []*Column{ed.Col}, T: e.X.Type()}
+		pa := &model.PerAgg{Pos: ed.Pos, Func: fn, X: x, Per: []*model.Column{ed.Col}, T: e.X.Type()}
 		return pl.per(ctx, pa, c, pl.owner.Name+"_"+fn), true
 	}
 	return pl.windowEdit(ctx, e, i, c)
@@ -226,9 +227,9 @@ func (pl *planner) timeEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, boo
 // iteration table; the edited cell drops the time-bound keys and filters,
 // and its aggregates read the rows whose D lies in the range E sets
 // (see TimeRange).
-func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, bool) {
+func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
-	refuse := func(what string) (Expr, bool) {
+	refuse := func(what string) (model.Expr, bool) {
 		pl.diags.Errorf(ed.Pos, "not-supported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
 			"the reference evaluator (rollwise verify) computes it; write the window edit on a measure of one fact table, as the outermost time edit"
 		return nil, false
@@ -240,10 +241,10 @@ func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, b
 	case len(c.moved) > 0 || c.window != nil:
 		return refuse("after another time edit")
 	}
-	if slices.ContainsFunc(e.Edits[i+1:], func(r *CellEdit) bool { return r.Kind.Time() }) {
+	if slices.ContainsFunc(e.Edits[i+1:], func(r *model.CellEdit) bool { return r.Kind.Time() }) {
 		return refuse("before another time edit")
 	}
-	end := &Agg{Pos: ed.Pos, Func: "max", Arg: &ColRef{Pos: ed.Pos, Col: ed.Col}, Table: tables[0], T: ed.Col.Type}
+	end := &model.Agg{Pos: ed.Pos, Func: "max", Arg: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, Table: tables[0], T: ed.Col.Type}
 	ev, ok := pl.leaf(ctx, end, c).(*ValueRef)
 	if !ok {
 		return nil, false
@@ -268,34 +269,34 @@ func (pl *planner) windowEdit(ctx *Context, e *EditExpr, i int, c cell) (Expr, b
 	if x == nil {
 		return nil, false
 	}
-	if out.window != nil && nullOverNoRows(e.X, map[*Measure]bool{}) {
+	if out.window != nil && nullOverNoRows(e.X, map[*model.Measure]bool{}) {
 		return x, true
 	}
 	// A cell without E (no row of X's table, or no date) has NULL, even
 	// where X itself is not NULL over no rows (a count, a coalesce), or
 	// where a later edit removed the range and X reads other rows:
 	// language.md, Time.
-	return &CaseExpr{Pos: ed.Pos, Whens: []WhenArm{{Cond: &IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: x}}, T: e.X.Type()}, true
+	return &model.CaseExpr{Pos: ed.Pos, Whens: []model.WhenArm{{Cond: &model.IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: x}}, T: e.X.Type()}, true
 }
 
 // nullOverNoRows reports whether e is NULL whenever its aggregates see no
 // row: every aggregate is one that is NULL over no rows (not a count) and
 // nothing between them turns a NULL into a value (coalesce, case, is
 // null). Where it may not be, a window edit guards its value with E.
-func nullOverNoRows(e Expr, seen map[*Measure]bool) bool {
+func nullOverNoRows(e model.Expr, seen map[*model.Measure]bool) bool {
 	ok := true
-	Walk(e, func(x Expr) bool {
+	model.Walk(e, func(x model.Expr) bool {
 		switch x := x.(type) {
-		case *Agg:
+		case *model.Agg:
 			ok = ok && x.Func != "count"
 			return false
-		case *PerAgg, *CaseExpr, *IsNullExpr, *InExpr, *EditExpr:
+		case *model.PerAgg, *model.CaseExpr, *model.IsNullExpr, *model.InExpr, *model.EditExpr:
 			ok = false
-		case *Func:
+		case *model.Func:
 			ok = ok && x.Name != "coalesce" && x.Name != "nullif"
-		case *BinOp:
+		case *model.BinOp:
 			ok = ok && x.Op != "and" && x.Op != "or"
-		case *MeasureRef:
+		case *model.MeasureRef:
 			if !seen[x.Measure] {
 				seen[x.Measure] = true
 				ok = ok && nullOverNoRows(x.Measure.Expr, seen)
@@ -308,7 +309,7 @@ func nullOverNoRows(e Expr, seen map[*Measure]bool) bool {
 
 // rangeRel finds or adds the relation of a window edit's scan of t in cell
 // c: cells keyed like ctx's, rows matched on the keys c keeps.
-func (pl *planner) rangeRel(ctx *Context, t *Table, c cell, nameBase string) *Rel {
+func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase string) *Rel {
 	w := c.window
 	where := rowFilters(c.filters)
 	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), w.e.Rel.Name+"."+w.e.Column)
@@ -332,7 +333,7 @@ func (pl *planner) rangeRel(ctx *Context, t *Table, c cell, nameBase string) *Re
 	s.Name = r.Name
 	pl.inputs[s] = map[string]*Input{}
 	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
-		D: pl.input(s, r.Name+"_at", &ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
+		D: pl.input(s, r.Name+"_at", &model.ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
 	pl.rels[key] = r
 	ctx.Rels = append(ctx.Rels, r)
 	pl.p.Scans = append(pl.p.Scans, s)

@@ -1,4 +1,4 @@
-package planner
+package model
 
 import (
 	"fmt"
@@ -220,6 +220,18 @@ func negated(e Expr, pos grammar.Pos) Expr {
 		return &IsNullExpr{Pos: x.Pos, X: x.X, Not: !x.Not}
 	}
 	return &UnOp{Pos: pos, Op: "not", X: e}
+}
+
+// RolledUp names the groups a grouping mask rolls up.
+func (q *Query) RolledUp(mask uint64) []string {
+	out := []string{}
+	n := len(q.Groups)
+	for i := range q.Groups {
+		if mask&(1<<(n-1-i)) != 0 {
+			out = append(out, q.GroupNames[i])
+		}
+	}
+	return out
 }
 
 // ViewQuery is the query a view block declares.

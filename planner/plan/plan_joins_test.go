@@ -1,4 +1,4 @@
-package planner_test
+package plan_test
 
 import (
 	"slices"
@@ -6,7 +6,8 @@ import (
 	"testing"
 
 	"github.com/rollwise/rollwise/grammar"
-	"github.com/rollwise/rollwise/planner"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/plan"
 )
 
 const snowflake = `table sales {
@@ -35,17 +36,17 @@ measure region_avg  = avg(units per stores.region) where districts.area = 'Hills
 `
 
 // planQuery plans a query on the model src.
-func planQuery(t *testing.T, src, measures, by, where string) *planner.Plan {
+func planQuery(t *testing.T, src, measures, by, where string) *plan.Plan {
 	t.Helper()
 	f, d := grammar.Parse("m.roll", src)
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	m, d := planner.Load([]*grammar.File{f})
+	m, d := model.Load([]*grammar.File{f})
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	spec := planner.QuerySpec{Measures: strings.Split(measures, ","), Where: where}
+	spec := model.QuerySpec{Measures: strings.Split(measures, ","), Where: where}
 	if by != "" {
 		spec.By = strings.Split(by, ",")
 	}
@@ -53,7 +54,7 @@ func planQuery(t *testing.T, src, measures, by, where string) *planner.Plan {
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	p, d := planner.NewPlan(q)
+	p, d := plan.NewPlan(q)
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
