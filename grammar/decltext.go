@@ -31,10 +31,10 @@ func DeclarationText(src string, offset int) string {
 		if err != nil || t.EOF() {
 			break
 		}
-		if t.Type == symbols["Whitespace"] || t.Type == symbols["Comment"] {
+		if t.Type == tokWhitespace || t.Type == tokComment {
 			continue
 		}
-		if t.Type == symbols["Keyword"] && end > offset {
+		if t.Type == tokKeyword && end > offset {
 			switch strings.ToLower(t.Value) {
 			case "table", "measure", "view":
 				return src[start:end]

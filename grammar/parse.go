@@ -23,11 +23,17 @@ const (
 // EBNF returns the grammar in EBNF, as participle prints it.
 func EBNF() string { return parser.String() }
 
-var symbols = lexDef.Symbols()
-
 // Parse parses one model file. It reports every syntax error it can find:
 // after an error it resumes at the next top-level declaration (a line's
 // `table`, `measure` or `view`).
+//
+// The work is linear in the file's size with a small constant, whatever
+// it holds: the file is scanned once for characters and quotes the
+// language does not accept (if there are any, only those are reported),
+// then again, one declaration at a time, each handed to the parser as
+// soon as its last token is read. A declaration nesting deeper than
+// MaxNesting or longer than MaxDeclTokens is refused before the parser
+// sees it, so no more than MaxDeclTokens tokens are held at once.
 func Parse(filename, src string) (*File, Diagnostics) {
 	f := &File{Name: filename}
 	var diags Diagnostics
@@ -36,123 +42,111 @@ func Parse(filename, src string) (*File, Diagnostics) {
 			"the file is %d bytes; the largest model file accepted is %d bytes", len(src), MaxSourceBytes)
 		return f, diags
 	}
-	toks, ok := lexAll(filename, src, &diags)
-	if !ok {
+	if !scanErrors(filename, src, &diags) {
 		return f, diags
 	}
-	for _, chunk := range splitDecls(toks) {
-		if !checkChunk(chunk, &diags) {
+	d := declReader{sc: newScanner(filename, src)}
+	for {
+		chunk, ok := d.next(&diags)
+		if chunk == nil {
+			return f, diags
+		}
+		if !ok {
 			continue
 		}
-		eof := lexer.EOFToken(chunk[len(chunk)-1].Pos)
-		eof.Pos.Offset += len(chunk[len(chunk)-1].Value)
-		eof.Pos.Column += len(chunk[len(chunk)-1].Value)
-		withEOF := append(chunk[:len(chunk):len(chunk)], eof)
-		pl, err := lexer.Upgrade(&sliceLexer{toks: withEOF})
-		if err != nil {
-			diags.Errorf(pos(chunk[0].Pos), "syntax", "%v", err)
-			continue
-		}
-		sf, err := parseChunk(pl)
+		sf, err := parseTokens(parser, chunk)
 		if err != nil {
 			diags.Add(syntaxDiag(err, chunk[0].Pos))
 			continue
 		}
-		for _, d := range sf.Decls {
-			d.addTo(f)
+		for _, decl := range sf.Decls {
+			decl.addTo(f)
 		}
 	}
-	return f, diags
 }
 
-// lexAll tokenises src, dropping white space and comments, and reports
-// characters that start no token, unterminated quotes, and NUL bytes or
-// invalid UTF-8 inside quotes (which no engine would read as written). A
-// UTF-8 byte order mark at the start is skipped. It records at most
-// MaxPrinted-1 such errors and then one that counts the rest, and keeps no tokens once
-// one is found, so that a file of random bytes costs no more than its
-// size.
-func lexAll(filename, src string, diags *Diagnostics) ([]lexer.Token, bool) {
-	lx, err := lexDef.LexString(filename, src)
-	if err != nil {
-		diags.Errorf(Pos{File: filename}, "syntax", "%v", err)
-		return nil, false
-	}
-	var toks []lexer.Token
+// MaxDeclTokens is the most tokens one declaration may have (a table of
+// some ten thousand columns has half as many).
+const MaxDeclTokens = 1 << 17
+
+// scanErrors reports characters that start no token, unterminated quotes,
+// and NUL bytes or invalid UTF-8 inside quotes (which no engine would read
+// as written), and says whether there were none. A UTF-8 byte order mark
+// at the start is skipped. It records at most MaxPrinted-1 errors and then
+// one that counts the rest, so that a file of random bytes costs no more
+// than its size.
+func scanErrors(filename, src string, diags *Diagnostics) bool {
+	sc := newScanner(filename, src)
 	errs, more := 0, 0
 	var morePos Pos
-	report := func(p lexer.Position, format string, args ...any) *Diagnostic {
-		errs++
-		if errs >= MaxPrinted { // the last place is for the count
-			if more == 0 {
-				morePos = pos(p)
-			}
-			more++
-			return &Diagnostic{} // counted, not kept
+	// keep counts an error at offset off and says whether to record it
+	// (its message is not even formatted when it is only counted).
+	keep := func(off int) bool {
+		if errs++; errs < MaxPrinted { // the last place is for the count
+			return true
 		}
-		return diags.Errorf(pos(p), "syntax", format, args...)
+		if more == 0 {
+			morePos = pos(sc.posOf(off))
+		}
+		more++
+		return false
 	}
 	for {
-		t, err := lx.Next()
-		if err != nil {
-			diags.Errorf(Pos{File: filename}, "syntax", "%v", err)
-			return nil, false
-		}
-		if t.EOF() {
-			break
-		}
-		switch t.Type {
-		case symbols["Whitespace"], symbols["Comment"]:
-			continue
-		case symbols["Unterminated"]:
-			q := t.Value[:1]
-			report(t.Pos, "unterminated %s", quoteKind(q)).Suggestion =
-				fmt.Sprintf("close it with %s on the same line", q)
-			continue
-		case symbols["Bad"]:
-			if t.Pos.Offset == 0 && t.Value == "\uFEFF" {
+		t := sc.scan()
+		text := src[t.start:t.end]
+		switch t.typ {
+		case lexer.EOF:
+			if more > 0 {
+				diags.Errorf(morePos, "too-many", "%d more errors like the ones above from here on are not listed", more).Suggestion =
+					"is this a model file? fix the first errors and check again"
+			}
+			return errs == 0
+		case tokUnterminated:
+			if keep(t.start) {
+				diags.Errorf(pos(sc.posOf(t.start)), "syntax", "unterminated %s", quoteKind(text[:1])).Suggestion =
+					fmt.Sprintf("close it with %s on the same line", text[:1])
+			}
+		case tokBad:
+			if t.start == 0 && text == "\uFEFF" {
 				continue // a byte order mark
 			}
-			report(t.Pos, "unexpected character %q", t.Value).Suggestion =
-				"strings are written in single quotes, names with letters, digits and _ (or in backquotes)"
-			continue
-		case symbols["String"], symbols["QIdent"], symbols["DString"]:
-			if at, what := badText(t.Value); at >= 0 {
-				p := t.Pos
-				p.Advance(t.Value[:at])
-				report(p, "%s inside a %s", what, quoteKind(t.Value[:1])).Suggestion =
+			if keep(t.start) {
+				diags.Errorf(pos(sc.posOf(t.start)), "syntax", "unexpected character %q", text).Suggestion =
+					"strings are written in single quotes, names with letters, digits and _ (or in backquotes)"
+			}
+		case tokString, tokQIdent, tokDString:
+			if at := badText(text); at >= 0 && keep(t.start+at) {
+				p := sc.posOf(t.start)
+				p.Advance(text[:at])
+				diags.Errorf(pos(p), "syntax", "%s inside a %s", badByte(text[at]), quoteKind(text[:1])).Suggestion =
 					"remove it: no warehouse engine reads it as written"
-				continue
 			}
 		}
-		if errs == 0 {
-			toks = append(toks, t)
-		}
 	}
-	if more > 0 {
-		diags.Errorf(morePos, "too-many", "%d more errors like the ones above from here on are not listed", more).Suggestion =
-			"is this a model file? fix the first errors and check again"
-	}
-	if errs > 0 {
-		return nil, false
-	}
-	return toks, true
 }
 
-// badText finds the first NUL byte or invalid UTF-8 sequence in s: its
-// byte offset and what it is, or -1.
-func badText(s string) (int, string) {
+// badText is the byte offset of the first NUL byte or invalid UTF-8
+// sequence in s, or -1.
+func badText(s string) int {
 	for i, r := range s {
-		switch {
-		case r == 0:
-			return i, "a NUL byte"
-		case r == utf8.RuneError:
+		if r == 0 {
+			return i
+		}
+		if r == utf8.RuneError {
 			if _, size := utf8.DecodeRuneInString(s[i:]); size == 1 {
-				return i, fmt.Sprintf("invalid UTF-8 (byte 0x%02X)", s[i])
+				return i
 			}
 		}
 	}
-	return -1, ""
+	return -1
+}
+
+// badByte says what the byte badText found is.
+func badByte(c byte) string {
+	if c == 0 {
+		return "a NUL byte"
+	}
+	return fmt.Sprintf("invalid UTF-8 (byte 0x%02X)", c)
 }
 
 func quoteKind(q string) string {
@@ -165,65 +159,118 @@ func quoteKind(q string) string {
 	return "double-quoted text"
 }
 
-// splitDecls cuts the token stream before each `table`, `measure` and
+// declReader cuts the token stream before each `table`, `measure` and
 // `view` keyword (they cannot appear inside a declaration, except after a
 // dot), so that one bad declaration does not hide errors in the ones after
 // it.
-func splitDecls(toks []lexer.Token) [][]lexer.Token {
-	var chunks [][]lexer.Token
-	start := 0
-	for i, t := range toks {
-		if i > start && t.Type == symbols["Keyword"] && isDeclKeyword(t.Value) &&
-			!(toks[i-1].Type == symbols["Op"] && toks[i-1].Value == ".") {
-			chunks = append(chunks, toks[start:i])
-			start = i
+type declReader struct {
+	sc      *scanner
+	buf     []lexer.Token
+	ahead   span // the first token of the next declaration
+	started bool
+}
+
+// next returns the tokens of the next declaration followed by an EOF
+// token, and whether it may be parsed: a declaration nesting deeper than
+// MaxNesting or longer than MaxDeclTokens is reported and skipped (the
+// rest of it only scanned). It returns nil at the end of the file. The
+// tokens are valid until the next call.
+func (d *declReader) next(diags *Diagnostics) ([]lexer.Token, bool) {
+	if !d.started {
+		d.ahead, d.started = d.sc.significant(), true
+	}
+	if d.ahead.typ == lexer.EOF {
+		return nil, false
+	}
+	d.buf = d.buf[:0]
+	first := d.sc.posOf(d.ahead.start)
+	var lim limits
+	ok, afterDot := true, false
+	for i, t := 0, d.ahead; ; i, t = i+1, d.sc.significant() {
+		text := d.sc.src[t.start:t.end]
+		if t.typ == lexer.EOF || i > 0 && !afterDot && t.typ == tokKeyword && isDeclKeyword(text) {
+			d.ahead = t
+			break
+		}
+		afterDot = t.typ == tokOp && text == "."
+		if !ok {
+			continue
+		}
+		tok := d.sc.token(t)
+		if ok = lim.check(tok, first, diags); ok {
+			if len(d.buf) == cap(d.buf) { // doubling (append grows a large slice by a quarter), with room for EOF
+				d.buf = append(make([]lexer.Token, 0, min(2*cap(d.buf)+64, MaxDeclTokens+1)), d.buf...)
+			}
+			d.buf = append(d.buf, tok)
 		}
 	}
-	if start < len(toks) {
-		chunks = append(chunks, toks[start:])
+	if !ok {
+		return d.buf, false
 	}
-	return chunks
+	return withEOF(d.buf), true
+}
+
+// withEOF appends an EOF token just after the last of toks (not empty).
+func withEOF(toks []lexer.Token) []lexer.Token {
+	last := toks[len(toks)-1]
+	eof := lexer.EOFToken(last.Pos)
+	eof.Pos.Offset += len(last.Value)
+	eof.Pos.Column += len(last.Value)
+	return append(toks, eof)
+}
+
+// limits follows the depth of parentheses and brackets and the number of
+// tokens of one declaration or expression, so that nesting deeper than
+// MaxNesting and more than MaxDeclTokens tokens are refused before the
+// recursive parser sees them.
+type limits struct{ depth, tokens int }
+
+// check counts t, the next token after first, and reports an error and
+// returns false when it goes past a limit.
+func (l *limits) check(t lexer.Token, first lexer.Position, diags *Diagnostics) bool {
+	if l.tokens++; l.tokens > MaxDeclTokens {
+		diags.Errorf(pos(first), "too-long", "this declaration has more than %d tokens", MaxDeclTokens).Suggestion =
+			"split it into several declarations"
+		return false
+	}
+	if t.Type != tokOp {
+		return true
+	}
+	switch t.Value {
+	case "(", "[", "{":
+		if l.depth++; l.depth > MaxNesting {
+			diags.Errorf(pos(t.Pos), "too-deep",
+				"expressions nest more than %d levels deep here", MaxNesting).Suggestion =
+				"split the expression into several measures or derived columns"
+			return false
+		}
+	case ")", "]", "}":
+		l.depth--
+	}
+	return true
 }
 
 func isDeclKeyword(v string) bool {
 	return strings.EqualFold(v, "table") || strings.EqualFold(v, "measure") || strings.EqualFold(v, "view")
 }
 
-// checkChunk rejects nesting deeper than MaxNesting before the recursive
-// parser sees it.
-func checkChunk(chunk []lexer.Token, diags *Diagnostics) bool {
-	depth := 0
-	for _, t := range chunk {
-		if t.Type != symbols["Op"] {
-			continue
-		}
-		switch t.Value {
-		case "(", "[", "{":
-			depth++
-			if depth > MaxNesting {
-				diags.Errorf(pos(t.Pos), "too-deep",
-					"expressions nest more than %d levels deep here", MaxNesting).Suggestion =
-					"split the expression into several measures or derived columns"
-				return false
-			}
-		case ")", "]", "}":
-			depth--
-		}
-	}
-	return true
-}
-
-// parseChunk parses one declaration; a panic inside the parser library
-// becomes an error at the declaration rather than a crash.
-func parseChunk(pl *lexer.PeekingLexer) (sf *syntaxFile, err error) {
+// parseTokens parses tokens (ending in EOF) with p; a panic inside the
+// parser library becomes an error at the tokens' start rather than a
+// crash.
+func parseTokens[T any](p *participle.Parser[T], toks []lexer.Token) (v *T, err error) {
 	defer func() {
 		if r := recover(); r != nil {
-			err = fmt.Errorf("the parser failed on this declaration (%v)", r)
+			err = fmt.Errorf("the parser failed here (%v)", r)
 		}
 	}()
-	return parser.ParseFromLexer(pl)
+	pl, err := lexer.Upgrade(&sliceLexer{toks: toks})
+	if err != nil {
+		return nil, err
+	}
+	return p.ParseFromLexer(pl)
 }
 
+// sliceLexer hands tokens already scanned to the parser.
 type sliceLexer struct {
 	toks []lexer.Token
 	i    int
@@ -321,37 +368,31 @@ func ParseExpr(name, src string) (Expr, Diagnostics) {
 		diags.Errorf(Pos{File: name}, "too-large", "the expression is too long")
 		return nil, diags
 	}
-	toks, ok := lexAll(name, src, &diags)
-	if !ok {
+	if !scanErrors(name, src, &diags) {
 		return nil, diags
+	}
+	sc := newScanner(name, src)
+	var toks []lexer.Token
+	var lim limits
+	var first lexer.Position
+	for t := sc.significant(); t.typ != lexer.EOF; t = sc.significant() {
+		tok := sc.token(t)
+		if len(toks) == 0 {
+			first = tok.Pos
+		}
+		if !lim.check(tok, first, &diags) {
+			return nil, diags
+		}
+		toks = append(toks, tok)
 	}
 	if len(toks) == 0 {
 		diags.Errorf(Pos{File: name, Line: 1, Col: 1}, "syntax", "empty expression")
 		return nil, diags
 	}
-	if !checkChunk(toks, &diags) {
-		return nil, diags
-	}
-	last := toks[len(toks)-1]
-	eof := lexer.EOFToken(last.Pos)
-	eof.Pos.Offset += len(last.Value)
-	eof.Pos.Column += len(last.Value)
-	pl, err := lexer.Upgrade(&sliceLexer{toks: append(toks, eof)})
+	se, err := parseTokens(exprParser, withEOF(toks))
 	if err == nil {
-		var se *syntaxExpr
-		if se, err = parseExprSafely(pl); err == nil {
-			return se.expr(), nil
-		}
+		return se.expr(), nil
 	}
 	diags.Add(syntaxDiag(err, toks[0].Pos))
 	return nil, diags
-}
-
-func parseExprSafely(pl *lexer.PeekingLexer) (se *syntaxExpr, err error) {
-	defer func() {
-		if r := recover(); r != nil {
-			err = fmt.Errorf("the parser failed on this expression (%v)", r)
-		}
-	}()
-	return exprParser.ParseFromLexer(pl)
 }

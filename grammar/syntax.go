@@ -19,31 +19,6 @@ var keywords = []string{
 	"nonadditive", "semiadditive", "date", "timestamp", "required",
 }
 
-func keywordPattern() string {
-	p := `(?i)(?:`
-	for i, k := range keywords {
-		if i > 0 {
-			p += "|"
-		}
-		p += k
-	}
-	return p + `)\b`
-}
-
-var lexDef = lexer.MustSimple([]lexer.SimpleRule{
-	{Name: "Comment", Pattern: `--[^\n]*`},
-	{Name: "Whitespace", Pattern: `[ \t\r\n]+`},
-	{Name: "QIdent", Pattern: "`[^`\n]+`"},
-	{Name: "String", Pattern: `'(?:[^']|'')*'`},
-	{Name: "DString", Pattern: `"(?:[^"\n]|"")*"`},
-	{Name: "Number", Pattern: `(?:[0-9]+(?:\.[0-9]*)?|\.[0-9]+)(?:[eE][+-]?[0-9]+)?`},
-	{Name: "Keyword", Pattern: keywordPattern()},
-	{Name: "Ident", Pattern: `[A-Za-z_][A-Za-z0-9_]*`},
-	{Name: "Op", Pattern: `->|\|\||<=|>=|<>|!=|[-+*/=<>(){}\[\],;.]`},
-	{Name: "Unterminated", Pattern: "['\"`][^\n]*"},
-	{Name: "Bad", Pattern: `.`},
-})
-
 var parser = participle.MustBuild[syntaxFile](
 	participle.Lexer(lexDef),
 	participle.CaseInsensitive("Keyword"),
