@@ -146,7 +146,7 @@ func (c *syntaxColumn) decl() *ColumnDecl {
 func (e *syntaxExpr) expr() Expr {
 	x := e.Left.expr()
 	for _, w := range e.Where {
-		x = &Narrow{Pos: pos(w.Pos), X: x, Pred: w.expr()}
+		x = &Narrow{Pos: pos(w.Left.Left.Pos), X: x, Pred: w.expr()}
 	}
 	return x
 }
@@ -154,7 +154,7 @@ func (e *syntaxExpr) expr() Expr {
 func (e *syntaxOr) expr() Expr {
 	x := e.Left.expr()
 	for _, r := range e.Right {
-		x = &Binary{Pos: pos(r.Pos), Op: "or", L: x, R: r.expr()}
+		x = &Binary{Pos: pos(r.Left.Pos), Op: "or", L: x, R: r.expr()}
 	}
 	return x
 }

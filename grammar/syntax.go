@@ -143,21 +143,18 @@ type syntaxTotals struct {
 
 // Expr = Or ("where" Or)* .  (narrowing binds loosest)
 type syntaxExpr struct {
-	Pos   lexer.Position
 	Left  *syntaxOr   `parser:"@@"`
 	Where []*syntaxOr `parser:"(\"where\" @@)*"`
 }
 
 // Or = And ("or" And)* .
 type syntaxOr struct {
-	Pos   lexer.Position
 	Left  *syntaxAnd   `parser:"@@"`
 	Right []*syntaxAnd `parser:"(\"or\" @@)*"`
 }
 
 // And = Not ("and" Not)* .
 type syntaxAnd struct {
-	Pos   lexer.Position
 	Left  *syntaxNot   `parser:"@@"`
 	Right []*syntaxNot `parser:"(\"and\" @@)*"`
 }
@@ -171,7 +168,6 @@ type syntaxNot struct {
 
 // Cmp = Sum (CmpOp Sum | IsNull | In | Between)? .
 type syntaxCmp struct {
-	Pos     lexer.Position
 	Left    *syntaxSum     `parser:"@@"`
 	Op      *syntaxOp      `parser:"( @@"`
 	Right   *syntaxSum     `parser:"  @@"`
@@ -209,7 +205,6 @@ type syntaxBetween struct {
 
 // Sum = Product (("+" | "-" | "||") Product)* .
 type syntaxSum struct {
-	Pos  lexer.Position
 	Left *syntaxProduct `parser:"@@"`
 	Rest []*syntaxSumOp `parser:"@@*"`
 }
@@ -223,7 +218,6 @@ type syntaxSumOp struct {
 
 // Product = Unary (("*" | "/") Unary)* .
 type syntaxProduct struct {
-	Pos  lexer.Position
 	Left *syntaxUnary       `parser:"@@"`
 	Rest []*syntaxProductOp `parser:"@@*"`
 }
@@ -244,7 +238,6 @@ type syntaxUnary struct {
 
 // Postfix = Primary ("[" Edit (";" Edit)* "]")* .
 type syntaxPostfix struct {
-	Pos     lexer.Position
 	Primary *syntaxPrimary    `parser:"@@"`
 	Edits   []*syntaxEditList `parser:"@@*"`
 }
