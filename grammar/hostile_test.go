@@ -43,6 +43,8 @@ var hostileCases = []hostileCase{
 		return repeatTo("measure m = count(*) where t.x = '", "ab''", "'\n", n)
 	}, nil, 1.5},
 	{"comments", func(n int) string { return repeatTo("", "-- a comment line\n", "", n) }, nil, 0.1},
+	{"declaration-keywords", func(n int) string { return repeatTo("", "table ", "", n) },
+		append(repeatCodes("syntax", MaxPrinted-1), "too-many"), 0.1},
 	{"many-small-tables", func(n int) string { return repeatTo("", "table t { x integer }\n", "", n/64) }, nil, 1500},
 }
 

@@ -31,7 +31,8 @@ func EBNF() string { return parser.String() }
 // it holds: the file is scanned once for characters and quotes the
 // language does not accept (if there are any, only those are reported),
 // then again, one declaration at a time, each handed to the parser as
-// soon as its last token is read. A declaration nesting deeper than
+// soon as its last token is read; after MaxPrinted-1 errors the rest is
+// not parsed. A declaration nesting deeper than
 // MaxNesting or longer than MaxDeclTokens is refused before the parser
 // sees it, so no more than MaxDeclTokens tokens are held at once.
 func Parse(filename, src string) (*File, Diagnostics) {
@@ -47,6 +48,12 @@ func Parse(filename, src string) (*File, Diagnostics) {
 	}
 	d := declReader{sc: newScanner(filename, src)}
 	for {
+		if len(diags) >= MaxPrinted-1 && d.started && d.ahead.typ != lexer.EOF {
+			diags.Errorf(pos(d.sc.posOf(d.ahead.start)), "too-many",
+				"the file is not parsed from here on, after %d syntax errors", len(diags)).Suggestion =
+				tooManyHint
+			return f, diags
+		}
 		chunk, ok := d.next(&diags)
 		if chunk == nil {
 			return f, diags
@@ -64,6 +71,10 @@ func Parse(filename, src string) (*File, Diagnostics) {
 		}
 	}
 }
+
+// tooManyHint is the hint of the diagnostic that stands for the errors
+// not listed.
+const tooManyHint = "is this a model file? fix the first errors and check again"
 
 // MaxDeclTokens is the most tokens one declaration may have (a table of
 // some ten thousand columns has half as many).
@@ -98,7 +109,7 @@ func scanErrors(filename, src string, diags *Diagnostics) bool {
 		case lexer.EOF:
 			if more > 0 {
 				diags.Errorf(morePos, "too-many", "%d more errors like the ones above from here on are not listed", more).Suggestion =
-					"is this a model file? fix the first errors and check again"
+					tooManyHint
 			}
 			return errs == 0
 		case tokUnterminated:
