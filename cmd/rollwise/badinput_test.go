@@ -98,6 +98,7 @@ func shellWords(t *testing.T, s string) []string {
 // reaches stderr, and the output stays bounded. It reports the counts
 // that docs/testing.md quotes.
 func TestBadInputCorpus(t *testing.T) {
+	t.Parallel()
 	cases := readBadCases(t)
 	clean := 0
 	for _, c := range cases {

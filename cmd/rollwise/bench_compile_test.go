@@ -162,6 +162,7 @@ func synthQuery(n int) model.QuerySpec {
 // TestSyntheticModel checks that the benchmarks' synthetic model loads
 // and that the 50-measure query plans, on a smaller model.
 func TestSyntheticModel(t *testing.T) {
+	t.Parallel()
 	const n = 500
 	m, err := loadSynth(synthModel(n))
 	if err != nil {

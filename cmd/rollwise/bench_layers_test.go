@@ -93,6 +93,7 @@ func layeredQuery(n, k int) model.QuerySpec {
 // deepest measure of one block (about 10^12 paths) and of two blocks,
 // each alone and all together.
 func TestLayeredSQLIsLinear(t *testing.T) {
+	t.Parallel()
 	m, err := loadSynth(layeredModel(4*layeredBlock, false))
 	if err != nil {
 		t.Fatal(err)
@@ -168,6 +169,7 @@ func layeredData(t *testing.T, dir string) {
 // DuckDB and compares every value with the reference evaluator, which
 // evaluates each measure cell by cell without SQL.
 func TestLayeredModelRuns(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	const n = 2 * layeredBlock
 	if err := os.WriteFile(filepath.Join(dir, casegen.ModelFile), []byte(layeredModel(n, true)), 0o644); err != nil {
@@ -201,6 +203,7 @@ func TestLayeredModelRuns(t *testing.T) {
 // depth is 30 on SQLite and PostgreSQL and 24 on MariaDB, where deeper
 // nesting gets slow (docs/benchmarks.md).
 func TestLayeredModelLive(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, casegen.ModelFile), []byte(layeredModel(layeredBlock, true)), 0o644); err != nil {
 		t.Fatal(err)

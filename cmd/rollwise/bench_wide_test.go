@@ -185,6 +185,7 @@ func wideQueries(r *engineRunner) ([]string, error) {
 // the hand-fused query and the naive plan of the wide report return the
 // same rows, so that the benchmark compares equals.
 func TestWideReportAgrees(t *testing.T) {
+	t.Parallel()
 	if testing.Short() {
 		t.Skip("uses TPC-H data at scale factor 0.01; skipped with -short")
 	}

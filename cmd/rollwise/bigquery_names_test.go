@@ -13,6 +13,7 @@ import (
 // would be spelled alike must be refused, naming both, never rendered as
 // one ambiguous column; distinct spellings still render.
 func TestBigQueryKeySpellingsThatCollide(t *testing.T) {
+	t.Parallel()
 	model := filepath.Join(t.TempDir(), "beds.roll")
 	src := `table beds {
   key id

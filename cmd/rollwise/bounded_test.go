@@ -36,6 +36,7 @@ func checkWithin(t *testing.T, path string) (code int, stderr string) {
 // TestModelReadStopsAtCap: a model path that leads to an endless file is
 // read to the cap plus one byte, then refused, instead of filling memory.
 func TestModelReadStopsAtCap(t *testing.T) {
+	t.Parallel()
 	if _, err := os.Stat("/dev/zero"); err != nil {
 		t.Skip("no /dev/zero")
 	}
@@ -52,6 +53,7 @@ func TestModelReadStopsAtCap(t *testing.T) {
 // TestManyErrorsAreCapped: 256 KiB (21.6 s before) of characters that start no token gives
 // at most grammar.MaxPrinted diagnostics, the last one counting the rest.
 func TestManyErrorsAreCapped(t *testing.T) {
+	t.Parallel()
 	path := filepath.Join(t.TempDir(), "hash.roll")
 	if err := os.WriteFile(path, bytes.Repeat([]byte("#"), 1<<18), 0o644); err != nil {
 		t.Fatal(err)
@@ -89,6 +91,7 @@ func chainModel(n int) string {
 // about a second (it took over 120 s: every table walked the rest of the
 // chain, copying its path at each step).
 func TestLinkChainIsQuick(t *testing.T) {
+	t.Parallel()
 	path := filepath.Join(t.TempDir(), "chain.roll")
 	if err := os.WriteFile(path, []byte(chainModel(10_000)), 0o644); err != nil {
 		t.Fatal(err)

@@ -126,6 +126,7 @@ func pixelVariety(img image.Image) (colours, inked, total int) {
 // TestBrowserHarnessSeesConsoleErrors proves the console capture works:
 // a page that logs an error and throws must be caught.
 func TestBrowserHarnessSeesConsoleErrors(t *testing.T) {
+	t.Parallel()
 	page := filepath.Join(t.TempDir(), "bad.html")
 	os.WriteFile(page, []byte(`<!DOCTYPE html><html><body><script>console.error("boom"); missingFunction();</script></body></html>`), 0o644)
 	_, console := chromium(t, page, "--dump-dom")
@@ -140,6 +141,7 @@ func TestBrowserHarnessSeesConsoleErrors(t *testing.T) {
 }
 
 func TestBrowserShowsTheCatalog(t *testing.T) {
+	t.Parallel()
 	browserPath(t)
 	dir := writeCatalog(t, catalogModels...)
 	// takings builds on revenue and fees, which read sales and repairs.

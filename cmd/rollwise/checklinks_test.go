@@ -65,6 +65,7 @@ const saleSixMissing = "shop.roll:4:25: error: link sales.store_id -> stores.id 
 // check --required counts, per link declared required, the rows that find
 // nothing, and fails on the links that have some.
 func TestCheckRequiredLinks(t *testing.T) {
+	t.Parallel()
 	broken, kept := writeRequiredShop(t, true), writeRequiredShop(t, false)
 	data := filepath.Join("..", "..", "testdata", "exec")
 	code, msg := checkCmd(broken, "--data", data)

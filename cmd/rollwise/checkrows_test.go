@@ -45,6 +45,7 @@ var stockData = map[string]string{
 // finding names the table, the columns, an example value and the count.
 // Before, check --data looked at required links only and said ok.
 func TestCheckDataRepeatedKeys(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	if err := os.WriteFile(filepath.Join(dir, "stock.roll"), []byte(stockModel), 0o644); err != nil {
 		t.Fatal(err)
@@ -74,8 +75,8 @@ func TestCheckDataRepeatedKeys(t *testing.T) {
 // finding there would be a false alarm. Then one row of a random table is
 // repeated, and check must name that table's key. 10 cases by default.
 func TestCheckDataOnGeneratedCases(t *testing.T) {
-	diffChecks(10)
-	rapid.Check(t, func(rt *rapid.T) {
+	t.Parallel()
+	checkCases(t, 10, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		dir := t.TempDir()
 		if err := c.Write(dir); err != nil {

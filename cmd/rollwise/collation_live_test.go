@@ -21,6 +21,7 @@ import (
 // memory: _ci is case-insensitive; every MariaDB collation but the
 // _nopad_ ones is PAD SPACE.)
 func TestRunDSNCautionsOnLooseCollation(t *testing.T) {
+	t.Parallel()
 	e := livetest.Empty(t, "mysql", "collation")
 	ctx := context.Background()
 	for _, stmt := range []string{

@@ -33,6 +33,7 @@ func derivedChainModel(n int) string {
 // deepest column and a joined table (whose join the planner decides by
 // asking whether the filter rejects NULLs: once per column, too).
 func TestDerivedChainOncePerRow(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	model := filepath.Join(dir, "chain.roll")
 	if err := os.WriteFile(model, []byte(derivedChainModel(40)), 0o644); err != nil {

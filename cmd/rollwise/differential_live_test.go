@@ -45,11 +45,11 @@ const (
 // TestDifferentialLive runs the differential property on every live
 // engine.
 func TestDifferentialLive(t *testing.T) {
+	t.Parallel()
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
 			e := livetest.Empty(t, name, "diff_"+name)
-			diffChecks(diffLiveChecks)
-			st := diffRun(t, casegen.DefaultOptions, e)
+			st := diffRun(t, diffLiveChecks, casegen.DefaultOptions, e)
 			all := st.compared.Load() + st.refused.Load() + st.skipped.Load() + st.known.Load()
 			if all >= diffLiveMin && float64(st.compared.Load()) < diffLiveShare*float64(all) {
 				t.Errorf("%s compared only %d of %d queries (refused %d, not supported %d): under %.0f%%",

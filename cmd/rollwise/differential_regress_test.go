@@ -26,6 +26,7 @@ type diffCase struct {
 // while it still fails; one that passes while so marked is reported so
 // that the mark (and the matching entry of diffKnownBugs) goes.
 func TestDifferentialRegressions(t *testing.T) {
+	t.Parallel()
 	for _, dir := range diffRegressionDirs(t) {
 		t.Run(filepath.Base(dir), func(t *testing.T) {
 			diffRegression(t, dir, nil)
@@ -37,6 +38,7 @@ func TestDifferentialRegressions(t *testing.T) {
 // engine too (a case whose construct the engine lacks must be refused
 // cleanly).
 func TestDifferentialRegressionsLive(t *testing.T) {
+	t.Parallel()
 	dirs := diffRegressionDirs(t)
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {

@@ -38,7 +38,7 @@ import (
 // (integer, decimal) equal exactly, float measures within diffFloatTolerance.
 //
 // `go test ./cmd/rollwise` runs 60 cases of each differential property
-// and 40 of each metamorphic one (see diffChecks); a long campaign:
+// and 40 of each metamorphic one (see checkCases); a long campaign:
 //
 //	go test ./cmd/rollwise -run 'TestDifferential' -rapid.checks=20000 -timeout=0 -v
 //
@@ -83,7 +83,7 @@ func diffKnownBug(c *casegen.Case, q casegen.Query, msg string) string {
 }
 
 // diffUserChecks reports whether the number of cases was given
-// (-rapid.checks or RAPID_CHECKS); decided once, before diffChecks sets
+// (-rapid.checks or RAPID_CHECKS); decided once, before checkCases sets
 // the flag itself.
 var diffUserChecks = sync.OnceValue(func() bool {
 	given := false
@@ -92,29 +92,44 @@ var diffUserChecks = sync.OnceValue(func() bool {
 	return given || env
 })
 
-// diffChecks makes the next property run n cases unless the number was
+// checkCases runs the property on n random cases unless the number was
 // given: the default budget of `go test ./...` (a few hundred cases in
-// all; -short divides by five).
-func diffChecks(n int) {
+// all; -short divides by five). rapid reads -rapid.checks once, when a
+// check starts, and the properties run in parallel: the flag is held
+// from setting it until the property's first case, so each reads its own.
+func checkCases(t *testing.T, n int, prop func(*rapid.T)) {
+	t.Helper()
+	rapidBudget.Lock()
+	var once sync.Once
+	release := func() { once.Do(rapidBudget.Unlock) }
+	defer release()
 	if !diffUserChecks() {
 		flag.Set("rapid.checks", fmt.Sprint(n))
 	}
+	rapid.Check(t, func(rt *rapid.T) {
+		release()
+		prop(rt)
+	})
 }
+
+// rapidBudget guards -rapid.checks between checkCases setting it and
+// rapid reading it.
+var rapidBudget sync.Mutex
 
 // TestDifferentialCore compares measures without cell edits or
 // per-grain aggregates.
 func TestDifferentialCore(t *testing.T) {
-	diffChecks(60)
+	t.Parallel()
 	o := casegen.DefaultOptions
 	o.Advanced = false
-	diffRun(t, o, nil)
+	diffRun(t, 60, o, nil)
 }
 
 // TestDifferentialEditsAndPerGrain compares measures over every
 // construct, cell edits and per-grain aggregates included.
 func TestDifferentialEditsAndPerGrain(t *testing.T) {
-	diffChecks(60)
-	diffRun(t, casegen.DefaultOptions, nil)
+	t.Parallel()
+	diffRun(t, 60, casegen.DefaultOptions, nil)
 }
 
 // openCase writes a drawn case (c, or a case that embeds it: w) into a
@@ -134,11 +149,11 @@ func openCase(t *testing.T, rt *rapid.T, w interface{ Write(string) error }, c *
 	return dc
 }
 
-// diffRun checks the property on DuckDB, or on the live engine when live
+// diffRun checks the property on n cases on DuckDB, or on the live engine when live
 // is set (each case's tables are loaded into its database).
-func diffRun(t *testing.T, o casegen.Options, live *livetest.Engine) *diffStats {
+func diffRun(t *testing.T, n int, o casegen.Options, live *livetest.Engine) *diffStats {
 	var st diffStats
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, n, func(rt *rapid.T) {
 		c := casegen.Generator(o).Draw(rt, "case")
 		dc := openCase(t, rt, c, c)
 		defer dc.close()

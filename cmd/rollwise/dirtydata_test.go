@@ -13,6 +13,7 @@ import (
 // table that declares its NULL texts (`with null "NA", "-"`) loads them as
 // NULL, in every column type, while other texts are still refused.
 func TestDirtyDataAllAtOnceAndNullTexts(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	write := func(name, text string) string {
 		t.Helper()

@@ -55,6 +55,7 @@ var catalogModels = []string{"../../testdata/exec/shop.roll", "../../testdata/ex
 var hrefRE = regexp.MustCompile(`(?:href|src)="([^"]*)"`)
 
 func TestDocsCatalogOfTheShop(t *testing.T) {
+	t.Parallel()
 	dir := writeCatalog(t, catalogModels...)
 	files := readTree(t, dir)
 	for _, want := range []string{"index.html", "style.css", "catalog.json", "measure-takings.html", "measure-revenue.html", "table-sales.html"} {
@@ -116,6 +117,7 @@ func TestDocsCatalogOfTheShop(t *testing.T) {
 }
 
 func TestDocsIsDeterministicAndReplacesItsOwnFolder(t *testing.T) {
+	t.Parallel()
 	a := readTree(t, writeCatalog(t, catalogModels...))
 	dir := writeCatalog(t, catalogModels...)
 	b := readTree(t, dir)
@@ -147,6 +149,7 @@ func TestDocsIsDeterministicAndReplacesItsOwnFolder(t *testing.T) {
 }
 
 func TestDocsRefusesAFolderItDidNotWrite(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	notes := filepath.Join(dir, "notes.txt")
 	if err := os.WriteFile(notes, []byte("mine"), 0o644); err != nil {
@@ -165,6 +168,7 @@ func TestDocsRefusesAFolderItDidNotWrite(t *testing.T) {
 }
 
 func TestDocsUsageAndModelErrors(t *testing.T) {
+	t.Parallel()
 	if code, _, stderr := mainRun("docs", "../../testdata/exec/shop.roll"); code != exitUsage || !strings.Contains(stderr, "--out DIR") {
 		t.Errorf("no --out: exit %d\n%s", code, stderr)
 	}
@@ -190,6 +194,7 @@ const hostileCatalogModel = "table `<b>t</b>` from \"t.csv\" {\n" +
 	"measure twice = `<script>alert(1)</script>` * 2\n"
 
 func TestDocsEscapesHostileNames(t *testing.T) {
+	t.Parallel()
 	model := filepath.Join(t.TempDir(), "hostile.roll")
 	if err := os.WriteFile(model, []byte(hostileCatalogModel), 0o644); err != nil {
 		t.Fatal(err)

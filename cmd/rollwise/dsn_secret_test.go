@@ -51,6 +51,7 @@ func secretDSNs() []string {
 }
 
 func TestDSNPasswordInNoOutput(t *testing.T) {
+	t.Parallel()
 	commands := map[string][]string{
 		"run":    {"run", shopModel, "-m", "revenue", "-b", "stores.region"},
 		"verify": {"verify", shopModel, "--sql", "../../testdata/verify/right_grand.sql", "-m", "revenue", "-b", "sales.item", "--totals", "grand"},

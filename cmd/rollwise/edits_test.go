@@ -18,6 +18,7 @@ func runEdits(t *testing.T, args ...string) []map[string]any {
 // Every edit form at the detail rows and each rollup level, with a filter
 // on the edited column (sales.item <> 'tulip' keeps rows 1, 2, 3, 5, 6).
 func TestEditsRollupFilterOnEditedColumn(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "revenue,item_share,shown_share,rose_rev,all_rev,shown_rev,store_avg,big_stores",
 		"-b", "stores.region,sales.item", "--totals", "rollup", "-w", "sales.item <> 'tulip'")
 	item := []string{"sales.item"}
@@ -52,6 +53,7 @@ func TestEditsRollupFilterOnEditedColumn(t *testing.T) {
 // rows 1, 2, 3). region_share and no_store drop that filter; item_share
 // and rose_rev keep it.
 func TestEditsAllTotalsFilterOnOtherColumn(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "revenue,item_share,region_share,rose_rev,no_store,store_avg,best_region",
 		"-b", "stores.region,sales.item", "--totals", "all", "-w", "stores.region = 'North'")
 	expectRows(t, got, []row{
@@ -75,6 +77,7 @@ func TestEditsAllTotalsFilterOnOtherColumn(t *testing.T) {
 // A pinned measure grouped by its own column shows the pinned value on
 // every row and at the total.
 func TestPinGroupedByItsOwnColumn(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "rose_rev,rose_fern,store_total_avg", "-b", "sales.item", "--totals", "grand")
 	expectRows(t, got, []row{
 		// store_total_avg: stores selling fern (1, 9) at their all-item revenue: (20+20)/2.
@@ -88,6 +91,7 @@ func TestPinGroupedByItsOwnColumn(t *testing.T) {
 // Under a filter on the edited column the two shares differ, and both are
 // right: of everything (drop) and of what the query keeps (ungroup).
 func TestShareOfEverythingAndOfWhatIsShown(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "revenue,item_share,shown_share", "-b", "sales.item", "-w", "sales.item in ('rose', 'fern')", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"sales.item": "fern", "revenue": "30", "item_share": 0.5, "shown_share": 0.625}, // 30/60; 30/48
@@ -99,6 +103,7 @@ func TestShareOfEverythingAndOfWhatIsShown(t *testing.T) {
 // Per-grain totals are re-evaluated over the whole total cell, never
 // averaged or added from the rows; edits and narrowings nest both ways.
 func TestPerGrainAndNestingAtTotals(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "store_avg,big_stores,store_items,item_avg,big_items,fee_share,north_share,north_everywhere,dropped_north,chain_store_avg",
 		"-b", "stores.region", "--totals", "grand")
 	expectRows(t, got, []row{
@@ -122,6 +127,7 @@ func TestPerGrainAndNestingAtTotals(t *testing.T) {
 
 // An edit on a column reached through two links (sales -> stores -> districts).
 func TestEditThroughTwoLinks(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "revenue,area_share", "-b", "districts.area", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"districts.area": "Coast", "revenue": "20", "area_share": 20.0 / 60}, // rows 3, 4, 5: 5+12+3
@@ -135,6 +141,7 @@ func TestEditThroughTwoLinks(t *testing.T) {
 // as windows over the report's own cells (no second read of the table):
 // the same hand-worked values must come out.
 func TestEditsAsWindows(t *testing.T) {
+	t.Parallel()
 	got := runEdits(t, "-m", "revenue,item_share,shown_share,rose_rev,region_share", "-b", "stores.region,sales.item", "--totals", "rollup")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "sales.item": "fern", "revenue": "10", "item_share": 0.4, "shown_share": 0.4, "rose_rev": "15", "region_share": 10.0 / 30}, // fern: 10+20
@@ -157,6 +164,7 @@ func TestEditsAsWindows(t *testing.T) {
 // Before, not (a or b) was one conjunct that the drop removed whole:
 // 15 / 60 = 0.25.
 func TestNegatedFilterSplitsLikeItsEquivalent(t *testing.T) {
+	t.Parallel()
 	for _, w := range []string{
 		"not (sales.item = 'fern' or stores.region = 'South')",
 		"not sales.item = 'fern' and not stores.region = 'South'",

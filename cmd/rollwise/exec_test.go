@@ -60,6 +60,7 @@ func runJSON(t *testing.T, args ...string) []map[string]any {
 // The total of a ratio is the ratio of the totals: not the sum (1.52) nor
 // the average (0.5067) of the rows' ratios.
 func TestRatioTotalIsReevaluated(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue,cost,margin_rate", "-b", "stores.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "revenue": "25.00", "cost": "12.00", "margin_rate": 0.52, "rolled_up": none},                 // 10+10+5; 4+6+2; 13/25
@@ -71,6 +72,7 @@ func TestRatioTotalIsReevaluated(t *testing.T) {
 
 // A count distinct total is not the sum of the rows' counts (2+2+1 = 5).
 func TestDistinctCountTotal(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "items,lines", "-b", "stores.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "items": 2, "lines": 3},                                     // rose, fern
@@ -82,6 +84,7 @@ func TestDistinctCountTotal(t *testing.T) {
 
 // sum(a*b) is computed row by row and differs from sum(a)*sum(b).
 func TestSumOfProductIsRowByRow(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "qty_sq,qty_product", "-b", "stores.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "qty_sq": 21, "qty_product": 49},   // 16+1+4; 7*7
@@ -95,6 +98,7 @@ func TestSumOfProductIsRowByRow(t *testing.T) {
 // multiplies a row (a naive sales-repairs join would double South's
 // revenue to 30 and its fees to 111).
 func TestTwoIterationTablesNoFanOut(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue,fees,jobs,takings,per_job", "-b", "stores.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "revenue": "25.00", "fees": "30.00", "jobs": 1, "takings": "55.00", "per_job": 30.0},
@@ -107,6 +111,7 @@ func TestTwoIterationTablesNoFanOut(t *testing.T) {
 // Rollup over a snowflake (sales -> stores -> districts): each subtotal is
 // re-evaluated over its own cell, and comes after its group.
 func TestRollupOverSnowflake(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue,units", "-b", "districts.area,sales.item", "--totals", "rollup")
 	area := []string{"sales.item"}
 	both := []string{"districts.area", "sales.item"}
@@ -125,6 +130,7 @@ func TestRollupOverSnowflake(t *testing.T) {
 
 // --totals all: every subset of the groups, each re-evaluated.
 func TestTotalsAll(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "units", "-b", "stores.region,sales.item", "--totals", "all")
 	reg := []string{"stores.region"}
 	expectRows(t, got, []row{
@@ -146,6 +152,7 @@ func TestTotalsAll(t *testing.T) {
 // A --where filter applies to every cell, totals included; a narrowing
 // applies inside its measure only.
 func TestFilterAndNarrowing(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue,roses,rose_share", "-b", "stores.region",
 		"-w", "stores.region = 'North'", "--totals", "grand")
 	expectRows(t, got, []row{
@@ -162,6 +169,7 @@ func TestFilterAndNarrowing(t *testing.T) {
 
 // Statistics: avg, the continuous median, the sample stddev and variance.
 func TestStatistics(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "avg_price,mid_line,line_sd,line_var,cheapest")
 	expectRows(t, got, []row{{
 		"avg_price": 29.2 / 6,        // (2.5+10+2.5+1.2+3+10)/6
@@ -176,6 +184,7 @@ func TestStatistics(t *testing.T) {
 // --order and --limit sort and cut the detail rows; the total row stays,
 // computed over every row, not just the ones shown.
 func TestOrderAndLimit(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "sales.item", "--order", "revenue desc", "--limit", "2", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"sales.item": "fern", "revenue": "30.00"}, // 10+20
@@ -188,6 +197,7 @@ func TestOrderAndLimit(t *testing.T) {
 // the measure are broken by the group values, NULLs last, in the measure
 // and in the groups alike. Lines per store: 1: 2, 2: 1, 3: 2, 9: 1.
 func TestLimitTiesAndNulls(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "lines", "-b", "sales.store_id", "--order", "lines desc", "--limit", "3")
 	expectRows(t, got, []row{
 		{"sales.store_id": 1, "lines": 2}, // tie with store 3, which comes after
@@ -225,6 +235,7 @@ func TestLimitTiesAndNulls(t *testing.T) {
 // A filter that keeps no row leaves the grand total cell: sum of nothing is
 // null, count of nothing is 0.
 func TestEmptyCell(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue,lines", "-b", "stores.region", "-w", "stores.region = 'East'", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": nil, "revenue": nil, "lines": 0, "rolled_up": []string{"stores.region"}},

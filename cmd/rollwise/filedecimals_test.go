@@ -16,6 +16,7 @@ import (
 // Worked by hand: 100000000.00 * 10000000.00 + 0.01 * 2.50 =
 // 1000000000000000.025; the prices sum to 100000000.01.
 func TestRunFileDecimalsStayExact(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	db, err := sql.Open("duckdb", "")
 	if err != nil {

@@ -10,6 +10,7 @@ import (
 // alone was kept and this query gave the rose revenue of every region
 // (10 + 5 + 3 = 18.00).
 func TestRepeatedWhereCombines(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue", "-w", "stores.region = 'North'", "-w", "sales.item = 'rose'")
 	expectRows(t, got, []row{
 		{"revenue": "15.00"}, // North roses: 2.50*4 + 2.50*2
@@ -25,6 +26,7 @@ func TestRepeatedWhereCombines(t *testing.T) {
 // A single-valued flag given twice is a usage error that names the flag,
 // not a silent choice of the last value.
 func TestRepeatedSingleFlagRefused(t *testing.T) {
+	t.Parallel()
 	base := []string{"run", shopModel, "-m", "revenue", "-b", "stores.region"}
 	for _, c := range []struct {
 		flag string

@@ -19,6 +19,7 @@ func runErr(args ...string) (int, string) {
 
 // The messages of issue 13, each with what to write instead.
 func TestMessagesSayWhatToWrite(t *testing.T) {
+	t.Parallel()
 	having := filepath.Join(t.TempDir(), "having.roll")
 	if err := os.WriteFile(having, []byte("measure h = count(* per customers.id having orders.id > 1)\n"), 0o644); err != nil {
 		t.Fatal(err)

@@ -45,6 +45,7 @@ func hostileRows(t *testing.T) []hostileRow {
 // Each hostile value, written as a rollwise literal in a --where filter,
 // selects exactly its own row on every engine.
 func TestHostileValuesSelectTheirRow(t *testing.T) {
+	t.Parallel()
 	for _, r := range hostileRows(t) {
 		lit := "'" + strings.ReplaceAll(r.name, "'", "''") + "'"
 		got := runJSON(t, "run", hostileModel, "-m", "tot'al,n ]--", "-w", "`we\"ird'; --`.`na'me\"; DROP` = "+lit)
@@ -55,6 +56,7 @@ func TestHostileValuesSelectTheirRow(t *testing.T) {
 // Grouping by a hostile column returns each hostile value as it was
 // loaded, under the hostile names.
 func TestHostileNamesAsGroups(t *testing.T) {
+	t.Parallel()
 	rows := hostileRows(t)
 	got := runJSON(t, "run", hostileModel, "--view", `by "name"`)
 	if len(got) != len(rows) {
@@ -132,6 +134,7 @@ func injectionPayloads(t *testing.T) []string {
 // a second one. A payload the language cannot hold (a NUL byte)
 // is refused at its position. The counts are those of docs/testing.md.
 func TestInjectionPayloadsStayLiterals(t *testing.T) {
+	t.Parallel()
 	payloads := injectionPayloads(t)
 	matches := map[string]int{} // the hostile rows whose name a payload is
 	for _, r := range hostileRows(t) {

@@ -23,6 +23,7 @@ const joinsModel = "../../testdata/joins/joins.roll"
 // A filter on the district's area rejects sales 3 (no district), 4 and 5
 // (no store): inner joins to stores and districts drop only those.
 func TestInnerJoinFilterOnLinkedColumn(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", joinsModel, "-m", "units", "-b", "stores.region", "-w", "districts.area in ('Hills', 'Coast')", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "units": 2, "rolled_up": none},                  // sale 1
@@ -33,6 +34,7 @@ func TestInnerJoinFilterOnLinkedColumn(t *testing.T) {
 
 // `or ... is null` keeps the rows whose store is missing: LEFT JOIN.
 func TestLeftJoinFilterWithIsNull(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", joinsModel, "-m", "units", "-b", "stores.region", "-w", "stores.region = 'North' or stores.region is null", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"stores.region": "North", "units": 2, "rolled_up": none},                   // sale 1
@@ -46,6 +48,7 @@ func TestLeftJoinFilterWithIsNull(t *testing.T) {
 // stays a LEFT JOIN), and is NULL where the store is missing (the join
 // to stores is inner). sales.region_or holds where the store is missing.
 func TestDerivedCoalesceOverFurtherLink(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", joinsModel, "-m", "units", "-b", "stores.region", "-w", "stores.area_or = 'none'")
 	expectRows(t, got, []row{
 		{"stores.region": "South", "units": 4}, // sale 3 only
@@ -61,6 +64,7 @@ func TestDerivedCoalesceOverFurtherLink(t *testing.T) {
 // A narrowing filters its own aggregate, not the rows of the others; an
 // edit that drops the filter reads every row, unmatched links included.
 func TestInnerJoinNotFromNarrowingOrDroppedFilter(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", joinsModel, "-m", "units,north_units")
 	expectRows(t, got, []row{
 		{"units": 20, "north_units": 2}, // 2+3+4+5+6; sale 1

@@ -15,6 +15,7 @@ import (
 // values below are the traps of dialects.md, worked out by hand from
 // visits.csv.
 func TestCasesRunOnEveryEngine(t *testing.T) {
+	t.Parallel()
 	for _, c := range goldenCases(t) {
 		t.Run(c.set+"/"+c.name, func(t *testing.T) {
 			got := runJSON(t, append(append([]string{"run"}, c.models...), c.args...)...)
@@ -31,6 +32,7 @@ var noRowCases = map[string]bool{"shop/hostile_literal": true}
 
 // Integer ratios are fractional, statistics are the sample ones.
 func TestLabRatiosAndStatistics(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", labModel, "-m", "visits_n,total_minutes,avg_minutes,per_visit,urgent_share,var_score,sd_score",
 		"-b", "patients.ward", "--totals", "grand")
 	expectRows(t, got, []row{
@@ -48,6 +50,7 @@ func TestLabRatiosAndStatistics(t *testing.T) {
 // ISO weeks (2024-12-30 is in week 1 of 2025, 2021-01-03 in week 53),
 // rounding half away from zero, casts that round, greatest over a NULL.
 func TestLabDatesAndRounding(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", labModel, "-m", "visits_n", "-b", "visits.id,visits.iso_week,visits.seen_week", "-w", "visits.id <= 2")
 	expectRows(t, got, []row{
 		{"visits.id": 1, "visits.iso_week": 1, "visits.seen_week": "2024-12-30"},  // a Monday
@@ -73,6 +76,7 @@ func TestLabDatesAndRounding(t *testing.T) {
 // (South) 15 + NULL, 3 (North) 60 + 20, 4 (East) 1; visit 7 has no
 // patient: its group is not counted, and its minutes average nothing.
 func TestLabDistinctCountsAsPerGrain(t *testing.T) {
+	t.Parallel()
 	year := func(y string) string { return y + "-01-01" }
 	want := []row{
 		{"patients.ward": "East", "visits.seen_year": year("2024"), "visits_n": 1, "patients_seen": 1, "patient_minutes": 1.0,
@@ -154,6 +158,7 @@ func TestLabDistinctCountsAsPerGrain(t *testing.T) {
 // patient (minutes summed; the visit without a patient is skipped):
 // North 75 and 80, South 15, East 1; all: 1 15 75 80.
 func TestLabMedians(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", labModel, "-m", "mid_minutes,urgent_mid,patient_mid", "-b", "patients.ward", "--totals", "rollup")
 	expectRows(t, got, []row{
 		{"patients.ward": "East", "mid_minutes": 1.0, "urgent_mid": 1.0, "patient_mid": 1.0},

@@ -14,6 +14,7 @@ import (
 // TestListShowsWhatTheModelHolds: `list` through Main, as JSON (every
 // field checked on one measure, one table, one link) and as a table.
 func TestListShowsWhatTheModelHolds(t *testing.T) {
+	t.Parallel()
 	model := filepath.Join(t.TempDir(), "m.roll")
 	src := "table stores at \"shop.stores\" {\n  key id\n  id integer\n  region text\n}\n" +
 		"table sales at \"shop.sales\" {\n  key id\n  id integer\n  store_id integer -> stores.id required\n  qty integer\n}\n" +
@@ -64,6 +65,7 @@ func TestListShowsWhatTheModelHolds(t *testing.T) {
 // (cobra's protocol) and gets the measures, columns and views of the
 // model files already on the line; the bash script is valid bash.
 func TestCompletionFromTheModelOnTheLine(t *testing.T) {
+	t.Parallel()
 	complete := func(args ...string) []string {
 		var out bytes.Buffer
 		Main(append([]string{"__complete"}, args...), nil, &out, &bytes.Buffer{})
@@ -97,6 +99,7 @@ func TestCompletionFromTheModelOnTheLine(t *testing.T) {
 // TestVersionNamesTheCommit: --version prints the module version and the
 // commit the build recorded.
 func TestVersionNamesTheCommit(t *testing.T) {
+	t.Parallel()
 	info := &debug.BuildInfo{GoVersion: "go1.26.8", Main: debug.Module{Version: "v0.3.0"},
 		Settings: []debug.BuildSetting{{Key: "vcs.revision", Value: "0123456789abcdef0123"}, {Key: "vcs.time", Value: "2026-12-05T17:00:00Z"},
 			{Key: "vcs.modified", Value: "true"}}}

@@ -266,6 +266,7 @@ func sameJSON(want, got any) bool {
 // Under CI=true the live servers must be there: the cross-checks skip an
 // engine that is missing, and this test makes that a failure.
 func TestLiveEnginesConfigured(t *testing.T) {
+	t.Parallel()
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
 			livetest.ServerURL(t, name)
@@ -279,6 +280,7 @@ func TestLiveEnginesConfigured(t *testing.T) {
 }
 
 func TestRunDSNUsage(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	for _, c := range []struct {
 		args []string
@@ -302,6 +304,7 @@ func TestRunDSNUsage(t *testing.T) {
 // functions and says nothing. views takes the flag too, and the view's
 // header says what is approximate.
 func TestApproximateFlag(t *testing.T) {
+	t.Parallel()
 	var out, errb bytes.Buffer
 	code := Main([]string{"sql", labModel, "-m", "mid_minutes", "-b", "patients.ward", "-d", "trino"}, nil, &out, &errb)
 	if code != 0 || !strings.Contains(out.String(), "ROW_NUMBER() OVER") || strings.Contains(out.String(), "approx") || errb.Len() > 0 {

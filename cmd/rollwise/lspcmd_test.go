@@ -104,6 +104,7 @@ func pos(line, char int) map[string]any { return map[string]any{"line": line, "c
 // references across the folder's files, completion after a dot, and a
 // clean exit.
 func TestLanguageServer(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	model := filepath.Join(dir, "model.roll")
 	other := filepath.Join(dir, "other.roll")

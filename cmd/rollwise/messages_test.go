@@ -11,6 +11,7 @@ import (
 // TestCountsAreSpelledForPeople: a count of one takes the singular
 // ("1 measure", not "1 measures") in the summaries of check.
 func TestCountsAreSpelledForPeople(t *testing.T) {
+	t.Parallel()
 	model := filepath.Join(t.TempDir(), "one.roll")
 	src := "table t at \"t\" from \"t.csv\" {\n  key id\n  id integer\n}\nmeasure n = count(*)\n"
 	if err := os.WriteFile(model, []byte(src), 0o644); err != nil {
@@ -29,6 +30,7 @@ func TestCountsAreSpelledForPeople(t *testing.T) {
 // is a usage error that points at --dsn and at `sql -d`, and no longer
 // speaks of live databases as a thing to come.
 func TestRunDialectWithoutDSNSaysWhatToDo(t *testing.T) {
+	t.Parallel()
 	var out bytes.Buffer
 	code := Main([]string{"run", "../../testdata/exec/shop.roll", "-m", "revenue", "-d", "postgres"}, nil, &out, &out)
 	msg := out.String()

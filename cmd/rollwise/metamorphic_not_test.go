@@ -17,9 +17,9 @@ import (
 // reference evaluator share that splitting, so the differential tests
 // cannot see it; this property compares the SQL path with itself.
 func TestMetamorphicNegatedFilters(t *testing.T) {
-	diffChecks(20)
+	t.Parallel()
 	checked := 0
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, 20, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		dc := openCase(t, rt, c, c)
 		defer dc.close()

@@ -81,9 +81,9 @@ func metaKey(r map[string]any, groups []string) string {
 // unfiltered value: sum to sum, count to the sum of counts, min and max
 // to themselves, avg to the sum of the sums over the sum of the counts.
 func TestMetamorphicPartition(t *testing.T) {
-	diffChecks(40)
+	t.Parallel()
 	checked := 0
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, 40, func(rt *rapid.T) {
 		p := casegen.PartitionGenerator(casegen.DefaultOptions).Draw(rt, "case")
 		dc := openCase(t, rt, p, p.Case)
 		defer dc.close()
@@ -202,9 +202,9 @@ func numOrNil(d *decimal.Decimal) any {
 // total rows of each level are exactly the rows of that query; with it,
 // some of them.
 func TestMetamorphicTotals(t *testing.T) {
-	diffChecks(40)
+	t.Parallel()
 	checked := 0
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, 40, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		dc := openCase(t, rt, c, c)
 		defer dc.close()

@@ -19,6 +19,7 @@ func runNarrowed(t *testing.T, args ...string) []map[string]any {
 // of no rows is null, a count 0. big_rose_lines shares only its rose
 // conjunct with the others and keeps its own (qty >= 2).
 func TestNarrowingWithoutGroups(t *testing.T) {
+	t.Parallel()
 	got := runNarrowed(t, "-m", "rose_units,rose_lines,big_rose_lines,rose_store_lines")
 	expectRows(t, got, []row{{
 		"rose_units":       7, // 4+2+1
@@ -43,6 +44,7 @@ func TestNarrowingWithoutGroups(t *testing.T) {
 // With groups, the rows of the report come from the scan that also
 // computes the narrowed aggregates: items with no rose keep their row.
 func TestNarrowingKeepsGroups(t *testing.T) {
+	t.Parallel()
 	got := runNarrowed(t, "-m", "rose_units,rose_lines", "-b", "sales.item", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"sales.item": "fern", "rose_units": nil, "rose_lines": 0, "rolled_up": none},
@@ -56,6 +58,7 @@ func TestNarrowingKeepsGroups(t *testing.T) {
 // window over the report's cells): only North's cells are left in that
 // scan, and the other rows read 0, not null.
 func TestNarrowingInEditedScan(t *testing.T) {
+	t.Parallel()
 	got := runNarrowed(t, "-m", "revenue,north_items", "-b", "stores.region,sales.item", "--totals", "rollup")
 	item := []string{"sales.item"}
 	expectRows(t, got, []row{

@@ -12,6 +12,7 @@ import (
 // two detail rows, the subtotal of the group they belong to, and the grand
 // total.
 func TestOrderAndLimitWithSubtotals(t *testing.T) {
+	t.Parallel()
 	item := []string{"sales.item"}
 	all := []string{"stores.region", "sales.item"}
 	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item", "--order", "revenue desc", "--totals", "rollup")
@@ -41,6 +42,7 @@ func TestOrderAndLimitWithSubtotals(t *testing.T) {
 // 30, ascending. The sort key once read only one grouping id, found no
 // subtotal for them and sorted the items by name (fern, rose, tulip).
 func TestOrderTotalsAllThreeColumns(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item,districts.area", "--order", "revenue", "--totals", "all")
 	var seq []string
 	for _, r := range got {
@@ -63,6 +65,7 @@ func TestOrderTotalsAllThreeColumns(t *testing.T) {
 // inside each region. Revenue per region and item (shop.roll): North rose
 // 15 (10+5), fern 10; no region fern 20; South tulip 12, rose 3.
 func TestOrderSeveralKeys(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", shopModel, "-m", "revenue", "-b", "stores.region,sales.item", "--order", "stores.region desc, revenue")
 	expectRows(t, got, []row{
 		{"stores.region": "South", "sales.item": "rose", "revenue": "3"},
@@ -91,6 +94,7 @@ func TestOrderSeveralKeys(t *testing.T) {
 
 // Each --order key is checked with its position in the option.
 func TestOrderKeyErrors(t *testing.T) {
+	t.Parallel()
 	cases := []struct {
 		order, want string
 		exit        int

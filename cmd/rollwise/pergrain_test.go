@@ -26,6 +26,7 @@ const pergrainModel = "../../testdata/exec/pergrain.roll"
 // A having that reads no table once planned an empty CTE that the engine
 // refused; and a having once let the NULL customer id count as a group.
 func TestPerGrainHavingTrueChangesNothing(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", pergrainModel, "-m", "buyers,buyers_any,buyer_ids", "-b", "customers.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"customers.region": "East", "buyers": 2, "buyers_any": 2, "buyer_ids": 2},                                         // customers 1, 2
@@ -38,6 +39,7 @@ func TestPerGrainHavingTrueChangesNothing(t *testing.T) {
 // order without a customer id (7) is in no group. Before, known_any
 // counted it: 45 in all and 10 (7 + 3) in the NULL region.
 func TestPerGrainSkipsNullGroups(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", pergrainModel, "-m", "known_amount,known_any,known_where,amount", "-b", "customers.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"customers.region": "East", "known_amount": 35, "known_any": 35, "known_where": 35, "amount": 35}, // 10 + 20 + 5
@@ -52,6 +54,7 @@ func TestPerGrainSkipsNullGroups(t *testing.T) {
 // customers were missed and the NULL customer id was counted (3 in all,
 // not 4). big_buyers counted the NULL id's 7 > 4 as a group (3, not 2).
 func TestPerGrainHavingGroupsFromPerColumns(t *testing.T) {
+	t.Parallel()
 	got := runJSON(t, "run", pergrainModel, "-m", "every_customer,big_buyers", "-b", "customers.region", "--totals", "grand")
 	expectRows(t, got, []row{
 		{"customers.region": "East", "every_customer": 2, "big_buyers": 2}, // 1 (30), 2 (5)
@@ -67,10 +70,10 @@ func TestPerGrainHavingGroupsFromPerColumns(t *testing.T) {
 // T.C) = m where T.C is not null. The default budget is small (20 cases);
 // -rapid.checks raises it.
 func TestPerGrainIdentities(t *testing.T) {
-	diffChecks(20)
+	t.Parallel()
 	o := casegen.DefaultOptions
 	o.Identities, o.Queries = true, 0
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, 20, func(rt *rapid.T) {
 		c := casegen.Generator(o).Draw(rt, "case")
 		dir := t.TempDir()
 		if err := c.Write(dir); err != nil {
@@ -118,6 +121,7 @@ func TestPerGrainIdentities(t *testing.T) {
 // m1 = x where a.`b.c` = 1: rows 1, 3: 10 + 40 = 50; m2 = x where
 // `a.b`.c = 1: rows whose ref is 2: 20 + 40 = 60; in either order.
 func TestLookalikeNamesKeepTheirFilters(t *testing.T) {
+	t.Parallel()
 	const model = "../../testdata/exec/lookalike.roll"
 	for _, ms := range []string{"m1,m2", "m2,m1"} {
 		got := runJSON(t, "run", model, "-m", ms)

@@ -14,6 +14,7 @@ import (
 // (issue 16). Sales on 2026-01-15, 2026-02-03 and 2026-04-20: one month,
 // quarter or year each, as below.
 func TestPeriodStartsShowAsPeriods(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	write := func(name, text string) {
 		t.Helper()

@@ -25,6 +25,7 @@ func htmlPageOf(t *testing.T, args ...string) string {
 var shopRegionArgs = []string{shopModel, "-m", "revenue,margin_rate,items", "-b", "stores.region", "--totals", "grand"}
 
 func TestRunHTMLPage(t *testing.T) {
+	t.Parallel()
 	page := htmlPageOf(t, shopRegionArgs...)
 	for _, want := range []string{
 		"<title>revenue, margin_rate, items by stores.region</title>",
@@ -48,6 +49,7 @@ func TestRunHTMLPage(t *testing.T) {
 }
 
 func TestRunHTMLShowsCautions(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	os.WriteFile(filepath.Join(dir, "f.csv"), []byte("id,w,g\n1,0.1,a\n2,0.2,a\n3,0.3,b\n"), 0o644)
 	model := filepath.Join(dir, "float.roll")
@@ -77,6 +79,7 @@ func gardenMonths(t *testing.T) (string, int) {
 }
 
 func TestRunHTMLDrawsALineByMonth(t *testing.T) {
+	t.Parallel()
 	model, months := gardenMonths(t)
 	page := htmlPageOf(t, model, "-m", "revenue,margin_rate", "-b", "sales.sold_month", "--totals", "grand")
 	if months < 12 {
@@ -91,6 +94,7 @@ func TestRunHTMLDrawsALineByMonth(t *testing.T) {
 }
 
 func TestBrowserShowsRunPages(t *testing.T) {
+	t.Parallel()
 	browserPath(t)
 	dir := t.TempDir()
 	bars := filepath.Join(dir, "bars.html")

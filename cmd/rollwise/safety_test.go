@@ -42,6 +42,7 @@ func runIn(t *testing.T, dir, model string, args ...string) (int, string, string
 // backquotes and take a double quote as it is (pflag's CSV reading split
 // `a,b` in two and refused q"x).
 func TestListFlagsReadBackquotes(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	code, out, errb := runIn(t, dir, oddModel, "sql", "MODEL", "-m", "`a,b`", "-m", "q\"x", "-b", "stores.region")
 	if code != 0 {
@@ -57,6 +58,7 @@ func TestListFlagsReadBackquotes(t *testing.T) {
 // TestMeasureNamedLikeGroupColumnIsRefused: sql exits 1 with the clash
 // named, instead of printing SQL with two columns of one name.
 func TestMeasureNamedLikeGroupColumnIsRefused(t *testing.T) {
+	t.Parallel()
 	code, out, errb := runIn(t, t.TempDir(), oddModel, "sql", "MODEL", "-m", "`stores.region`", "-b", "stores.region")
 	if code != exitFindings || out != "" || !strings.Contains(errb, "would both be output columns") {
 		t.Errorf("exit %d, stdout %q, stderr %q", code, out, errb)
@@ -68,6 +70,7 @@ func TestMeasureNamedLikeGroupColumnIsRefused(t *testing.T) {
 // no file system holds is refused before anything is written, and a
 // refused --out a/b/c leaves no a/b behind.
 func TestViewsFolderArguments(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	file := filepath.Join(dir, "f.txt")
 	if err := os.WriteFile(file, []byte("x"), 0o644); err != nil {
@@ -95,6 +98,7 @@ func TestViewsFolderArguments(t *testing.T) {
 // name of 40 two-byte letters is too long; MySQL: 64 characters, so the
 // same name fits), and a dialect without a documented limit checks none.
 func TestCheckDialectNameLimits(t *testing.T) {
+	t.Parallel()
 	model := "table sales at \"s." + strings.Repeat("r", 70) + "\" from \"s.csv\" {\n  key id\n  id integer\n  qty integer\n}\n" +
 		"measure " + strings.Repeat("m", 64) + " = sum(sales.qty)\nmeasure `" + strings.Repeat("é", 40) + "` = count(sales.qty)\n"
 	cases := []struct {

@@ -22,6 +22,7 @@ import (
 // A table the query does not read is not loaded: its missing file is no
 // error, while a query that reads it still fails on it.
 func TestRunLoadsOnlyTheTablesItReads(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	model := filepath.Join(dir, "m.roll")
 	src := `table sales from "` + filepath.Join("..", "..", "..", "testdata", "exec", "sales.csv") + `" {

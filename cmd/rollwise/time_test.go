@@ -20,6 +20,7 @@ const timeModel = "../../testdata/exec/time.roll"
 // The hand-worked time edit cases (shared with the reference evaluator's
 // TestTimeEdits) on DuckDB, and through crossCheck on the live engines.
 func TestTimeEdits(t *testing.T) {
+	t.Parallel()
 	for _, c := range expect.TimeCases {
 		if !c.SQL {
 			continue
@@ -40,6 +41,7 @@ func TestTimeEdits(t *testing.T) {
 // Time edits the SQL path does not plan yet, and mistakes in writing
 // them, are positioned errors that say what to write instead.
 func TestTimeEditErrors(t *testing.T) {
+	t.Parallel()
 	for _, c := range []struct{ measure, want string }{
 		{"revenue[orders.shop back 1 year]", "a time edit moves a date or timestamp column; orders.shop is text"},
 		{"revenue[orders.day back 1 fortnight]", "unknown unit 'fortnight': this time edit is written D back N UNIT"},
@@ -68,6 +70,7 @@ func TestTimeEditErrors(t *testing.T) {
 // DuckDB what the reference evaluator computes cell by cell on the same
 // generated data.
 func TestDemoMonthReportMatchesReference(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	if err := demo.WriteFiles(dir); err != nil {
 		t.Fatal(err)

@@ -76,6 +76,7 @@ func mainWithin(t *testing.T, limit time.Duration, args ...string) (int, string)
 // A server that accepts and never answers: run, verify and check give up
 // after --connect-timeout and say so, for PostgreSQL and MySQL URLs.
 func TestLiveConnectTimeout(t *testing.T) {
+	t.Parallel()
 	addr := silentServer(t)
 	for _, scheme := range []string{"postgres", "mysql"} {
 		dsn := scheme + "://u:p@" + addr + "/db"
@@ -136,6 +137,7 @@ func serverRuns(t *testing.T, e *livetest.Engine, tag string) string {
 // test binary, running TestInterruptChild), so that the signal reaches
 // only it.
 func TestLiveInterruptCancelsOnServer(t *testing.T) {
+	t.Parallel()
 	m := shopForLive(t)
 	// PostgreSQL only: MySQL's test schemas are shared by every test
 	// process on the server; engine.TestStatementTimeoutOnServer stops a

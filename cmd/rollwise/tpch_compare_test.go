@@ -214,6 +214,7 @@ func compareResult(got, want [][]cellValue, orderCol int, limited bool) (diffs [
 // equal to the last digit, approximate ones within the tolerance, and
 // ties compare as sets only within a run of equal order values.
 func TestCompareResult(t *testing.T) {
+	t.Parallel()
 	exact := func(s string) cellValue {
 		return cellValue{kind: kindExact, num: decimal.RequireFromString(s)}
 	}

@@ -131,6 +131,7 @@ func goTPCAnswers(t *testing.T) string {
 // TestTPCHSF1 checks rollwise at scale factor 1 against published answers
 // (see the comment above).
 func TestTPCHSF1(t *testing.T) {
+	t.Parallel()
 	if os.Getenv(sf1Env) == "" {
 		t.Skip("set " + sf1Env + "=1 to generate TPC-H scale factor 1 (about 40 s) and check rollwise against published answers")
 	}
@@ -249,6 +250,7 @@ func readTPCHAnswers(t *testing.T) []tpchCheck {
 // TestPrintedValues checks the comparison with answer files, which runs
 // only at scale factor 1.
 func TestPrintedValues(t *testing.T) {
+	t.Parallel()
 	num := func(s string) cellValue { return cellValue{kind: kindExact, num: decimal.RequireFromString(s)} }
 	for _, tc := range []struct {
 		got     cellValue

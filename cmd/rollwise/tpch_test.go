@@ -288,6 +288,7 @@ func openTPCH(t testing.TB, ctx context.Context, sf float64) (string, *sql.DB) {
 // TestTPCHEquivalence runs every check of queries.json at scale factor
 // 0.01 (see the comment at the top of this file).
 func TestTPCHEquivalence(t *testing.T) {
+	t.Parallel()
 	if testing.Short() {
 		t.Skip("generates TPC-H data at scale factor 0.01 (about 8 s the first time); skipped with -short")
 	}

@@ -11,6 +11,7 @@ import (
 // there, rollwise's query is rendered for PostgreSQL and runs there too,
 // and the same verdicts and diagnoses come out as on DuckDB.
 func TestVerifyOnLivePostgres(t *testing.T) {
+	t.Parallel()
 	e := liveEngine(t, "postgres", shopModel)
 	cases := []struct {
 		sql  string

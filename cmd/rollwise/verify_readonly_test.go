@@ -90,6 +90,7 @@ func shopCounts(t *testing.T, e *livetest.Engine) string {
 // files: the engine is taken off the file system once the model's data is
 // in (and its configuration locked), and a second statement never runs.
 func TestVerifyDuckDBOffTheFileSystem(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	marker := filepath.Join(dir, "marker.csv")
 	cases := map[string][2]string{

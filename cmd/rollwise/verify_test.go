@@ -176,6 +176,7 @@ func diagName(d *string) string {
 }
 
 func TestVerifyCases(t *testing.T) {
+	t.Parallel()
 	files, _ := filepath.Glob("../../testdata/verify/*.sql")
 	if len(files) < 10 {
 		t.Fatalf("found %d verify cases", len(files))
@@ -254,6 +255,7 @@ func sameSet(t *testing.T, what string, got, want []string, report string) {
 // Usage errors found before any SQL runs: exit 2 and a message that says
 // what to do.
 func TestVerifyUsageErrors(t *testing.T) {
+	t.Parallel()
 	right := "../../testdata/verify/right_grand.sql"
 	cases := []struct {
 		args []string
@@ -284,6 +286,7 @@ func TestVerifyUsageErrors(t *testing.T) {
 // within a tolerance of 0.2 only where one side is inexact; both sides are
 // exact decimals here, so it still differs.
 func TestVerifyToleranceKeepsExactValuesExact(t *testing.T) {
+	t.Parallel()
 	f := "../../testdata/verify/no_known_mistake.sql"
 	var out, errb bytes.Buffer
 	code := Main([]string{"verify", shopModel, "--sql", f, "-m", "revenue", "-b", "sales.item", "--tolerance", "0.2"},
@@ -297,6 +300,7 @@ func TestVerifyToleranceKeepsExactValuesExact(t *testing.T) {
 // rounded to three places differs at the default tolerance and agrees at
 // 0.01.
 func TestVerifyTolerance(t *testing.T) {
+	t.Parallel()
 	f := filepath.Join(t.TempDir(), "rounded.sql")
 	sql := `SELECT s.item, ROUND((SUM(s.price * s.qty) - SUM(s.cost * s.qty)) / SUM(s.price * s.qty), 3) AS margin_rate
 FROM shop.sales AS s GROUP BY s.item`

@@ -139,6 +139,7 @@ func rowKey(values []any, rolledUp []string) string {
 // Every measure view holds exactly the rows of `run --view` for its view
 // block: the same group values, measure values and total rows.
 func TestMeasureViewsMatchRun(t *testing.T) {
+	t.Parallel()
 	// Trino's CREATE VIEW has no column list: its views rename the
 	// columns in a SELECT around the query instead.
 	variants := []struct{ schema, ddlOf string }{{"", ""}, {"published", ""}, {"", "trino"}}
@@ -218,6 +219,7 @@ func TestMeasureViewsMatchRun(t *testing.T) {
 // A row-level view has exactly the rows of its table: no row lost where a
 // link finds nothing, none repeated by a join.
 func TestRowViewsKeepEveryRow(t *testing.T) {
+	t.Parallel()
 	d, _ := dialects.Get("duckdb")
 	for _, c := range viewsCases(t) {
 		t.Run(c.name, func(t *testing.T) {
@@ -257,6 +259,7 @@ func TestRowViewsKeepEveryRow(t *testing.T) {
 // 9, which does not exist, so its region and area are NULL; line 4 (store
 // 3, district 2) reaches area Coast through two links.
 func TestRowViewValues(t *testing.T) {
+	t.Parallel()
 	p := publish(t, []string{viewsModel}, "", "")
 	res, err := engine.Query(context.Background(), p.db,
 		`SELECT id, line, big, region, area, where_sold FROM sales_derived ORDER BY id`)
@@ -290,6 +293,7 @@ func TestRowViewValues(t *testing.T) {
 // rollwise says float (a continuous median); so a number is any numeric
 // type, and every other type must be exact.
 func TestViewColumnTypes(t *testing.T) {
+	t.Parallel()
 	numbers := []string{"BIGINT", "HUGEINT", "INTEGER", "DECIMAL(", "DOUBLE"}
 	families := map[string][]string{
 		"integer": numbers, "decimal": numbers, "float": numbers,
@@ -323,6 +327,7 @@ func TestViewColumnTypes(t *testing.T) {
 
 // views prints the files of --out end to end, in manifest order.
 func TestViewsStdoutIsTheFiles(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	var out, out2, errb bytes.Buffer
 	if code := Main([]string{"views", viewsModel}, nil, &out, &errb); code != 0 {
@@ -358,6 +363,7 @@ func TestViewsStdoutIsTheFiles(t *testing.T) {
 // --check is a CI gate: exit 0 when the folder is up to date, exit 1 with
 // the differing views on stdout when it is not.
 func TestViewsCheckExitCodes(t *testing.T) {
+	t.Parallel()
 	src, err := os.ReadFile(viewsModel)
 	if err != nil {
 		t.Fatal(err)
@@ -402,6 +408,7 @@ func TestViewsCheckExitCodes(t *testing.T) {
 
 // docs/views.md shows the DDL the demo model generates today.
 func TestDocsShowTheDemoViews(t *testing.T) {
+	t.Parallel()
 	model := filepath.Join(t.TempDir(), demo.ModelFile)
 	if err := os.WriteFile(model, []byte(demo.Model()), 0o644); err != nil {
 		t.Fatal(err)

@@ -278,6 +278,7 @@ func normalRows(t *testing.T, rows [][]any, cols []views.Column) []string {
 }
 
 func TestViewsOnLiveEngines(t *testing.T) {
+	t.Parallel()
 	duck := publish(t, []string{viewsModel}, "", "")
 	for _, l := range liveDBs(t) {
 		t.Run(l.dialect, func(t *testing.T) {
