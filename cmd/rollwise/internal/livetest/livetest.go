@@ -21,6 +21,7 @@ import (
 	"path/filepath"
 	"regexp"
 	"sort"
+	"strconv"
 	"strings"
 	"testing"
 
@@ -119,7 +120,9 @@ func safeName(tag string) string { return unsafeChars.ReplaceAllString(strings.T
 func connect(t testing.TB, name, db string, schemas []string) *Engine {
 	t.Helper()
 	server := ServerURL(t, name)
-	holdServer(t, name, server)
+	if name != "sqlite" { // SQLite's databases are the process's own (sqliteDir)
+		holdServer(t, name, server)
+	}
 	ctx := context.Background()
 	var dsn string
 	var err error
@@ -230,9 +233,11 @@ func freshMySQL(ctx context.Context, server, db string, schemas []string) (strin
 }
 
 // freshSQLite returns a new SQLite database, with a file attached for each
-// schema, in a folder of the temp dir named after db (emptied first, and
-// kept after the test: the engine may serve later tests of the run).
+// schema, in a folder of the temp dir named after db and the process
+// (emptied first, and kept after the test: the engine may serve later
+// tests of the run). The folders that ended processes left are removed.
 func freshSQLite(db string, schemas []string) (string, error) {
+	removeStaleSQLite(db)
 	dir := sqliteDir(db)
 	if err := os.RemoveAll(dir); err != nil {
 		return "", err
@@ -247,7 +252,21 @@ func freshSQLite(db string, schemas []string) (string, error) {
 	return "sqlite:" + filepath.Join(dir, "main.db") + "?" + q.Encode(), nil
 }
 
-// sqliteDir is the folder of SQLite database db.
+// sqliteDir is the folder of SQLite database db of this process: test
+// processes never share one, so SQLite needs no lock (holdServer).
 func sqliteDir(db string) string {
-	return filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d", db, os.Getuid()))
+	return filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d_%d", db, os.Getuid(), os.Getpid()))
+}
+
+// removeStaleSQLite removes the folders of SQLite database db that
+// processes which have ended left behind.
+func removeStaleSQLite(db string) {
+	prefix := filepath.Join(os.TempDir(), fmt.Sprintf("%s_%d_", db, os.Getuid()))
+	dirs, _ := filepath.Glob(prefix + "*")
+	for _, d := range dirs {
+		pid, err := strconv.Atoi(strings.TrimPrefix(d, prefix))
+		if err == nil && pid != os.Getpid() && !running(pid) {
+			os.RemoveAll(d)
+		}
+	}
 }

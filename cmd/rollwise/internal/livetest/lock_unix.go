@@ -24,7 +24,8 @@ var (
 // load them on one server at the same time: the second waits. On
 // PostgreSQL, where a model's schemas live inside its test database, a
 // process with its own ROLLWISE_TEST_DB_PREFIX has databases of its own
-// and takes a lock of its own.
+// and takes a lock of its own. SQLite needs none: its databases are each
+// process's own (sqliteDir).
 func holdServer(t testing.TB, name, server string) {
 	t.Helper()
 	locksMu.Lock()
@@ -56,4 +57,9 @@ func lockKey(name, server string) string {
 		key += " " + dbPrefix()
 	}
 	return key
+}
+
+// running reports whether process pid is still running.
+func running(pid int) bool {
+	return syscall.Kill(pid, 0) != syscall.ESRCH
 }
