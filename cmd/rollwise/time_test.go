@@ -10,33 +10,11 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
-	"github.com/rollwise/rollwise/planner/reference/expect"
 )
 
 // timeModel holds orders over two years and a half, a calendar and a
-// stock snapshot (see expect.TimeCases for the rows).
+// stock snapshot (see planner/reference/expect/time.go for the rows).
 const timeModel = "../../testdata/exec/time.roll"
-
-// The hand-worked time edit cases (shared with the reference evaluator's
-// TestTimeEdits) on DuckDB, and through crossCheck on the live engines.
-func TestTimeEdits(t *testing.T) {
-	t.Parallel()
-	for _, c := range expect.TimeCases {
-		if !c.SQL {
-			continue
-		}
-		t.Run(c.Name, func(t *testing.T) {
-			args := []string{"run", timeModel, "-m", c.Measures, "--totals", c.Totals}
-			if c.By != "" {
-				args = append(args, "-b", c.By)
-			}
-			if c.Where != "" {
-				args = append(args, "-w", c.Where)
-			}
-			expectRows(t, runJSON(t, args...), c.Rows)
-		})
-	}
-}
 
 // Time edits the SQL path does not plan yet, and mistakes in writing
 // them, are positioned errors that say what to write instead.
