@@ -12,6 +12,7 @@ import (
 // test applies only to measures that pass a decimal through a step, so
 // that every other SQLite difference still fails the test.
 func TestFloatStepFindsSteps(t *testing.T) {
+	t.Parallel()
 	src := `table sales from "sales.csv" {
   key id
   id     integer
