@@ -16,7 +16,6 @@ import (
 	"github.com/shopspring/decimal"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
-	"github.com/rollwise/rollwise/dialects"
 )
 
 // The execution suites on live engines. Every `run` that the tests make
@@ -109,77 +108,28 @@ func crossCheck(t *testing.T, args []string, duck []map[string]any) {
 			if err := dec.Decode(&rows); err != nil {
 				t.Fatalf("bad JSON: %v\n%s", err, out.String())
 			}
-			d, _ := dialects.Get(name)
 			if diff := rowsDiff(duck, rows); diff != "" {
-				w := rendererWiring()
-				switch {
-				case !d.Caps().NullsLast && sameRowSet(duck, rows) && !w.order:
-					t.Skipf("%s sorts NULLs first and the row order differs from DuckDB's only there: "+
-						"render.go does not call dialects.OrderKey yet (/tmp/dialects.patch)", name)
-				case !w.exprs:
-					t.Skipf("%s gives other rows than DuckDB, and render.go does not call the dialect's Concat, Call, "+
-						"Cast and Bool yet (/tmp/dialects.patch):\n%s", name, diff)
-				}
 				t.Errorf("%s %s: rows differ from DuckDB's:\n%s", name, strings.Join(args, " "), diff)
 			}
 		})
 	}
 }
 
-// explainRefusal accepts a refusal the engine states a reason for, and
-// fails on anything else (skips, while render.go does not call the
-// dialect for what the failure needs).
+// explainRefusal accepts a refusal the engine states a reason for (an
+// aggregate it lacks), and fails on anything else.
 func explainRefusal(t *testing.T, name string, args []string, stderr string) {
 	t.Helper()
-	w := rendererWiring()
-	msg := lastLine(stderr)
-	switch {
-	case strings.Contains(msg, name+" cannot express grouping sets") && !w.grouping:
-		t.Skipf("%s has no GROUPING SETS: total rows need dialects.GroupingSetsSQL wired into render.go's grouped (/tmp/dialects.patch)", name)
-	case strings.Contains(msg, name+" cannot express") && refusable.MatchString(msg):
-		// A refusal is the right answer: the engine has no such aggregate.
+	if msg := lastLine(stderr); strings.Contains(msg, name+" cannot express") && refusable.MatchString(msg) {
 		t.Logf("%s refuses, as it must: %s", name, msg)
-	case !w.exprs:
-		t.Skipf("%s fails, and render.go does not call the dialect's Concat, Call, Cast and Bool yet (/tmp/dialects.patch):\n%s", name, msg)
-	default:
-		t.Errorf("%s: rollwise %s failed:\n%s", name, strings.Join(args, " "), stderr)
+		return
 	}
+	t.Errorf("%s: rollwise %s failed:\n%s", name, strings.Join(args, " "), stderr)
 }
 
 // refusable are the constructs an engine may refuse: the aggregates it
 // lacks, and case mapping it does only for ASCII letters (not the median,
 // which every engine computes exactly, with windows where it must).
 var refusable = regexp.MustCompile(`standard deviation|variance|upper|lower`)
-
-// wiring says which dialect calls the shared renderer makes (they are
-// being wired in; until then the engines that need them are skipped with
-// the reason).
-type wiring struct{ grouping, order, exprs bool }
-
-var (
-	wiringOnce sync.Once
-	wired      wiring
-)
-
-// rendererWiring probes the renderer: does a MySQL query with totals
-// render (GroupingSetsSQL), with NULLs ordered by a CASE (OrderKey) and ||
-// spelled CONCAT (Concat, and with it Call, Cast and Bool)?
-func rendererWiring() wiring {
-	wiringOnce.Do(func() {
-		var out bytes.Buffer
-		code := Main([]string{"sql", labModel, "-m", "visits_n", "-b", "visits.label", "--totals", "grand", "-d", "mysql"}, nil, &out, io.Discard)
-		sql := out.String()
-		wired.grouping = code == 0
-		if code != 0 {
-			out.Reset()
-			Main([]string{"sql", labModel, "-m", "visits_n", "-b", "visits.label", "-d", "mysql"}, nil, &out, io.Discard)
-			sql = out.String()
-		}
-		wired.order = strings.Contains(sql, "IS NULL THEN 1 ELSE 0 END")
-		wired.exprs = strings.Contains(sql, "CONCAT(")
-	})
-	return wired
-}
 
 // rowsDiff describes how two JSON results differ ("" when they do not).
 func rowsDiff(want, got []map[string]any) string {
@@ -203,26 +153,6 @@ func rowsDiff(want, got []map[string]any) string {
 		}
 	}
 	return b.String()
-}
-
-// sameRowSet reports whether two results hold the same rows in any order.
-func sameRowSet(a, b []map[string]any) bool {
-	key := func(rows []map[string]any) []string {
-		var out []string
-		for _, r := range rows {
-			j, _ := json.Marshal(r)
-			out = append(out, string(j))
-		}
-		sort.Strings(out)
-		return out
-	}
-	ka, kb := key(a), key(b)
-	for i := range ka {
-		if i >= len(kb) || ka[i] != kb[i] {
-			return false
-		}
-	}
-	return len(ka) == len(kb)
 }
 
 // sameJSON compares decoded JSON values: numbers exactly as decimals, or
