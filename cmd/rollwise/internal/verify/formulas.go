@@ -232,9 +232,8 @@ func narrowingIgnored(m *model.Measure) []formula {
 
 // filterLeaked: a `drop` edit that lets the query's filters through, as a
 // handwritten subquery for "all families" that keeps the report's WHERE
-// does. The wrong cell is the `ungroup` of the same target. The planner
-// does not plan cell edits yet, so these formulas are reported as not
-// computable until it does.
+// does. The wrong cell is the `ungroup` of the same target, planned and
+// run like any edit (testdata/verify/filter_leaked.sql is diagnosed so).
 func filterLeaked(m *model.Measure) []formula {
 	hasDrop := func(x model.Expr) bool { return editsOf(x, model.EditDrop) > 0 }
 	leak := func(x model.Expr) (model.Expr, string) {
