@@ -103,7 +103,7 @@ func loadModel(t *testing.T, paths []string) *model.Model {
 // casePlan reads a case's arguments as `rollwise sql` reads its flags
 // (-m and -b are lists, repeated -w combine with and) and plans the query.
 func casePlan(m *model.Model, args []string) (*plan.Plan, error) {
-	var spec model.QuerySpec
+	var spec model.Request
 	var wheres []string
 	view := ""
 	for i := 0; i < len(args); i += 2 {
@@ -149,7 +149,7 @@ func casePlan(m *model.Model, args []string) (*plan.Plan, error) {
 		if q == nil {
 			return nil, fmt.Errorf("no view %s", view)
 		}
-		diags = q.Override(model.QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit})
+		diags = q.Override(model.Request{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit})
 	} else {
 		q, diags = m.NewQuery(spec)
 	}

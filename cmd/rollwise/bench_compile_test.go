@@ -147,8 +147,8 @@ func loadSynth(src string) (*model.Model, error) {
 // synthQuery asks for 50 measures spread over the model (the deepest
 // chains included), by two columns of two tables, with rollup totals and
 // a filter.
-func synthQuery(n int) model.QuerySpec {
-	q := model.QuerySpec{
+func synthQuery(n int) model.Request {
+	q := model.Request{
 		By:     []string{"products.family", "regions.name"},
 		Where:  "orders.channel <> 'none'",
 		Totals: "rollup",
@@ -214,7 +214,7 @@ func BenchmarkPlan50(b *testing.B) {
 
 // benchPlan loads the model src once, then plans and renders spec in the
 // benchmark's loop, reporting CPU milliseconds and the SQL's size.
-func benchPlan(b *testing.B, src string, spec model.QuerySpec) {
+func benchPlan(b *testing.B, src string, spec model.Request) {
 	b.Helper()
 	m, err := loadSynth(src)
 	if err != nil {

@@ -75,8 +75,8 @@ func layeredMeasure(i int) string {
 
 // layeredQuery asks for k measures of the layered model of n measures,
 // each the last (deepest) of its block, spread over the model.
-func layeredQuery(n, k int) model.QuerySpec {
-	q := model.QuerySpec{
+func layeredQuery(n, k int) model.Request {
+	q := model.Request{
 		By:     []string{"products.family", "regions.name"},
 		Where:  "orders.channel <> 'none'",
 		Totals: "rollup",

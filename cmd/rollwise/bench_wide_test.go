@@ -24,7 +24,7 @@ import (
 var wideModels = []string{"tpch.roll", "bench_wide.roll"}
 
 // wideQuery is the wide report.
-var wideQuery = model.QuerySpec{
+var wideQuery = model.Request{
 	Measures: []string{"revenue", "sum_qty", "sum_base_price", "sum_charge", "avg_price", "avg_disc",
 		"count_order", "order_count", "supplier_count", "max_price", "disc_rate", "revenue_per_order",
 		"late_lines", "late_rate", "returned_rate", "urgent_revenue", "mail_revenue", "mode_share",
@@ -127,7 +127,7 @@ LEFT JOIN order_values AS v ON v.gid = c.gid AND v.shipmode IS NOT DISTINCT FROM
 
 // wideNaive is the naive plan of a query: rollwise's SQL for each measure
 // alone, as a CTE, joined on the group columns and the grouping id.
-func wideNaive(r *engineRunner, q model.QuerySpec) (string, error) {
+func wideNaive(r *engineRunner, q model.Request) (string, error) {
 	m, err := r.model(wideModels)
 	if err != nil {
 		return "", err

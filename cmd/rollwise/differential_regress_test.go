@@ -111,7 +111,7 @@ func (dc *diffOpened) viaMain(q casegen.Query) string {
 	if code != 0 {
 		return "rollwise run fails: " + stderr
 	}
-	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+	pq, diags := dc.m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return diags.Error()

@@ -262,7 +262,7 @@ func (dc *diffOpened) duckdb() diffTarget {
 // plan, render for the engine's dialect, run, write the rows as the JSON
 // report.
 func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) string {
-	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+	pq, diags := dc.m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return "the generated query does not resolve: " + diags.Error()

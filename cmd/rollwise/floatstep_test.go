@@ -39,7 +39,7 @@ measure counted  = round(units)
 		"revenue": false, "units": false, "counted": false,
 		"rounded": true, "big": true, "via_ref": true, "whole": true,
 	} {
-		q, diags := m.NewQuery(model.QuerySpec{Measures: []string{name}})
+		q, diags := m.NewQuery(model.Request{Measures: []string{name}})
 		if diags.HasErrors() {
 			t.Fatalf("%s: %v", name, diags.Error())
 		}

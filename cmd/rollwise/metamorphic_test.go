@@ -24,7 +24,7 @@ import (
 // json` does). skip is true when the planner reports the query as not
 // supported yet.
 func (dc *diffOpened) sqlRows(q casegen.Query) (rows []map[string]any, pq *model.Query, skip bool, err error) {
-	pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+	pq, diags := dc.m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where,
 		Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 	if diags.HasErrors() {
 		return nil, nil, false, fmt.Errorf("the query does not resolve: %v", diags)

@@ -99,7 +99,7 @@ func TestOrderKeyErrors(t *testing.T) {
 		order, want string
 		exit        int
 	}{
-		{"revenue desc, districts.area", "--order:1:15: error: --order names districts.area, which is not a --by column of the query", exitUsage},
+		{"revenue desc, districts.area", "--order:1:15: error: --order names districts.area, which is not a group column of the query", exitUsage},
 		{"revenue, revnue", "--order:1:10: error: --order names 'revnue', which is not a measure; did you mean 'revenue'?", exitFindings},
 		{"revenue, revenue desc", "--order:1:10: error: --order names revenue twice", exitUsage},
 		{"revenue sideways", `--order:1:1: error: --order key "revenue sideways" is not a name and an optional asc or desc`, exitUsage},

@@ -86,7 +86,7 @@ func TestPerGrainIdentities(t *testing.T) {
 		defer dc.close()
 		for _, id := range c.Identities {
 			q := id.Query
-			pq, diags := dc.m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
+			pq, diags := dc.m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
 			if diags.HasErrors() {
 				rt.Fatalf("%v\n\nthe case:\n%s", diags, c)
 			}

@@ -93,12 +93,12 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", msg)}
 		}
 		q = m.ViewQuery(v)
-		diags = q.Override(model.QuerySpec{Totals: o.totals, Order: o.order, Limit: o.limit})
+		diags = q.Override(model.Request{Totals: o.totals, Order: o.order, Limit: o.limit, Names: optionNames})
 	} else {
-		q, diags = m.NewQuery(model.QuerySpec{Measures: o.measures, By: o.by, Where: o.where,
-			Totals: o.totals, Order: o.order, Limit: o.limit})
+		q, diags = m.NewQuery(model.Request{Measures: o.measures, By: o.by, Where: o.where,
+			Totals: o.totals, Order: o.order, Limit: o.limit, Names: optionNames})
 	}
-	src["--where"] = o.where
+	src[optionNames.Where] = o.where
 	if !diags.HasErrors() {
 		var p *plan.Plan
 		var pd grammar.Diagnostics
@@ -119,6 +119,12 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 	printDiags(e, diags, src)
 	return nil, &exitError{code: diagExit(diags), err: fmt.Errorf("%s", countErrors(diags))}
 }
+
+// optionNames are what diagnostics of a request call its parts: the
+// options the user gave them with ("--by:1:9: ...", "--order names
+// revenue twice").
+var optionNames = model.PartNames{Measures: "--measures", By: "--by", Where: "--where",
+	Totals: "--totals", Order: "--order", Limit: "--limit"}
 
 // diagExit is 2 when every error is about the command line's shape (a
 // usage error), 3 for an internal error, and 1 otherwise.

@@ -58,7 +58,7 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 	if err != nil {
 		t.Fatal(err)
 	}
-	spec := model.QuerySpec{Measures: []string{"revenue", "revenue_ly", "growth", "revenue_ytd", "closing_stock"},
+	spec := model.Request{Measures: []string{"revenue", "revenue_ly", "growth", "revenue_ytd", "closing_stock"},
 		By: []string{"calendar.month_start"}, Where: "calendar.cal_year = 2026", Totals: "grand"}
 	q, diags := m.NewQuery(spec)
 	if diags.HasErrors() {

@@ -48,7 +48,7 @@ func loadModelFiles(names []string) (*model.Model, error) {
 }
 
 // planSQL checks a query against the model, plans it and renders it.
-func planSQL(m *model.Model, spec model.QuerySpec) (string, error) {
+func planSQL(m *model.Model, spec model.Request) (string, error) {
 	q, diags := m.NewQuery(spec)
 	if diags.HasErrors() {
 		return "", fmt.Errorf("query: %v", diags.Errors()[0].Error())
@@ -107,8 +107,8 @@ func (r *engineRunner) model(names []string) (*model.Model, error) {
 }
 
 // spec is the check's query as model.NewQuery takes it.
-func (c tpchCheck) spec() model.QuerySpec {
-	return model.QuerySpec{Measures: c.Measures, By: c.By, Where: c.Where, Totals: c.Totals,
+func (c tpchCheck) spec() model.Request {
+	return model.Request{Measures: c.Measures, By: c.By, Where: c.Where, Totals: c.Totals,
 		Order: c.Order, Limit: c.Limit}
 }
 

@@ -157,35 +157,52 @@ func TestUnreachableGrouping(t *testing.T) {
 	if m == nil {
 		t.Fatal(d)
 	}
-	q, qd := m.NewQuery(model.QuerySpec{Measures: []string{"fees"}, By: []string{"stores.region"}})
+	q, qd := m.NewQuery(model.Request{Measures: []string{"fees"}, By: []string{"stores.region"}})
 	if qd.HasErrors() {
 		t.Fatal(qd)
 	}
 	_, pd := plan.NewPlan(q)
-	want := "--by:1:1: error: cannot group by stores.region: measure fees iterates over repairs, and no link leads from repairs to stores"
+	want := "the group list:1:1: error: cannot group by stores.region: measure fees iterates over repairs, and no link leads from repairs to stores"
 	if len(pd) != 1 || pd[0].Error() != want {
 		t.Fatalf("got %v\nwant %s", pd, want)
 	}
 }
 
+// A request's parts are named in positions and messages as the caller
+// names them (a command line's options), or in the request's own words.
 func TestQueryErrorsHavePositions(t *testing.T) {
 	m, d := load(t, "measure units = sum(sales.qty)\n")
 	if m == nil {
 		t.Fatal(d)
 	}
-	_, qd := m.NewQuery(model.QuerySpec{Measures: []string{"units", "unts"}, By: []string{"stores.region", "sales.qtty"},
-		Where: "stores.region = 'North' and sales.qty >"})
-	var got []string
-	for _, x := range qd {
-		got = append(got, x.Error())
-	}
-	want := []string{
-		"--measures:1:7: error: unknown measure 'unts'; did you mean 'units'?",
-		"--by:1:21: error: unknown column 'qtty' in table sales; did you mean 'qty'?",
-		"--where:1:40: error: syntax error: unexpected end of declaration (expected a value)",
-	}
-	if strings.Join(got, "\n") != strings.Join(want, "\n") {
-		t.Errorf("got:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(want, "\n"))
+	req := model.Request{Measures: []string{"units", "unts"}, By: []string{"stores.region", "sales.qtty"},
+		Where: "stores.region = 'North' and sales.qty >", Order: "units, units"}
+	for _, c := range []struct {
+		names model.PartNames
+		want  []string
+	}{
+		{model.PartNames{Measures: "--measures", By: "--by", Where: "--where", Order: "--order"}, []string{
+			"--measures:1:7: error: unknown measure 'unts'; did you mean 'units'?",
+			"--by:1:21: error: unknown column 'qtty' in table sales; did you mean 'qty'?",
+			"--where:1:40: error: syntax error: unexpected end of declaration (expected a value)",
+			"--order:1:8: error: --order names units twice",
+		}},
+		{model.PartNames{}, []string{
+			"the measure list:1:7: error: unknown measure 'unts'; did you mean 'units'?",
+			"the group list:1:21: error: unknown column 'qtty' in table sales; did you mean 'qty'?",
+			"the filter:1:40: error: syntax error: unexpected end of declaration (expected a value)",
+			"the order:1:8: error: the order names units twice",
+		}},
+	} {
+		req.Names = c.names
+		_, qd := m.NewQuery(req)
+		var got []string
+		for _, x := range qd {
+			got = append(got, x.Error())
+		}
+		if strings.Join(got, "\n") != strings.Join(c.want, "\n") {
+			t.Errorf("got:\n%s\nwant:\n%s", strings.Join(got, "\n"), strings.Join(c.want, "\n"))
+		}
 	}
 }
 
@@ -253,7 +270,7 @@ func TestMeasureNamedLikeGroupColumn(t *testing.T) {
 		t.Fatal(d)
 	}
 	for _, name := range []string{"stores.region", "Stores.Region"} {
-		_, qd := m.NewQuery(model.QuerySpec{Measures: []string{"`" + name + "`"}, By: []string{"stores.region"}})
+		_, qd := m.NewQuery(model.Request{Measures: []string{"`" + name + "`"}, By: []string{"stores.region"}})
 		if len(qd) != 1 || qd[0].Code != "name-clash" || !strings.Contains(qd[0].Message, "both be output columns") {
 			t.Errorf("%s: %v", name, qd)
 		}

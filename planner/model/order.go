@@ -17,38 +17,38 @@ type OrderKey struct {
 	Desc  bool
 }
 
-// parseOrder reads --order: keys separated by commas, each a measure the
-// query asks for or one of its --by columns, then asc or desc
-// ("revenue desc, orders.o_orderdate"). Commas and spaces inside
-// backquotes belong to the name.
-func (q *Query) parseOrder(text string) ([]OrderKey, grammar.Diagnostics) {
+// parseOrder reads a request's order: keys separated by commas, each a
+// measure the query asks for or one of its group columns, then asc or
+// desc ("revenue desc, orders.o_orderdate"). Commas and spaces inside
+// backquotes belong to the name. names are what messages call the parts.
+func (q *Query) parseOrder(text string, names PartNames) ([]OrderKey, grammar.Diagnostics) {
 	var diags grammar.Diagnostics
 	var keys []OrderKey
 	for _, item := range splitOutsideBackquotes(text, ',') {
-		p := grammar.Pos{File: "--order", Line: 1, Col: item.col}
+		p := grammar.Pos{File: names.Order, Line: 1, Col: item.col}
 		words := splitOutsideBackquotes(item.text, ' ')
 		if len(words) == 0 {
-			diags.Errorf(p, "usage", "--order has an empty key").Suggestion = `write keys separated by commas: "revenue desc, stores.city"`
+			diags.Errorf(p, "usage", "%s has an empty key", names.Order).Suggestion = `write keys separated by commas: "revenue desc, stores.city"`
 			continue
 		}
 		desc := false
 		if n := len(words); n == 2 && (strings.EqualFold(words[1].text, "desc") || strings.EqualFold(words[1].text, "asc")) {
 			desc = strings.EqualFold(words[1].text, "desc")
 		} else if n != 1 {
-			diags.Errorf(p, "usage", "--order key %q is not a name and an optional asc or desc", strings.TrimSpace(item.text)).Suggestion =
+			diags.Errorf(p, "usage", "%s key %q is not a name and an optional asc or desc", names.Order, strings.TrimSpace(item.text)).Suggestion =
 				`write keys separated by commas: "revenue desc, stores.city"`
 			continue
 		}
 		name := words[0].text
 		p.Col += words[0].col - 1
-		k, ok := q.orderKey(name, p, &diags)
+		k, ok := q.orderKey(name, p, names, &diags)
 		if !ok {
 			continue
 		}
 		k.Desc = desc
 		for _, prev := range keys {
 			if prev.Measure == k.Measure && (k.Measure != nil || prev.Group == k.Group) {
-				diags.Errorf(p, "usage", "--order names %s twice", name).Suggestion = "give each key once"
+				diags.Errorf(p, "usage", "%s names %s twice", names.Order, name).Suggestion = "give each key once"
 				ok = false
 			}
 		}
@@ -61,19 +61,19 @@ func (q *Query) parseOrder(text string) ([]OrderKey, grammar.Diagnostics) {
 
 // orderKey resolves one key's name: a measure of the query, or a column
 // reference that is one of its groups.
-func (q *Query) orderKey(name string, p grammar.Pos, diags *grammar.Diagnostics) (OrderKey, bool) {
+func (q *Query) orderKey(name string, p grammar.Pos, names PartNames, diags *grammar.Diagnostics) (OrderKey, bool) {
 	if !isColumnRef(name) {
 		m := q.model.Measure(unbackquote(name))
 		if m == nil {
-			var names []string
+			var all []string
 			for _, x := range q.model.Measures {
-				names = append(names, x.Name)
+				all = append(all, x.Name)
 			}
-			d := diags.Errorf(p, "unknown-measure", "--order names '%s', which is not a measure", name)
-			if near := grammar.Closest(name, names); near != "" {
+			d := diags.Errorf(p, "unknown-measure", "%s names '%s', which is not a measure", names.Order, name)
+			if near := grammar.Closest(name, all); near != "" {
 				d.Message += fmt.Sprintf("; did you mean '%s'?", near)
 			}
-			d.Suggestion = "name a measure of the query or one of its --by columns (table.column)"
+			d.Suggestion = "name a measure of the query or one of its group columns (table.column)"
 			return OrderKey{}, false
 		}
 		for _, mm := range q.Measures {
@@ -81,7 +81,7 @@ func (q *Query) orderKey(name string, p grammar.Pos, diags *grammar.Diagnostics)
 				return OrderKey{Measure: m}, true
 			}
 		}
-		diags.Errorf(p, "usage", "--order names %s, which the query does not ask for", name).Suggestion = "add it to --measures"
+		diags.Errorf(p, "usage", "%s names %s, which the query does not ask for", names.Order, name).Suggestion = "add it to " + names.Measures
 		return OrderKey{}, false
 	}
 	r := &resolver{m: q.model, state: map[string]int{}}
@@ -95,8 +95,8 @@ func (q *Query) orderKey(name string, p grammar.Pos, diags *grammar.Diagnostics)
 			return OrderKey{Group: i}, true
 		}
 	}
-	diags.Errorf(p, "usage", "--order names %s, which is not a --by column of the query", name).Suggestion =
-		"add it to --by, or sort by a measure or a column the query groups by"
+	diags.Errorf(p, "usage", "%s names %s, which is not a group column of the query", names.Order, name).Suggestion =
+		"add it to " + names.By + ", or sort by a measure or a column the query groups by"
 	return OrderKey{}, false
 }
 
@@ -114,10 +114,10 @@ func unbackquote(name string) string {
 	return name
 }
 
-// SplitList splits a command line list (-m, -b) at the commas outside
-// backquotes, so that -m '`net, after tax`,revenue' names two measures,
-// and trims each item; blank items are dropped. A double quote is an
-// ordinary character.
+// SplitList splits a list of names or column references at the commas
+// outside backquotes, so that "`net, after tax`,revenue" names two
+// measures, and trims each item; blank items are dropped. A double quote
+// is an ordinary character.
 func SplitList(s string) []string {
 	var out []string
 	for _, item := range splitOutsideBackquotes(s, ',') {

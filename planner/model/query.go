@@ -1,7 +1,6 @@
 package model
 
 import (
-	"fmt"
 	"strings"
 
 	"github.com/rollwise/rollwise/grammar"
@@ -10,15 +9,15 @@ import (
 // Query asks for measures, grouped by columns, under filters.
 type Query struct {
 	Measures []*Measure
-	// Groups are the --by columns; GroupNames the references as written.
+	// Groups are the group columns; GroupNames the references as written.
 	Groups     []*Column
 	GroupNames []string
 	GroupPos   []grammar.Pos
-	// Filters are the --where conjuncts (row predicates).
+	// Filters are the conjuncts of the request's filter (row predicates).
 	Filters []Expr
 	Totals  TotalsMode
-	// Order is the --order keys; empty for the default order (by the
-	// group values).
+	// Order is the keys of the request's order; empty for the default
+	// order (by the group values).
 	Order []OrderKey
 	// Limit cuts the detail rows; 0 means no limit.
 	Limit int
@@ -26,113 +25,8 @@ type Query struct {
 	model *Model
 }
 
-// Override applies the totals mode, order and limit of spec where they are
-// given (a view's own query, changed on the command line).
-func (q *Query) Override(spec QuerySpec) grammar.Diagnostics {
-	var diags grammar.Diagnostics
-	switch mode := TotalsMode(strings.ToLower(strings.TrimSpace(spec.Totals))); mode {
-	case "":
-	case TotalsNone, TotalsGrand, TotalsRollup, TotalsAll:
-		q.Totals = mode
-	default:
-		diags.Errorf(grammar.Pos{File: "--totals"}, "usage", "unknown totals mode %q", spec.Totals).Suggestion =
-			"write none, grand, rollup or all"
-	}
-	if strings.TrimSpace(spec.Order) != "" {
-		keys, d := q.parseOrder(spec.Order)
-		diags.Append(d)
-		q.Order = keys
-	}
-	if spec.Limit < 0 {
-		diags.Errorf(grammar.Pos{File: "--limit"}, "usage", "--limit must be a positive number, not %d", spec.Limit)
-	}
-	if spec.Limit > 0 {
-		q.Limit = spec.Limit
-	}
-	return diags
-}
-
-// QuerySpec is a query as the command line gives it.
-type QuerySpec struct {
-	Measures []string
-	By       []string
-	Where    string
-	Totals   string
-	Order    string
-	Limit    int
-}
-
-// NewQuery resolves a query against the model. Positions in diagnostics
-// name the option they come from ("--by:1:9").
-func (m *Model) NewQuery(spec QuerySpec) (*Query, grammar.Diagnostics) {
-	var diags grammar.Diagnostics
-	q := &Query{Totals: TotalsNone}
-	r := &resolver{m: m, state: map[string]int{}}
-	for _, name := range m.Measures {
-		r.state[name.Name] = 2
-	}
-	if len(spec.Measures) == 0 {
-		diags.Errorf(grammar.Pos{File: "--measures"}, "usage", "no measures asked for").Suggestion =
-			"name one or more measures: -m revenue,margin_rate"
-	}
-	col := 1
-	for _, name := range spec.Measures {
-		p := grammar.Pos{File: "--measures", Line: 1, Col: col}
-		col += len(name) + 1
-		name = unbackquote(strings.TrimSpace(name))
-		mm := m.Measure(name)
-		if mm == nil {
-			var names []string
-			for _, x := range m.Measures {
-				names = append(names, x.Name)
-			}
-			d := diags.Errorf(p, "unknown-measure", "unknown measure '%s'", name)
-			if near := grammar.Closest(name, names); near != "" {
-				d.Message += fmt.Sprintf("; did you mean '%s'?", near)
-			}
-			continue
-		}
-		q.Measures = append(q.Measures, mm)
-	}
-	col = 1
-	for _, ref := range spec.By {
-		p := grammar.Pos{File: "--by", Line: 1, Col: col}
-		col += len(ref) + 1
-		ref = strings.TrimSpace(ref)
-		c := r.byColumn(ref, p)
-		if c == nil {
-			continue
-		}
-		for i, prev := range q.Groups {
-			if prev == c {
-				diags.Errorf(p, "duplicate-group", "%s is already grouped by (as %s)", c, q.GroupNames[i])
-			}
-		}
-		q.Groups = append(q.Groups, c)
-		q.GroupNames = append(q.GroupNames, ref)
-		q.GroupPos = append(q.GroupPos, p)
-	}
-	diags.Append(r.diags)
-	r.diags = nil
-	diags.Append(nameClashes(q))
-	if strings.TrimSpace(spec.Where) != "" {
-		e, d := grammar.ParseExpr("--where", spec.Where)
-		diags.Append(d)
-		if e != nil {
-			pred := (&exprResolver{r: r, row: true}).expr(e)
-			if pred != nil && (&exprResolver{r: r}).wantType(pred, TypeBoolean, "--where") {
-				q.Filters = Conjuncts(pred)
-			}
-		}
-	}
-	q.model = m
-	diags.Append(q.Override(QuerySpec{Totals: spec.Totals, Order: spec.Order, Limit: spec.Limit}))
-	diags.Append(r.diags)
-	return q, diags
-}
-
 // nameClashes refuses a measure named like a group column of the query
-// (a measure `stores.region` beside -b stores.region): both would be
+// (a measure `stores.region` beside the group stores.region): both would be
 // output columns of one name, and the SQL ambiguous. Engines compare
 // quoted names without regard to case (DuckDB) or with it, so the test
 // ignores case.

@@ -75,7 +75,7 @@ func checkPlan(t *testing.T, src string) {
 		if i >= 6 {
 			break
 		}
-		specs := []model.QuerySpec{
+		specs := []model.Request{
 			{Measures: []string{ms.Name}},
 			{Measures: []string{ms.Name}, By: by, Where: where, Totals: "all", Order: ms.Name + " desc", Limit: 3},
 		}

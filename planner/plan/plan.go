@@ -25,8 +25,8 @@ type Plan struct {
 	Sets    []uint64
 	Root    *Context
 	Outputs []*Output
-	// Order is the keys the detail rows are sorted by (--order), or nil
-	// for the default order by the group values.
+	// Order is the keys the detail rows are sorted by (the request's
+	// order), or nil for the default order by the group values.
 	Order []SortKey
 	// Scans lists every scan of every context, in creation order.
 	Scans []*Scan
@@ -46,7 +46,7 @@ type SortKey struct {
 type Key struct {
 	Name string
 	Col  *model.Column
-	// Pos is where the key was asked for (a --by item, or a per list).
+	// Pos is where the key was asked for (an item of the group list, or a per list).
 	Pos grammar.Pos
 	// Expr, when set, is the row expression a scan groups by instead of
 	// Col: Col read on rows whose date a time edit moves (`back`).
@@ -248,8 +248,9 @@ func compact(mask uint64, n int, keep []int) uint64 {
 
 // cell is what a measure expression is evaluated in: the context's keys
 // that still group it, and its filters. A filter with rows set belongs to
-// the context's row set (a --where conjunct, or any filter of a per-grain
-// cell); the others (narrowings, pins) narrow single aggregates.
+// the context's row set (a conjunct of the request's filter, or any
+// filter of a per-grain cell); the others (narrowings, pins) narrow
+// single aggregates.
 type cell struct {
 	removed uint64
 	filters []cellFilter

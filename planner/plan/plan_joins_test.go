@@ -46,7 +46,7 @@ func planQuery(t *testing.T, src, measures, by, where string) *plan.Plan {
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	spec := model.QuerySpec{Measures: strings.Split(measures, ","), Where: where}
+	spec := model.Request{Measures: strings.Split(measures, ","), Where: where}
 	if by != "" {
 		spec.By = strings.Split(by, ",")
 	}

@@ -33,7 +33,7 @@ func TestHandWorked(t *testing.T) {
 				m = loadModel(t, paths...)
 				models[key] = m
 			}
-			s := model.QuerySpec{Measures: expect.List(c.Measures), By: expect.List(c.By),
+			s := model.Request{Measures: expect.List(c.Measures), By: expect.List(c.By),
 				Where: c.Where, Totals: c.Totals, Order: c.Order, Limit: c.Limit}
 			expectRows(t, evaluateOn(t, m, s), c.Rows)
 		})
@@ -63,7 +63,7 @@ func loadModel(t *testing.T, paths ...string) *model.Model {
 }
 
 // evaluateOn runs a query with the reference evaluator.
-func evaluateOn(t *testing.T, m *model.Model, spec model.QuerySpec) []map[string]any {
+func evaluateOn(t *testing.T, m *model.Model, spec model.Request) []map[string]any {
 	t.Helper()
 	if spec.Totals == "" {
 		spec.Totals = "none"
@@ -84,6 +84,6 @@ type row = expect.Row
 
 var expectRows, none = expect.Rows, expect.None
 
-func spec(measures, by string, totals string) model.QuerySpec {
-	return model.QuerySpec{Measures: expect.List(measures), By: expect.List(by), Totals: totals}
+func spec(measures, by string, totals string) model.Request {
+	return model.Request{Measures: expect.List(measures), By: expect.List(by), Totals: totals}
 }

@@ -30,7 +30,7 @@ func TestCasesAreValid(t *testing.T) {
 			rt.Fatalf("%v\n%s", err, c)
 		}
 		for _, q := range c.Queries {
-			pq, diags := m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where,
+			pq, diags := m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where,
 				Totals: q.Totals, Order: q.Order, Limit: q.Limit})
 			if diags.HasErrors() {
 				rt.Fatalf("query %s: %v\n%s", q.Command("model.roll"), diags, c)
@@ -90,7 +90,7 @@ func TestIdentitiesHoldInReference(t *testing.T) {
 		}
 		for _, id := range c.Identities {
 			q := id.Query
-			pq, diags := m.NewQuery(model.QuerySpec{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
+			pq, diags := m.NewQuery(model.Request{Measures: q.Measures, By: q.By, Where: q.Where, Totals: q.Totals})
 			if diags.HasErrors() {
 				rt.Fatalf("query %s: %v\n%s", q.Command("model.roll"), diags, c)
 			}

@@ -611,7 +611,7 @@ func (v *verifier) perRowVariants(ctx context.Context, j int) []*variant {
 		}
 		by = append(by, refText(k))
 	}
-	q, diags := v.in.Model.NewQuery(model.QuerySpec{Measures: []string{m.Name}, By: by, Where: v.in.Spec.Where, Totals: "none"})
+	q, diags := v.in.Model.NewQuery(model.Request{Measures: []string{m.Name}, By: by, Where: v.in.Spec.Where, Totals: "none"})
 	if diags.HasErrors() {
 		v.note("could not compute the per-row %s of %s: %v", m.Name, t.Name, diags.Err())
 		return nil

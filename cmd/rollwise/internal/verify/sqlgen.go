@@ -150,7 +150,7 @@ func (v *verifier) throughRows(ctx context.Context, t *model.Table, body, weight
 	if err != nil {
 		return nil, nil, err
 	}
-	q, diags := m.NewQuery(model.QuerySpec{Measures: v.names, By: v.in.Query.GroupNames,
+	q, diags := m.NewQuery(model.Request{Measures: v.names, By: v.in.Query.GroupNames,
 		Where: v.in.Spec.Where, Totals: string(v.in.Query.Totals)})
 	if diags.HasErrors() {
 		return nil, nil, fmt.Errorf("re-planning the query: %v", diags.Err())
