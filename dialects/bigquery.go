@@ -2,6 +2,7 @@ package dialects
 
 import (
 	"fmt"
+	"strconv"
 	"strings"
 	"unicode"
 
@@ -9,17 +10,66 @@ import (
 )
 
 // bigquery is BigQuery (GoogleSQL).
-type bigquery struct{ ansi }
-
-func (bigquery) Name() string { return "bigquery" }
-
-// Caps: GROUPING SETS, but GROUPING takes one argument (§4); no FILTER
-// clause (§5); the exact PERCENTILE_CONT is a window function only, the
-// aggregate median is APPROX_QUANTILES (§7); NULLS LAST is supported;
-// COUNT(DISTINCT x) OVER (PARTITION BY ...) is (§6).
-func (bigquery) Caps() Caps {
-	return Caps{GroupingSets: true, ApproxMedian: true, SampleStats: true, NullsLast: true,
-		DistinctWindow: true, PredicateValues: true, FullOuterJoin: true}
+var bigquery = &Dialect{
+	name: "bigquery",
+	// GROUPING SETS (§4); no FILTER clause (§5); NULLS LAST is supported.
+	caps: Caps{GroupingSets: true, NullsLast: true},
+	// NUMERIC: 38 digits, 9 after the point (zetasql data-types).
+	// Rollwise timestamps carry no time zone; GoogleSQL's DATETIME is the
+	// civil date and time, its TIMESTAMP an instant.
+	types: typeNames{integer: "INT64", decimal: "NUMERIC", float: "FLOAT64", text: "STRING",
+		date: "DATE", timestamp: "DATETIME", boolean: "BOOL"},
+	// Backquotes, escaping as in strings (§1).
+	ident: func(name string) string { return bqEscape(name, '`') },
+	// '' is not an escape in GoogleSQL (two adjacent literals), \' is (§2).
+	str:       func(s string) string { return bqEscape(s, '\'') },
+	timestamp: "DATETIME '%s'",
+	// avg of a NUMERIC is a NUMERIC, so the inputs of avg and the
+	// statistics are made FLOAT64, as DuckDB computes them (zetasql
+	// aggregate_functions.md, statistical_aggregate_functions.md).
+	aggs: sampleStats(nil),
+	// The exact PERCENTILE_CONT is a window function only; the aggregate
+	// median is the middle of 2 APPROX_QUANTILES (§7, zetasql
+	// approximate_aggregate_functions.md#approx_quantiles).
+	refused:      map[string]refusal{"median": medianRefusal("PERCENTILE_CONT is a window function only in BigQuery")},
+	approxMedian: "APPROX_QUANTILES(%s, 2)[OFFSET(1)]",
+	// INT64 / INT64 is FLOAT64 but NUMERIC / NUMERIC is NUMERIC, and a
+	// zero divisor is an error (§3).
+	floatDivide: true,
+	// GREATEST and LEAST return NULL when an argument is NULL (zetasql
+	// mathematical_functions.md), so NULLs are stepped over as DuckDB does.
+	calls:           map[string]string{"greatest": "GREATEST", "least": "LEAST"},
+	nullsInExtremes: true,
+	// The part comes second, unquoted (§9); DATETIME values use
+	// DATETIME_TRUNC; WEEK starts on Sunday, ISOWEEK on Monday as in
+	// DuckDB (zetasql date_functions.md#date_trunc).
+	dateTrunc: func(unit, arg string, t model.Type) string {
+		part := strings.ToUpper(unit)
+		if unit == "week" {
+			part = "ISOWEEK"
+		}
+		if t == model.TypeTimestamp {
+			return "DATETIME_TRUNC(" + arg + ", " + part + ")"
+		}
+		return "DATE_TRUNC(" + arg + ", " + part + ")"
+	},
+	// ISOWEEK is the ISO week (WEEK counts Sunday-based weeks).
+	weekUnit: "isoweek",
+	// DATE_ADD (DATETIME_ADD for timestamps, which are DATETIME here);
+	// both clamp a month move to the month's last day (cloud.google.com,
+	// "Date functions", DATE_ADD).
+	moveDate: func(arg string, n int, unit string, t model.Type) string {
+		fn := "DATE_ADD"
+		if t == model.TypeTimestamp {
+			fn = "DATETIME_ADD"
+		}
+		return fn + "(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + strings.ToUpper(unit) + ")"
+	},
+	// GROUPING takes one argument (§4), so the mask is summed from one bit
+	// per key.
+	groupingOneKey: true,
+	columnName:     bigqueryColumnName,
+	view:           ViewDDL{Style: CreateOrReplace, OrderBy: true, ColumnList: true},
 }
 
 // bqEscape escapes text for a quoted GoogleSQL token whose delimiter is
@@ -54,16 +104,13 @@ func bqEscape(s string, quote byte) string {
 	return b.String()
 }
 
-// Ident quotes with backquotes, escaping as in strings (§1).
-func (bigquery) Ident(name string) string { return bqEscape(name, '`') }
-
-// ColumnName: BigQuery column names hold letters, digits and underscores
-// only (cloud.google.com/bigquery/docs/schemas), so the report's key
-// columns, named after references such as plants.family or
+// bigqueryColumnName: BigQuery column names hold letters, digits and
+// underscores only (cloud.google.com/bigquery/docs/schemas), so the
+// report's key columns, named after references such as plants.family or
 // "sales.receipt_id per", are spelled plants__family and
 // sales__receipt_id_per. The JSON and table output keep the names as
 // written: only the SQL spells them so.
-func (bigquery) ColumnName(name string) string {
+func bigqueryColumnName(name string) string {
 	var b strings.Builder
 	for _, r := range name {
 		switch {
@@ -76,115 +123,4 @@ func (bigquery) ColumnName(name string) string {
 		}
 	}
 	return b.String()
-}
-
-// String: ” is not an escape in GoogleSQL (two adjacent literals), \' is
-// (§2).
-func (bigquery) String(s string) string { return bqEscape(s, '\'') }
-
-// Timestamp: rollwise timestamps carry no time zone; GoogleSQL's DATETIME
-// is the civil date and time, its TIMESTAMP an instant.
-func (bigquery) Timestamp(s string) string { return "DATETIME '" + s + "'" }
-
-func (bigquery) TypeName(t model.Type) string {
-	switch t {
-	case model.TypeInteger:
-		return "INT64"
-	case model.TypeDecimal:
-		// NUMERIC: 38 digits, 9 after the point (zetasql data-types).
-		return "NUMERIC"
-	case model.TypeFloat:
-		return "FLOAT64"
-	case model.TypeDate:
-		return "DATE"
-	case model.TypeTimestamp:
-		return "DATETIME"
-	case model.TypeBoolean:
-		return "BOOL"
-	}
-	return "STRING"
-}
-
-func (d bigquery) ColumnType(t model.Type) string { return d.TypeName(t) }
-
-func (d bigquery) Cast(arg string, _, to model.Type) string { return castWith(d, arg, to) }
-
-// Agg: avg of a NUMERIC is a NUMERIC, so the inputs of avg and the
-// statistics are made FLOAT64, as DuckDB computes them
-// (zetasql aggregate_functions.md, statistical_aggregate_functions.md).
-func (d bigquery) Agg(fn string, distinct bool, arg string) (string, error) {
-	switch {
-	case arg == "":
-		return "count(*)", nil
-	case distinct:
-		return fn + "(DISTINCT " + arg + ")", nil
-	case fn == "median":
-		return "", &UnsupportedError{Dialect: d.Name(), Construct: "a median",
-			Hint: "PERCENTILE_CONT is a window function only in BigQuery: Render numbers the rows instead (render_median.go)"}
-	case isStat(fn):
-		return statName(fn) + "(CAST(" + arg + " AS FLOAT64))", nil
-	}
-	return fn + "(" + arg + ")", nil
-}
-
-// approxMedian: the middle of 2 quantiles (§7, zetasql
-// approximate_aggregate_functions.md#approx_quantiles).
-func (bigquery) approxMedian(arg string) string {
-	return "APPROX_QUANTILES(" + arg + ", 2)[OFFSET(1)]"
-}
-
-// Divide: INT64 / INT64 is FLOAT64 but NUMERIC / NUMERIC is NUMERIC, and a
-// zero divisor is an error (§3).
-func (bigquery) Divide(l, r string) string {
-	return "CAST(" + l + " AS FLOAT64) / NULLIF(" + r + ", 0)"
-}
-
-// DateTrunc: the part comes second, unquoted (§9); DATETIME values use
-// DATETIME_TRUNC; WEEK starts on Sunday, ISOWEEK on Monday as in DuckDB
-// (zetasql date_functions.md#date_trunc).
-func (bigquery) DateTrunc(unit, arg string, t model.Type) string {
-	part := strings.ToUpper(unit)
-	if unit == "week" {
-		part = "ISOWEEK"
-	}
-	if t == model.TypeTimestamp {
-		return "DATETIME_TRUNC(" + arg + ", " + part + ")"
-	}
-	return "DATE_TRUNC(" + arg + ", " + part + ")"
-}
-
-// Extract: ISOWEEK is the ISO week (WEEK counts Sunday-based weeks).
-func (bigquery) Extract(unit, arg string) string {
-	part := strings.ToUpper(unit)
-	if unit == "week" {
-		part = "ISOWEEK"
-	}
-	return "EXTRACT(" + part + " FROM " + arg + ")"
-}
-
-// Call: GREATEST and LEAST return NULL when an argument is NULL
-// (zetasql mathematical_functions.md), so NULLs are stepped over as
-// DuckDB does.
-func (bigquery) Call(name string, args []string, _ []model.Type) (string, error) {
-	switch name {
-	case "greatest", "least":
-		return nullIgnoring(strings.ToUpper(name), args), nil
-	}
-	return plainCall(name, args), nil
-}
-
-// GroupingID: GROUPING takes one argument (§4), so the mask is summed
-// from one bit per key.
-func (bigquery) GroupingID(keys []string) string {
-	if len(keys) == 1 {
-		return "GROUPING(" + keys[0] + ")"
-	}
-	parts := make([]string, len(keys))
-	for i, k := range keys {
-		parts[i] = fmt.Sprintf("GROUPING(%s) * %d", k, uint64(1)<<(len(keys)-1-i))
-		if i == len(keys)-1 {
-			parts[i] = "GROUPING(" + k + ")"
-		}
-	}
-	return "(" + strings.Join(parts, " + ") + ")"
 }

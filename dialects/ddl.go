@@ -45,45 +45,9 @@ type ViewDDL struct {
 	ColumnList bool
 }
 
-// ViewDDLer is implemented by a dialect that states its own view DDL; it
-// takes precedence over the table below, so a new dialect can describe
-// itself in its own file.
-type ViewDDLer interface {
-	ViewDDL() ViewDDL
-}
-
-// viewDDLs holds the view DDL of the engines in the design notes, by
-// dialect name. PostgreSQL's CREATE OR REPLACE VIEW refuses to change a
-// column's name or type: that fails loudly, and is left to whoever owns
-// the views that depend on it (DROP ... CASCADE would remove them).
-var viewDDLs = map[string]ViewDDL{
-	"duckdb":    {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"postgres":  {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"mysql":     {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"snowflake": {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"bigquery":  {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"spark":     {Style: CreateOrReplace, OrderBy: true, ColumnList: true},
-	"trino":     {Style: CreateOrReplace, OrderBy: true},
-	"sqlite":    {Style: DropAndCreate, OrderBy: true, ColumnList: true},
-	"sqlserver": {Style: CreateOrAlter, BatchEnd: "GO", ColumnList: true},
-}
-
-// ViewDDLOf returns how dialect d creates views, or an error naming the
-// dialect when nobody has said yet.
-func ViewDDLOf(d Dialect) (ViewDDL, error) {
-	if x, ok := d.(ViewDDLer); ok {
-		return x.ViewDDL(), nil
-	}
-	if v, ok := viewDDLs[strings.ToLower(d.Name())]; ok {
-		return v, nil
-	}
-	return ViewDDL{}, &UnsupportedError{Dialect: d.Name(), Construct: "CREATE VIEW",
-		Hint: "describe its view DDL in dialects/ddl.go or with a ViewDDL method"}
-}
-
 // QualifiedName quotes a view or relation name given as parts (schema,
 // name) and joins them with dots.
-func QualifiedName(d Dialect, parts []string) string {
+func QualifiedName(d *Dialect, parts []string) string {
 	q := make([]string, len(parts))
 	for i, p := range parts {
 		q[i] = d.Ident(p)
@@ -91,34 +55,28 @@ func QualifiedName(d Dialect, parts []string) string {
 	return strings.Join(q, ".")
 }
 
-// RenderView renders a plan as the query of a view: the statement Render
-// prints, without its final ORDER BY where the dialect allows none in a
-// view (the rows are the same; their order is then up to the reader).
-func RenderView(p *plan.Plan, d Dialect) (string, error) {
-	ddl, err := ViewDDLOf(d)
+// RenderView renders a plan as the query of a view: the statement
+// RenderWith prints, without its final ORDER BY where the dialect allows
+// none in a view (the rows are the same; their order is then up to the
+// reader).
+func RenderView(p *plan.Plan, d *Dialect, o Options) (sql, caution string, err error) {
+	sql, caution, err = RenderWith(p, d, o)
 	if err != nil {
-		return "", err
-	}
-	sql, err := Render(p, d)
-	if err != nil {
-		return "", err
+		return "", "", err
 	}
 	// Render ends with ORDER BY exactly when it sorts by a measure or by
 	// group values.
-	if !ddl.OrderBy && (len(p.Order) > 0 || len(p.Query.Groups) > 0) {
+	if !d.view.OrderBy && (len(p.Order) > 0 || len(p.Query.Groups) > 0) {
 		sql = withoutOrderBy(sql)
 	}
-	return sql, nil
+	return sql, caution, nil
 }
 
 // CreateView returns the statements (without a trailing semicolon) that
 // create view name, or replace it if it exists, over query. The view's
 // columns are called columns; the query calls them inner (nil: the same).
-func CreateView(d Dialect, name []string, columns, inner []string, query string) ([]string, error) {
-	ddl, err := ViewDDLOf(d)
-	if err != nil {
-		return nil, err
-	}
+func CreateView(d *Dialect, name []string, columns, inner []string, query string) ([]string, error) {
+	ddl := d.view
 	if inner != nil && len(inner) != len(columns) {
 		return nil, fmt.Errorf("internal error: %d view columns for %d query columns", len(columns), len(inner))
 	}
@@ -148,11 +106,8 @@ func CreateView(d Dialect, name []string, columns, inner []string, query string)
 
 // Script joins statements into a script: each ends with a semicolon, and
 // with the dialect's batch end where it has one.
-func Script(d Dialect, stmts []string) (string, error) {
-	ddl, err := ViewDDLOf(d)
-	if err != nil {
-		return "", err
-	}
+func Script(d *Dialect, stmts []string) (string, error) {
+	ddl := d.view
 	var b strings.Builder
 	for _, s := range stmts {
 		if ddl.BatchEnd != "" {

@@ -10,19 +10,19 @@ import (
 	"github.com/rollwise/rollwise/planner/plan"
 )
 
-// renamed is DuckDB's spelling under another engine's name, to see which
-// view DDL each name gets.
-type renamed struct {
-	duckdb
-	name string
+// renamed is DuckDB's spelling with another engine's view DDL, to see
+// what each view DDL writes.
+func renamed(name string) *Dialect {
+	o, _ := Get(name)
+	return duckdb.WithViewDDL(o)
 }
 
-func (r renamed) Name() string { return r.name }
-
-// selfDescribed states its own view DDL.
-type selfDescribed struct{ renamed }
-
-func (selfDescribed) ViewDDL() ViewDDL { return ViewDDL{Style: DropAndCreate, BatchEnd: "/"} }
+// selfDescribed is DuckDB's spelling with a view DDL of its own.
+func selfDescribed() *Dialect {
+	d := *duckdb
+	d.view = ViewDDL{Style: DropAndCreate, BatchEnd: "/"}
+	return &d
+}
 
 const ddlModel = `
 table sales at "shop.sales" {
@@ -67,16 +67,16 @@ func loadDDLModel(t *testing.T, src string) *model.Model {
 func TestCreateViewStyles(t *testing.T) {
 	cols := []string{"a", `b"c`}
 	cases := []struct {
-		d    Dialect
+		d    *Dialect
 		want []string
 	}{
-		{duckdb{}, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
-		{renamed{name: "postgres"}, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
-		{renamed{name: "sqlserver"}, []string{`CREATE OR ALTER VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
-		{renamed{name: "SQLite"}, []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
-		{selfDescribed{renamed{name: "duckdb"}}, []string{`DROP VIEW IF EXISTS "s"."v"`,
+		{duckdb, []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed("postgres"), []string{`CREATE OR REPLACE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed("sqlserver"), []string{`CREATE OR ALTER VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{renamed("SQLite"), []string{`DROP VIEW IF EXISTS "s"."v"`, `CREATE VIEW "s"."v" ("a", "b""c") AS` + "\nSELECT 1"}},
+		{selfDescribed(), []string{`DROP VIEW IF EXISTS "s"."v"`,
 			`CREATE VIEW "s"."v" AS` + "\nSELECT\n  \"x\" AS \"a\",\n  \"y\" AS \"b\"\"c\"\nFROM (\nSELECT 1\n) AS \"view_rows\""}},
-		{renamed{name: "trino"}, []string{`CREATE OR REPLACE VIEW "s"."v" AS` +
+		{renamed("trino"), []string{`CREATE OR REPLACE VIEW "s"."v" AS` +
 			"\nSELECT\n  \"x\" AS \"a\",\n  \"y\" AS \"b\"\"c\"\nFROM (\nSELECT 1\n) AS \"view_rows\""}},
 	}
 	for _, c := range cases {
@@ -93,25 +93,28 @@ func TestCreateViewStyles(t *testing.T) {
 // Without a column list, a query whose columns already have the view's
 // names is not wrapped.
 func TestNoWrapWhenNamesAgree(t *testing.T) {
-	got, err := CreateView(renamed{name: "trino"}, []string{"v"}, []string{"a"}, []string{"a"}, "SELECT 1 AS a")
+	got, err := CreateView(renamed("trino"), []string{"v"}, []string{"a"}, []string{"a"}, "SELECT 1 AS a")
 	if err != nil || len(got) != 1 || got[0] != "CREATE OR REPLACE VIEW \"v\" AS\nSELECT 1 AS a" {
 		t.Errorf("got %q (%v)", got, err)
 	}
-	if _, err := CreateView(duckdb{}, []string{"v"}, []string{"a", "b"}, []string{"a"}, "SELECT 1"); err == nil {
+	if _, err := CreateView(duckdb, []string{"v"}, []string{"a", "b"}, []string{"a"}, "SELECT 1"); err == nil {
 		t.Error("two columns named for one: no error")
 	}
 }
 
-func TestUnknownDialectHasNoViewDDL(t *testing.T) {
-	_, err := CreateView(renamed{name: "teradata"}, []string{"v"}, []string{"a"}, nil, "SELECT 1")
-	var ue *UnsupportedError
-	if !errors.As(err, &ue) || ue.Dialect != "teradata" || !strings.Contains(err.Error(), "CREATE VIEW") {
-		t.Fatalf("want an error naming teradata and CREATE VIEW, got %v", err)
+// Every dialect states how it creates views: the zero ViewDDL would be
+// CREATE OR REPLACE without a column list and without ORDER BY, which no
+// engine here wants.
+func TestEveryDialectDescribesItsViews(t *testing.T) {
+	for _, d := range all {
+		if d.ViewDDL() == (ViewDDL{}) {
+			t.Errorf("%s: no view DDL in its description", d.Name())
+		}
 	}
 }
 
 func TestScriptEndsBatches(t *testing.T) {
-	got, err := Script(renamed{name: "sqlserver"}, []string{"CREATE OR ALTER VIEW a AS SELECT 1", "CREATE OR ALTER VIEW b AS SELECT 2"})
+	got, err := Script(renamed("sqlserver"), []string{"CREATE OR ALTER VIEW a AS SELECT 1", "CREATE OR ALTER VIEW b AS SELECT 2"})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -119,7 +122,7 @@ func TestScriptEndsBatches(t *testing.T) {
 	if got != want {
 		t.Errorf("got %q, want %q", got, want)
 	}
-	got, _ = Script(duckdb{}, []string{"X", "Y"})
+	got, _ = Script(duckdb, []string{"X", "Y"})
 	if got != "X;\nY;\n" {
 		t.Errorf("duckdb script %q", got)
 	}
@@ -173,15 +176,15 @@ func TestRenderViewOrderBy(t *testing.T) {
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	full, err := Render(p, duckdb{})
+	full, err := Render(p, duckdb)
 	if err != nil {
 		t.Fatal(err)
 	}
-	kept, err := RenderView(p, duckdb{})
+	kept, _, err := RenderView(p, duckdb, Options{})
 	if err != nil || kept != full {
 		t.Fatalf("duckdb view query differs from Render (%v):\n%s", err, kept)
 	}
-	cut, err := RenderView(p, renamed{name: "sqlserver"})
+	cut, _, err := RenderView(p, renamed("sqlserver"), Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -193,7 +196,7 @@ func TestRenderViewOrderBy(t *testing.T) {
 
 func TestRenderRowsJoinsAlongLinks(t *testing.T) {
 	m := loadDDLModel(t, ddlModel)
-	rq, err := RenderRows(m.Table("sales"), duckdb{})
+	rq, err := RenderRows(m.Table("sales"), duckdb, Options{})
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -225,7 +228,7 @@ func TestRenderRowsRefusesUnreachable(t *testing.T) {
 	sales := m.Table("sales")
 	sales.Columns = append(sales.Columns, &model.Column{Table: sales, Name: "odd", Type: model.TypeInteger,
 		Derived: &model.ColRef{Col: m.Table("lonely").Column("id")}})
-	_, err := RenderRows(sales, duckdb{})
+	_, err := RenderRows(sales, duckdb, Options{})
 	if err == nil || !strings.Contains(err.Error(), "sales.odd") || !strings.Contains(err.Error(), "lonely") {
 		t.Fatalf("want an error naming sales.odd and lonely, got %v", err)
 	}

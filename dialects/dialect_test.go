@@ -104,8 +104,8 @@ var spellings = map[string]spelling{
 	},
 }
 
-func aggOrError(d Dialect, fn string) string {
-	s, err := d.Agg(fn, false, "x")
+func aggOrError(d *Dialect, fn string, distinct bool, arg string) string {
+	s, err := d.Agg(fn, distinct, arg)
 	if err != nil {
 		var ue *UnsupportedError
 		if !errors.As(err, &ue) || ue.Dialect != d.Name() {
@@ -116,7 +116,7 @@ func aggOrError(d Dialect, fn string) string {
 	return s
 }
 
-func callOrError(d Dialect, name string, args []string, types []model.Type) string {
+func callOrError(d *Dialect, name string, args []string, types []model.Type) string {
 	s, err := d.Call(name, args, types)
 	if err != nil {
 		return "error: " + err.Error()
@@ -138,15 +138,15 @@ func TestSpellings(t *testing.T) {
 		top, tail := d.Limit(5)
 		got := spelling{
 			ident: d.Ident(`a"b`), str: d.String(`it's \ ok`), date: d.Date("2026-03-01"), ts: d.Timestamp("2026-03-01 10:00:00"),
-			divide: d.Divide("x", "y"), stddev: aggOrError(d, "stddev"), variance: aggOrError(d, "variance"),
-			avg: aggOrError(d, "avg"), median: aggOrError(d, "median"),
+			divide: d.Divide("x", "y"), stddev: aggOrError(d, "stddev", false, "x"), variance: aggOrError(d, "variance", false, "x"),
+			avg: aggOrError(d, "avg", false, "x"), median: aggOrError(d, "median", false, "x"),
 			truncMonth: d.DateTrunc("month", "d", model.TypeDate), truncWeekTS: d.DateTrunc("week", "d", model.TypeTimestamp),
 			extractWeek: d.Extract("week", "d"), bitAnd: d.BitAnd("g", "1"), nullSafe: d.NullSafeEqual("a", "b"),
 			concat: d.Concat("a", "b"), grouping2: d.GroupingID([]string{d.Ident("a"), d.Ident("b")}),
 			greatest2:    callOrError(d, "greatest", []string{"a", "b"}, []model.Type{model.TypeInteger, model.TypeInteger}),
 			roundFloat:   callOrError(d, "round", []string{"x"}, []model.Type{model.TypeFloat}),
 			castFloatInt: d.Cast("x", model.TypeFloat, model.TypeInteger),
-			count:        aggOrError(d, "count"), limit: top + "|" + tail,
+			count:        aggOrError(d, "count", false, "x"), limit: top + "|" + tail,
 		}
 		if got != w {
 			t.Errorf("%s spells:\n%+v\nwant:\n%+v", name, got, w)
@@ -169,8 +169,8 @@ func TestRatiosFractionalAndStatisticsSampleEverywhere(t *testing.T) {
 		for _, fn := range []string{"stddev", "variance"} {
 			s, err := d.Agg(fn, false, "x")
 			if err != nil {
-				if d.Caps().SampleStats {
-					t.Errorf("%s claims sample statistics but refuses %s: %v", name, fn, err)
+				if _, refused := d.refused[fn]; !refused {
+					t.Errorf("%s refuses %s without a refusal in its description: %v", name, fn, err)
 				}
 				continue
 			}
@@ -187,8 +187,8 @@ func TestMedianRefusalNamesDialectAndConstruct(t *testing.T) {
 	for _, name := range Names() {
 		d, _ := Get(name)
 		_, err := d.Agg("median", false, "x")
-		if d.Caps().ExactMedian != (err == nil) {
-			t.Errorf("%s: Caps.ExactMedian = %v but Agg(median) gives error %v", name, d.Caps().ExactMedian, err)
+		if d.exactMedian() != (err == nil) {
+			t.Errorf("%s: exactMedian() = %v but Agg(median) gives error %v", name, d.exactMedian(), err)
 		}
 		if err != nil && (!strings.Contains(err.Error(), name) || !strings.Contains(err.Error(), "median")) {
 			t.Errorf("%s: refusal %q does not name the dialect and the construct", name, err)
@@ -196,6 +196,9 @@ func TestMedianRefusalNamesDialectAndConstruct(t *testing.T) {
 	}
 }
 
+// --approximate is a render option: the dialect stays as described, and
+// the renderer uses the approximate median aggregate only where the
+// dialect has no exact one, noting it.
 func TestApproximate(t *testing.T) {
 	cases := map[string]string{
 		"trino":     "approx_percentile(CAST(x AS DOUBLE), 0.5)",
@@ -203,44 +206,49 @@ func TestApproximate(t *testing.T) {
 		"sqlserver": "APPROX_PERCENTILE_CONT(0.5) WITHIN GROUP (ORDER BY x)",
 	}
 	for name, want := range cases {
-		base, _ := Get(name)
-		d := WithApproximate(base)
-		if !d.Caps().ExactMedian {
-			t.Errorf("%s with --approximate still reports no median", name)
+		d := mustGet(t, name)
+		if !(&renderer{d: d}).windowMedians() {
+			t.Errorf("%s without --approximate should number the rows for a median", name)
 		}
-		if _, used := Approximated(d); used {
-			t.Errorf("%s: approximation reported before any median was rendered", name)
+		r := &renderer{d: d, approximate: true}
+		if r.windowMedians() {
+			t.Errorf("%s with --approximate still numbers the rows", name)
 		}
-		got, err := d.Agg("median", false, "x")
+		if len(r.notes) > 0 {
+			t.Errorf("%s: approximation noted before any median was rendered", name)
+		}
+		got, err := r.agg("median", false, "x")
 		if err != nil || got != want {
 			t.Errorf("%s approximate median = %q, %v; want %q", name, got, err, want)
 		}
-		note, used := Approximated(d)
-		if !used || !strings.Contains(note, "approximate") || !strings.Contains(note, name) {
-			t.Errorf("%s: note %q, used %v", name, note, used)
+		if note := strings.Join(r.notes, "; "); !strings.Contains(note, "approximate") || !strings.Contains(note, name) {
+			t.Errorf("%s: note %q", name, note)
 		}
-		if s, _ := d.Agg("sum", false, "x"); s != "sum(x)" && s != "SUM(x)" {
+		if s, _ := r.agg("sum", false, "x"); s != "sum(x)" && s != "SUM(x)" {
 			t.Errorf("%s: --approximate changed sum: %s", name, s)
 		}
 	}
 	for _, name := range []string{"duckdb", "postgres", "snowflake", "spark", "mysql"} {
-		base, _ := Get(name)
-		if d := WithApproximate(base); d != base {
-			t.Errorf("%s: --approximate should change nothing (exact median, or none to approximate)", name)
+		d := mustGet(t, name)
+		r := &renderer{d: d, approximate: true}
+		exact, _ := d.Agg("median", false, "x")
+		got, _ := r.agg("median", false, "x")
+		if r.windowMedians() != (&renderer{d: d}).windowMedians() || got != exact || len(r.notes) > 0 {
+			t.Errorf("%s: --approximate should change nothing (exact median, or none to approximate): %q, %v", name, got, r.notes)
 		}
 	}
 	// SQLite: no median even approximately; upper and lower for ASCII only.
-	lite := WithApproximate(mustGet(t, "sqlite"))
-	if _, err := lite.Agg("median", false, "x"); err == nil {
+	lite := &renderer{d: mustGet(t, "sqlite"), approximate: true}
+	if _, err := lite.agg("median", false, "x"); err == nil {
 		t.Error("sqlite has no median, not even an approximate one")
 	}
 	if _, err := mustGet(t, "sqlite").Call("upper", []string{"x"}, nil); err == nil || !strings.Contains(err.Error(), "ASCII") {
 		t.Errorf("sqlite upper without --approximate: %v", err)
 	}
-	if s, err := lite.Call("upper", []string{"x"}, nil); err != nil || s != "upper(x)" {
+	if s, err := lite.call("upper", []string{"x"}, nil); err != nil || s != "upper(x)" {
 		t.Errorf("sqlite upper with --approximate: %q, %v", s, err)
 	}
-	if note, used := Approximated(lite); !used || !strings.Contains(note, "ASCII") {
+	if note := strings.Join(lite.notes, "; "); !strings.Contains(note, "ASCII") {
 		t.Errorf("sqlite note %q", note)
 	}
 }
@@ -273,5 +281,26 @@ func TestSQLServerBooleans(t *testing.T) {
 	pg, _ := Get("postgres")
 	if pg.BoolValue("p") != "p" || pg.Truth("v") != "v" {
 		t.Error("postgres should keep predicates as values")
+	}
+}
+
+// count(*), count(DISTINCT x) and the float casts are spelled once, by
+// Agg, from each description: the description only names the function.
+func TestCountDistinctAndFloatArgs(t *testing.T) {
+	star := map[string]string{"sqlserver": "COUNT_BIG(*)"}
+	distinct := map[string]string{"sqlserver": "COUNT_BIG(DISTINCT x)"}
+	for _, d := range all {
+		if got, want := aggOrError(d, "count", true, ""), or(star[d.name], "count(*)"); got != want {
+			t.Errorf("%s: count(*) = %s, want %s", d.name, got, want)
+		}
+		if got, want := aggOrError(d, "count", true, "x"), or(distinct[d.name], "count(DISTINCT x)"); got != want {
+			t.Errorf("%s: count(distinct x) = %s, want %s", d.name, got, want)
+		}
+		// Where the description casts avg's argument, it is cast to the
+		// dialect's own float type.
+		if avg := aggOrError(d, "avg", false, "x"); strings.Contains(avg, "CAST(") &&
+			!strings.Contains(avg, "CAST(x AS "+d.TypeName(model.TypeFloat)+")") {
+			t.Errorf("%s: avg = %s, not over its float type %s", d.name, avg, d.TypeName(model.TypeFloat))
+		}
 	}
 }

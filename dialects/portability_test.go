@@ -41,7 +41,7 @@ func TestSQLServerGoldensHaveNoBatchLines(t *testing.T) {
 // blank replaces every quoted identifier of dialect d by ID and every
 // string literal by ” (so that names and values are never read as SQL
 // by the checks below).
-func blank(d dialects.Dialect, sql string) string {
+func blank(d *dialects.Dialect, sql string) string {
 	open, close, backslash := byte('"'), byte('"'), false
 	switch d.Name() {
 	case "sqlite", "mysql", "spark":
@@ -107,7 +107,7 @@ var (
 	predicateItem = regexp.MustCompile(`(?m)^\s*\((?:[^()]|\([^()]*\))*\s(=|<>|<=|>=|<|>|IS NULL|IS NOT NULL|IN)\s(?:[^()]|\([^()]*\))*\) AS ID,?$`)
 )
 
-func portabilityProblems(d dialects.Dialect, sql string) []string {
+func portabilityProblems(d *dialects.Dialect, sql string) []string {
 	caps := d.Caps()
 	text := blank(d, sql)
 	var out []string

@@ -14,26 +14,48 @@ import (
 // computes it (the last group is the lowest bit; 0 on detail rows).
 const GroupingColumn = "grouping_id"
 
-// Render prints a plan as one SQL statement for the dialect.
-func Render(p *plan.Plan, d Dialect) (string, error) {
-	r := &renderer{p: p, d: d, names: map[string]bool{}, cte: map[*plan.Rel]string{}, keyRel: map[*plan.Context]string{},
-		froms: map[*plan.Context]fromClause{}, rename: map[string]string{}, rows: map[string][]*sharedRows{},
-		derived: map[*model.Table]*derivedRel{}}
+// Render prints a plan as one SQL statement for the dialect, exactly.
+func Render(p *plan.Plan, d *Dialect) (string, error) {
+	sql, _, err := RenderWith(p, d, Options{})
+	return sql, err
+}
+
+// Options are the choices of one rendering that are not the dialect's.
+type Options struct {
+	// Approximate allows the dialect to answer approximately what it
+	// cannot answer exactly, or only slowly (the user's --approximate): a
+	// median by the engine's approximate median aggregate where it has no
+	// exact one (Render computes it exactly with window functions
+	// otherwise), a function the engine computes differently.
+	Approximate bool
+}
+
+// RenderWith prints a plan as one SQL statement for the dialect with the
+// options. caution says what is approximate when the statement uses an
+// approximation ("" when it is exact), so that the output can say so.
+func RenderWith(p *plan.Plan, d *Dialect, o Options) (sql, caution string, err error) {
+	r := &renderer{p: p, d: d, approximate: o.Approximate, names: map[string]bool{}, cte: map[*plan.Rel]string{},
+		keyRel: map[*plan.Context]string{}, froms: map[*plan.Context]fromClause{}, rename: map[string]string{},
+		rows: map[string][]*sharedRows{}, derived: map[*model.Table]*derivedRel{}}
 	spelled := map[string]string{}
 	for _, o := range p.Outputs {
 		spelled[o.Name] = o.Name
 	}
 	if err := r.renameKeys(p.Root, spelled); err != nil {
-		return "", err
+		return "", "", err
 	}
-	return r.render()
+	sql, err = r.render()
+	return sql, strings.Join(r.notes, "; "), err
 }
 
 type renderer struct {
-	p     *plan.Plan
-	d     Dialect
-	names map[string]bool
-	ctes  []string
+	p *plan.Plan
+	d *Dialect
+	// approximate is Options.Approximate; notes say what was approximated.
+	approximate bool
+	notes       []string
+	names       map[string]bool
+	ctes        []string
 	// cte names the CTE holding each relation's cells; keyRel the CTE
 	// holding each context's rows.
 	cte    map[*plan.Rel]string
@@ -46,7 +68,7 @@ type renderer struct {
 	// the tables its inner joins reach, which every row finds.
 	iter  *model.Table
 	found map[*model.Table]bool
-	// rename spells key columns for dialects that need it (ColumnNamer).
+	// rename spells key columns for dialects that need it (columnName).
 	rename map[string]string
 	// rows holds the rows CTEs of each FROM clause (see rowsOf).
 	rows map[string][]*sharedRows
@@ -65,24 +87,17 @@ func (r *renderer) q(name string) string {
 	return r.d.Ident(name)
 }
 
-// ColumnNamer is a dialect whose column names cannot hold the report's key
-// names as written (table.column): it spells them otherwise.
-type ColumnNamer interface {
-	ColumnName(name string) string
-}
-
 // renameKeys spells every key column of the plan as the dialect needs.
 // Two names the dialect would spell alike (plants.family and
 // plants__family on BigQuery) are refused: the SQL could not tell them
 // apart, nor a key spelled as a measure is named. spelled maps each
 // spelling to the name it stands for.
 func (r *renderer) renameKeys(ctx *plan.Context, spelled map[string]string) error {
-	cn, ok := r.d.(ColumnNamer)
-	if !ok {
+	if r.d.columnName == nil {
 		return nil
 	}
 	for _, k := range ctx.Keys {
-		n := cn.ColumnName(k.Name)
+		n := r.d.columnName(k.Name)
 		if prev, ok := spelled[n]; ok && prev != k.Name {
 			return &UnsupportedError{Dialect: r.d.Name(), Construct: fmt.Sprintf("both %s and %s", prev, k.Name),
 				Hint: fmt.Sprintf("its column names hold letters, digits and _ only, and both are spelled %s; rename one of them", n)}
@@ -378,7 +393,7 @@ func (r *renderer) leafAgg(l *plan.Leaf, from string, col func(string) string) (
 	if l.Filter != nil {
 		filter = r.d.Truth(from + r.q(col(l.Filter.Name)))
 	}
-	a, err := FilteredAgg(r.d, l.Func, l.Distinct, arg, filter)
+	a, err := r.filteredAgg(l.Func, l.Distinct, arg, filter)
 	return a + " AS " + r.q(l.Name), err
 }
 
@@ -533,7 +548,7 @@ func (r *renderer) per(ctx *plan.Context, rel *plan.Rel) error {
 				fn = "max"
 			}
 			var err error
-			if a, err = FilteredAgg(r.d, fn, false, arg, conds[l]); err != nil {
+			if a, err = r.filteredAgg(fn, false, arg, conds[l]); err != nil {
 				return err
 			}
 		}

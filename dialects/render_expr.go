@@ -224,21 +224,16 @@ func (r *renderer) fn(e *model.Func) (string, error) {
 	case "date_trunc":
 		return r.d.DateTrunc(e.Unit, args[0], types[0]), nil
 	case "date_move":
-		return r.moveDate(e, args[0], types[0])
+		return r.moveDate(e, args[0], types[0]), nil
 	}
-	return r.d.Call(e.Name, args, types)
+	return r.call(e.Name, args, types)
 }
 
-// DecimalUnifier is a dialect whose union of decimal branches can lose
-// digits: it widens each branch first.
-type DecimalUnifier interface {
-	UnifyDecimal(x string) string
-}
-
-// unify widens a branch of a decimal-typed union where the dialect needs it.
+// unify widens a branch of a decimal-typed union where the dialect needs
+// it (unifyDecimal).
 func (r *renderer) unify(x string, t model.Type) string {
-	if u, ok := r.d.(DecimalUnifier); ok && t == model.TypeDecimal {
-		return u.UnifyDecimal(x)
+	if r.d.unifyDecimal != "" && t == model.TypeDecimal {
+		return "CAST(" + x + " AS " + r.d.unifyDecimal + ")"
 	}
 	return x
 }

@@ -178,7 +178,13 @@ func (r *renderer) layers(ctx *plan.Context, exprs []model.Expr, names []string)
 	from, _ := r.from(ctx)
 	prev := r.cteName(prefix(ctx.Name, "layer_1"))
 	body := "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + strings.ReplaceAll(from, "\n", "\n  ")
-	nester, nest := r.d.(Nester)
+	// A dialect that limits the number of CTEs in a statement (MariaDB:
+	// 64, as each is a bit of a table map) nests its layers as derived
+	// tables in one CTE, each layer the FROM of the next (not indented
+	// further, so that the text stays linear in the depth), each ending
+	// with layerTail, which keeps the engine from merging it into the
+	// layer that reads it.
+	nest := r.d.layerTail != ""
 
 	// Later layers read the earlier layers' columns by name.
 	outer := r.layer
@@ -194,7 +200,7 @@ func (r *renderer) layers(ctx *plan.Context, exprs []model.Expr, names []string)
 		}
 		next := r.cteName(prefix(ctx.Name, fmt.Sprintf("layer_%d", l)))
 		if nest {
-			body = "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM (\n" + body + nester.LayerTail() + "\n  ) AS " + r.q(prev)
+			body = "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM (\n" + body + r.d.layerTail + "\n  ) AS " + r.q(prev)
 		} else {
 			r.ctes = append(r.ctes, r.layerSQL(prev, body))
 			body = "  SELECT\n    " + strings.Join(cols, ",\n    ") + "\n  FROM " + r.q(prev)
@@ -250,29 +256,13 @@ func (r *renderer) computed(c *plan.Computed) (string, error) {
 	return r.value(c.X)
 }
 
-// Fencer is a dialect that would merge a CTE read once into the query
-// that reads it, copying each expression of the CTE into every place that
-// reads its column (so that a chain of layers would grow again in the
-// engine's planner): it writes the CTE so that the engine computes it on
-// its own.
-type Fencer interface {
-	Fence(name, body string) string
-}
-
-// Nester is a dialect that limits the number of CTEs in a statement
-// (MariaDB: 64, as each is a bit of a table map): its layers are nested
-// derived tables in one CTE, each layer the FROM of the next (not
-// indented further, so that the text stays linear in the depth). Each
-// nested layer ends with LayerTail, which keeps the engine from merging
-// it into the layer that reads it.
-type Nester interface {
-	LayerTail() string
-}
-
-// layerSQL is the WITH entry of a layer.
+// layerSQL is the WITH entry of a layer: AS MATERIALIZED on a dialect
+// that would merge a CTE read once into the query that reads it, copying
+// each expression of the CTE into every place that reads its column (so
+// that a chain of layers would grow again in the engine's planner).
 func (r *renderer) layerSQL(name, body string) string {
-	if f, ok := r.d.(Fencer); ok {
-		return f.Fence(r.q(name), body)
+	if r.d.materialize {
+		return r.q(name) + " AS MATERIALIZED (\n" + body + "\n)"
 	}
 	return r.cteSQL(name, body)
 }

@@ -25,10 +25,6 @@ import (
 // by the keys it keeps, so total rows get their own numbering; a GROUP BY
 // GROUPING SETS picks the set's mean by the grouping id.
 
-// windowMedians reports whether medians must be computed with windows:
-// the dialect has no exact median aggregate (nor may approximate one).
-func windowMedians(d Dialect) bool { return !d.Caps().ExactMedian }
-
 // cellAgg is an aggregate column of a cells CTE: sql ("agg AS name") is
 // the same in every grouping set, or, when bySet is set, the expression
 // differs by set (a median numbered within each set's cells).
@@ -108,7 +104,7 @@ func (r *renderer) ranks(base, from string, cols []string, vals []rankedValue, p
 		rk[i].value = value
 		// The windows read the value's expression: a column named in the
 		// same SELECT list cannot be read there.
-		count, err := r.d.Agg("count", false, v.value)
+		count, err := r.agg("count", false, v.value)
 		if err != nil {
 			return "", nil, err
 		}
@@ -132,7 +128,7 @@ func (r *renderer) ranks(base, from string, cols []string, vals []rankedValue, p
 	r.addCTE(name, "  SELECT\n    "+strings.Join(sel, ",\n    ")+"\n  FROM "+from)
 	return name, func(i, j int) (string, error) {
 		n, c := rk[i].number[j], rk[i].counts[j]
-		return r.d.Agg("avg", false, "CASE WHEN 2 * "+n+" BETWEEN "+c+" AND "+c+" + 2 THEN "+rk[i].value+" END")
+		return r.agg("avg", false, "CASE WHEN 2 * "+n+" BETWEEN "+c+" AND "+c+" + 2 THEN "+rk[i].value+" END")
 	}, nil
 }
 
@@ -155,7 +151,7 @@ func (r *renderer) scanMedians(rel *plan.Rel, rowsName string, col func(string) 
 	s := rel.Scan
 	var meds []*plan.Leaf
 	for _, l := range s.Leaves {
-		if l.Func == "median" && windowMedians(r.d) {
+		if l.Func == "median" && r.windowMedians() {
 			meds = append(meds, l)
 		}
 	}
@@ -228,7 +224,7 @@ func (r *renderer) perMedians(rel *plan.Rel, groups string, cols []string, cond 
 	var meds []*plan.PerLeaf
 	var vals []rankedValue
 	for _, l := range rel.Per.Leaves {
-		if l.Func == "median" && windowMedians(r.d) {
+		if l.Func == "median" && r.windowMedians() {
 			v := r.q(l.Value.Name)
 			if c := cond[l]; c != "" {
 				v = "CASE WHEN " + c + " THEN " + v + " END"

@@ -28,13 +28,13 @@ import (
 // grouping id and NULL for its rolled-up keys: the same rows, as a set
 // with no keys aggregates every row into one row (also when there are
 // none), as the empty grouping set does.
-func GroupingSetsSQL(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+func GroupingSetsSQL(d *Dialect, keys []string, sets []uint64, aggs []string, from string) string {
 	return groupingSets(d, keys, sets, plainAggs(aggs), from)
 }
 
 // groupingSets is GroupingSetsSQL with aggregate columns that may differ
 // by grouping set (cellAgg).
-func groupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
+func groupingSets(d *Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
 	gid := d.Ident(GroupingColumn)
 	if len(keys) == 0 || len(sets) <= 1 {
 		id := setOf(sets)
@@ -44,7 +44,7 @@ func groupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from 
 		}
 		return selectGrouped(cols, keys, len(aggs) > 0, from)
 	}
-	if d.Caps().GroupingSets {
+	if d.caps.GroupingSets {
 		id := d.GroupingID(keys)
 		cols := append(append([]string{}, keys...), id+" AS "+gid)
 		for _, a := range aggs {
@@ -63,11 +63,11 @@ func groupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from 
 // UnionGroupingSets is GroupingSetsSQL's UNION ALL form, for engines
 // without GROUPING SETS: one GROUP BY per set, the mask as a literal
 // grouping id, NULL for rolled-up keys.
-func UnionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []string, from string) string {
+func UnionGroupingSets(d *Dialect, keys []string, sets []uint64, aggs []string, from string) string {
 	return unionGroupingSets(d, keys, sets, plainAggs(aggs), from)
 }
 
-func unionGroupingSets(d Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
+func unionGroupingSets(d *Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
 	gid := d.Ident(GroupingColumn)
 	n := len(keys)
 	var branches []string
@@ -122,12 +122,17 @@ func keptKeys(keys []string, mask uint64) []string {
 // agg(CASE WHEN f THEN x END), which the aggregates treat alike as they
 // skip NULLs (dialects.md §5); count(*) becomes
 // count(CASE WHEN f THEN 1 END). arg is "" for count(*).
-func FilteredAgg(d Dialect, fn string, distinct bool, arg, filter string) (string, error) {
+func FilteredAgg(d *Dialect, fn string, distinct bool, arg, filter string) (string, error) {
+	return filteredAgg(d, d.Agg, fn, distinct, arg, filter)
+}
+
+// filteredAgg is FilteredAgg with the aggregates spelled by agg.
+func filteredAgg(d *Dialect, agg func(fn string, distinct bool, arg string) (string, error), fn string, distinct bool, arg, filter string) (string, error) {
 	if filter == "" {
-		return d.Agg(fn, distinct, arg)
+		return agg(fn, distinct, arg)
 	}
-	if d.Caps().FilterClause {
-		a, err := d.Agg(fn, distinct, arg)
+	if d.caps.FilterClause {
+		a, err := agg(fn, distinct, arg)
 		if err != nil {
 			return "", err
 		}
@@ -136,19 +141,19 @@ func FilteredAgg(d Dialect, fn string, distinct bool, arg, filter string) (strin
 	if arg == "" {
 		arg = "1"
 	}
-	return d.Agg(fn, distinct, "CASE WHEN "+filter+" THEN "+arg+" END")
+	return agg(fn, distinct, "CASE WHEN "+filter+" THEN "+arg+" END")
 }
 
 // OrderKey returns the ORDER BY items that sort by expr, NULLs last:
 // "x ASC NULLS LAST" where the engine has NULLS LAST, else a leading
 // "CASE WHEN x IS NULL THEN 1 ELSE 0 END" (MySQL, MariaDB and SQL Server
 // sort NULLs first ascending). The same items serve a window's ORDER BY.
-func OrderKey(d Dialect, expr string, desc bool) []string {
+func OrderKey(d *Dialect, expr string, desc bool) []string {
 	dir := "ASC"
 	if desc {
 		dir = "DESC"
 	}
-	if d.Caps().NullsLast {
+	if d.caps.NullsLast {
 		return []string{expr + " " + dir + " NULLS LAST"}
 	}
 	return []string{"CASE WHEN " + expr + " IS NULL THEN 1 ELSE 0 END", expr + " " + dir}
@@ -159,7 +164,7 @@ func OrderKey(d Dialect, expr string, desc bool) []string {
 // A statement that does not start with SELECT (a WITH ... query) is
 // returned with the limit as a tail, or with an error on a TOP dialect,
 // where TOP belongs in the final SELECT: pass that SELECT instead.
-func ApplyLimit(d Dialect, stmt string, n int) (string, error) {
+func ApplyLimit(d *Dialect, stmt string, n int) (string, error) {
 	top, tail := d.Limit(n)
 	if top != "" {
 		rest, ok := strings.CutPrefix(stmt, "SELECT")

@@ -14,7 +14,7 @@ import (
 	"github.com/rollwise/rollwise/planner/plan"
 )
 
-func mustGet(t *testing.T, name string) Dialect {
+func mustGet(t *testing.T, name string) *Dialect {
 	t.Helper()
 	d, err := Get(name)
 	if err != nil {
@@ -93,7 +93,7 @@ func TestUnionGroupingSetsSameRows(t *testing.T) {
 			for _, n := range []int{1, 2, 3} {
 				names := []string{"a", "b", "c"}[:n]
 				sets := plan.GroupingSets(mode, n)
-				query := func(d Dialect, union, noAggs bool) string {
+				query := func(d *Dialect, union, noAggs bool) string {
 					var keys []string
 					for _, k := range names {
 						keys = append(keys, d.Ident(k))
@@ -110,7 +110,7 @@ func TestUnionGroupingSetsSameRows(t *testing.T) {
 				}
 				for _, noAggs := range []bool{false, true} {
 					name := fmt.Sprintf("%s/%d keys/%q/no aggregates %v", mode, n, where, noAggs)
-					q := func(d Dialect, union bool) string { return query(d, union, noAggs) }
+					q := func(d *Dialect, union bool) string { return query(d, union, noAggs) }
 					want := rowSet(t, duckDB, q(duck, false))
 					if got := rowSet(t, duckDB, q(duck, true)); got != want {
 						t.Errorf("%s: UNION ALL on DuckDB:\n%s\nGROUPING SETS:\n%s", name, got, want)

@@ -18,6 +18,9 @@ type RowQuery struct {
 	Columns []*model.Column
 	// Joins are the links the derived columns follow, nearest first.
 	Joins []*model.Link
+	// Caution says what is approximate, where Options.Approximate let a
+	// derived column be ("" when every column is exact).
+	Caution string
 }
 
 // RenderRows renders the row-level query of table t. Derived columns are
@@ -25,12 +28,12 @@ type RowQuery struct {
 // read other tables do so through LEFT JOINs along the links that lead
 // there. Every link is many-to-one, so each row of t is kept and kept once
 // (a row whose link finds nothing reads NULL for that table's columns).
-func RenderRows(t *model.Table, d Dialect) (*RowQuery, error) {
+func RenderRows(t *model.Table, d *Dialect, o Options) (*RowQuery, error) {
 	joins, err := rowJoins(t)
 	if err != nil {
 		return nil, err
 	}
-	r := &renderer{d: d}
+	r := &renderer{d: d, approximate: o.Approximate}
 	var cols []string
 	for _, c := range t.Columns {
 		if c.Stored() {
@@ -51,7 +54,7 @@ func RenderRows(t *model.Table, d Dialect) (*RowQuery, error) {
 		}
 		sql += "\n  LEFT JOIN " + r.relation(l.To) + " AS " + r.q(l.To.Name) + " ON " + strings.Join(conds, " AND ")
 	}
-	return &RowQuery{SQL: sql, Columns: t.Columns, Joins: joins}, nil
+	return &RowQuery{SQL: sql, Columns: t.Columns, Joins: joins, Caution: strings.Join(r.notes, "; ")}, nil
 }
 
 // rowJoins lists the links t's derived columns follow, nearest first (so
@@ -89,7 +92,7 @@ func rowJoins(t *model.Table) ([]*model.Link, error) {
 // UnmatchedRows is the statement that counts the rows of l's table whose
 // link l finds no row of its target (a NULL link column finds none): 0
 // where a link declared required keeps its promise.
-func UnmatchedRows(l *model.Link, d Dialect) string {
+func UnmatchedRows(l *model.Link, d *Dialect) string {
 	r := &renderer{d: d}
 	from, to := r.q("source"), r.q("target")
 	var conds []string
@@ -107,7 +110,7 @@ func UnmatchedRows(l *model.Link, d Dialect) string {
 // value is on one row at most); Example selects the most repeated one
 // (its columns, then its number of rows). A key that a table declares,
 // or a semiadditive column's key and date, must occur once.
-func RepeatedRows(t *model.Table, cols []*model.Column, d Dialect) (count, example string, err error) {
+func RepeatedRows(t *model.Table, cols []*model.Column, d *Dialect) (count, example string, err error) {
 	r := &renderer{d: d}
 	var names []string
 	for _, c := range cols {

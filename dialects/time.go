@@ -1,7 +1,6 @@
 package dialects
 
 import (
-	"fmt"
 	"slices"
 	"strconv"
 	"strings"
@@ -10,36 +9,19 @@ import (
 	"github.com/rollwise/rollwise/planner/plan"
 )
 
-// DateMover is a dialect that can move a date or timestamp forward by a
-// whole number of days or months, a month move clamping to the target
-// month's last day (2026-01-31 plus 1 month is 2026-02-28), as a time
-// edit's `back` needs (language.md, "Time").
-type DateMover interface {
-	MoveDate(arg string, n int, unit string, t model.Type) string
-}
-
 // moveDate spells the planner's date_move(D, N).
-func (r *renderer) moveDate(e *model.Func, arg string, t model.Type) (string, error) {
+func (r *renderer) moveDate(e *model.Func, arg string, t model.Type) string {
 	lit, _ := e.Args[1].(*model.Lit)
 	n := 0
 	if lit != nil {
 		n, _ = strconv.Atoi(lit.Text)
 	}
-	return r.moveBy(arg, n, e.Unit, t, "back N "+e.Unit)
+	return r.moveBy(arg, n, e.Unit, t)
 }
 
 // moveBy moves a date by n units: days and weeks as days, quarters and
-// years as months. what names the construct for a dialect that cannot.
-func (r *renderer) moveBy(arg string, n int, unit string, t model.Type, what string) (string, error) {
-	d := r.d
-	if a, wrapped := d.(*Approximate); wrapped {
-		d = a.Dialect
-	}
-	m, ok := d.(DateMover)
-	if !ok {
-		return "", &UnsupportedError{Dialect: r.d.Name(), Construct: "a time edit that moves dates (" + what + ")",
-			Hint: "run it on DuckDB, PostgreSQL, MariaDB/MySQL or SQLite"}
-	}
+// years as months, which the dialect's moveDate moves.
+func (r *renderer) moveBy(arg string, n int, unit string, t model.Type) string {
 	switch unit {
 	case "week":
 		n, unit = 7*n, "day"
@@ -48,7 +30,7 @@ func (r *renderer) moveBy(arg string, n int, unit string, t model.Type, what str
 	case "year":
 		n, unit = 12*n, "month"
 	}
-	return m.MoveDate(arg, n, unit, t), nil
+	return r.d.moveDate(arg, n, unit, t)
 }
 
 // rangeScan renders a window edit's scan (plan.TimeRange): the E of
@@ -84,11 +66,7 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 	case model.EditToDate:
 		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.T))
 	case model.EditLast:
-		lo, err := r.moveBy(end, -tr.N, tr.Unit, tr.E.T, fmt.Sprintf("last %d %s", tr.N, tr.Unit))
-		if err != nil {
-			return err
-		}
-		conds = append(conds, at+" > "+lo)
+		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.T))
 	}
 	n := len(ctx.Keys)
 	for j, i := range tr.Match {
@@ -104,7 +82,7 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		conds = append(conds, eq)
 	}
 	for _, l := range s.Leaves {
-		if l.Func == "median" && windowMedians(r.d) {
+		if l.Func == "median" && r.windowMedians() {
 			return r.rangeMedians(ctx, rel, ends, rowsName, col, conds)
 		}
 	}
@@ -185,96 +163,4 @@ func (r *renderer) rangeMedians(ctx *plan.Context, rel *plan.Rel, ends, rowsName
 	r.cte[rel] = r.cteName(rel.Name + "_cells")
 	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(out, ", ")+"\n  FROM "+r.q(ranked)+"\n  GROUP BY "+strings.Join(group, ", "))
 	return nil
-}
-
-// intervalMove adds an interval, as DuckDB and PostgreSQL spell it; their
-// month arithmetic clamps to the month's last day (PostgreSQL documents
-// it in "Date/Time Functions and Operators", section 9.9). A date plus an
-// interval is a timestamp there: cast back.
-func intervalMove(arg string, n int, unit string, t model.Type) string {
-	x := "(" + arg + " + INTERVAL '" + strconv.Itoa(n) + " " + unit + "')"
-	if t == model.TypeDate {
-		return "CAST(" + x + " AS DATE)"
-	}
-	return x
-}
-
-// MoveDate adds an interval (see intervalMove).
-func (duckdb) MoveDate(arg string, n int, unit string, t model.Type) string {
-	return intervalMove(arg, n, unit, t)
-}
-
-// MoveDate adds an interval (see intervalMove).
-func (postgres) MoveDate(arg string, n int, unit string, t model.Type) string {
-	return intervalMove(arg, n, unit, t)
-}
-
-// MoveDate is DATE_ADD, whose month arithmetic clamps to the month's last
-// day (MySQL and MariaDB manuals, DATE_ADD: "the day is adjusted to the
-// maximum days in the new month").
-func (mysql) MoveDate(arg string, n int, unit string, _ model.Type) string {
-	return "DATE_ADD(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + map[string]string{"day": "DAY", "month": "MONTH"}[unit] + ")"
-}
-
-// MoveDate uses the date function modifiers (sqlite.org/lang_datefunc.html).
-// Their month arithmetic rolls over (January 31 plus 1 month is March 3),
-// so a month move goes to the target month's first day and adds the
-// original day less one, at most the target month's last day less one.
-// A timestamp keeps its time of day (to the millisecond).
-func (sqlite) MoveDate(arg string, n int, unit string, t model.Type) string {
-	var day string
-	if unit == "day" {
-		day = "date(" + arg + ", '" + strconv.Itoa(n) + " days')"
-	} else {
-		last := "CAST(strftime('%d', date(" + arg + ", 'start of month', '" + strconv.Itoa(n+1) + " months', '-1 day')) AS INTEGER)"
-		day = "date(" + arg + ", 'start of month', '" + strconv.Itoa(n) + " months', '+' || (MIN(CAST(strftime('%d', " + arg + ") AS INTEGER), " + last + ") - 1) || ' days')"
-	}
-	if t == model.TypeTimestamp {
-		return "strftime('%Y-%m-%d %H:%M:%f', " + day + " || ' ' || strftime('%H:%M:%f', " + arg + "))"
-	}
-	return day
-}
-
-// MoveDate is DATEADD, which clamps a month move to the target month's
-// last day (learn.microsoft.com, DATEADD: "the last day of the return
-// month is returned").
-func (sqlserver) MoveDate(arg string, n int, unit string, _ model.Type) string {
-	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
-}
-
-// MoveDate is DATEADD, which clamps a month move (docs.snowflake.com,
-// DATEADD: adding a month to January 31 gives the last day of February).
-func (snowflake) MoveDate(arg string, n int, unit string, _ model.Type) string {
-	return "DATEADD(" + unit + ", " + strconv.Itoa(n) + ", " + arg + ")"
-}
-
-// MoveDate is DATE_ADD (DATETIME_ADD for timestamps, which are DATETIME
-// here); both clamp a month move to the month's last day (cloud.google.com,
-// "Date functions", DATE_ADD).
-func (bigquery) MoveDate(arg string, n int, unit string, t model.Type) string {
-	fn := "DATE_ADD"
-	if t == model.TypeTimestamp {
-		fn = "DATETIME_ADD"
-	}
-	return fn + "(" + arg + ", INTERVAL " + strconv.Itoa(n) + " " + strings.ToUpper(unit) + ")"
-}
-
-// MoveDate is date_add, whose month arithmetic clamps to the month's last
-// day (trino.io, "Date and time functions", date_add).
-func (trino) MoveDate(arg string, n int, unit string, _ model.Type) string {
-	return "date_add('" + unit + "', " + strconv.Itoa(n) + ", " + arg + ")"
-}
-
-// MoveDate is add_months or date_add for dates, timestampadd for
-// timestamps; since Spark 3.0 add_months clamps to the month's last day
-// without moving a month's last day to the next month's last day (Spark
-// SQL migration guide, 2.4 to 3.0).
-func (spark) MoveDate(arg string, n int, unit string, t model.Type) string {
-	switch {
-	case t == model.TypeTimestamp:
-		return "timestampadd(" + strings.ToUpper(unit) + ", " + strconv.Itoa(n) + ", " + arg + ")"
-	case unit == "month":
-		return "add_months(" + arg + ", " + strconv.Itoa(n) + ")"
-	}
-	return "date_add(" + arg + ", " + strconv.Itoa(n) + ")"
 }

@@ -84,7 +84,7 @@ func sameColumns(a, b []*model.Column) bool {
 // checkUnique reports, as an error at its declaration, each promise of
 // uniqueness the data breaks: the table, the columns, how many values
 // repeat on how many rows, and the most repeated value.
-func checkUnique(ctx context.Context, runner verify.Runner, d dialects.Dialect, m *model.Model) (grammar.Diagnostics, error) {
+func checkUnique(ctx context.Context, runner verify.Runner, d *dialects.Dialect, m *model.Model) (grammar.Diagnostics, error) {
 	var diags grammar.Diagnostics
 	for _, u := range uniquenesses(m) {
 		count, example, err := dialects.RepeatedRows(u.table, u.cols, d)

@@ -221,7 +221,7 @@ type diffOpened struct {
 // statement runs there (types are the result columns' logical types).
 type diffTarget struct {
 	name string
-	d    dialects.Dialect
+	d    *dialects.Dialect
 	run  func(text string, types []model.Type) (*engine.Result, error)
 	// floats says that decimals are computed as 64-bit floats (SQLite).
 	floats bool

@@ -59,9 +59,6 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 	if err != nil {
 		return nil, &exitError{code: exitUsage, err: err}
 	}
-	if o.approximate {
-		d = dialects.WithApproximate(d)
-	}
 	if o.limit < 0 {
 		return nil, usageErr("--limit must be a positive number, not %d", o.limit)
 	}
@@ -106,11 +103,11 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 		diags.Append(pd)
 		if p != nil {
 			printDiags(e, diags, src)
-			sql, err := dialects.Render(p, d)
+			sql, note, err := dialects.RenderWith(p, d, dialects.Options{Approximate: o.approximate})
 			if err != nil {
 				return nil, &exitError{code: exitFindings, err: err}
 			}
-			if note, ok := dialects.Approximated(d); ok {
+			if note != "" {
 				p.Cautions = append(p.Cautions, note)
 			}
 			return &compiled{model: m, query: q, plan: p, sql: sql}, nil

@@ -53,21 +53,6 @@ type published struct {
 	db    *sql.DB
 }
 
-// asEngine is DuckDB's dialect under another engine's name: the views get
-// that engine's DDL and still run on DuckDB.
-type asEngine struct {
-	dialects.Dialect
-	name string
-}
-
-func (a asEngine) Name() string { return a.name }
-
-// MoveDate is DuckDB's date arithmetic (time edits), which the embedded
-// interface would hide.
-func (a asEngine) MoveDate(arg string, n int, unit string, t model.Type) string {
-	return a.Dialect.(dialects.DateMover).MoveDate(arg, n, unit, t)
-}
-
 // publish generates the views of a model, loads its data into DuckDB and
 // runs the DDL there, twice (it must be idempotent). ddlOf, if set, names
 // the engine whose view DDL to use.
@@ -80,10 +65,15 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 	if err != nil {
 		t.Fatalf("%v\n%s", err, errb.String())
 	}
-	d, _ := dialects.Get("duckdb")
-	var gd dialects.Dialect = d
+	// With ddlOf, DuckDB's spellings with that engine's view DDL: the
+	// views get that engine's DDL and still run on DuckDB.
+	gd, _ := dialects.Get("duckdb")
 	if ddlOf != "" {
-		gd = asEngine{d, ddlOf}
+		o, err := dialects.Get(ddlOf)
+		if err != nil {
+			t.Fatal(err)
+		}
+		gd = gd.WithViewDDL(o)
 	}
 	set, diags := views.Generate(m, gd, views.Options{Schema: schema})
 	if set == nil {
@@ -95,7 +85,7 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 	}
 	t.Cleanup(func() { db.Close() })
 	if schema != "" {
-		if _, err := db.ExecContext(ctx, "CREATE SCHEMA "+d.Ident(schema)); err != nil {
+		if _, err := db.ExecContext(ctx, "CREATE SCHEMA "+gd.Ident(schema)); err != nil {
 			t.Fatal(err)
 		}
 	}

@@ -45,7 +45,7 @@ func LoadInto(ctx context.Context, l *Live, m *model.Model, dataDir string) erro
 }
 
 // relationName is the relation's quoted name in dialect d.
-func relationName(d dialects.Dialect, r *relation) string {
+func relationName(d *dialects.Dialect, r *relation) string {
 	parts := r.name
 	if len(parts) == 0 {
 		parts = []string{r.tables[0].Name}
@@ -58,7 +58,7 @@ func relationName(d dialects.Dialect, r *relation) string {
 }
 
 // createNamespaceLive creates the schema a qualified relation name needs.
-func (l *Live) createNamespaceLive(ctx context.Context, d dialects.Dialect, r *relation) error {
+func (l *Live) createNamespaceLive(ctx context.Context, d *dialects.Dialect, r *relation) error {
 	switch len(r.name) {
 	case 0, 1:
 		return nil
@@ -84,7 +84,7 @@ func (l *Live) createNamespaceLive(ctx context.Context, d dialects.Dialect, r *r
 // columnType is the column's type in the live database. On MySQL and
 // MariaDB text takes the session's binary NO PAD collation (openMySQL),
 // which compares like DuckDB also at trailing spaces.
-func (l *Live) columnType(d dialects.Dialect, t model.Type) string {
+func (l *Live) columnType(d *dialects.Dialect, t model.Type) string {
 	s := d.ColumnType(t)
 	if t == model.TypeText && l.textCollation != "" {
 		s = strings.Replace(s, "utf8mb4_bin", l.textCollation, 1)
@@ -100,7 +100,7 @@ func (l *Live) placeholder(n int) string {
 	return "?"
 }
 
-func (l *Live) loadRelation(ctx context.Context, d dialects.Dialect, src *sql.DB, r *relation) error {
+func (l *Live) loadRelation(ctx context.Context, d *dialects.Dialect, src *sql.DB, r *relation) error {
 	if err := l.createNamespaceLive(ctx, d, r); err != nil {
 		return err
 	}

@@ -229,7 +229,7 @@ func withCTE(sql, name, body string) string {
 }
 
 // relation is a table's quoted relation name.
-func relation(d dialects.Dialect, t *model.Table) string {
+func relation(d *dialects.Dialect, t *model.Table) string {
 	parts := t.Relation
 	if len(parts) == 0 {
 		parts = []string{t.Name}
@@ -244,7 +244,7 @@ func relation(d dialects.Dialect, t *model.Table) string {
 // joinedRows selects the columns of t's rows joined along path (links
 // leading away from t, each with join kind join), as a handwritten query
 // that inner-joins its dimensions does.
-func joinedRows(d dialects.Dialect, t *model.Table, path []*model.Link, join string) string {
+func joinedRows(d *dialects.Dialect, t *model.Table, path []*model.Link, join string) string {
 	b, _ := pathJoins(d, t, path, join)
 	return "  SELECT " + d.Ident("t0") + ".*\n" + b
 }
@@ -255,7 +255,7 @@ func joinedRows(d dialects.Dialect, t *model.Table, path []*model.Link, join str
 // that many times; with join INNER, rows without any are dropped, and
 // with LEFT they count once. Each pair of also adds a condition between a
 // column of fan.From and one of t (a join on store and day).
-func fannedRows(d dialects.Dialect, t *model.Table, path []*model.Link, fan *model.Link, also []columnPair, join, weight string) string {
+func fannedRows(d *dialects.Dialect, t *model.Table, path []*model.Link, fan *model.Link, also []columnPair, join, weight string) string {
 	q := d.Ident
 	b, alias := pathJoins(d, t, path, "LEFT")
 	var keys, conds []string
@@ -279,7 +279,7 @@ func fannedRows(d dialects.Dialect, t *model.Table, path []*model.Link, fan *mod
 
 // pathJoins writes the FROM clause of t joined along path, and the alias
 // of each table.
-func pathJoins(d dialects.Dialect, t *model.Table, path []*model.Link, join string) (string, map[*model.Table]string) {
+func pathJoins(d *dialects.Dialect, t *model.Table, path []*model.Link, join string) (string, map[*model.Table]string) {
 	q := d.Ident
 	alias := map[*model.Table]string{t: "t0"}
 	var b strings.Builder

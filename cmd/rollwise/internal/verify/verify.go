@@ -106,7 +106,7 @@ type Input struct {
 	// Sources are the model files (see Source); without them the fan-out
 	// and dropped-unmatched formulas are skipped.
 	Sources []Source
-	Dialect dialects.Dialect
+	Dialect *dialects.Dialect
 }
 
 // InputError says that nothing could be compared because of how verify

@@ -105,12 +105,8 @@ type Set struct {
 // diagnostic: a view block the planner cannot plan yet, a construct the
 // dialect cannot express, two views with one name, views that read each
 // other in a circle.
-func Generate(m *model.Model, d dialects.Dialect, o Options) (*Set, grammar.Diagnostics) {
+func Generate(m *model.Model, d *dialects.Dialect, o Options) (*Set, grammar.Diagnostics) {
 	var diags grammar.Diagnostics
-	if _, err := dialects.ViewDDLOf(d); err != nil {
-		diags.Errorf(grammar.Pos{File: "--dialect"}, "unsupported", "%v", err)
-		return nil, diags
-	}
 	var schema []string
 	if o.Schema != "" {
 		schema = strings.Split(o.Schema, ".")
@@ -156,7 +152,7 @@ func Generate(m *model.Model, d dialects.Dialect, o Options) (*Set, grammar.Diag
 
 // generator holds what Generate builds on the way.
 type generator struct {
-	d           dialects.Dialect
+	d           *dialects.Dialect
 	approximate bool
 	// schema is the --schema name split at dots.
 	schema []string
@@ -188,7 +184,7 @@ func (g *generator) add(v *View, pos grammar.Pos) {
 
 // rowView builds the row-level view of table t.
 func (g *generator) rowView(t *model.Table, diags *grammar.Diagnostics) {
-	rq, err := dialects.RenderRows(t, g.d)
+	rq, err := dialects.RenderRows(t, g.d, dialects.Options{Approximate: g.approximate})
 	if err != nil {
 		diags.Errorf(t.Pos, "unpublishable", "cannot publish the derived columns of table %s: %v", t.Name, err)
 		return
@@ -227,6 +223,10 @@ func (g *generator) rowView(t *model.Table, diags *grammar.Diagnostics) {
 		}
 		lines = append(lines, "Derived columns read other tables through LEFT JOINs along: "+strings.Join(ls, "; ")+".")
 	}
+	if rq.Caution != "" {
+		lines = append(lines, "Caution: "+rq.Caution+".")
+		g.set.Cautions = append(g.set.Cautions, "view "+v.Name+": "+rq.Caution)
+	}
 	g.header[v] = header(v, lines)
 }
 
@@ -242,16 +242,12 @@ func (g *generator) measureView(m *model.Model, vb *model.View, diags *grammar.D
 	if p == nil {
 		return
 	}
-	d := g.d
-	if g.approximate {
-		d = dialects.WithApproximate(d)
-	}
-	sql, err := dialects.RenderView(p, d)
+	sql, note, err := dialects.RenderView(p, g.d, dialects.Options{Approximate: g.approximate})
 	if err != nil {
 		diags.Errorf(vb.Pos, "unsupported", "view block %s: %v", vb.Name, err)
 		return
 	}
-	note, approximated := dialects.Approximated(d)
+	approximated := note != ""
 	if approximated {
 		p.Cautions = append(p.Cautions, note)
 	}
