@@ -8,10 +8,20 @@ import (
 // parenthesised where precedence could be in doubt. Measures print by
 // name. The text is also a canonical key: equal texts mean equal
 // expressions.
-func Text(e Expr) string {
+func Text(e Expr) string { return TextWith(e, nil) }
+
+// TextWith is Text with the text of each Texter node given by leaf (its
+// own Text where leaf is nil): a plan's dump names each computed value
+// apart.
+func TextWith(e Expr, leaf func(Texter) string) string {
 	var b strings.Builder
-	writeText(&b, e)
+	printer{leaf}.write(&b, e)
 	return b.String()
+}
+
+// printer writes expressions as Text does.
+type printer struct {
+	leaf func(Texter) string
 }
 
 // Texter is an expression of a later pass (a plan's values) that writes
@@ -41,7 +51,7 @@ func QuoteName(s string) string {
 // columnText is a column reference as the text writes it.
 func columnText(c *Column) string { return QuoteName(c.Table.Name) + "." + QuoteName(c.Name) }
 
-func writeText(b *strings.Builder, e Expr) {
+func (p printer) write(b *strings.Builder, e Expr) {
 	switch e := e.(type) {
 	case nil:
 		b.WriteString("null")
@@ -62,33 +72,33 @@ func writeText(b *strings.Builder, e Expr) {
 		}
 	case *BinOp:
 		b.WriteString("(")
-		writeText(b, e.L)
+		p.write(b, e.L)
 		b.WriteString(" " + e.Op + " ")
-		writeText(b, e.R)
+		p.write(b, e.R)
 		b.WriteString(")")
 	case *UnOp:
 		b.WriteString("(" + e.Op)
 		if e.Op == "not" {
 			b.WriteString(" ")
 		}
-		writeText(b, e.X)
+		p.write(b, e.X)
 		b.WriteString(")")
 	case *Func:
 		b.WriteString(e.Name + "(")
 		switch e.Name {
 		case "cast":
-			writeText(b, e.Args[0])
+			p.write(b, e.Args[0])
 			b.WriteString(" as " + e.CastTo.String())
 		case "extract":
 			b.WriteString(e.Unit + " from ")
-			writeText(b, e.Args[0])
+			p.write(b, e.Args[0])
 		case "date_trunc":
 			b.WriteString(e.Unit + ", ")
-			writeText(b, e.Args[0])
+			p.write(b, e.Args[0])
 		default:
 			// A function with a unit other than extract and date_trunc is
 			// a later pass's (a plan's date_move(D, N UNIT)).
-			writeList(b, e.Args)
+			p.writeList(b, e.Args)
 			if e.Unit != "" {
 				b.WriteString(" " + e.Unit)
 			}
@@ -98,27 +108,27 @@ func writeText(b *strings.Builder, e Expr) {
 		b.WriteString("case")
 		for _, w := range e.Whens {
 			b.WriteString(" when ")
-			writeText(b, w.Cond)
+			p.write(b, w.Cond)
 			b.WriteString(" then ")
-			writeText(b, w.Then)
+			p.write(b, w.Then)
 		}
 		if e.Else != nil {
 			b.WriteString(" else ")
-			writeText(b, e.Else)
+			p.write(b, e.Else)
 		}
 		b.WriteString(" end")
 	case *InExpr:
 		b.WriteString("(")
-		writeText(b, e.X)
+		p.write(b, e.X)
 		if e.Not {
 			b.WriteString(" not")
 		}
 		b.WriteString(" in (")
-		writeList(b, e.List)
+		p.writeList(b, e.List)
 		b.WriteString("))")
 	case *IsNullExpr:
 		b.WriteString("(")
-		writeText(b, e.X)
+		p.write(b, e.X)
 		b.WriteString(" is ")
 		if e.Not {
 			b.WriteString("not ")
@@ -131,28 +141,28 @@ func writeText(b *strings.Builder, e Expr) {
 			b.WriteString("*")
 		case e.Distinct:
 			b.WriteString("distinct ")
-			writeText(b, e.Arg)
+			p.write(b, e.Arg)
 		default:
-			writeText(b, e.Arg)
+			p.write(b, e.Arg)
 		}
 		b.WriteString(")")
 	case *MeasureRef:
 		b.WriteString(QuoteName(e.Measure.Name))
 	case *NarrowExpr:
 		b.WriteString("(")
-		writeText(b, e.X)
+		p.write(b, e.X)
 		b.WriteString(" where ")
-		writeText(b, e.Pred)
+		p.write(b, e.Pred)
 		b.WriteString(")")
 	case *EditExpr:
 		b.WriteString("(")
-		writeText(b, e.X)
+		p.write(b, e.X)
 		b.WriteString(")[")
 		for i, ed := range e.Edits {
 			if i > 0 {
 				b.WriteString("; ")
 			}
-			writeEdit(b, ed)
+			p.writeEdit(b, ed)
 		}
 		b.WriteString("]")
 	case *PerAgg:
@@ -160,7 +170,7 @@ func writeText(b *strings.Builder, e Expr) {
 		if e.X == nil {
 			b.WriteString("*")
 		} else {
-			writeText(b, e.X)
+			p.write(b, e.X)
 		}
 		b.WriteString(" per ")
 		for i, c := range e.Per {
@@ -171,15 +181,19 @@ func writeText(b *strings.Builder, e Expr) {
 		}
 		if e.Having != nil {
 			b.WriteString(" having ")
-			writeText(b, e.Having)
+			p.write(b, e.Having)
 		}
 		b.WriteString(")")
 	case Texter:
-		b.WriteString(e.Text())
+		if p.leaf != nil {
+			b.WriteString(p.leaf(e))
+		} else {
+			b.WriteString(e.Text())
+		}
 	}
 }
 
-func writeEdit(b *strings.Builder, ed *CellEdit) {
+func (p printer) writeEdit(b *strings.Builder, ed *CellEdit) {
 	target := ""
 	switch {
 	case ed.Col != nil:
@@ -198,7 +212,7 @@ func writeEdit(b *strings.Builder, ed *CellEdit) {
 		b.WriteString(target)
 		if len(ed.Values) == 1 {
 			b.WriteString(" = ")
-			writeText(b, ed.Values[0])
+			p.write(b, ed.Values[0])
 			return
 		}
 		b.WriteString(" in (")
@@ -206,17 +220,17 @@ func writeEdit(b *strings.Builder, ed *CellEdit) {
 			if i > 0 {
 				b.WriteString(", ")
 			}
-			writeText(b, v)
+			p.write(b, v)
 		}
 		b.WriteString(")")
 	}
 }
 
-func writeList(b *strings.Builder, es []Expr) {
+func (p printer) writeList(b *strings.Builder, es []Expr) {
 	for i, a := range es {
 		if i > 0 {
 			b.WriteString(", ")
 		}
-		writeText(b, a)
+		p.write(b, a)
 	}
 }

@@ -42,15 +42,21 @@ func planQuery(t *testing.T, src, measures, by, where string) *plan.Plan {
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	m, d := model.Load([]*grammar.File{f})
+	req := model.Request{Measures: strings.Split(measures, ","), Where: where}
+	if by != "" {
+		req.By = strings.Split(by, ",")
+	}
+	return planOf(t, []*grammar.File{f}, req)
+}
+
+// planOf resolves the model files and the request, and plans it.
+func planOf(t *testing.T, files []*grammar.File, req model.Request) *plan.Plan {
+	t.Helper()
+	m, d := model.Load(files)
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
-	spec := model.Request{Measures: strings.Split(measures, ","), Where: where}
-	if by != "" {
-		spec.By = strings.Split(by, ",")
-	}
-	q, d := m.NewQuery(spec)
+	q, d := m.NewQuery(req)
 	if d.HasErrors() {
 		t.Fatal(d)
 	}
