@@ -6,7 +6,6 @@ import (
 
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
-	"github.com/rollwise/rollwise/planner/plan"
 )
 
 const shop = `table sales {
@@ -149,22 +148,6 @@ table x {
 	if len(got) != 1 || !strings.Contains(got[0], "two different link paths lead from x to stores") ||
 		!strings.Contains(got[0], "first path: x -> stores") || !strings.Contains(got[0], "second path: x -> hq -> stores") {
 		t.Fatalf("two paths: %v", got)
-	}
-}
-
-func TestUnreachableGrouping(t *testing.T) {
-	m, d := load(t, "measure fees = sum(repairs.fee)\n")
-	if m == nil {
-		t.Fatal(d)
-	}
-	q, qd := m.NewQuery(model.Request{Measures: []string{"fees"}, By: []string{"stores.region"}})
-	if qd.HasErrors() {
-		t.Fatal(qd)
-	}
-	_, pd := plan.NewPlan(q)
-	want := "the group list:1:1: error: cannot group by stores.region: measure fees iterates over repairs, and no link leads from repairs to stores"
-	if len(pd) != 1 || pd[0].Error() != want {
-		t.Fatalf("got %v\nwant %s", pd, want)
 	}
 }
 
