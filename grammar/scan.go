@@ -180,15 +180,26 @@ func scanToken(s string) (lexer.TokenType, int) {
 	case isDigit(c) || c == '.' && len(s) > 1 && isDigit(s[1]):
 		return tokNumber, number(s)
 	}
-	if n := keyword(s); n > 0 {
-		return tokKeyword, n
-	}
 	if c == '_' || isLetter(c) {
 		n := 1
 		for n < len(s) && isWordByte(s[n]) {
 			n++
 		}
+		// A word followed by ASCII (or nothing) is a keyword only as a
+		// whole; otherwise the Kelvin sign or long s may make one.
+		if n == len(s) || s[n] < utf8.RuneSelf {
+			if isKeyword(s[:n]) {
+				return tokKeyword, n
+			}
+			return tokIdent, n
+		}
+		if k := keyword(s); k > 0 {
+			return tokKeyword, k
+		}
 		return tokIdent, n
+	}
+	if n := keyword(s); n > 0 {
+		return tokKeyword, n
 	}
 	if n := operator(s); n > 0 {
 		return tokOp, n
@@ -306,6 +317,19 @@ next:
 		}
 	}
 	return 0
+}
+
+// isKeyword says whether the ASCII word w is a keyword, in any case.
+func isKeyword(w string) bool {
+	if !isLetter(w[0]) {
+		return false
+	}
+	for _, k := range keywordsByLetter[w[0]|0x20-'a'] {
+		if len(k) == len(w) && strings.EqualFold(k, w) {
+			return true
+		}
+	}
+	return false
 }
 
 // foldLetter is the lower-case ASCII letter r folds to, or 0.
