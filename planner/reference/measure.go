@@ -58,19 +58,9 @@ func (ev *evaluator) measure(e model.Expr, c cell) (Value, error) {
 	case *model.NarrowExpr:
 		return ev.measure(e.X, c.with(filterOn(e.Pred)))
 	case *model.EditExpr:
-		edited := c
-		for _, ed := range e.Edits {
-			var err error
-			if ed.Kind.Time() {
-				ok := false
-				if edited, ok, err = ev.timeEdit(edited, ed, e.X); err != nil || !ok {
-					return nil, err
-				}
-				continue
-			}
-			if edited, err = edited.edit(ed); err != nil {
-				return nil, err
-			}
+		edited, ok, err := ev.editCell(c, e)
+		if err != nil || !ok {
+			return nil, err
 		}
 		return ev.measure(e.X, edited)
 	case *model.PerAgg:
@@ -92,6 +82,27 @@ func (ev *evaluator) measure(e model.Expr, c cell) (Value, error) {
 		return nil, fmt.Errorf("cannot evaluate %T", e)
 	}
 	return v, err
+}
+
+// editCell applies the edits of e to cell c, in order. ok is false where
+// a time edit needs E and the cell has no rows of e.X: the value there is
+// NULL.
+func (ev *evaluator) editCell(c cell, e *model.EditExpr) (cell, bool, error) {
+	edited := c
+	for _, ed := range e.Edits {
+		var err error
+		if ed.Kind.Time() {
+			ok := false
+			if edited, ok, err = ev.timeEdit(edited, ed, e.X); err != nil || !ok {
+				return nil, false, err
+			}
+			continue
+		}
+		if edited, err = edited.edit(ed); err != nil {
+			return nil, false, err
+		}
+	}
+	return edited, true, nil
 }
 
 // agg aggregates the rows of the iteration table that satisfy the cell.
@@ -144,11 +155,49 @@ func (ev *evaluator) argValues(td *tableData, e model.Expr) ([]Value, error) {
 // clause decides for the others. The kept groups' values of X are aggregated with AGG;
 // count(* per ...) counts the kept groups.
 func (ev *evaluator) perAgg(p *model.PerAgg, c cell) (Value, error) {
+	groups, err := ev.perGroups(p, c)
+	if err != nil {
+		return nil, err
+	}
+	var vals []Value
+	kept := 0
+	for _, g := range groups {
+		if !g.kept {
+			continue
+		}
+		kept++
+		if p.X == nil {
+			continue
+		}
+		v, err := ev.measure(p.X, g.cell)
+		if err != nil {
+			return nil, err
+		}
+		vals = append(vals, v)
+	}
+	if p.X == nil {
+		return decimal.NewFromInt(int64(kept)), nil
+	}
+	return aggregate(p.Func, false, vals, p.T)
+}
+
+// perGroup is one group of a per-grain aggregate in a cell: the per
+// columns' values, the cell plus their groupings, and whether the group
+// is kept (no NULL value, and the having clause holds).
+type perGroup struct {
+	vals []Value
+	cell cell
+	kept bool
+}
+
+// perGroups lists the groups of p in cell c, in the order the rows give
+// them (see perAgg).
+func (ev *evaluator) perGroups(p *model.PerAgg, c cell) ([]perGroup, error) {
 	tables, err := ev.perTables(p)
 	if err != nil {
 		return nil, err
 	}
-	var groups [][]Value
+	var groups []perGroup
 	seen := map[string]bool{}
 	for _, t := range tables {
 		td := ev.d.tables[t]
@@ -168,45 +217,31 @@ func (ev *evaluator) perAgg(p *model.PerAgg, c cell) (Value, error) {
 			}
 			if k := tupleKey(g); !seen[k] {
 				seen[k] = true
-				groups = append(groups, g)
+				groups = append(groups, perGroup{vals: g})
 			}
 		}
 	}
-	var vals []Value
-	kept := 0
-	for _, g := range groups {
-		cg := c
+	for i := range groups {
+		g := &groups[i]
+		g.cell = c
 		null := false
-		for i, col := range p.Per {
-			cg = cg.with(groupOn(col, g[i]))
-			null = null || g[i] == nil
+		for j, col := range p.Per {
+			g.cell = g.cell.with(groupOn(col, g.vals[j]))
+			null = null || g.vals[j] == nil
 		}
 		if null {
 			continue
 		}
+		g.kept = true
 		if p.Having != nil {
-			h, err := ev.measure(p.Having, cg)
+			h, err := ev.measure(p.Having, g.cell)
 			if err != nil {
 				return nil, err
 			}
-			if !truth(h) {
-				continue
-			}
+			g.kept = truth(h)
 		}
-		kept++
-		if p.X == nil {
-			continue
-		}
-		v, err := ev.measure(p.X, cg)
-		if err != nil {
-			return nil, err
-		}
-		vals = append(vals, v)
 	}
-	if p.X == nil {
-		return decimal.NewFromInt(int64(kept)), nil
-	}
-	return aggregate(p.Func, false, vals, p.T)
+	return groups, nil
 }
 
 // perTables are the tables whose rows give a per-grain's groups: the

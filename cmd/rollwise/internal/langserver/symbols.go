@@ -200,7 +200,7 @@ func describe(y symbol) string {
 		if ts := iterationTables(m); len(ts) > 0 {
 			fmt.Fprintf(&b, "iterates over: %s\n\n", strings.Join(ts, ", "))
 		}
-		if additive(m.Expr, map[*model.Measure]bool{}) {
+		if model.AdditiveMeasure(m.Expr) {
 			b.WriteString("additive: its subtotals equal the sums of their rows")
 		} else {
 			b.WriteString("not additive: every total is re-evaluated in its own cell, never summed")
@@ -273,25 +273,6 @@ func iterationTables(m *model.Measure) []string {
 	}
 	walk(m.Expr)
 	return out
-}
-
-// additive reports whether e is sums and counts joined by + and -, so
-// that its value over a set of rows is the sum of its values over the
-// parts (common practice: the definition of an additive measure).
-func additive(e model.Expr, seen map[*model.Measure]bool) bool {
-	switch x := e.(type) {
-	case *model.Agg:
-		return (x.Func == "sum" || x.Func == "count") && !x.Distinct
-	case *model.MeasureRef:
-		if seen[x.Measure] {
-			return false
-		}
-		seen[x.Measure] = true
-		return additive(x.Measure.Expr, seen)
-	case *model.BinOp:
-		return (x.Op == "+" || x.Op == "-") && additive(x.L, seen) && additive(x.R, seen)
-	}
-	return false
 }
 
 func (s *Server) completion(_ *glsp.Context, p *protocol.CompletionParams) (any, error) {

@@ -68,6 +68,13 @@ func renderValue(v any, c Column, asDate bool) (rendered, error) {
 	return rendered{}, fmt.Errorf("unsupported value type %T", v)
 }
 
+// Show is value v as the table format shows it in column c (a measure's
+// format applied; NULL is empty in a measure, "(null)" in a group).
+func Show(v any, c Column) (string, error) {
+	r, err := renderValue(v, c, c.Type == model.TypeDate)
+	return r.cell.show, err
+}
+
 // periodLabel names the period that starts at t (midnight UTC on the
 // first day of a month, quarter or year): 2024-01, 2024-Q1, 2024. A value
 // that is no such start is shown in full.

@@ -1,0 +1,166 @@
+package main
+
+import (
+	"context"
+	"errors"
+
+	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/explain"
+	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/reference"
+)
+
+type explainOptions struct {
+	models   []string
+	measures []string
+	by       []string
+	where    string
+	cell     string
+	data     string
+	dsn      string
+	format   string
+	live     liveFlags
+}
+
+func newExplainCmd(e *env) *cobra.Command {
+	o := &explainOptions{}
+	cmd := &cobra.Command{
+		Use:   "explain MODEL... -m M [-b T.C,... -w PRED] [--cell 'T.C=v,...']",
+		Short: "Show why a measure has its value in a cell: its parts, their cells and values",
+		Long: `explain shows one measure as the tree of the measures and aggregates it is
+made of: each part with its iteration tables, the narrowings and edits on
+the way to it, its additivity, and, in the cell named by --cell (the grand
+total without it), the row constraints it is evaluated under and its value
+there. The values are computed by the reference evaluator from the rows
+the measure reads, loaded from the embedded DuckDB (or --dsn), and match
+what run prints for the same cell.`,
+		Example: `  rollwise explain garden.roll -m margin_rate -b stores.region --cell "stores.region='North'"
+  rollwise explain garden.roll -m revenue_ly --cell sales.sold_month=2026-03-01 --format json`,
+		RunE: func(cmd *cobra.Command, args []string) error {
+			if err := modelArgs(args); err != nil {
+				return err
+			}
+			o.models = args
+			return scrubDSN(o.dsn, runExplain(e, o))
+		},
+	}
+	f := cmd.Flags()
+	listVarP(f, &o.measures, "measures", "m", "the measure to explain")
+	listVarP(f, &o.by, "by", "b", "group columns of the report the cell belongs to, written table.column (default: the columns --cell names)")
+	whereVar(f, &o.where)
+	onceStringVarP(f, &o.cell, "cell", "", "", "the cell, as group values: \"stores.region='North',sales.item='rose'\" (default: the grand total)")
+	f.StringVar(&o.data, "data", "", "read each table from DIR/NAME.csv or DIR/NAME.parquet")
+	f.StringVar(&o.dsn, "dsn", "", "read the rows from a live database instead: postgres://..., mysql://... or sqlite:PATH")
+	onceStringVarP(f, &o.format, "format", "", "table", "table (an indented tree) or json")
+	o.live.add(f)
+	return cmd
+}
+
+func runExplain(e *env, o *explainOptions) error {
+	if o.format != "table" && o.format != "json" {
+		return usageErr("--format takes table or json, not %q", o.format)
+	}
+	if len(o.measures) != 1 {
+		return usageErr("explain takes one measure (-m M), not %d", len(o.measures))
+	}
+	pairs, err := explain.SplitCell(o.cell)
+	if o.cell == "" {
+		pairs, err = nil, nil
+	}
+	if err != nil {
+		return &exitError{code: exitUsage, err: err}
+	}
+	qo := queryOptions{models: o.models, measures: o.measures, by: o.by, where: o.where, dialect: "duckdb"}
+	if len(qo.by) == 0 {
+		for _, p := range pairs {
+			qo.by = append(qo.by, p.Ref)
+		}
+	}
+	if o.dsn != "" {
+		if qo.dialect, err = liveDialect(o.dsn, "", false, o.data); err != nil {
+			return err
+		}
+	}
+	c, err := compile(e, &qo)
+	if err != nil {
+		return err
+	}
+	cell, err := explain.Resolve(c.query, pairs)
+	if err != nil {
+		return &exitError{code: exitUsage, err: err}
+	}
+	data, err := explainData(e.context(), c.model, c.query, o)
+	if err != nil {
+		return err
+	}
+	if err := explain.Check(data, c.query, cell); err != nil {
+		return &exitError{code: exitFindings, err: err}
+	}
+	tree, err := explain.Explain(data, c.query, cell)
+	if err != nil {
+		return &exitError{code: exitFindings, err: err}
+	}
+	if o.format == "json" {
+		err = explain.WriteJSON(e.stdout, tree)
+	} else {
+		err = explain.WriteText(e.stdout, tree)
+	}
+	if err != nil {
+		return &exitError{code: exitInternal, err: err}
+	}
+	printCautions(e, c.plan)
+	return nil
+}
+
+// explainData loads the rows of the tables q reads, from the live
+// database of --dsn or from the embedded DuckDB over the model's files
+// (or --data).
+func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explainOptions) (*reference.Data, error) {
+	tables := explain.Tables(m, q)
+	var query explain.Query
+	dialect := "duckdb"
+	if o.dsn != "" {
+		l, err := engine.OpenLive(ctx, o.dsn, o.live.options())
+		if err != nil {
+			return nil, &exitError{code: exitFindings, err: err}
+		}
+		defer l.Close()
+		dialect = l.Dialect
+		query = func(ctx context.Context, sql string, want []model.Type) ([][]any, error) {
+			res, err := l.Query(ctx, sql, want)
+			if err != nil {
+				return nil, err
+			}
+			return res.Rows, nil
+		}
+	} else {
+		db, err := engine.Open(ctx, m, o.data, engine.Options{Tables: tables})
+		if err != nil {
+			return nil, &exitError{code: exitFindings, err: err}
+		}
+		defer db.Close()
+		query = func(ctx context.Context, sql string, _ []model.Type) ([][]any, error) {
+			res, err := engine.Query(ctx, db, sql)
+			if err != nil {
+				return nil, err
+			}
+			return res.Rows, nil
+		}
+	}
+	d, err := dialects.Get(dialect)
+	if err != nil {
+		return nil, &exitError{code: exitInternal, err: err}
+	}
+	data, err := explain.Load(ctx, m, tables, d, query)
+	if err != nil {
+		var ee *exitError
+		if errors.As(err, &ee) {
+			return nil, err
+		}
+		return nil, &exitError{code: exitFindings, err: err}
+	}
+	return data, nil
+}

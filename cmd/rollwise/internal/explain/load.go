@@ -1,0 +1,106 @@
+package explain
+
+import (
+	"context"
+	"fmt"
+	"slices"
+	"strings"
+
+	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/planner/model"
+	"github.com/rollwise/rollwise/planner/reference"
+)
+
+// Tables are the tables whose rows explaining q needs: the iteration
+// tables of its measures' aggregates (through the measures they name),
+// the tables of per-grain columns, group columns and filters, and every
+// table these reach along links, in model order.
+func Tables(m *model.Model, q *model.Query) []*model.Table {
+	need := map[*model.Table]bool{}
+	var queue []*model.Table
+	add := func(t *model.Table) {
+		if t != nil && !need[t] {
+			need[t] = true
+			queue = append(queue, t)
+		}
+	}
+	seen := map[*model.Measure]bool{}
+	var walk func(e model.Expr)
+	walk = func(e model.Expr) {
+		model.Walk(e, func(x model.Expr) bool {
+			switch x := x.(type) {
+			case *model.Agg:
+				add(x.Table)
+			case *model.PerAgg:
+				for _, c := range x.Per {
+					add(c.Table)
+				}
+			case *model.ColRef:
+				add(x.Col.Table)
+			case *model.MeasureRef:
+				if !seen[x.Measure] {
+					seen[x.Measure] = true
+					walk(x.Measure.Expr)
+				}
+			}
+			return true
+		})
+	}
+	for _, x := range q.Measures {
+		walk(&model.MeasureRef{Measure: x})
+	}
+	for _, g := range q.Groups {
+		add(g.Table)
+	}
+	for _, f := range q.Filters {
+		walk(f)
+	}
+	for len(queue) > 0 {
+		t := queue[0]
+		queue = queue[1:]
+		for _, l := range t.Links {
+			add(l.To)
+		}
+	}
+	var out []*model.Table
+	for _, t := range m.Tables {
+		if need[t] {
+			out = append(out, t)
+		}
+	}
+	return out
+}
+
+// Query runs one statement on an engine and returns its rows, each value
+// normalised as engine.Result promises; want gives the logical type of
+// each column.
+type Query func(ctx context.Context, sql string, want []model.Type) ([][]any, error)
+
+// Load reads the stored columns of each table through query, in SQL of
+// dialect d, and holds them for the reference evaluator.
+func Load(ctx context.Context, m *model.Model, tables []*model.Table, d dialects.Dialect, query Query) (*reference.Data, error) {
+	rows := map[*model.Table][][]any{}
+	for _, t := range tables {
+		var cols []string
+		var types []model.Type
+		for _, c := range t.Columns {
+			if c.Stored() {
+				cols = append(cols, d.Ident(c.Name))
+				types = append(types, c.Type)
+			}
+		}
+		if len(cols) == 0 {
+			return nil, fmt.Errorf("table %s has no stored column to read", t.Name)
+		}
+		var rel []string
+		for _, part := range t.Relation {
+			rel = append(rel, d.Ident(part))
+		}
+		got, err := query(ctx, "SELECT "+strings.Join(cols, ", ")+" FROM "+strings.Join(rel, "."), types)
+		if err != nil {
+			return nil, fmt.Errorf("reading the rows of %s: %w", t.Name, err)
+		}
+		rows[t] = slices.Clip(got)
+	}
+	return reference.FromRows(m, rows)
+}
