@@ -317,16 +317,10 @@ func explainRandom(t *testing.T, live *livetest.Engine) {
 		model := filepath.Join(dir, casegen.ModelFile)
 		q := c.Queries[0]
 		measure := rapid.SampledFrom(q.Measures).Draw(rt, "measure")
-		args := []string{model, "-m", measure}
-		if len(q.By) > 0 {
-			args = append(args, "-b", strings.Join(q.By, ","))
-		}
-		for _, f := range q.Filters {
-			args = append(args, "-w", f)
-		}
-		if q.Where != "" && len(q.Filters) == 0 {
-			args = append(args, "-w", q.Where)
-		}
+		// The query's measure, groups and filters; its own totals, order
+		// and limit do not matter here.
+		q.Measures, q.Totals, q.Order, q.Limit = []string{measure}, "", "", 0
+		args := append([]string{model}, q.Args()...)
 		approx := false
 		if live != nil {
 			m, err := diffLoadModel(model)

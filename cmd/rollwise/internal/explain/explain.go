@@ -241,10 +241,15 @@ func (b *builder) parts(e model.Expr, c *reference.Cell, via []string) ([]*Node,
 		}
 		step := strings.TrimPrefix(model.Text(x), "("+model.Text(x.X)+")")
 		ns, err := b.parts(x.X, inner, append(slices.Clone(via), step))
-		if c != nil && inner == nil {
-			for _, n := range ns {
-				n.Note = "not evaluated: the cell has no rows to find the date this time edit starts from, so its value is NULL"
-			}
+		note := ""
+		switch {
+		case c != nil && inner == nil:
+			note = "not evaluated: the cell has no rows to find the date this time edit starts from, so its value is NULL"
+		case c != nil && slices.Equal(c.Constraints(), inner.Constraints()):
+			note = "the edits " + step + " leave this cell as it was: " + unchanged(x)
+		}
+		for _, n := range ns {
+			addNote(n, note)
 		}
 		return ns, err
 	}
@@ -343,44 +348,19 @@ func (b *builder) perGrain(n *Node, x *model.PerAgg, c *reference.Cell) error {
 	}
 	if c != nil && in == nil {
 		for _, p := range parts {
-			p.Note = "not evaluated: no group is kept in this cell"
+			addNote(p, "not evaluated: no group is kept in this cell")
 		}
 	}
 	n.Parts = append(n.Parts, parts...)
 	return nil
 }
 
-// tablesOf names the iteration tables of e's aggregates, through the
-// measures it names, in first-use order; a count(* per ...) counts the
-// groups of its per columns' table.
+// tablesOf names the iteration tables of e's aggregates.
 func tablesOf(e model.Expr) []string {
 	out := []string{}
-	seen := map[*model.Measure]bool{}
-	var walk func(e model.Expr)
-	add := func(t *model.Table) {
-		if t != nil && !slices.Contains(out, t.Name) {
-			out = append(out, t.Name)
-		}
+	for _, t := range model.IterationTables(e) {
+		out = append(out, t.Name)
 	}
-	walk = func(e model.Expr) {
-		model.Walk(e, func(x model.Expr) bool {
-			switch x := x.(type) {
-			case *model.Agg:
-				add(x.Table)
-			case *model.PerAgg:
-				if x.X == nil && len(x.Per) > 0 {
-					add(x.Per[0].Table)
-				}
-			case *model.MeasureRef:
-				if !seen[x.Measure] {
-					seen[x.Measure] = true
-					walk(x.Measure.Expr)
-				}
-			}
-			return true
-		})
-	}
-	walk(e)
 	return out
 }
 
@@ -391,6 +371,27 @@ func additivity(e model.Expr) string {
 		return "additive: a subtotal equals the sum of its rows"
 	}
 	return "not additive: re-evaluated in every cell, never summed"
+}
+
+// unchanged says why edits can leave a cell as it was.
+func unchanged(e *model.EditExpr) string {
+	for _, ed := range e.Edits {
+		if ed.Kind.Time() {
+			return fmt.Sprintf("a time edit moves or replaces only constraints on %s, on columns of its table derived from it alone, and on columns of its calendar (the table it links to); a constraint on another column (a month derived on the fact table) stays as it is", ed.Col)
+		}
+	}
+	return "no constraint of the cell mentions what they change"
+}
+
+// addNote adds a note to n's notes.
+func addNote(n *Node, note string) {
+	switch {
+	case note == "":
+	case n.Note == "":
+		n.Note = note
+	default:
+		n.Note = note + "; " + n.Note
+	}
 }
 
 // tidyAll tidies each constraint's text (never nil).

@@ -24,36 +24,27 @@ func Tables(m *model.Model, q *model.Query) []*model.Table {
 			queue = append(queue, t)
 		}
 	}
-	seen := map[*model.Measure]bool{}
-	var walk func(e model.Expr)
-	walk = func(e model.Expr) {
-		model.Walk(e, func(x model.Expr) bool {
-			switch x := x.(type) {
-			case *model.Agg:
-				add(x.Table)
-			case *model.PerAgg:
-				for _, c := range x.Per {
-					add(c.Table)
-				}
-			case *model.ColRef:
-				add(x.Col.Table)
-			case *model.MeasureRef:
-				if !seen[x.Measure] {
-					seen[x.Measure] = true
-					walk(x.Measure.Expr)
-				}
+	visit := func(x model.Expr) bool {
+		switch x := x.(type) {
+		case *model.Agg:
+			add(x.Table)
+		case *model.PerAgg:
+			for _, c := range x.Per {
+				add(c.Table)
 			}
-			return true
-		})
+		case *model.ColRef:
+			add(x.Col.Table)
+		}
+		return true
 	}
 	for _, x := range q.Measures {
-		walk(&model.MeasureRef{Measure: x})
+		model.WalkMeasures(&model.MeasureRef{Measure: x}, visit)
+	}
+	for _, f := range q.Filters {
+		model.Walk(f, visit)
 	}
 	for _, g := range q.Groups {
 		add(g.Table)
-	}
-	for _, f := range q.Filters {
-		walk(f)
 	}
 	for len(queue) > 0 {
 		t := queue[0]

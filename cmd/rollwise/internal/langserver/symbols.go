@@ -2,7 +2,6 @@ package langserver
 
 import (
 	"fmt"
-	"slices"
 	"strings"
 	"unicode/utf8"
 
@@ -253,25 +252,9 @@ func additivityWord(c *model.Column) string {
 // iterate over, through the measures it builds on, in first-use order.
 func iterationTables(m *model.Measure) []string {
 	var out []string
-	seen := map[*model.Measure]bool{}
-	var walk func(e model.Expr)
-	walk = func(e model.Expr) {
-		model.Walk(e, func(x model.Expr) bool {
-			switch x := x.(type) {
-			case *model.Agg:
-				if x.Table != nil && !slices.Contains(out, x.Table.Name) {
-					out = append(out, x.Table.Name)
-				}
-			case *model.MeasureRef:
-				if !seen[x.Measure] {
-					seen[x.Measure] = true
-					walk(x.Measure.Expr)
-				}
-			}
-			return true
-		})
+	for _, t := range model.IterationTables(m.Expr) {
+		out = append(out, t.Name)
 	}
-	walk(m.Expr)
 	return out
 }
 
