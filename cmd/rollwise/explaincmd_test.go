@@ -286,8 +286,7 @@ func TestExplainCellErrors(t *testing.T) {
 // query, a few cells of the report (detail rows and totals) drawn from
 // what run prints, and checks that explain's root value is run's.
 func TestExplainMatchesRunOnRandomCases(t *testing.T) {
-	diffChecks(25)
-	explainRandom(t, nil)
+	explainRandom(t, 25, nil)
 }
 
 // TestExplainMatchesRunOnRandomCasesLive does the same with the rows
@@ -296,16 +295,15 @@ func TestExplainMatchesRunOnRandomCasesLive(t *testing.T) {
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
 			e := livetest.Empty(t, name, "explain_"+name)
-			diffChecks(10)
-			explainRandom(t, e)
+			explainRandom(t, 10, e)
 		})
 	}
 }
 
-// explainRandom checks random cases on DuckDB, or on live when set.
-func explainRandom(t *testing.T, live *livetest.Engine) {
+// explainRandom checks n random cases on DuckDB, or on live when set.
+func explainRandom(t *testing.T, n int, live *livetest.Engine) {
 	compared := 0
-	rapid.Check(t, func(rt *rapid.T) {
+	checkCases(t, n, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		dir, err := os.MkdirTemp(t.TempDir(), "case")
 		if err != nil {
