@@ -69,7 +69,7 @@ type Query func(ctx context.Context, sql string, want []model.Type) ([][]any, er
 
 // Load reads the stored columns of each table through query, in SQL of
 // dialect d, and holds them for the reference evaluator.
-func Load(ctx context.Context, m *model.Model, tables []*model.Table, d dialects.Dialect, query Query) (*reference.Data, error) {
+func Load(ctx context.Context, m *model.Model, tables []*model.Table, d *dialects.Dialect, query Query) (*reference.Data, error) {
 	rows := map[*model.Table][][]any{}
 	for _, t := range tables {
 		var cols []string
