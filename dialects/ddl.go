@@ -11,7 +11,7 @@ import (
 
 // This file is the DDL layer: how each engine creates a view so that
 // running the same script twice is harmless. The spellings come from the
-// CREATE VIEW table of the design notes (dialects.md, section 11).
+// CREATE VIEW table of docs/engine-facts.md (§11).
 
 // ViewStyle is how a dialect makes CREATE VIEW idempotent.
 type ViewStyle int

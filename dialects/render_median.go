@@ -8,7 +8,7 @@ import (
 )
 
 // Exact medians on engines without a median aggregate (SQLite, MySQL and
-// MariaDB, SQL Server, BigQuery, Trino: dialects.md §7) are computed with
+// MariaDB, SQL Server, BigQuery, Trino: engine-facts.md §7) are computed with
 // window functions, which all of them have (§6): a CTE over the rows
 // numbers each row's value within its cell (ROW_NUMBER, NULLs last) and
 // counts the cell's non-NULL values n; the cell's median is the mean of

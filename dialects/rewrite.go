@@ -23,7 +23,7 @@ import (
 //
 // With GROUPING SETS it is one SELECT with GROUP BY GROUPING SETS and the
 // dialect's grouping id. Without (MySQL/MariaDB have only WITH ROLLUP and
-// MariaDB no GROUPING(), SQLite neither: dialects.md §4), it is a UNION
+// MariaDB no GROUPING(), SQLite neither: engine-facts.md §4), it is a UNION
 // ALL of one GROUP BY per set, each branch carrying its mask as a literal
 // grouping id and NULL for its rolled-up keys: the same rows, as a set
 // with no keys aggregates every row into one row (also when there are
@@ -120,7 +120,7 @@ func keptKeys(keys []string, mask uint64) []string {
 // predicate, "" for none; a boolean column is made one with d.Truth)
 // holds: agg(x) FILTER (WHERE f) where the engine has the clause, else
 // agg(CASE WHEN f THEN x END), which the aggregates treat alike as they
-// skip NULLs (dialects.md §5); count(*) becomes
+// skip NULLs (engine-facts.md §5); count(*) becomes
 // count(CASE WHEN f THEN 1 END). arg is "" for count(*).
 func FilteredAgg(d *Dialect, fn string, distinct bool, arg, filter string) (string, error) {
 	return filteredAgg(d, d.Agg, fn, distinct, arg, filter)
