@@ -1,9 +1,11 @@
 // Package reference is rollwise's reference evaluator: it computes a
 // query's result from a resolved model and rows held in memory, cell by
 // cell, exactly as language.md defines a value, with simple loops and no
-// SQL. It shares no planning code with the SQL path (plan.NewPlan and
+// SQL. It shares no planning code with the SQL path (planner/plan and
 // the dialects), so that the two can disagree: the differential tests run
-// both on random models and data and compare their rows.
+// both on random models and data and compare their rows. It imports only
+// grammar and planner/model, which TestReferenceImportsOnlyTheModel
+// checks.
 //
 // What a value means, as implemented here:
 //
