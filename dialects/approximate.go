@@ -36,7 +36,7 @@ func (r *renderer) agg(fn string, distinct bool, arg string) (string, error) {
 	return r.d.Agg(fn, distinct, arg)
 }
 
-// filteredAgg is FilteredAgg with the rendering's options.
+// filteredAgg is the package's filteredAgg with the rendering's options.
 func (r *renderer) filteredAgg(fn string, distinct bool, arg, filter string) (string, error) {
 	return filteredAgg(r.d, r.agg, fn, distinct, arg, filter)
 }

@@ -124,7 +124,7 @@ type Caps struct {
 	// GroupingSets: GROUP BY GROUPING SETS (...) with a grouping id
 	// (GroupingID). Without it, total rows are a UNION ALL of groupings.
 	GroupingSets bool
-	// FilterClause: agg(x) FILTER (WHERE p). Without it, FilteredAgg puts
+	// FilterClause: agg(x) FILTER (WHERE p). Without it, filteredAgg puts
 	// a CASE inside the aggregate.
 	FilterClause bool
 	// NullsLast: ORDER BY x NULLS LAST. Without it, OrderKey sorts on

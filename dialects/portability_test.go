@@ -117,7 +117,7 @@ func portabilityProblems(d *dialects.Dialect, sql string) []string {
 		}
 	}
 	add(!caps.GroupingSets && strings.Contains(text, "GROUPING SETS"), "GROUPING SETS: the renderer must call dialects.GroupingSetsSQL")
-	add(!caps.FilterClause && strings.Contains(text, "FILTER (WHERE"), "FILTER: the renderer must call dialects.FilteredAgg")
+	add(!caps.FilterClause && strings.Contains(text, "FILTER (WHERE"), "FILTER: the renderer must spell filtered aggregates with filteredAgg")
 	add(!caps.NullsLast && strings.Contains(text, "NULLS LAST"), "NULLS LAST: the renderer must call dialects.OrderKey")
 	add(strings.Contains(text, `"`) && d.Name() != "duckdb" && d.Name() != "postgres" && d.Name() != "trino" && d.Name() != "snowflake",
 		`a double-quoted name: a string (MySQL, Spark, BigQuery) or a string when unresolved (SQLite); quote with d.Ident`)

@@ -60,13 +60,9 @@ func groupingSets(d *Dialect, keys []string, sets []uint64, aggs []cellAgg, from
 	return unionGroupingSets(d, keys, sets, aggs, from)
 }
 
-// UnionGroupingSets is GroupingSetsSQL's UNION ALL form, for engines
+// unionGroupingSets is groupingSets's UNION ALL form, for engines
 // without GROUPING SETS: one GROUP BY per set, the mask as a literal
 // grouping id, NULL for rolled-up keys.
-func UnionGroupingSets(d *Dialect, keys []string, sets []uint64, aggs []string, from string) string {
-	return unionGroupingSets(d, keys, sets, plainAggs(aggs), from)
-}
-
 func unionGroupingSets(d *Dialect, keys []string, sets []uint64, aggs []cellAgg, from string) string {
 	gid := d.Ident(GroupingColumn)
 	n := len(keys)
@@ -116,17 +112,12 @@ func keptKeys(keys []string, mask uint64) []string {
 	return out
 }
 
-// FilteredAgg spells an aggregate over the rows where filter (a rendered
+// filteredAgg spells an aggregate (by agg) over the rows where filter (a rendered
 // predicate, "" for none; a boolean column is made one with d.Truth)
 // holds: agg(x) FILTER (WHERE f) where the engine has the clause, else
 // agg(CASE WHEN f THEN x END), which the aggregates treat alike as they
 // skip NULLs (engine-facts.md §5); count(*) becomes
 // count(CASE WHEN f THEN 1 END). arg is "" for count(*).
-func FilteredAgg(d *Dialect, fn string, distinct bool, arg, filter string) (string, error) {
-	return filteredAgg(d, d.Agg, fn, distinct, arg, filter)
-}
-
-// filteredAgg is FilteredAgg with the aggregates spelled by agg.
 func filteredAgg(d *Dialect, agg func(fn string, distinct bool, arg string) (string, error), fn string, distinct bool, arg, filter string) (string, error) {
 	if filter == "" {
 		return agg(fn, distinct, arg)

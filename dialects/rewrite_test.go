@@ -104,7 +104,7 @@ func TestUnionGroupingSetsSameRows(t *testing.T) {
 					}
 					from := "(SELECT * FROM t" + where + ") AS " + d.Ident("r")
 					if union {
-						return UnionGroupingSets(d, keys, sets, aggs, from)
+						return unionGroupingSets(d, keys, sets, plainAggs(aggs), from)
 					}
 					return GroupingSetsSQL(d, keys, sets, aggs, from)
 				}
@@ -184,12 +184,12 @@ func TestFilteredAgg(t *testing.T) {
 		{"bigquery", "stddev", "`x`", "`f`", "stddev_samp(CAST(CASE WHEN `f` THEN `x` END AS FLOAT64))"},
 	}
 	for _, c := range cases {
-		got, err := FilteredAgg(mustGet(t, c.dialect), c.fn, false, c.arg, c.filter)
+		got, err := (&renderer{d: mustGet(t, c.dialect)}).filteredAgg(c.fn, false, c.arg, c.filter)
 		if err != nil || got != c.want {
 			t.Errorf("%s %s: %q, %v; want %q", c.dialect, c.fn, got, err, c.want)
 		}
 	}
-	if _, err := FilteredAgg(mustGet(t, "sqlite"), "median", false, "x", "f"); err == nil {
+	if _, err := (&renderer{d: mustGet(t, "sqlite")}).filteredAgg("median", false, "x", "f"); err == nil {
 		t.Error("sqlite: a filtered median should still be refused")
 	}
 }
