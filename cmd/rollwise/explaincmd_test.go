@@ -238,6 +238,39 @@ func TestExplainTimeEdits(t *testing.T) {
 	explainAgreesWithRun(t, []string{timeModel}, "last3", []string{"orders.shop", "orders.month"}, []string{"orders.year = 2025"}, map[string]string{"orders.shop": "a"})
 }
 
+// TestExplainTableFormat checks the whole tree as people read it: the
+// narrowing and the edit on the way to each part, rows, additivity, the
+// cells in words, and why the narrowed part is NULL.
+func TestExplainTableFormat(t *testing.T) {
+	var out, errb bytes.Buffer
+	code := Main([]string{"explain", shopModel, editsModel, "-m", "north_share", "-b", "stores.region", "--cell", "stores.region=South"},
+		strings.NewReader(""), &out, &errb)
+	if code != 0 {
+		t.Fatalf("exit %d: %s", code, errb.String())
+	}
+	want := `north_share in the cell stores.region = 'South'
+
+north_share = (revenue where stores.region = 'North') / revenue[drop stores.region]  →  NULL
+│     float; iterates over sales
+│     not additive: re-evaluated in every cell, never summed
+│     cell: stores.region = 'South'
+├─ revenue = sum(sales.price * sales.qty)  →  NULL
+│        narrowed: where stores.region = 'North'
+│        decimal; iterates over sales: 0 of its 6 rows in the cell
+│        additive: a subtotal equals the sum of its rows
+│        cell: stores.region = 'South', stores.region = 'North'
+│        no row of sales meets every constraint of this cell: the sum of no rows
+└─ revenue = sum(sales.price * sales.qty)  →  60
+         edited: [drop stores.region]
+         decimal; iterates over sales: 6 of its 6 rows in the cell
+         additive: a subtotal equals the sum of its rows
+         cell: every row (no constraint)
+`
+	if out.String() != want {
+		t.Errorf("got:\n%s\nwant:\n%s", out.String(), want)
+	}
+}
+
 func TestExplainGrandTotalByDefault(t *testing.T) {
 	tree := explainTree(t, shopModel, "-m", "revenue", "-b", "stores.region")
 	if tree["default_cell"] != true || fmt.Sprint(tree["rolled_up"]) != "[stores.region]" {

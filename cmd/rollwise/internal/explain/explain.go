@@ -274,6 +274,9 @@ func (b *builder) aggregate(n *Node, x *model.Agg, c *reference.Cell) error {
 	}
 	in, all, err := b.p.Rows(x.Table, *c)
 	n.Rows = &Rows{Table: x.Table.Name, InCell: in, All: all}
+	if err == nil && in == 0 && all > 0 {
+		addNote(n, fmt.Sprintf("no row of %s meets every constraint of this cell: the %s of no rows", x.Table.Name, x.Func))
+	}
 	return err
 }
 
