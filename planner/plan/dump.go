@@ -249,6 +249,9 @@ func (d *dumper) rel(depth int, ctx *Context, r *Rel) {
 		for _, i := range r.Window.Partition {
 			part = append(part, ctx.Keys[i].Name)
 		}
+		if len(part) == 0 {
+			part = []string{"none (the whole grouping set)"}
+		}
 		d.line(in, "partition: %s", strings.Join(part, ", "))
 		for _, w := range r.Window.Parts {
 			d.line(in, "%s = %s(%s): %s", w.Name, w.Func, w.Source, w.T)

@@ -37,7 +37,7 @@ func TestPlanDumps(t *testing.T) {
 		{"narrowed", shopModels, model.Request{Measures: []string{"revenue", "roses", "rose_share"},
 			By: []string{"stores.region"}, Where: "sales.qty >= 2", Order: "revenue desc", Limit: 5}},
 		// Cell edits: drop, ungroup and pins, shared values.
-		{"edits", shopModels, model.Request{Measures: []string{"revenue", "item_share", "shown_share", "rose_fern"},
+		{"edits", shopModels, model.Request{Measures: []string{"revenue", "item_share", "shown_share", "rose_fern", "all_rev"},
 			By: []string{"stores.region", "sales.item"}, Totals: "rollup"}},
 		// Per-grain aggregates and their sub-contexts.
 		{"per_grain", shopModels, model.Request{Measures: []string{"store_avg", "big_items", "chain_store_avg"},
@@ -118,12 +118,12 @@ func lineDiff(want, got string) string {
 		case i < len(a) && j < len(b) && a[i] == b[j]:
 			lines = append(lines, line{"  ", a[i]})
 			i, j = i+1, j+1
-		case j < len(b) && (i == len(a) || lcs[i][j+1] >= lcs[i+1][j]):
-			lines = append(lines, line{"+ ", b[j]})
-			j++
-		default:
+		case i < len(a) && (j == len(b) || lcs[i+1][j] >= lcs[i][j+1]):
 			lines = append(lines, line{"- ", a[i]})
 			i++
+		default:
+			lines = append(lines, line{"+ ", b[j]})
+			j++
 		}
 	}
 	const context = 2
@@ -155,6 +155,9 @@ func TestLineDiff(t *testing.T) {
 		t.Errorf("diff:\n%s", d)
 	}
 	if d := lineDiff("a\nb\nc", "a\nc"); d != "  a\n- b\n  c\n" {
+		t.Errorf("diff:\n%s", d)
+	}
+	if d := lineDiff("a\nb\nc", "a\nB\nc"); d != "  a\n- b\n+ B\n  c\n" {
 		t.Errorf("diff:\n%s", d)
 	}
 }

@@ -98,10 +98,13 @@ func checkPlan(t *testing.T, src string) {
 }
 
 // render prints a plan as DuckDB SQL; a refusal must be an error with a
-// message, never a panic or empty text.
+// message, never a panic or empty text. The plan's dump must print too.
 func render(t *testing.T, p *plan.Plan) {
 	if p == nil {
 		return
+	}
+	if !strings.HasPrefix(p.Dump(), "query\n") {
+		t.Errorf("the plan's dump does not start with its query")
 	}
 	d, err := dialects.Get("duckdb")
 	if err != nil {
