@@ -48,6 +48,7 @@ func TestDifferentialLive(t *testing.T) {
 	t.Parallel()
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
+			t.Parallel() // each engine holds the cases in a database of its own
 			e := livetest.Empty(t, name, "diff_"+name)
 			st := diffRun(t, diffLiveChecks, casegen.DefaultOptions, e)
 			all := st.compared.Load() + st.refused.Load() + st.skipped.Load() + st.known.Load()

@@ -42,6 +42,7 @@ func TestDifferentialRegressionsLive(t *testing.T) {
 	dirs := diffRegressionDirs(t)
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
+			t.Parallel() // each engine holds the cases in a database of its own
 			e := livetest.Empty(t, name, "diff_regress_"+name)
 			for _, dir := range dirs {
 				t.Run(filepath.Base(dir), func(t *testing.T) {
