@@ -204,4 +204,3 @@ func FuzzFormat(f *testing.F) {
 		checkFormatted(t, "fuzz.roll", src, out)
 	})
 }
-

@@ -87,7 +87,7 @@ func (p *printer) segment(f *grammar.File) {
 	}
 	var cur *segment
 	var pending []*tok // comments after cur's last token
-	prevEnd := 0        // the line where the token before ends
+	prevEnd := 0       // the line where the token before ends
 	blankBefore := map[*tok]bool{}
 	end := func() {
 		if cur == nil {
