@@ -123,24 +123,14 @@ func TestLanguageServer(t *testing.T) {
 	var checkOut bytes.Buffer
 	Main([]string{"check", model, other}, nil, &checkOut, &checkOut)
 
-	inR, inW := io.Pipe()
-	outR, outW := io.Pipe()
-	done := make(chan int, 1)
-	go func() {
-		done <- Main([]string{"lsp"}, inR, outW, io.Discard)
-		outW.Close()
-	}()
-	c := &lspClient{t: t, w: inW, r: bufio.NewReader(outR), diags: map[string][]map[string]any{}}
-	uri := (&url.URL{Scheme: "file", Path: filepath.ToSlash(model)}).String()
+	c, caps, done := startLSP(t)
+	uri := fileURI(model)
 	doc := map[string]any{"uri": uri}
-
-	caps := c.call("initialize", map[string]any{"processId": nil, "rootUri": nil, "capabilities": map[string]any{}}).(map[string]any)["capabilities"].(map[string]any)
 	for _, k := range []string{"hoverProvider", "definitionProvider", "referencesProvider", "completionProvider"} {
 		if caps[k] == nil || caps[k] == false {
 			t.Errorf("capability %s missing: %v", k, caps)
 		}
 	}
-	c.send(map[string]any{"method": "initialized", "params": map[string]any{}})
 
 	// Diagnostics as typed: the unknown column, where check puts it.
 	c.notifyAndWait("textDocument/didOpen", map[string]any{"textDocument": map[string]any{"uri": uri, "languageId": "rollwise", "version": 1, "text": bad}})
@@ -207,14 +197,41 @@ func TestLanguageServer(t *testing.T) {
 		t.Errorf("completion after sales.: %v", labels)
 	}
 
+	c.stop(done)
+}
+
+// startLSP starts `rollwise lsp` through Main on pipes and initializes
+// it; it returns the client, the server's capabilities and the channel
+// that gets Main's exit code.
+func startLSP(t *testing.T) (*lspClient, map[string]any, chan int) {
+	inR, inW := io.Pipe()
+	outR, outW := io.Pipe()
+	done := make(chan int, 1)
+	go func() {
+		done <- Main([]string{"lsp"}, inR, outW, io.Discard)
+		outW.Close()
+	}()
+	c := &lspClient{t: t, w: inW, r: bufio.NewReader(outR), diags: map[string][]map[string]any{}}
+	caps := c.call("initialize", map[string]any{"processId": nil, "rootUri": nil, "capabilities": map[string]any{}}).(map[string]any)["capabilities"].(map[string]any)
+	c.send(map[string]any{"method": "initialized", "params": map[string]any{}})
+	return c, caps, done
+}
+
+// stop shuts the server down and checks that it exits cleanly.
+func (c *lspClient) stop(done chan int) {
+	c.t.Helper()
 	c.call("shutdown", nil)
 	c.send(map[string]any{"method": "exit"})
 	select {
 	case code := <-done:
 		if code != 0 {
-			t.Errorf("lsp exited %d", code)
+			c.t.Errorf("lsp exited %d", code)
 		}
 	case <-time.After(10 * time.Second):
-		t.Fatal("lsp did not exit after exit")
+		c.t.Fatal("lsp did not exit after exit")
 	}
+}
+
+func fileURI(path string) string {
+	return (&url.URL{Scheme: "file", Path: filepath.ToSlash(path)}).String()
 }

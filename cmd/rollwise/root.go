@@ -121,7 +121,7 @@ Start with the demo:
 	}
 	root.SetVersionTemplate("rollwise {{.Version}}\n")
 	root.CompletionOptions.HiddenDefaultCmd = false
-	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e), newListCmd(e), newLSPCmd(e), newDocsCmd(e), newExplainCmd(e))
+	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e), newListCmd(e), newLSPCmd(e), newDocsCmd(e), newExplainCmd(e), newFmtCmd(e))
 	for _, c := range root.Commands() {
 		if c.Name() != "demo" && c.Name() != "lsp" {
 			addCompletions(c)

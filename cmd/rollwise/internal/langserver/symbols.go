@@ -3,6 +3,7 @@ package langserver
 import (
 	"fmt"
 	"strings"
+	"unicode/utf16"
 	"unicode/utf8"
 
 	"github.com/tliron/glsp"
@@ -308,7 +309,9 @@ func (s *Server) formatting(_ *glsp.Context, p *protocol.DocumentFormattingParam
 	if err != nil || out == src {
 		return []protocol.TextEdit{}, nil // a model that does not parse is left as it is
 	}
-	lines := strings.Count(src, "\n") + 1
-	end := protocol.Position{Line: protocol.UInteger(lines), Character: 0}
+	// One edit over the whole document, which ends on its last line
+	// after that line's last character (counted in UTF-16 units).
+	last := src[strings.LastIndex(src, "\n")+1:]
+	end := protocol.Position{Line: protocol.UInteger(strings.Count(src, "\n")), Character: protocol.UInteger(len(utf16.Encode([]rune(last))))}
 	return []protocol.TextEdit{{Range: protocol.Range{End: end}, NewText: out}}, nil
 }
