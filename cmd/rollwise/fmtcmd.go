@@ -37,7 +37,7 @@ change, so the model means what it meant; formatting twice changes nothing.
 Without -w or --check the formatted text goes to stdout (FILE "-" reads
 standard input). A file that does not parse is an error (exit 1) and
 nothing is written.`,
-		Example: `  rollwise fmt shop.roll            # print the formatted model
+		Example: `  rollwise fmt shop.roll             # print the formatted model
   rollwise fmt -w models/            # format every .roll file of the folder in place
   rollwise fmt --check models/       # in CI: list the files that are not formatted, exit 1 if any`,
 		RunE: func(cmd *cobra.Command, args []string) error {
