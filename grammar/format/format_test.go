@@ -54,6 +54,9 @@ var layouts = []struct{ name, in, want string }{
 	{"a string written over two lines is kept as it is",
 		"measure m = count(s.x) where s.t = 'a\n  b'\n",
 		"measure m = count(s.x) where s.t = 'a\n  b'\n"},
+	{"declarations and columns after other than ASCII on their line",
+		"table t { key id id text -> u.`é` `é` text } measure a = count(t.id) where t.id = 'é' measure b = 1\n",
+		"table t {\n  key id\n  id   text  -> u.`é`\n  `é`  text\n}\n\nmeasure a = count(t.id) where t.id = 'é'\nmeasure b = 1\n"},
 	{"empty file", "\n\n  -- only\n\n", "-- only\n"},
 }
 
