@@ -20,7 +20,8 @@ import (
 // formatting changes nothing that check and sql say (the same
 // diagnostics, the same SQL for each of the case's queries).
 func TestFmtKeepsCheckAndSQL(t *testing.T) {
-	rapid.Check(t, func(rt *rapid.T) {
+	t.Parallel()
+	checkCases(t, 60, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		var queries [][]string
 		for _, q := range c.Queries {
@@ -37,6 +38,7 @@ func TestFmtKeepsCheckAndSQL(t *testing.T) {
 // together, as testdata/badinput/models, is one model per file), with
 // one sql query per measure and per view.
 func TestFmtKeepsCheckAndSQLOnTestdata(t *testing.T) {
+	t.Parallel()
 	folders := map[string][]string{}
 	_ = filepath.WalkDir("../../testdata", func(p string, d fs.DirEntry, err error) error {
 		if err == nil && strings.HasSuffix(p, ".roll") {

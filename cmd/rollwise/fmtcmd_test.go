@@ -35,6 +35,7 @@ func runMain(args []string, stdin string) (int, string, string) {
 // lists the file and exits 1; -w writes it, after which --check is
 // content; standard input formats to stdout.
 func TestFmt(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	name := filepath.Join(dir, "shop.roll")
 	if err := os.WriteFile(name, []byte(messyModel), 0o644); err != nil {
@@ -74,6 +75,7 @@ func TestFmt(t *testing.T) {
 // file:line:col, and -w writes none of the files, not even those that
 // parse.
 func TestFmtParseError(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	good := filepath.Join(dir, "a.roll")
 	bad := filepath.Join(dir, "b.roll")
@@ -98,6 +100,7 @@ func TestFmtParseError(t *testing.T) {
 
 // TestFmtUsage: the usage errors exit 2.
 func TestFmtUsage(t *testing.T) {
+	t.Parallel()
 	empty := t.TempDir()
 	for _, args := range [][]string{
 		{"fmt"},
@@ -116,6 +119,7 @@ func TestFmtUsage(t *testing.T) {
 // answers it with one edit over the whole document whose text is what
 // `rollwise fmt` prints; a document that does not parse gets no edit.
 func TestLanguageServerFormatting(t *testing.T) {
+	t.Parallel()
 	dir := t.TempDir()
 	name := filepath.Join(dir, "shop.roll")
 	text := strings.TrimSuffix(messyModel, "\n") + " -- é\n\nmeasure last = 1" // ends without a line break
