@@ -35,7 +35,11 @@ func EBNF() string { return parser.String() }
 // not parsed. A declaration nesting deeper than
 // MaxNesting or longer than MaxDeclTokens is refused before the parser
 // sees it, so no more than MaxDeclTokens tokens are held at once.
-func Parse(filename, src string) (*File, Diagnostics) {
+func Parse(filename, src string) (*File, Diagnostics) { return parseFile(filename, src, true) }
+
+// parseFile is Parse, with the fast path (fast.go) tried on each
+// declaration before participle when fast is set.
+func parseFile(filename, src string, fast bool) (*File, Diagnostics) {
 	f := &File{Name: filename}
 	var diags Diagnostics
 	if len(src) > MaxSourceBytes {
@@ -47,6 +51,7 @@ func Parse(filename, src string) (*File, Diagnostics) {
 		return f, diags
 	}
 	d := declReader{sc: newScanner(filename, src)}
+	var a arena
 	for {
 		if len(diags) >= MaxPrinted-1 && d.started && d.ahead.typ != lexer.EOF {
 			diags.Errorf(pos(d.sc.posOf(d.ahead.start)), "too-many",
@@ -60,6 +65,16 @@ func Parse(filename, src string) (*File, Diagnostics) {
 		}
 		if !ok {
 			continue
+		}
+		if fast {
+			decl, ok := fastDecl(chunk, &a)
+			if ok {
+				decl.addTo(f)
+			}
+			a.reset()
+			if ok {
+				continue
+			}
 		}
 		sf, err := parseTokens(parser, chunk)
 		if err != nil {
@@ -373,7 +388,10 @@ var exprParser = participle.MustBuild[syntaxExpr](
 
 // ParseExpr parses one expression given outside a model file (a --where
 // filter on the command line, say). name labels positions in messages.
-func ParseExpr(name, src string) (Expr, Diagnostics) {
+func ParseExpr(name, src string) (Expr, Diagnostics) { return parseExpr(name, src, true) }
+
+// parseExpr is ParseExpr, with the fast path tried first when fast is set.
+func parseExpr(name, src string, fast bool) (Expr, Diagnostics) {
 	var diags Diagnostics
 	if len(src) > MaxSourceBytes {
 		diags.Errorf(Pos{File: name}, "too-large", "the expression is too long")
@@ -400,7 +418,13 @@ func ParseExpr(name, src string) (Expr, Diagnostics) {
 		diags.Errorf(Pos{File: name, Line: 1, Col: 1}, "syntax", "empty expression")
 		return nil, diags
 	}
-	se, err := parseTokens(exprParser, withEOF(toks))
+	toks = withEOF(toks)
+	if fast {
+		if se, ok := fastExpr(toks); ok {
+			return se.expr(), nil
+		}
+	}
+	se, err := parseTokens(exprParser, toks)
 	if err == nil {
 		return se.expr(), nil
 	}
