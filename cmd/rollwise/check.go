@@ -3,12 +3,13 @@ package main
 import (
 	"fmt"
 
+	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/plan"
-
-	"github.com/spf13/cobra"
 )
 
 type checkOptions struct {
@@ -39,7 +40,7 @@ func newCheckCmd(e *env) *cobra.Command {
 			if o.dialect != "" {
 				d, err := dialects.Get(o.dialect)
 				if err != nil {
-					return &exitError{code: exitUsage, err: err}
+					return failure.New(failure.Usage, err)
 				}
 				o.dialect = d.Name()
 			}
@@ -90,7 +91,7 @@ func runCheck(e *env, o *checkOptions) error {
 		printDiags(e, diags, src)
 	}
 	if diags.HasErrors() {
-		return &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
+		return failure.Newf(failure.Findings, "%s", failure.CountErrors(diags))
 	}
 	fmt.Fprintf(e.stderr, "ok: %s, %s, %s%s\n", report.Count(len(m.Tables), "table"), report.Count(len(m.Measures), "measure"), report.Count(len(m.Views), "view"), held)
 	return nil

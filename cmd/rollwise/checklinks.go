@@ -5,6 +5,7 @@ import (
 	"fmt"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
@@ -45,16 +46,16 @@ func checkData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engi
 	}
 	d, err := dialects.Get(dialect)
 	if err != nil {
-		return nil, &exitError{code: exitInternal, err: err}
+		return nil, failure.New(failure.Internal, err)
 	}
 	var diags grammar.Diagnostics
 	for _, l := range links {
 		res, err := runner.Query(ctx, dialects.UnmatchedRows(l, d))
 		if err != nil {
-			return nil, &exitError{code: exitFindings, err: fmt.Errorf("counting the rows of %s that link %s misses: %w", l.From.Name, l, err)}
+			return nil, failure.Newf(failure.Input, "counting the rows of %s that link %s misses: %w", l.From.Name, l, err)
 		}
 		if len(res.Rows) != 1 || len(res.Rows[0]) != 1 {
-			return nil, &exitError{code: exitInternal, err: fmt.Errorf("internal error: counting unmatched rows gave %v", res.Rows)}
+			return nil, failure.Newf(failure.Internal, "internal error: counting unmatched rows gave %v", res.Rows)
 		}
 		if n := fmt.Sprint(res.Rows[0][0]); n != "0" {
 			rows := n + " rows of " + l.From.Name + " find"

@@ -7,6 +7,7 @@ import (
 	"strings"
 	"time"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
@@ -89,14 +90,14 @@ func checkUnique(ctx context.Context, runner verify.Runner, d *dialects.Dialect,
 	for _, u := range uniquenesses(m) {
 		count, example, err := dialects.RepeatedRows(u.table, u.cols, d)
 		if err != nil {
-			return nil, &exitError{code: exitInternal, err: err}
+			return nil, failure.New(failure.Internal, err)
 		}
 		res, err := runner.Query(ctx, count)
 		if err != nil {
-			return nil, &exitError{code: exitFindings, err: fmt.Errorf("counting the repeated values of %s (%s): %w", u.table.Name, columnNames(u.cols), err)}
+			return nil, failure.Newf(failure.Input, "counting the repeated values of %s (%s): %w", u.table.Name, columnNames(u.cols), err)
 		}
 		if len(res.Rows) != 1 || len(res.Rows[0]) != 2 {
-			return nil, &exitError{code: exitInternal, err: fmt.Errorf("internal error: counting repeated values gave %v", res.Rows)}
+			return nil, failure.Newf(failure.Internal, "internal error: counting repeated values gave %v", res.Rows)
 		}
 		values := fmt.Sprint(res.Rows[0][0])
 		if values == "0" {
@@ -104,7 +105,7 @@ func checkUnique(ctx context.Context, runner verify.Runner, d *dialects.Dialect,
 		}
 		ex, err := runner.Query(ctx, example)
 		if err != nil || len(ex.Rows) != 1 {
-			return nil, &exitError{code: exitFindings, err: fmt.Errorf("finding a repeated value of %s (%s): %v", u.table.Name, columnNames(u.cols), err)}
+			return nil, failure.Newf(failure.Input, "finding a repeated value of %s (%s): %v", u.table.Name, columnNames(u.cols), err)
 		}
 		var vals []string
 		for i, c := range u.cols {

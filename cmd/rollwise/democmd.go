@@ -10,6 +10,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/demo"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 )
 
@@ -41,7 +42,7 @@ and run.`,
 func runDemo(e *env, o *demoOptions) error {
 	if o.dir != "" {
 		if err := demo.WriteFiles(o.dir); err != nil {
-			return &exitError{code: exitFindings, err: err}
+			return failure.New(failure.Input, err)
 		}
 		model := filepath.Join(o.dir, demo.ModelFile)
 		fmt.Fprintf(e.stdout, "wrote the garden-centre model and data to %s\n\ntry:\n", o.dir)
@@ -52,15 +53,15 @@ func runDemo(e *env, o *demoOptions) error {
 	}
 	dir, err := os.MkdirTemp("", "rollwise-demo-")
 	if err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	defer os.RemoveAll(dir)
 	model := filepath.Join(dir, demo.ModelFile)
 	if err := os.WriteFile(model, []byte(demo.Model()), 0o644); err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	if err := demo.WriteData(dir, demo.DefaultSalesLines); err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	color := isTerminal(e.stdout)
 	heading := func(s string) {
@@ -84,7 +85,7 @@ func runDemo(e *env, o *demoOptions) error {
 		return err
 	}
 	if err := report.Write(e.stdout, t, report.Options{Format: "table", Color: color}); err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	heading("$ rollwise sql ... (the statement behind the report: one per query, totals as grouping sets)")
 	fmt.Fprintln(e.stdout, c.sql+";")
@@ -135,7 +136,7 @@ func runDemo(e *env, o *demoOptions) error {
 		return err
 	}
 	if err := report.Write(e.stdout, t3, report.Options{Format: "table", Color: color}); err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	fmt.Fprintln(e.stdout, "\nrevenue_ly moves each day a year forward into this year's months; revenue_ytd runs from")
 	fmt.Fprintln(e.stdout, "January 1st to the month's last sale; closing_stock is the month's last weekly count, summed")

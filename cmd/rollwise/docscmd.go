@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/catalog"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 )
 
@@ -47,7 +48,7 @@ into place. A DIR that holds files docs did not write is refused.`,
 
 func runDocs(e *env, o *docsOptions) error {
 	if o.out == "" {
-		return usageErr("name the folder to write the catalog into: --out DIR")
+		return failure.Usagef("name the folder to write the catalog into: --out DIR")
 	}
 	m, src, err := loadModel(e, o.models)
 	if err != nil {
@@ -55,13 +56,13 @@ func runDocs(e *env, o *docsOptions) error {
 	}
 	files, err := catalog.Build(m, src)
 	if err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	if err := catalog.Write(o.out, files); err != nil {
 		if errors.Is(err, catalog.ErrForeign) {
-			return &exitError{code: exitFindings, err: err}
+			return failure.New(failure.Input, err)
 		}
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	fmt.Fprintf(e.stderr, "ok: %s: catalog of %s and %s, %s written; open %s/index.html\n", o.out,
 		report.Count(len(m.Measures), "measure"), report.Count(len(m.Tables), "table"), report.Count(len(files), "file"), o.out)

@@ -2,12 +2,12 @@ package main
 
 import (
 	"context"
-	"errors"
 
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/explain"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
@@ -61,17 +61,17 @@ what run prints for the same cell.`,
 
 func runExplain(e *env, o *explainOptions) error {
 	if o.format != "table" && o.format != "json" {
-		return usageErr("--format takes table or json, not %q", o.format)
+		return failure.Usagef("--format takes table or json, not %q", o.format)
 	}
 	if len(o.measures) != 1 {
-		return usageErr("explain takes one measure (-m M), not %d", len(o.measures))
+		return failure.Usagef("explain takes one measure (-m M), not %d", len(o.measures))
 	}
 	pairs, err := explain.SplitCell(o.cell)
 	if o.cell == "" {
 		pairs, err = nil, nil
 	}
 	if err != nil {
-		return &exitError{code: exitUsage, err: err}
+		return failure.New(failure.Usage, err)
 	}
 	qo := queryOptions{models: o.models, measures: o.measures, by: o.by, where: o.where, dialect: "duckdb"}
 	if len(qo.by) == 0 {
@@ -90,18 +90,18 @@ func runExplain(e *env, o *explainOptions) error {
 	}
 	cell, err := explain.Resolve(c.query, pairs)
 	if err != nil {
-		return &exitError{code: exitUsage, err: err}
+		return failure.New(failure.Usage, err)
 	}
 	data, err := explainData(e.context(), c.model, c.query, o)
 	if err != nil {
 		return err
 	}
 	if err := explain.Check(data, c.query, cell); err != nil {
-		return &exitError{code: exitFindings, err: err}
+		return failure.New(failure.Findings, err)
 	}
 	tree, err := explain.Explain(data, c.query, cell)
 	if err != nil {
-		return &exitError{code: exitFindings, err: err}
+		return failure.New(failure.Findings, err)
 	}
 	if o.format == "json" {
 		err = explain.WriteJSON(e.stdout, tree)
@@ -109,7 +109,7 @@ func runExplain(e *env, o *explainOptions) error {
 		err = explain.WriteText(e.stdout, tree)
 	}
 	if err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	printCautions(e, c.plan)
 	return nil
@@ -125,7 +125,7 @@ func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explain
 	if o.dsn != "" {
 		l, err := engine.OpenLive(ctx, o.dsn, o.live.options())
 		if err != nil {
-			return nil, &exitError{code: exitFindings, err: err}
+			return nil, failure.New(failure.Findings, err)
 		}
 		defer l.Close()
 		dialect = l.Dialect
@@ -139,7 +139,7 @@ func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explain
 	} else {
 		db, err := engine.Open(ctx, m, o.data, engine.Options{Tables: tables})
 		if err != nil {
-			return nil, &exitError{code: exitFindings, err: err}
+			return nil, failure.New(failure.Findings, err)
 		}
 		defer db.Close()
 		query = func(ctx context.Context, sql string, _ []model.Type) ([][]any, error) {
@@ -152,15 +152,14 @@ func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explain
 	}
 	d, err := dialects.Get(dialect)
 	if err != nil {
-		return nil, &exitError{code: exitInternal, err: err}
+		return nil, failure.New(failure.Internal, err)
 	}
 	data, err := explain.Load(ctx, m, tables, d, query)
 	if err != nil {
-		var ee *exitError
-		if errors.As(err, &ee) {
+		if _, ok := failure.KindOf(err); ok {
 			return nil, err
 		}
-		return nil, &exitError{code: exitFindings, err: err}
+		return nil, failure.New(failure.Input, err)
 	}
 	return data, nil
 }

@@ -7,6 +7,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/durable"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/grammar/format"
@@ -42,10 +43,10 @@ nothing is written.`,
   rollwise fmt --check models/       # in CI: list the files that are not formatted, exit 1 if any`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if len(args) == 0 {
-				return usageErr("name a model file (or a folder of .roll files, or - for standard input)")
+				return failure.Usagef("name a model file (or a folder of .roll files, or - for standard input)")
 			}
 			if o.write && o.check {
-				return usageErr("-w and --check do not go together: -w writes the files, --check only lists those that would change")
+				return failure.Usagef("-w and --check do not go together: -w writes the files, --check only lists those that would change")
 			}
 			o.paths = args
 			return runFmt(e, o)
@@ -77,13 +78,13 @@ func runFmt(e *env, o *fmtOptions) error {
 			fmt.Fprintln(e.stdout, f.name)
 		case o.write:
 			if err := durable.Replace(f.name, []byte(f.out)); err != nil {
-				return &exitError{code: exitFindings, err: fmt.Errorf("cannot write %s: %v", f.name, err)}
+				return failure.Newf(failure.Input, "cannot write %s: %v", f.name, err)
 			}
 		}
 	}
 	switch {
 	case o.check && changed > 0:
-		return &exitError{code: exitFindings, err: fmt.Errorf("%s of %d not formatted; rollwise fmt -w formats them", report.Count(changed, "file"), len(files))}
+		return failure.Newf(failure.Findings, "%s of %d not formatted; rollwise fmt -w formats them", report.Count(changed, "file"), len(files))
 	case o.check:
 		fmt.Fprintf(e.stderr, "ok: %s, all formatted\n", report.Count(len(files), "file"))
 	case o.write:
@@ -108,10 +109,10 @@ func formatFiles(e *env, o *fmtOptions) ([]fmtFile, error) {
 		if p != "-" {
 			names = modelFileNames(p)
 		} else if o.write {
-			return nil, usageErr("-w cannot write standard input back; without -w the formatted text goes to stdout")
+			return nil, failure.Usagef("-w cannot write standard input back; without -w the formatted text goes to stdout")
 		}
 		if len(names) == 0 {
-			return nil, usageErr("folder %s holds no .roll files", p)
+			return nil, failure.Usagef("folder %s holds no .roll files", p)
 		}
 		for _, name := range names {
 			if _, seen := src[name]; seen {
@@ -129,7 +130,7 @@ func formatFiles(e *env, o *fmtOptions) ([]fmtFile, error) {
 	}
 	if diags.HasErrors() {
 		printDiags(e, diags, src)
-		return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s; nothing was formatted", countErrors(diags))}
+		return nil, failure.Newf(failure.Findings, "%s; nothing was formatted", failure.CountErrors(diags))
 	}
 	return files, nil
 }
@@ -142,10 +143,10 @@ func readFmtInput(e *env, name string) ([]byte, error) {
 	}
 	b, err := io.ReadAll(io.LimitReader(e.stdin, grammar.MaxSourceBytes+1))
 	if err != nil {
-		return nil, usageErr("cannot read standard input: %v", err)
+		return nil, failure.Usagef("cannot read standard input: %v", err)
 	}
 	if len(b) > grammar.MaxSourceBytes {
-		return nil, usageErr("standard input is larger than %d bytes, the largest model file accepted", grammar.MaxSourceBytes)
+		return nil, failure.Usagef("standard input is larger than %d bytes, the largest model file accepted", grammar.MaxSourceBytes)
 	}
 	return b, nil
 }

@@ -9,6 +9,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
@@ -42,7 +43,7 @@ func newListCmd(e *env) *cobra.Command {
 				o.kinds = listKinds
 			}
 			if o.format != "table" && o.format != "json" {
-				return usageErr("--format takes table or json, not %q", o.format)
+				return failure.Usagef("--format takes table or json, not %q", o.format)
 			}
 			return runList(e, o)
 		},

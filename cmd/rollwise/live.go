@@ -3,12 +3,13 @@ package main
 import (
 	"context"
 	"errors"
+	"fmt"
 	"time"
 
-	"fmt"
 	"github.com/spf13/pflag"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/planner/model"
@@ -18,11 +19,11 @@ import (
 // unless -d named one.
 func liveDialect(dsn, dialect string, dialectSet bool, dataDir string) (string, error) {
 	if dataDir != "" {
-		return "", usageErr("--data is for the embedded DuckDB; with --dsn the tables are read from the database")
+		return "", failure.Usagef("--data is for the embedded DuckDB; with --dsn the tables are read from the database")
 	}
 	d, err := engine.DialectOfDSN(dsn)
 	if err != nil {
-		return "", &exitError{code: exitUsage, err: err}
+		return "", failure.New(failure.Usage, err)
 	}
 	if dialectSet {
 		return dialect, nil
@@ -34,12 +35,15 @@ func liveDialect(dsn, dialect string, dialectSet bool, dataDir string) (string, 
 // whatever form the driver shows it (see engine.ScrubError), keeping the
 // exit code.
 func scrubDSN(dsn string, err error) error {
-	var ee *exitError
-	switch {
-	case err == nil || dsn == "":
+	if err == nil || dsn == "" {
 		return err
-	case errors.As(err, &ee):
-		return &exitError{code: ee.code, err: engine.ScrubError(dsn, ee.err)}
+	}
+	var fe *failure.Error
+	if errors.As(err, &fe) {
+		if fe.Err == nil {
+			return fe
+		}
+		return &failure.Error{Kind: fe.Kind, Err: engine.ScrubError(dsn, fe.Err)}
 	}
 	return engine.ScrubError(dsn, err)
 }
@@ -68,7 +72,7 @@ func (f liveFlags) options() engine.LiveOptions {
 func executeLive(ctx context.Context, c *compiled, dsn string, lo engine.LiveOptions, write func(report.Row) error) error {
 	l, err := engine.OpenLive(ctx, dsn, lo)
 	if err != nil {
-		return &exitError{code: exitFindings, err: err}
+		return failure.New(failure.Input, err)
 	}
 	defer l.Close()
 	if err := rejected(l.Server, l.QueryEach(ctx, c.sql, resultTypes(c), shaper(c, write))); err != nil {
@@ -85,13 +89,13 @@ func openData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engin
 	if dsn != "" {
 		l, err := engine.OpenLive(ctx, dsn, lo)
 		if err != nil {
-			return nil, nil, nil, &exitError{code: exitFindings, err: err}
+			return nil, nil, nil, failure.New(failure.Input, err)
 		}
 		return liveRunner{l: l}, l, func() { l.Close() }, nil
 	}
 	db, err := engine.OpenDuckDB(ctx, m, dataDir)
 	if err != nil {
-		return nil, nil, nil, &exitError{code: exitFindings, err: err}
+		return nil, nil, nil, failure.New(failure.Input, err)
 	}
 	return verify.DB(db), nil, func() { db.Close() }, nil
 }

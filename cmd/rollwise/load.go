@@ -1,21 +1,20 @@
 package main
 
 import (
-	"fmt"
 	"io"
 	"os"
 	"path/filepath"
 	"sort"
 	"strings"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
 // loadModel reads, parses and resolves model files (a folder stands for
 // the .roll files in it). Diagnostics are printed to stderr; the error is
-// an exitError with code 1 when there are errors.
+// of kind Findings when there are errors.
 func loadModel(e *env, paths []string) (*model.Model, grammar.Sources, error) {
 	src := grammar.Sources{}
 	var files []*grammar.File
@@ -23,7 +22,7 @@ func loadModel(e *env, paths []string) (*model.Model, grammar.Sources, error) {
 	for _, p := range paths {
 		names := modelFileNames(p)
 		if len(names) == 0 {
-			return nil, nil, usageErr("folder %s holds no .roll files", p)
+			return nil, nil, failure.Usagef("folder %s holds no .roll files", p)
 		}
 		for _, name := range names {
 			b, err := readModelFile(name)
@@ -44,7 +43,7 @@ func loadModel(e *env, paths []string) (*model.Model, grammar.Sources, error) {
 	}
 	printDiags(e, diags, src)
 	if diags.HasErrors() {
-		return nil, src, &exitError{code: exitFindings, err: fmt.Errorf("%s", countErrors(diags))}
+		return nil, src, failure.Newf(failure.Findings, "%s", failure.CountErrors(diags))
 	}
 	return m, src, nil
 }
@@ -66,15 +65,15 @@ func modelFileNames(p string) []string {
 func readModelFile(name string) ([]byte, error) {
 	f, err := os.Open(name)
 	if err != nil {
-		return nil, usageErr("cannot read the model: %v", err)
+		return nil, failure.Usagef("cannot read the model: %v", err)
 	}
 	defer f.Close()
 	b, err := io.ReadAll(io.LimitReader(f, grammar.MaxSourceBytes+1))
 	if err != nil {
-		return nil, usageErr("cannot read the model: %v", err)
+		return nil, failure.Usagef("cannot read the model: %v", err)
 	}
 	if len(b) > grammar.MaxSourceBytes {
-		return nil, usageErr("%s is larger than %d bytes, the largest model file accepted", name, grammar.MaxSourceBytes)
+		return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted", name, grammar.MaxSourceBytes)
 	}
 	return b, nil
 }
@@ -83,24 +82,14 @@ func printDiags(e *env, d grammar.Diagnostics, src grammar.Sources) {
 	d.Print(e.stderr, src, isTerminal(e.stderr))
 }
 
-// countErrors counts the errors as Print shows them: the same message at
-// the same place, found twice, once.
-func countErrors(d grammar.Diagnostics) string {
-	seen := map[string]bool{}
-	for _, x := range d.Errors() {
-		seen[x.Error()] = true
-	}
-	return report.Count(len(seen), "error")
-}
-
 // modelArgs checks that at least one model path was given.
 func modelArgs(args []string) error {
 	if len(args) == 0 {
-		return usageErr("name a model file (or a folder of .roll files)")
+		return failure.Usagef("name a model file (or a folder of .roll files)")
 	}
 	for _, a := range args {
 		if strings.HasPrefix(a, "-") {
-			return usageErr("unexpected %q", a)
+			return failure.Usagef("unexpected %q", a)
 		}
 	}
 	return nil

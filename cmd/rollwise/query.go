@@ -5,6 +5,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
@@ -57,10 +58,10 @@ type compiled struct {
 func compile(e *env, o *queryOptions) (*compiled, error) {
 	d, err := dialects.Get(o.dialect)
 	if err != nil {
-		return nil, &exitError{code: exitUsage, err: err}
+		return nil, failure.New(failure.Usage, err)
 	}
 	if o.limit < 0 {
-		return nil, usageErr("--limit must be a positive number, not %d", o.limit)
+		return nil, failure.Usagef("--limit must be a positive number, not %d", o.limit)
 	}
 	m, src, err := loadModel(e, o.models)
 	if err != nil {
@@ -70,7 +71,7 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 	var diags grammar.Diagnostics
 	if o.view != "" {
 		if len(o.measures)+len(o.by) > 0 || o.where != "" {
-			return nil, usageErr("--view computes the view as declared; leave out -m, -b and -w")
+			return nil, failure.Usagef("--view computes the view as declared; leave out -m, -b and -w")
 		}
 		var v *model.View
 		for _, x := range m.Views {
@@ -87,7 +88,7 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			if near := grammar.Closest(o.view, names); near != "" {
 				msg += fmt.Sprintf("; did you mean %q?", near)
 			}
-			return nil, &exitError{code: exitFindings, err: fmt.Errorf("%s", msg)}
+			return nil, failure.Newf(failure.Findings, "%s", msg)
 		}
 		q = m.ViewQuery(v)
 		diags = q.Override(model.Request{Totals: o.totals, Order: o.order, Limit: o.limit, Names: optionNames})
@@ -105,7 +106,7 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 			printDiags(e, diags, src)
 			sql, note, err := dialects.RenderWith(p, d, dialects.Options{Approximate: o.approximate})
 			if err != nil {
-				return nil, &exitError{code: exitFindings, err: err}
+				return nil, failure.New(failure.Findings, err)
 			}
 			if note != "" {
 				p.Cautions = append(p.Cautions, note)
@@ -114,7 +115,7 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 		}
 	}
 	printDiags(e, diags, src)
-	return nil, &exitError{code: diagExit(diags), err: fmt.Errorf("%s", countErrors(diags))}
+	return nil, failure.Diagnostics(diags)
 }
 
 // optionNames are what diagnostics of a request call its parts: the
@@ -122,22 +123,6 @@ func compile(e *env, o *queryOptions) (*compiled, error) {
 // revenue twice").
 var optionNames = model.PartNames{Measures: "--measures", By: "--by", Where: "--where",
 	Totals: "--totals", Order: "--order", Limit: "--limit"}
-
-// diagExit is 2 when every error is about the command line's shape (a
-// usage error), 3 for an internal error, and 1 otherwise.
-func diagExit(d grammar.Diagnostics) int {
-	code := exitUsage
-	for _, x := range d.Errors() {
-		switch x.Code {
-		case "internal":
-			return exitInternal
-		case "usage":
-		default:
-			code = exitFindings
-		}
-	}
-	return code
-}
 
 func newSQLCmd(e *env) *cobra.Command {
 	o := &queryOptions{}

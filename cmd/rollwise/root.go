@@ -2,42 +2,24 @@ package main
 
 import (
 	"context"
-	"errors"
 	"fmt"
 	"io"
 	"os"
 	"os/signal"
-	"strings"
 	"syscall"
 
 	"github.com/spf13/cobra"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 )
 
-// Exit codes, mapped in one place.
+// Exit codes, mapped from the kinds of failure in one place (exitCode).
 const (
 	exitOK       = 0
-	exitFindings = 1 // model or query errors, failed checks
+	exitFindings = 1 // model or query errors, failed checks, unusable data
 	exitUsage    = 2
 	exitInternal = 3
 )
-
-// exitError carries an exit code up to Main. A nil err means the message
-// was already printed.
-type exitError struct {
-	code int
-	err  error
-}
-
-func (e *exitError) Error() string {
-	if e.err == nil {
-		return ""
-	}
-	return e.err.Error()
-}
-
-func usageErr(format string, args ...any) error {
-	return &exitError{code: exitUsage, err: fmt.Errorf(format, args...)}
-}
 
 // env is what a command writes to and reads from.
 type env struct {
@@ -88,21 +70,36 @@ func Main(args []string, stdin io.Reader, stdout, stderr io.Writer) (code int) {
 	if err == nil {
 		return exitOK
 	}
-	var ee *exitError
-	if errors.As(err, &ee) {
-		if ee.err != nil {
-			fmt.Fprintf(stderr, "rollwise: %v\n", ee.err)
-		}
-		return ee.code
+	k, ours := failure.KindOf(err)
+	if !ours {
+		// Only cobra's own errors (an unknown command, a missing argument)
+		// have no kind: every error of rollwise's code has one, and flag
+		// errors are given one by flagError.
+		k = failure.Usage
+		err = fmt.Errorf("%w\nrun 'rollwise --help' for usage", err)
 	}
-	// Anything cobra itself rejects (unknown flag, missing argument) is a
-	// usage error.
-	fmt.Fprintf(stderr, "rollwise: %v\n", err)
-	if strings.Contains(err.Error(), "unknown command") || strings.Contains(err.Error(), "flag") ||
-		strings.Contains(err.Error(), "arg") {
-		fmt.Fprintln(stderr, "run 'rollwise --help' for usage")
+	if msg := err.Error(); msg != "" {
+		fmt.Fprintf(stderr, "rollwise: %s\n", msg)
 	}
-	return exitUsage
+	return exitCode(k)
+}
+
+// exitCode is the exit status of an error of kind k: the one place where
+// errors become exit codes.
+func exitCode(k failure.Kind) int {
+	switch k {
+	case failure.Usage:
+		return exitUsage
+	case failure.Findings, failure.Input:
+		return exitFindings
+	}
+	return exitInternal
+}
+
+// flagError makes an error in parsing the flags a usage error, with the
+// hint to see the help.
+func flagError(_ *cobra.Command, err error) error {
+	return failure.Newf(failure.Usage, "%w\nrun 'rollwise --help' for usage", err)
 }
 
 func newRoot(e *env) *cobra.Command {
@@ -119,6 +116,7 @@ Start with the demo:
 		SilenceErrors: true,
 		Version:       version(),
 	}
+	root.SetFlagErrorFunc(flagError)
 	root.SetVersionTemplate("rollwise {{.Version}}\n")
 	root.CompletionOptions.HiddenDefaultCmd = false
 	root.AddCommand(newCheckCmd(e), newSQLCmd(e), newRunCmd(e), newDemoCmd(e), newViewsCmd(e), newVerifyCmd(e), newListCmd(e), newLSPCmd(e), newDocsCmd(e), newExplainCmd(e), newFmtCmd(e))

@@ -2,13 +2,12 @@ package main
 
 import (
 	"context"
-	"errors"
-	"fmt"
 	"strings"
 
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
@@ -54,7 +53,7 @@ NAME.parquet). The result is written as it arrives.`,
 
 func runRun(e *env, o *runOptions) error {
 	if err := report.ValidFormat(o.format); err != nil {
-		return &exitError{code: exitUsage, err: err}
+		return failure.New(failure.Usage, err)
 	}
 	if o.dsn != "" {
 		d, err := liveDialect(o.dsn, o.dialect, o.dialectSet, o.data)
@@ -63,7 +62,7 @@ func runRun(e *env, o *runOptions) error {
 		}
 		o.dialect = d
 	} else if o.dialect != "duckdb" {
-		return usageErr("-d %s needs a live database: run executes on the embedded DuckDB unless --dsn URL names a database of that engine (rollwise sql -d %s prints the SQL without running it)", o.dialect, o.dialect)
+		return failure.Usagef("-d %s needs a live database: run executes on the embedded DuckDB unless --dsn URL names a database of that engine (rollwise sql -d %s prints the SQL without running it)", o.dialect, o.dialect)
 	}
 	c, err := compile(e, &o.queryOptions)
 	if err != nil {
@@ -80,7 +79,7 @@ func runRun(e *env, o *runOptions) error {
 		switch {
 		case out != nil:
 			if err := out.Row(r); err != nil {
-				return &exitError{code: exitInternal, err: err}
+				return failure.New(failure.Internal, err)
 			}
 		case len(page.Rows) < report.MaxHTMLRows:
 			page.Rows = append(page.Rows, r)
@@ -92,7 +91,7 @@ func runRun(e *env, o *runOptions) error {
 	if o.format == report.FormatHTML {
 		page = &report.Table{Columns: reportColumns(c)}
 	} else if out, err = report.NewStream(e.stdout, reportColumns(c), report.Options{Format: o.format, Color: isTerminal(e.stdout)}); err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	if o.dsn != "" {
 		err = executeLive(e.context(), c, o.dsn, o.live.options(), write)
@@ -108,7 +107,7 @@ func runRun(e *env, o *runOptions) error {
 		err = out.Close()
 	}
 	if err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	printCautions(e, c.plan)
 	return nil
@@ -168,7 +167,7 @@ func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Option
 	o.Tables = engine.TablesRead(c.model, c.plan)
 	db, err := engine.Open(ctx, c.model, dataDir, o)
 	if err != nil {
-		return &exitError{code: exitFindings, err: err}
+		return failure.New(failure.Input, err)
 	}
 	defer db.Close()
 	return engine.QueryEach(ctx, db, c.sql, shaper(c, write))
@@ -177,11 +176,10 @@ func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Option
 // rejected says that the engine rejected the query, unless err is
 // already an exit error (from writing the output, or shaping the rows).
 func rejected(engineName string, err error) error {
-	var ee *exitError
-	if err == nil || errors.As(err, &ee) {
+	if _, ok := failure.KindOf(err); err == nil || ok {
 		return err
 	}
-	return &exitError{code: exitFindings, err: fmt.Errorf("%s rejected the query: %w", engineName, err)}
+	return failure.Newf(failure.Input, "%s rejected the query: %w", engineName, err)
 }
 
 // reportColumns are the result's columns: the group columns, then the
@@ -234,7 +232,7 @@ func shaper(c *compiled, write func(report.Row) error) engine.Each {
 	return engine.Each{
 		Columns: func(names []string) error {
 			if len(names) != want || names[want-1] != dialects.GroupingColumn {
-				return &exitError{code: exitInternal, err: fmt.Errorf("internal error: the result has columns %v", names)}
+				return failure.Newf(failure.Internal, "internal error: the result has columns %v", names)
 			}
 			return nil
 		},
@@ -245,7 +243,7 @@ func shaper(c *compiled, write func(report.Row) error) engine.Each {
 				mask = uint64(g)
 			case nil:
 			default:
-				return &exitError{code: exitInternal, err: fmt.Errorf("internal error: grouping column holds %T", g)}
+				return failure.Newf(failure.Internal, "internal error: grouping column holds %T", g)
 			}
 			return write(report.Row{Values: row[:want-1], RolledUp: c.query.RolledUp(mask)})
 		},

@@ -1,7 +1,6 @@
 package main
 
 import (
-	"errors"
 	"os"
 	"path/filepath"
 	"sort"
@@ -9,6 +8,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
 )
@@ -94,7 +94,7 @@ fails), 2 for usage errors.`,
 // and writes the report. It is the whole command, without cobra.
 func runVerify(e *env, o *verifyOptions) error {
 	if o.format != "table" && o.format != "json" {
-		return usageErr("unknown format %q: verify writes table or json", o.format)
+		return failure.Usagef("unknown format %q: verify writes table or json", o.format)
 	}
 	if o.dsn != "" {
 		name, err := liveDialect(o.dsn, o.dialect, o.dialectSet, o.data)
@@ -105,27 +105,27 @@ func runVerify(e *env, o *verifyOptions) error {
 	}
 	d, err := dialects.Get(o.dialect)
 	if err != nil {
-		return &exitError{code: exitUsage, err: err}
+		return failure.New(failure.Usage, err)
 	}
 	if d.Name() != "duckdb" && o.dsn == "" {
-		return usageErr("verify runs on the embedded DuckDB unless --dsn names a live database; -d %s needs --dsn", o.dialect)
+		return failure.Usagef("verify runs on the embedded DuckDB unless --dsn names a live database; -d %s needs --dsn", o.dialect)
 	}
 	if o.sqlFile == "" {
-		return usageErr("name the handwritten SQL with --sql FILE.sql")
+		return failure.Usagef("name the handwritten SQL with --sql FILE.sql")
 	}
 	text, err := os.ReadFile(o.sqlFile)
 	if err != nil {
-		return usageErr("cannot read the handwritten SQL: %v", err)
+		return failure.Usagef("cannot read the handwritten SQL: %v", err)
 	}
 	maps := map[string]string{}
 	for _, m := range o.maps {
 		name, col, ok := strings.Cut(m, "=")
 		name, col = strings.TrimSpace(name), strings.TrimSpace(col)
 		if !ok || name == "" || col == "" {
-			return usageErr("--map takes MEASURE=COLUMN or TABLE.COLUMN=COLUMN, not %q", m)
+			return failure.Usagef("--map takes MEASURE=COLUMN or TABLE.COLUMN=COLUMN, not %q", m)
 		}
 		if prev, dup := maps[name]; dup && prev != col {
-			return usageErr("--map gives %s two columns, %s and %s", name, prev, col)
+			return failure.Usagef("--map gives %s two columns, %s and %s", name, prev, col)
 		}
 		maps[name] = col
 	}
@@ -155,11 +155,10 @@ func runVerify(e *env, o *verifyOptions) error {
 	}
 	rep, err := verify.Run(ctx, in, runner)
 	if err != nil {
-		var ie *verify.InputError
-		if errors.As(err, &ie) {
-			return &exitError{code: exitUsage, err: err}
+		if _, ok := failure.KindOf(err); ok {
+			return err
 		}
-		return &exitError{code: exitFindings, err: err}
+		return failure.New(failure.Input, err)
 	}
 	if o.format == "json" {
 		err = verify.WriteJSON(e.stdout, rep)
@@ -167,11 +166,11 @@ func runVerify(e *env, o *verifyOptions) error {
 		err = verify.WriteText(e.stdout, rep)
 	}
 	if err != nil {
-		return &exitError{code: exitInternal, err: err}
+		return failure.New(failure.Internal, err)
 	}
 	printCautions(e, c.plan)
 	if !rep.OK() {
-		return &exitError{code: exitFindings}
+		return failure.Printed(failure.Findings)
 	}
 	return nil
 }
@@ -190,13 +189,13 @@ func modelSources(paths []string) ([]verify.Source, error) {
 		for _, name := range names {
 			b, err := os.ReadFile(name)
 			if err != nil {
-				return nil, usageErr("cannot read the model: %v", err)
+				return nil, failure.Usagef("cannot read the model: %v", err)
 			}
 			out = append(out, verify.Source{Name: name, Text: string(b)})
 		}
 	}
 	if len(out) == 0 {
-		return nil, usageErr("no model files in %s", strings.Join(paths, ", "))
+		return nil, failure.Usagef("no model files in %s", strings.Join(paths, ", "))
 	}
 	return out, nil
 }

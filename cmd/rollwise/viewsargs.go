@@ -1,11 +1,11 @@
 package main
 
 import (
-	"fmt"
 	"os"
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 )
 
@@ -20,12 +20,12 @@ const maxFileName = 255
 func viewsFolderArgs(cmd *cobra.Command, o *viewsOptions) error {
 	for _, f := range []struct{ name, value string }{{"out", o.out}, {"check", o.check}} {
 		if cmd.Flags().Changed(f.name) && f.value == "" {
-			return usageErr("--%s needs a folder name, not an empty one", f.name)
+			return failure.Usagef("--%s needs a folder name, not an empty one", f.name)
 		}
 	}
 	if o.check != "" {
 		if fi, err := os.Stat(o.check); err == nil && !fi.IsDir() {
-			return usageErr("--check %s: that is a file; --check compares a folder written by --out", o.check)
+			return failure.Usagef("--check %s: that is a file; --check compares a folder written by --out", o.check)
 		}
 	}
 	return nil
@@ -36,8 +36,8 @@ func viewsFolderArgs(cmd *cobra.Command, o *viewsOptions) error {
 func viewFileNames(set *views.Set) error {
 	for _, v := range set.Views {
 		if len(v.File) > maxFileName {
-			return &exitError{code: exitFindings, err: fmt.Errorf("view %.40s...: its file name is %d bytes, and file systems take at most %d; give the view a shorter name",
-				v.Name, len(v.File), maxFileName)}
+			return failure.Newf(failure.Findings, "view %.40s...: its file name is %d bytes, and file systems take at most %d; give the view a shorter name",
+				v.Name, len(v.File), maxFileName)
 		}
 	}
 	return nil

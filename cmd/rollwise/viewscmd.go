@@ -7,6 +7,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/views"
 	"github.com/rollwise/rollwise/dialects"
@@ -63,11 +64,11 @@ would write and exits 1 if they differ, listing each view that does.`,
 
 func runViews(e *env, o *viewsOptions) error {
 	if o.out != "" && o.check != "" {
-		return usageErr("--out writes a folder and --check compares one: give one of them")
+		return failure.Usagef("--out writes a folder and --check compares one: give one of them")
 	}
 	d, err := dialects.Get(o.dialect)
 	if err != nil {
-		return &exitError{code: exitUsage, err: err}
+		return failure.New(failure.Usage, err)
 	}
 	m, src, err := loadModel(e, o.models)
 	if err != nil {
@@ -76,7 +77,7 @@ func runViews(e *env, o *viewsOptions) error {
 	set, diags := views.Generate(m, d, views.Options{Schema: o.schema, Approximate: o.approximate})
 	printDiags(e, diags, src)
 	if set == nil {
-		return &exitError{code: exitFindings, err: fmt.Errorf("no views written: %s", countErrors(diags))}
+		return failure.Newf(failure.Findings, "no views written: %s", failure.CountErrors(diags))
 	}
 	for _, c := range set.Cautions {
 		fmt.Fprintf(e.stderr, "caution: %s\n", c)
@@ -93,7 +94,7 @@ func runViews(e *env, o *viewsOptions) error {
 	case o.check != "":
 		drifts, err := views.Check(o.check, set)
 		if err != nil {
-			return &exitError{code: exitInternal, err: err}
+			return failure.New(failure.Internal, err)
 		}
 		if len(drifts) == 0 {
 			fmt.Fprintf(e.stderr, "ok: %s is up to date: %s\n", o.check, report.Count(len(set.Views), "view"))
@@ -102,15 +103,15 @@ func runViews(e *env, o *viewsOptions) error {
 		for _, dr := range drifts {
 			fmt.Fprintln(e.stdout, dr)
 		}
-		return &exitError{code: exitFindings, err: fmt.Errorf("%s differs from the model in %s; run 'rollwise views %s --out %s' to update it",
-			o.check, report.Count(len(drifts), "place"), strings.Join(o.models, " ")+viewsFlags(o), o.check)}
+		return failure.Newf(failure.Findings, "%s differs from the model in %s; run 'rollwise views %s --out %s' to update it",
+			o.check, report.Count(len(drifts), "place"), strings.Join(o.models, " ")+viewsFlags(o), o.check)
 	case o.out != "":
 		rep, err := views.Write(o.out, set)
 		if errors.Is(err, views.ErrBusy) {
-			return &exitError{code: exitFindings, err: err}
+			return failure.New(failure.Input, err)
 		}
 		if err != nil {
-			return &exitError{code: exitInternal, err: err}
+			return failure.New(failure.Internal, err)
 		}
 		fmt.Fprintf(e.stderr, "ok: %s: %s; %s written, %d unchanged, %d removed\n",
 			o.out, report.Count(len(set.Views), "view"), report.Count(len(rep.Written), "file"), len(rep.Unchanged), len(rep.Removed))

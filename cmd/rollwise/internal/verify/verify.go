@@ -19,6 +19,7 @@ import (
 	"strings"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/plan"
@@ -109,15 +110,11 @@ type Input struct {
 	Dialect *dialects.Dialect
 }
 
-// InputError says that nothing could be compared because of how verify
-// was asked: a column the handwritten SQL lacks, a measure mapped to a
-// column of text, a bad option.
-type InputError struct{ Msg string }
-
-func (e *InputError) Error() string { return e.Msg }
-
+// inputErr says that nothing could be compared because of how verify was
+// asked: a column the handwritten SQL lacks, a measure mapped to a column
+// of text, a bad option. It is a usage error.
 func inputErr(format string, args ...any) error {
-	return &InputError{Msg: fmt.Sprintf(format, args...)}
+	return failure.Usagef(format, args...)
 }
 
 // SQLError says that the handwritten SQL failed on the engine.

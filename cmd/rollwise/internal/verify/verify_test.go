@@ -9,6 +9,7 @@ import (
 
 	"github.com/shopspring/decimal"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
@@ -149,8 +150,8 @@ func TestMapColumns(t *testing.T) {
 		if err == nil || !strings.Contains(err.Error(), c.want) {
 			t.Errorf("%v: error %v, want %q", c.cols, err, c.want)
 		}
-		if _, ok := err.(*InputError); err != nil && !ok {
-			t.Errorf("%v: %T is not an InputError", c.cols, err)
+		if k, _ := failure.KindOf(err); err != nil && k != failure.Usage {
+			t.Errorf("%v: %v is not a usage error", c.cols, err)
 		}
 	}
 }
