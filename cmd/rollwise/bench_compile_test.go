@@ -6,6 +6,7 @@ import (
 	"testing"
 	"time"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
@@ -133,13 +134,9 @@ func synthMeasure(i int) string {
 
 // loadSynth parses and checks a synthetic model.
 func loadSynth(src string) (*model.Model, error) {
-	f, diags := grammar.Parse("synthetic.roll", src)
+	m, diags := pipeline.Resolve([]pipeline.Source{{Name: "synthetic.roll", Text: src}})
 	if diags.HasErrors() {
-		return nil, fmt.Errorf("parse: %v", diags.Errors()[0].Error())
-	}
-	m, diags := model.Load([]*grammar.File{f})
-	if diags.HasErrors() {
-		return nil, fmt.Errorf("check: %d errors, first: %v", len(diags.Errors()), diags.Errors()[0].Error())
+		return nil, fmt.Errorf("%d errors, first: %v", len(diags.Errors()), diags.Errors()[0].Error())
 	}
 	return m, nil
 }

@@ -62,10 +62,11 @@ func newCheckCmd(e *env) *cobra.Command {
 }
 
 func runCheck(e *env, o *checkOptions) error {
-	m, src, err := loadModel(e, o.models)
+	loaded, err := loadModel(e, o.models)
 	if err != nil {
 		return err
 	}
+	m := loaded.Model
 	// A view is a query: plan it, so that a view grouped by a column its
 	// measures cannot reach fails here and not on first use.
 	var diags grammar.Diagnostics
@@ -88,7 +89,7 @@ func runCheck(e *env, o *checkOptions) error {
 			report.Count(len(uniquenesses(m)), "uniqueness promise"))
 	}
 	if len(diags) > 0 {
-		printDiags(e, diags, src)
+		printDiags(e, diags, loaded.Sources)
 	}
 	if diags.HasErrors() {
 		return failure.Newf(failure.Findings, "%s", failure.CountErrors(diags))

@@ -6,8 +6,8 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
@@ -87,22 +87,17 @@ func completeListItem(names []string, toComplete string) []string {
 // completion, printing nothing: whatever resolves is offered, nil when
 // nothing can be read.
 func quietModel(args []string) *model.Model {
-	var files []*grammar.File
+	var files []pipeline.Source
 	for _, p := range args {
-		for _, name := range modelFileNames(p) {
-			b, err := readModelFile(name)
-			if err != nil {
-				continue
-			}
-			f, _ := grammar.Parse(name, string(b))
-			if f != nil {
-				files = append(files, f)
+		for _, name := range pipeline.FileNames(p) {
+			if f, err := pipeline.Read([]string{name}); err == nil {
+				files = append(files, f...)
 			}
 		}
 	}
 	if len(files) == 0 {
 		return nil
 	}
-	m, _ := model.Load(files)
+	m, _ := pipeline.Resolve(files)
 	return m
 }

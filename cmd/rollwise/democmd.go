@@ -88,7 +88,7 @@ func runDemo(e *env, o *demoOptions) error {
 		return failure.New(failure.Internal, err)
 	}
 	heading("$ rollwise sql ... (the statement behind the report: one per query, totals as grouping sets)")
-	fmt.Fprintln(e.stdout, c.sql+";")
+	fmt.Fprintln(e.stdout, c.SQL+";")
 
 	// Why a ratio's total is not the sum of its rows.
 	q2 := &queryOptions{models: []string{model}, measures: []string{"margin_rate"},

@@ -20,9 +20,9 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/livetest"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/plan"
 	"github.com/rollwise/rollwise/planner/reference"
@@ -308,7 +308,7 @@ func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) str
 // runSQL runs the SQL on tg and shapes its rows as `rollwise run --format
 // json` does (resultTypes, shape and the JSON report of run.go).
 func (dc *diffOpened) runSQL(tg diffTarget, q *model.Query, plan *plan.Plan, text string) ([]map[string]any, error) {
-	c := &compiled{model: dc.m, query: q, plan: plan, sql: text}
+	c := &pipeline.Compiled{Model: dc.m, Query: q, Plan: plan, SQL: text}
 	res, err := tg.run(text, resultTypes(c))
 	if err != nil {
 		return nil, fmt.Errorf("%s rejects the query: %w", tg.name, err)
@@ -332,19 +332,14 @@ func (dc *diffOpened) runSQL(tg diffTarget, q *model.Query, plan *plan.Plan, tex
 
 // diffLoadModel parses and resolves one model file.
 func diffLoadModel(path string) (*model.Model, error) {
-	src, err := os.ReadFile(path)
+	m, diags, err := pipeline.Load([]string{path})
+	if diags.HasErrors() {
+		return nil, diags.Err()
+	}
 	if err != nil {
 		return nil, err
 	}
-	f, diags := grammar.Parse(path, string(src))
-	if diags.HasErrors() {
-		return nil, diags.Err()
-	}
-	m, diags := model.Load([]*grammar.File{f})
-	if diags.HasErrors() {
-		return nil, diags.Err()
-	}
-	return m, nil
+	return m.Model, nil
 }
 
 // diffRunJSON runs the CLI in-process and decodes its JSON rows.

@@ -50,11 +50,11 @@ func runDocs(e *env, o *docsOptions) error {
 	if o.out == "" {
 		return failure.Usagef("name the folder to write the catalog into: --out DIR")
 	}
-	m, src, err := loadModel(e, o.models)
+	m, err := loadModel(e, o.models)
 	if err != nil {
 		return err
 	}
-	files, err := catalog.Build(m, src)
+	files, err := catalog.Build(m.Model, m.Sources)
 	if err != nil {
 		return failure.New(failure.Internal, err)
 	}

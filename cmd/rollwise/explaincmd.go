@@ -88,18 +88,18 @@ func runExplain(e *env, o *explainOptions) error {
 	if err != nil {
 		return err
 	}
-	cell, err := explain.Resolve(c.query, pairs)
+	cell, err := explain.Resolve(c.Query, pairs)
 	if err != nil {
 		return failure.New(failure.Usage, err)
 	}
-	data, err := explainData(e.context(), c.model, c.query, o)
+	data, err := explainData(e.context(), c.Model, c.Query, o)
 	if err != nil {
 		return err
 	}
-	if err := explain.Check(data, c.query, cell); err != nil {
+	if err := explain.Check(data, c.Query, cell); err != nil {
 		return failure.New(failure.Findings, err)
 	}
-	tree, err := explain.Explain(data, c.query, cell)
+	tree, err := explain.Explain(data, c.Query, cell)
 	if err != nil {
 		return failure.New(failure.Findings, err)
 	}
@@ -111,7 +111,7 @@ func runExplain(e *env, o *explainOptions) error {
 	if err != nil {
 		return failure.New(failure.Internal, err)
 	}
-	printCautions(e, c.plan)
+	printCautions(e, c.Notes)
 	return nil
 }
 
@@ -159,7 +159,7 @@ func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explain
 		if _, ok := failure.KindOf(err); ok {
 			return nil, err
 		}
-		return nil, failure.New(failure.Input, err)
+		return nil, failure.New(failure.Findings, err)
 	}
 	return data, nil
 }

@@ -8,6 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/durable"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/grammar/format"
@@ -107,7 +108,7 @@ func formatFiles(e *env, o *fmtOptions) ([]fmtFile, error) {
 	for _, p := range o.paths {
 		names := []string{stdinName}
 		if p != "-" {
-			names = modelFileNames(p)
+			names = pipeline.FileNames(p)
 		} else if o.write {
 			return nil, failure.Usagef("-w cannot write standard input back; without -w the formatted text goes to stdout")
 		}
@@ -139,7 +140,7 @@ func formatFiles(e *env, o *fmtOptions) ([]fmtFile, error) {
 // a model file's size.
 func readFmtInput(e *env, name string) ([]byte, error) {
 	if name != stdinName {
-		return readModelFile(name)
+		return pipeline.ReadFile(name)
 	}
 	b, err := io.ReadAll(io.LimitReader(e.stdin, grammar.MaxSourceBytes+1))
 	if err != nil {

@@ -93,7 +93,7 @@ type listView struct {
 }
 
 func runList(e *env, o *listOptions) error {
-	m, _, err := loadModel(e, o.models)
+	m, err := loadModel(e, o.models)
 	if err != nil {
 		return err
 	}

@@ -10,6 +10,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/planner/model"
@@ -69,13 +70,13 @@ func (f liveFlags) options() engine.LiveOptions {
 // executeLive runs a compiled query on the database at dsn and hands
 // each row, shaped for the report exactly as for the embedded engine, to
 // write as the server sends it.
-func executeLive(ctx context.Context, c *compiled, dsn string, lo engine.LiveOptions, write func(report.Row) error) error {
+func executeLive(ctx context.Context, c *pipeline.Compiled, dsn string, lo engine.LiveOptions, write func(report.Row) error) error {
 	l, err := engine.OpenLive(ctx, dsn, lo)
 	if err != nil {
 		return failure.New(failure.Input, err)
 	}
 	defer l.Close()
-	if err := rejected(l.Server, l.QueryEach(ctx, c.sql, resultTypes(c), shaper(c, write))); err != nil {
+	if err := rejected(l.Server, l.QueryEach(ctx, c.SQL, resultTypes(c), shaper(c, write))); err != nil {
 		return err
 	}
 	addLiveCautions(ctx, l, c)
@@ -108,22 +109,22 @@ func (r liveRunner) Query(ctx context.Context, q string) (*engine.Result, error)
 	return r.l.Query(ctx, q, nil)
 }
 
-// addLiveCautions adds to c's plan what may make the live engine's
+// addLiveCautions adds to c's notes what may make the live engine's
 // numbers differ from the embedded engine's: SQLite's float decimals, and
 // MySQL/MariaDB group columns whose collation merges values that differ
 // in case or trailing spaces.
-func addLiveCautions(ctx context.Context, l *engine.Live, c *compiled) {
-	loose, err := l.LooseGroupCollations(ctx, c.query.Groups)
+func addLiveCautions(ctx context.Context, l *engine.Live, c *pipeline.Compiled) {
+	loose, err := l.LooseGroupCollations(ctx, c.Query.Groups)
 	if err != nil {
 		loose = append(loose, fmt.Sprintf("%s: could not check that the group columns compare text exactly (%v): groups may merge values that differ in case or trailing spaces", l.Server, err))
 	}
-	c.plan.Cautions = append(c.plan.Cautions, loose...)
+	c.Notes = append(c.Notes, loose...)
 	if l.Dialect != "sqlite" {
 		return
 	}
-	for _, o := range c.plan.Outputs {
+	for _, o := range c.Plan.Outputs {
 		if o.Expr.Type() == model.TypeDecimal {
-			c.plan.Cautions = append(c.plan.Cautions,
+			c.Notes = append(c.Notes,
 				"SQLite has no exact decimal type: decimal values were computed as 64-bit floats")
 			return
 		}
@@ -132,12 +133,12 @@ func addLiveCautions(ctx context.Context, l *engine.Live, c *compiled) {
 
 // resultTypes are the logical types of the statement's columns: the
 // groups, the measures, then the grouping id.
-func resultTypes(c *compiled) []model.Type {
+func resultTypes(c *pipeline.Compiled) []model.Type {
 	var out []model.Type
-	for _, g := range c.query.Groups {
+	for _, g := range c.Query.Groups {
 		out = append(out, g.Type)
 	}
-	for _, o := range c.plan.Outputs {
+	for _, o := range c.Plan.Outputs {
 		out = append(out, o.Expr.Type())
 	}
 	return append(out, model.TypeInteger)

@@ -61,7 +61,7 @@ func liveEngine(t *testing.T, name, path string) *livetest.Engine {
 	if e := liveCache.engines[key]; e != nil {
 		return e
 	}
-	m, _, err := loadModel(&env{stdout: io.Discard, stderr: io.Discard}, []string{path})
+	m, err := loadModel(&env{stdout: io.Discard, stderr: io.Discard}, []string{path})
 	if err != nil {
 		liveCache.failed[key] = fmt.Sprintf("%s: cannot load %s: %v", name, path, err)
 		t.Fatal(liveCache.failed[key])
@@ -72,7 +72,7 @@ func liveEngine(t *testing.T, name, path string) *livetest.Engine {
 			liveCache.failed[key] = fmt.Sprintf("%s: loading %s failed earlier in the run", name, path)
 		}
 	}()
-	e := livetest.Open(t, name, liveModels[path], m, "")
+	e := livetest.Open(t, name, liveModels[path], m.Model, "")
 	liveCache.engines[key] = e
 	ok = true
 	return e

@@ -2,14 +2,12 @@ package main
 
 import (
 	"fmt"
+	"maps"
 
 	"github.com/spf13/cobra"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
-	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/planner/model"
-	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // queryOptions are the flags that say what to compute, shared by sql and
@@ -46,83 +44,29 @@ func (o *queryOptions) addFlags(cmd *cobra.Command) {
 const approximateUsage = "compute approximately, and say so, what the dialect computes exactly only the slow way " +
 	"(a median on Trino, BigQuery or SQL Server by its approximate aggregate instead of window functions) or cannot compute: SQLite's upper and lower beyond ASCII"
 
-// compiled is a planned and rendered query.
-type compiled struct {
-	model *model.Model
-	query *model.Query
-	plan  *plan.Plan
-	sql   string
+// request is the pipeline's request the flags make.
+func (o *queryOptions) request() pipeline.Request {
+	return pipeline.Request{Request: model.Request{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals,
+		Order: o.order, Limit: o.limit, Names: optionNames}, View: o.view, Dialect: o.dialect, Approximate: o.approximate}
 }
 
-// compile loads the model and plans and renders the query.
-func compile(e *env, o *queryOptions) (*compiled, error) {
-	d, err := dialects.Get(o.dialect)
-	if err != nil {
-		return nil, failure.New(failure.Usage, err)
+// compile loads the model and plans and renders the query, printing the
+// diagnostics.
+func compile(e *env, o *queryOptions) (*pipeline.Compiled, error) {
+	r := o.request()
+	if err := r.Check(); err != nil {
+		return nil, err
 	}
-	if o.limit < 0 {
-		return nil, failure.Usagef("--limit must be a positive number, not %d", o.limit)
-	}
-	m, src, err := loadModel(e, o.models)
+	m, err := loadModel(e, o.models)
 	if err != nil {
 		return nil, err
 	}
-	var q *model.Query
-	var diags grammar.Diagnostics
-	if o.view != "" {
-		if len(o.measures)+len(o.by) > 0 || o.where != "" {
-			return nil, failure.Usagef("--view computes the view as declared; leave out -m, -b and -w")
-		}
-		var v *model.View
-		for _, x := range m.Views {
-			if x.Name == o.view {
-				v = x
-			}
-		}
-		if v == nil {
-			var names []string
-			for _, x := range m.Views {
-				names = append(names, x.Name)
-			}
-			msg := fmt.Sprintf("the model has no view %q", o.view)
-			if near := grammar.Closest(o.view, names); near != "" {
-				msg += fmt.Sprintf("; did you mean %q?", near)
-			}
-			return nil, failure.Newf(failure.Findings, "%s", msg)
-		}
-		q = m.ViewQuery(v)
-		diags = q.Override(model.Request{Totals: o.totals, Order: o.order, Limit: o.limit, Names: optionNames})
-	} else {
-		q, diags = m.NewQuery(model.Request{Measures: o.measures, By: o.by, Where: o.where,
-			Totals: o.totals, Order: o.order, Limit: o.limit, Names: optionNames})
-	}
+	c, diags, err := pipeline.Compile(m.Model, r)
+	src := maps.Clone(m.Sources)
 	src[optionNames.Where] = o.where
-	if !diags.HasErrors() {
-		var p *plan.Plan
-		var pd grammar.Diagnostics
-		p, pd = plan.NewPlan(q)
-		diags.Append(pd)
-		if p != nil {
-			printDiags(e, diags, src)
-			sql, note, err := dialects.RenderWith(p, d, dialects.Options{Approximate: o.approximate})
-			if err != nil {
-				return nil, failure.New(failure.Findings, err)
-			}
-			if note != "" {
-				p.Cautions = append(p.Cautions, note)
-			}
-			return &compiled{model: m, query: q, plan: p, sql: sql}, nil
-		}
-	}
 	printDiags(e, diags, src)
-	return nil, failure.Diagnostics(diags)
+	return c, err
 }
-
-// optionNames are what diagnostics of a request call its parts: the
-// options the user gave them with ("--by:1:9: ...", "--order names
-// revenue twice").
-var optionNames = model.PartNames{Measures: "--measures", By: "--by", Where: "--where",
-	Totals: "--totals", Order: "--order", Limit: "--limit"}
 
 func newSQLCmd(e *env) *cobra.Command {
 	o := &queryOptions{}
@@ -140,8 +84,8 @@ func newSQLCmd(e *env) *cobra.Command {
 			if err != nil {
 				return err
 			}
-			fmt.Fprintln(e.stdout, c.sql+";")
-			printCautions(e, c.plan)
+			fmt.Fprintln(e.stdout, c.SQL+";")
+			printCautions(e, c.Notes)
 			return nil
 		},
 	}
@@ -149,8 +93,15 @@ func newSQLCmd(e *env) *cobra.Command {
 	return cmd
 }
 
-func printCautions(e *env, p *plan.Plan) {
-	for _, c := range p.Cautions {
+// optionNames are what diagnostics of a request call its parts: the
+// options the user gave them with ("--by:1:9: ...", "--order names
+// revenue twice").
+var optionNames = model.PartNames{Measures: "--measures", By: "--by", Where: "--where",
+	Totals: "--totals", Order: "--order", Limit: "--limit"}
+
+// printCautions writes the notes of a result to stderr.
+func printCautions(e *env, notes []string) {
+	for _, c := range notes {
 		fmt.Fprintf(e.stderr, "caution: %s\n", c)
 	}
 }

@@ -8,6 +8,7 @@ import (
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
@@ -102,29 +103,29 @@ func runRun(e *env, o *runOptions) error {
 		return err
 	}
 	if page != nil {
-		err = report.Write(e.stdout, page, report.Options{Format: o.format, Title: resultTitle(c), Cautions: c.plan.Cautions, Omitted: omitted})
+		err = report.Write(e.stdout, page, report.Options{Format: o.format, Title: resultTitle(c), Cautions: c.Notes, Omitted: omitted})
 	} else {
 		err = out.Close()
 	}
 	if err != nil {
 		return failure.New(failure.Internal, err)
 	}
-	printCautions(e, c.plan)
+	printCautions(e, c.Notes)
 	return nil
 }
 
 // resultTitle names a result for the html page: the measures, the group
 // columns and the filter.
-func resultTitle(c *compiled) string {
+func resultTitle(c *pipeline.Compiled) string {
 	var names []string
-	for _, m := range c.query.Measures {
+	for _, m := range c.Query.Measures {
 		names = append(names, m.Name)
 	}
 	s := strings.Join(names, ", ")
-	if len(c.query.GroupNames) > 0 {
-		s += " by " + strings.Join(c.query.GroupNames, ", ")
+	if len(c.Query.GroupNames) > 0 {
+		s += " by " + strings.Join(c.Query.GroupNames, ", ")
 	}
-	for _, f := range c.query.Filters {
+	for _, f := range c.Query.Filters {
 		s += " where " + model.Text(f)
 	}
 	return s
@@ -132,7 +133,7 @@ func resultTitle(c *compiled) string {
 
 // execute runs a compiled query on the embedded engine and returns the
 // rows shaped for the report.
-func execute(ctx context.Context, c *compiled, dataDir string) (*report.Table, error) {
+func execute(ctx context.Context, c *pipeline.Compiled, dataDir string) (*report.Table, error) {
 	t := &report.Table{Columns: reportColumns(c)}
 	err := executeEach(ctx, c, dataDir, func(r report.Row) error { t.Rows = append(t.Rows, r); return nil })
 	if err != nil {
@@ -149,7 +150,7 @@ func execute(ctx context.Context, c *compiled, dataDir string) (*report.Table, e
 // (engine.Options.FileDecimals); a query that overflows them before its
 // first row is run again with every decimal read as the model's
 // DECIMAL(38,6).
-func executeEach(ctx context.Context, c *compiled, dataDir string, write func(report.Row) error) error {
+func executeEach(ctx context.Context, c *pipeline.Compiled, dataDir string, write func(report.Row) error) error {
 	written := false
 	err := executeOn(ctx, c, dataDir, engine.Options{FileDecimals: true}, func(r report.Row) error {
 		written = true
@@ -163,14 +164,14 @@ func executeEach(ctx context.Context, c *compiled, dataDir string, write func(re
 
 // executeOn opens the embedded engine with options o, loading only the
 // tables c reads, and runs c there.
-func executeOn(ctx context.Context, c *compiled, dataDir string, o engine.Options, write func(report.Row) error) error {
-	o.Tables = engine.TablesRead(c.model, c.plan)
-	db, err := engine.Open(ctx, c.model, dataDir, o)
+func executeOn(ctx context.Context, c *pipeline.Compiled, dataDir string, o engine.Options, write func(report.Row) error) error {
+	o.Tables = engine.TablesRead(c.Model, c.Plan)
+	db, err := engine.Open(ctx, c.Model, dataDir, o)
 	if err != nil {
 		return failure.New(failure.Input, err)
 	}
 	defer db.Close()
-	return engine.QueryEach(ctx, db, c.sql, shaper(c, write))
+	return engine.QueryEach(ctx, db, c.SQL, shaper(c, write))
 }
 
 // rejected says that the engine rejected the query, unless err is
@@ -184,13 +185,13 @@ func rejected(engineName string, err error) error {
 
 // reportColumns are the result's columns: the group columns, then the
 // measures, each with its type.
-func reportColumns(c *compiled) []report.Column {
+func reportColumns(c *pipeline.Compiled) []report.Column {
 	var cols []report.Column
-	for i, g := range c.query.GroupNames {
-		col := c.query.Groups[i]
+	for i, g := range c.Query.GroupNames {
+		col := c.Query.Groups[i]
 		cols = append(cols, report.Column{Name: g, Group: true, Type: col.Type, Period: periodOf(col)})
 	}
-	for _, o := range c.plan.Outputs {
+	for _, o := range c.Plan.Outputs {
 		cols = append(cols, report.Column{Name: o.Name, Format: o.Measure.Format, Type: o.Expr.Type()})
 	}
 	return cols
@@ -210,7 +211,7 @@ func periodOf(c *model.Column) string {
 
 // shape turns engine rows into report rows: group columns, measures, and
 // the rolled-up groups read from the grouping column.
-func shape(c *compiled, res *engine.Result) (*report.Table, error) {
+func shape(c *pipeline.Compiled, res *engine.Result) (*report.Table, error) {
 	t := &report.Table{Columns: reportColumns(c)}
 	each := shaper(c, func(r report.Row) error { t.Rows = append(t.Rows, r); return nil })
 	if err := each.Columns(res.Columns); err != nil {
@@ -227,8 +228,8 @@ func shape(c *compiled, res *engine.Result) (*report.Table, error) {
 // shaper checks the engine's columns and turns each engine row into a
 // report row for write: the values, and the rolled-up groups read from
 // the grouping column.
-func shaper(c *compiled, write func(report.Row) error) engine.Each {
-	want := len(c.query.GroupNames) + len(c.plan.Outputs) + 1
+func shaper(c *pipeline.Compiled, write func(report.Row) error) engine.Each {
+	want := len(c.Query.GroupNames) + len(c.Plan.Outputs) + 1
 	return engine.Each{
 		Columns: func(names []string) error {
 			if len(names) != want || names[want-1] != dialects.GroupingColumn {
@@ -245,7 +246,7 @@ func shaper(c *compiled, write func(report.Row) error) engine.Each {
 			default:
 				return failure.Newf(failure.Internal, "internal error: grouping column holds %T", g)
 			}
-			return write(report.Row{Values: row[:want-1], RolledUp: c.query.RolledUp(mask)})
+			return write(report.Row{Values: row[:want-1], RolledUp: c.Query.RolledUp(mask)})
 		},
 	}
 }

@@ -97,11 +97,11 @@ func TestLiveConnectTimeout(t *testing.T) {
 // shopForLive loads the shop model for a live test database of its own.
 func shopForLive(t *testing.T) *model.Model {
 	t.Helper()
-	m, _, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &bytes.Buffer{}}, []string{shopModel})
+	m, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &bytes.Buffer{}}, []string{shopModel})
 	if err != nil {
 		t.Fatal(err)
 	}
-	return m
+	return m.Model
 }
 
 // serverRuns lists the statements of other sessions that hold tag and

@@ -5,7 +5,6 @@ import (
 	"database/sql"
 	"fmt"
 	"math"
-	"os"
 	"path/filepath"
 	"strings"
 	"time"
@@ -13,8 +12,8 @@ import (
 	"github.com/shopspring/decimal"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/plan"
 )
@@ -27,24 +26,18 @@ import (
 
 // loadModelFiles parses and checks model files of testdata/tpch.
 func loadModelFiles(names []string) (*model.Model, error) {
-	var files []*grammar.File
+	var paths []string
 	for _, name := range names {
-		path := filepath.Join(tpchDir, name)
-		src, err := os.ReadFile(path)
-		if err != nil {
-			return nil, err
-		}
-		f, diags := grammar.Parse(path, string(src))
-		if diags.HasErrors() {
-			return nil, fmt.Errorf("%s", diags.Errors()[0].Error())
-		}
-		files = append(files, f)
+		paths = append(paths, filepath.Join(tpchDir, name))
 	}
-	m, diags := model.Load(files)
+	m, diags, err := pipeline.Load(paths)
 	if diags.HasErrors() {
 		return nil, fmt.Errorf("%s", diags.Errors()[0].Error())
 	}
-	return m, nil
+	if err != nil {
+		return nil, err
+	}
+	return m.Model, nil
 }
 
 // planSQL checks a query against the model, plans it and renders it.

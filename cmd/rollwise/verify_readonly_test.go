@@ -20,13 +20,13 @@ import (
 // reach the server, and leave the data as it was. Each engine gets its
 // own test database (tag verify_readonly), loaded with the shop data.
 func TestVerifyRefusesWritesOnLive(t *testing.T) {
-	m, _, err := loadModel(&env{stdout: io.Discard, stderr: io.Discard}, []string{shopModel})
+	m, err := loadModel(&env{stdout: io.Discard, stderr: io.Discard}, []string{shopModel})
 	if err != nil {
 		t.Fatal(err)
 	}
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
-			e := livetest.Open(t, name, "verify_readonly", m, "")
+			e := livetest.Open(t, name, "verify_readonly", m.Model, "")
 			defer e.Close()
 			dir := t.TempDir()
 			if err := os.Chmod(dir, 0o777); err != nil { // so that a server's program could write here

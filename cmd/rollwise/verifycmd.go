@@ -2,8 +2,6 @@ package main
 
 import (
 	"os"
-	"path/filepath"
-	"sort"
 	"strings"
 
 	"github.com/spf13/cobra"
@@ -129,17 +127,13 @@ func runVerify(e *env, o *verifyOptions) error {
 		}
 		maps[name] = col
 	}
-	sources, err := modelSources(o.models)
-	if err != nil {
-		return err
-	}
 	c, err := compile(e, &queryOptions{models: o.models, measures: o.measures, by: o.by, where: o.where,
 		totals: o.totals, dialect: o.dialect})
 	if err != nil {
 		return err
 	}
 	ctx := e.context()
-	runner, live, closeData, err := openData(ctx, c.model, o.data, o.dsn, o.live.options())
+	runner, live, closeData, err := openData(ctx, c.Model, o.data, o.dsn, o.live.options())
 	if err != nil {
 		return err
 	}
@@ -150,8 +144,8 @@ func runVerify(e *env, o *verifyOptions) error {
 	in := &verify.Input{
 		Spec: verify.Spec{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals, Map: maps,
 			GroupingColumn: o.grouping, Tolerance: o.tolerance},
-		Model: c.model, Query: c.query, Plan: c.plan, Compiled: c.sql,
-		Handwritten: string(text), SQLName: o.sqlFile, Sources: sources, Dialect: d,
+		Model: c.Model, Query: c.Query, Plan: c.Plan, Compiled: c.SQL,
+		Handwritten: string(text), SQLName: o.sqlFile, Dialect: d,
 	}
 	rep, err := verify.Run(ctx, in, runner)
 	if err != nil {
@@ -168,34 +162,9 @@ func runVerify(e *env, o *verifyOptions) error {
 	if err != nil {
 		return failure.New(failure.Internal, err)
 	}
-	printCautions(e, c.plan)
+	printCautions(e, c.Notes)
 	if !rep.OK() {
 		return failure.Printed(failure.Findings)
 	}
 	return nil
-}
-
-// modelSources reads the model files (a folder stands for the .roll files
-// in it), for verify to re-read the model with a table moved to another
-// relation.
-func modelSources(paths []string) ([]verify.Source, error) {
-	var out []verify.Source
-	for _, p := range paths {
-		names := []string{p}
-		if fi, err := os.Stat(p); err == nil && fi.IsDir() {
-			names, _ = filepath.Glob(filepath.Join(p, "*.roll"))
-			sort.Strings(names)
-		}
-		for _, name := range names {
-			b, err := os.ReadFile(name)
-			if err != nil {
-				return nil, failure.Usagef("cannot read the model: %v", err)
-			}
-			out = append(out, verify.Source{Name: name, Text: string(b)})
-		}
-	}
-	if len(out) == 0 {
-		return nil, failure.Usagef("no model files in %s", strings.Join(paths, ", "))
-	}
-	return out, nil
 }

@@ -70,12 +70,12 @@ func runViews(e *env, o *viewsOptions) error {
 	if err != nil {
 		return failure.New(failure.Usage, err)
 	}
-	m, src, err := loadModel(e, o.models)
+	m, err := loadModel(e, o.models)
 	if err != nil {
 		return err
 	}
-	set, diags := views.Generate(m, d, views.Options{Schema: o.schema, Approximate: o.approximate})
-	printDiags(e, diags, src)
+	set, diags := views.Generate(m.Model, d, views.Options{Schema: o.schema, Approximate: o.approximate})
+	printDiags(e, diags, m.Sources)
 	if set == nil {
 		return failure.Newf(failure.Findings, "no views written: %s", failure.CountErrors(diags))
 	}

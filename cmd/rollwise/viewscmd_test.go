@@ -61,7 +61,7 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 	ctx := context.Background()
 	var errb bytes.Buffer
 	e := &env{stdout: &bytes.Buffer{}, stderr: &errb}
-	m, _, err := loadModel(e, models)
+	m, err := loadModel(e, models)
 	if err != nil {
 		t.Fatalf("%v\n%s", err, errb.String())
 	}
@@ -75,11 +75,11 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 		}
 		gd = gd.WithViewDDL(o)
 	}
-	set, diags := views.Generate(m, gd, views.Options{Schema: schema})
+	set, diags := views.Generate(m.Model, gd, views.Options{Schema: schema})
 	if set == nil {
 		t.Fatalf("generate: %v", diags)
 	}
-	db, err := engine.OpenDuckDB(ctx, m, "")
+	db, err := engine.OpenDuckDB(ctx, m.Model, "")
 	if err != nil {
 		t.Fatal(err)
 	}
@@ -94,7 +94,7 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 			t.Fatalf("running the DDL (time %d): %v", i+1, err)
 		}
 	}
-	return &published{model: m, set: set, db: db}
+	return &published{model: m.Model, set: set, db: db}
 }
 
 func (p *published) selectAll(t *testing.T, v *views.View) *engine.Result {
@@ -162,7 +162,7 @@ func TestMeasureViewsMatchRun(t *testing.T) {
 					// The query run --view compiles, on the database the views
 					// were published to: it holds the same data as run's
 					// own engine, loaded once rather than once per view.
-					res, err := engine.Query(context.Background(), p.db, comp.sql)
+					res, err := engine.Query(context.Background(), p.db, comp.SQL)
 					if err != nil {
 						t.Fatalf("run %s: %v", v.Name, err)
 					}
@@ -180,7 +180,7 @@ func TestMeasureViewsMatchRun(t *testing.T) {
 						if mask != 0 {
 							totals++
 						}
-						gotKeys = append(gotKeys, rowKey(row[:len(row)-1], comp.query.RolledUp(uint64(mask))))
+						gotKeys = append(gotKeys, rowKey(row[:len(row)-1], comp.Query.RolledUp(uint64(mask))))
 					}
 					for _, row := range want.Rows {
 						wantKeys = append(wantKeys, rowKey(row.Values, row.RolledUp))
@@ -194,8 +194,8 @@ func TestMeasureViewsMatchRun(t *testing.T) {
 						t.Errorf("%s differs from run --view:\nview:\n%s\nrun:\n%s", v.Name,
 							strings.Join(gotKeys, "\n"), strings.Join(wantKeys, "\n"))
 					}
-					if wantTotals := len(comp.plan.Sets) > 1; wantTotals != (totals > 0) {
-						t.Errorf("%s: %d total rows, but the block's totals are %s", v.Name, totals, comp.query.Totals)
+					if wantTotals := len(comp.Plan.Sets) > 1; wantTotals != (totals > 0) {
+						t.Errorf("%s: %d total rows, but the block's totals are %s", v.Name, totals, comp.Query.Totals)
 					}
 				}
 				if checked < 2 {

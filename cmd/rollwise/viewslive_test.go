@@ -287,17 +287,17 @@ func TestViewsOnLiveEngines(t *testing.T) {
 				t.Fatal(err)
 			}
 			var errb bytes.Buffer
-			m, _, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &errb}, []string{viewsModel})
+			m, err := loadModel(&env{stdout: &bytes.Buffer{}, stderr: &errb}, []string{viewsModel})
 			if err != nil {
 				t.Fatalf("%v: %s", err, errb.String())
 			}
-			l.load(t, m, d)
+			l.load(t, m.Model, d)
 			// Each view block alone, so that one the engine cannot
 			// express leaves the others to test.
 			var published []*views.View
 			blocks := m.Views
 			for i := -1; i < len(blocks); i++ {
-				one := *m
+				one := *m.Model
 				one.Views = nil
 				if i >= 0 {
 					one.Views = blocks[i : i+1]
@@ -366,14 +366,14 @@ func runRows(t *testing.T, v *views.View) []string {
 		t.Fatal(err)
 	}
 	var out []string
-	n := len(comp.query.GroupNames)
+	n := len(comp.Query.GroupNames)
 	for _, r := range res.Rows {
 		var parts []string
 		for i, val := range r.Values {
 			parts = append(parts, normal(t, val, v.Columns[i].Type))
 		}
 		mask := 0
-		for i, g := range comp.query.GroupNames {
+		for i, g := range comp.Query.GroupNames {
 			for _, ru := range r.RolledUp {
 				if ru == g {
 					mask |= 1 << (n - 1 - i)

@@ -7,6 +7,7 @@ import (
 
 	protocol "github.com/tliron/glsp/protocol_3_16"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
@@ -15,7 +16,7 @@ import (
 type workspace struct {
 	paths []string
 	src   map[string]string
-	model *model.Model // nil when the files do not parse
+	model *model.Model // what resolves; nil when the files that parse do not resolve
 	diags grammar.Diagnostics
 }
 
@@ -23,7 +24,7 @@ type workspace struct {
 // check` would, with the editor's text for the open documents.
 func (s *Server) workspace(path string) *workspace {
 	w := &workspace{src: map[string]string{}}
-	var files []*grammar.File
+	var files []pipeline.Source
 	for _, p := range s.modelFiles(path) {
 		text, ok := s.text(p)
 		if !ok {
@@ -31,21 +32,11 @@ func (s *Server) workspace(path string) *workspace {
 		}
 		w.paths = append(w.paths, p)
 		w.src[p] = text
-		f, d := grammar.Parse(p, text)
-		w.diags.Append(d)
-		if f != nil {
-			files = append(files, f)
-		}
+		files = append(files, pipeline.Source{Name: p, Text: text})
 	}
-	if !w.diags.HasErrors() {
-		m, d := model.Load(files)
-		w.model = m
-		w.diags.Append(d)
-	} else {
-		// Offer what resolves in the files that parse, for hover and
-		// completion while one file is being typed.
-		w.model, _ = model.Load(files)
-	}
+	// While one file is being typed and does not parse, the model is what
+	// resolves in the files that do, for hover and completion.
+	w.model, w.diags = pipeline.Resolve(files)
 	return w
 }
 

@@ -6,33 +6,34 @@ import (
 	"fmt"
 	"strings"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/dialects"
-	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
-	"github.com/rollwise/rollwise/planner/plan"
 )
 
 // This file turns wrong formulas into SQL. Formulas over measure
-// expressions are planned and rendered by the planner and the dialect like
-// any query. Formulas over rows (fan-out, dropped-unmatched) read a fact
-// table through a relation of verify's own: a CTE that joins the fact rows
-// the wrong way, which a copy of the model reads in place of the table's
-// `at` relation.
+// expressions are planned and rendered by the pipeline like any query.
+// Formulas over rows (fan-out, dropped-unmatched) read a fact table
+// through a relation of verify's own: a CTE that joins the fact rows the
+// wrong way, which the model's table reads in place of its `at` relation
+// while the query is planned (planSQLAt).
 
 // cells maps a cell key to the values of a result row, one per measure of
 // the report (entries the variant does not compute are Null).
 type cells map[string][]Value
 
-// planSQL plans and renders a query.
+// planSQL plans and renders a query as every command does
+// (pipeline.Render); the error of a query the planner refuses is its
+// first error's message.
 func (v *verifier) planSQL(q *model.Query) (string, error) {
-	p, diags := plan.NewPlan(q)
-	if diags.HasErrors() || p == nil {
-		if errs := diags.Errors(); len(errs) > 0 {
-			return "", errors.New(errs[0].Message)
-		}
-		return "", errors.New("the planner gave no plan")
+	c, diags, err := pipeline.Render(v.in.Model, q, pipeline.Options{Dialect: v.in.Dialect})
+	if errs := diags.Errors(); len(errs) > 0 {
+		return "", errors.New(errs[0].Message)
 	}
-	return dialects.Render(p, v.in.Dialect)
+	if err != nil {
+		return "", err
+	}
+	return c.SQL, nil
 }
 
 // measureQuery is the report's query computing one measure with the
@@ -100,41 +101,14 @@ func (v *verifier) rowsRelation() string {
 	}
 }
 
-// reload loads the model again from its sources, with table t reading
-// relation rel and, when weight is not "", declaring one more integer
-// column of that name.
-func (v *verifier) reload(t *model.Table, rel, weight string) (*model.Model, error) {
-	if len(v.in.Sources) == 0 {
-		return nil, errors.New("the model's sources are not at hand")
-	}
-	var files []*grammar.File
-	found := false
-	for _, s := range v.in.Sources {
-		f, diags := grammar.Parse(s.Name, s.Text)
-		if diags.HasErrors() || f == nil {
-			return nil, fmt.Errorf("re-reading %s: %v", s.Name, diags.Err())
-		}
-		for _, td := range f.Tables {
-			if td.Name.Name != t.Name {
-				continue
-			}
-			found = true
-			td.At = &grammar.StringLit{Pos: td.Pos, Value: rel}
-			if weight != "" {
-				td.Columns = append(td.Columns, &grammar.ColumnDecl{Pos: td.Pos, Name: grammar.Ident{Pos: td.Pos, Name: weight},
-					Type: &grammar.Ident{Pos: td.Pos, Name: "integer"}})
-			}
-		}
-		files = append(files, f)
-	}
-	if !found {
-		return nil, fmt.Errorf("table %s is not declared in the model's sources", t.Name)
-	}
-	m, diags := model.Load(files)
-	if diags.HasErrors() || m == nil {
-		return nil, fmt.Errorf("re-reading the model: %v", diags.Err())
-	}
-	return m, nil
+// planSQLAt plans and renders q with table t read from relation rel:
+// the model itself is rewritten, t pointed at rel, for as long as the
+// planner and the renderer read it, then pointed back.
+func (v *verifier) planSQLAt(q *model.Query, t *model.Table, rel string) (string, error) {
+	old := t.Relation
+	t.Relation = []string{rel}
+	defer func() { t.Relation = old }()
+	return v.planSQL(q)
 }
 
 // throughRows runs the report's query with table t read from the rows
@@ -146,28 +120,21 @@ func (v *verifier) reload(t *model.Table, rel, weight string) (*model.Model, err
 // deviation cannot be weighted.
 func (v *verifier) throughRows(ctx context.Context, t *model.Table, body, weight string) (cells, []bool, error) {
 	rel := v.rowsRelation()
-	m, err := v.reload(t, rel, weight)
-	if err != nil {
-		return nil, nil, err
-	}
-	q, diags := m.NewQuery(model.Request{Measures: v.names, By: v.in.Query.GroupNames,
-		Where: v.in.Spec.Where, Totals: string(v.in.Query.Totals)})
-	if diags.HasErrors() {
-		return nil, nil, fmt.Errorf("re-planning the query: %v", diags.Err())
-	}
+	q := *v.in.Query
 	has := v.every()
 	if weight != "" {
-		t2 := m.Table(t.Name)
-		w := t2.Column(weight)
+		// The weight is a column of the rows body returns, not of the
+		// model's table: it exists only in this query.
+		w := &model.Column{Table: t, Name: weight, Type: model.TypeInteger, Pos: t.Pos}
 		var ms []*model.Measure
 		for j, x := range q.Measures {
-			e, ok := weighted(x, t2, w)
+			e, ok := weighted(x, t, w)
 			has[j] = ok
 			ms = append(ms, &model.Measure{Name: x.Name, Expr: e, Format: x.Format, Doc: x.Doc, Pos: x.Pos, Type: e.Type()})
 		}
 		q.Measures = ms
 	}
-	sql, err := v.planSQL(q)
+	sql, err := v.planSQLAt(&q, t, rel)
 	if err != nil {
 		return nil, nil, err
 	}

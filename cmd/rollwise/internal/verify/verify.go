@@ -67,14 +67,6 @@ func (r dbRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
 // engine.OpenDuckDB loads.
 func DB(db *sql.DB) Runner { return dbRunner{db: db} }
 
-// Source is one model file: its name and text. verify re-reads the model
-// from its sources to compute the fan-out formulas, which read a fact
-// table through another relation.
-type Source struct {
-	Name string
-	Text string
-}
-
 // Spec is what to compare, as the command line gives it.
 type Spec struct {
 	Measures []string
@@ -104,10 +96,7 @@ type Input struct {
 	// Handwritten is the SQL to check; SQLName names it in messages.
 	Handwritten string
 	SQLName     string
-	// Sources are the model files (see Source); without them the fan-out
-	// and dropped-unmatched formulas are skipped.
-	Sources []Source
-	Dialect *dialects.Dialect
+	Dialect     *dialects.Dialect
 }
 
 // inputErr says that nothing could be compared because of how verify was

@@ -2,7 +2,6 @@ package verify
 
 import (
 	"math"
-	"os"
 	"strings"
 	"testing"
 	"time"
@@ -10,7 +9,7 @@ import (
 	"github.com/shopspring/decimal"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
-	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
@@ -159,23 +158,11 @@ func TestMapColumns(t *testing.T) {
 // loadShop loads the shop model with its edits.
 func loadShop(t *testing.T) *model.Model {
 	t.Helper()
-	var files []*grammar.File
-	for _, name := range []string{"../../../../testdata/exec/shop.roll", "../../../../testdata/exec/edits.roll", "../../../../testdata/verify/extra.roll"} {
-		b, err := os.ReadFile(name)
-		if err != nil {
-			t.Fatal(err)
-		}
-		f, diags := grammar.Parse(name, string(b))
-		if diags.HasErrors() {
-			t.Fatal(diags.Err())
-		}
-		files = append(files, f)
+	m, diags, err := pipeline.Load([]string{"../../../../testdata/exec/shop.roll", "../../../../testdata/exec/edits.roll", "../../../../testdata/verify/extra.roll"})
+	if err != nil {
+		t.Fatalf("%v\n%v", err, diags.Err())
 	}
-	m, diags := model.Load(files)
-	if diags.HasErrors() {
-		t.Fatal(diags.Err())
-	}
-	return m
+	return m.Model
 }
 
 func formulaTexts(fs []formula) []string {

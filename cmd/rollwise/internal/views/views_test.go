@@ -6,6 +6,7 @@ import (
 	"strings"
 	"testing"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
@@ -24,11 +25,7 @@ func shopSource(t *testing.T) string {
 
 func loadModel(t *testing.T, src string) *model.Model {
 	t.Helper()
-	f, d := grammar.Parse("m.roll", src)
-	if d.HasErrors() {
-		t.Fatalf("parse: %v", d)
-	}
-	m, d := model.Load([]*grammar.File{f})
+	m, d := pipeline.Resolve([]pipeline.Source{{Name: "m.roll", Text: src}})
 	if d.HasErrors() {
 		t.Fatalf("load: %v", d)
 	}

@@ -1,0 +1,125 @@
+// Package pipeline is the one way from model files to SQL. Load reads,
+// parses and resolves model files into a model; Compile turns a request
+// (measures, groups, filter, totals, order and limit, or a view block)
+// into the query, its plan, the SQL of a dialect and the notes the reader
+// of the result must see. Every command goes through it; it prints
+// nothing: diagnostics and errors are returned.
+package pipeline
+
+import (
+	"io"
+	"os"
+	"path/filepath"
+	"sort"
+
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
+	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/planner/model"
+)
+
+// Source is one model file: its name and its text.
+type Source struct{ Name, Text string }
+
+// Model is a resolved model and the text of its files, which diagnostics
+// quote.
+type Model struct {
+	*model.Model
+	Sources grammar.Sources
+}
+
+// Load reads, parses and resolves the model files paths stand for (a
+// folder stands for the .roll files in it). The diagnostics hold every
+// error and warning. The error is a usage error when a path cannot be
+// read, and of kind Findings when the model has errors; the Model is then
+// nil or holds only the sources, for printing the diagnostics.
+func Load(paths []string) (*Model, grammar.Diagnostics, error) {
+	files, err := Read(paths)
+	if err != nil {
+		return nil, nil, err
+	}
+	src := grammar.Sources{}
+	for _, f := range files {
+		src[f.Name] = f.Text
+	}
+	m, diags := Resolve(files)
+	if diags.HasErrors() {
+		return &Model{Sources: src}, diags, failure.Newf(failure.Findings, "%s", failure.CountErrors(diags))
+	}
+	return &Model{Model: m, Sources: src}, diags, nil
+}
+
+// Read reads the model files paths stand for, in order: a file, or for a
+// folder the .roll files in it, sorted. An unreadable path, a folder
+// without model files and a file over grammar.MaxSourceBytes are usage
+// errors.
+func Read(paths []string) ([]Source, error) {
+	var out []Source
+	for _, p := range paths {
+		names := FileNames(p)
+		if len(names) == 0 {
+			return nil, failure.Usagef("folder %s holds no .roll files", p)
+		}
+		for _, name := range names {
+			b, err := ReadFile(name)
+			if err != nil {
+				return nil, err
+			}
+			out = append(out, Source{Name: name, Text: string(b)})
+		}
+	}
+	return out, nil
+}
+
+// Resolve parses the files and resolves them into a model. When a file
+// does not parse, the diagnostics are the parse errors and the model is
+// resolved, as far as it goes, from the files that parse (for an editor's
+// hover and completion while one file is being typed). The model is
+// whole only when the diagnostics hold no error.
+func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
+	var parsed []*grammar.File
+	var diags grammar.Diagnostics
+	for _, s := range files {
+		f, d := grammar.Parse(s.Name, s.Text)
+		diags.Append(d)
+		if f != nil {
+			parsed = append(parsed, f)
+		}
+	}
+	if diags.HasErrors() {
+		m, _ := model.Load(parsed)
+		return m, diags
+	}
+	m, d := model.Load(parsed)
+	diags.Append(d)
+	return m, diags
+}
+
+// FileNames are the model files a path stands for: itself, or, for a
+// folder, the .roll files in it, sorted (none for a folder without).
+func FileNames(p string) []string {
+	if fi, err := os.Stat(p); err != nil || !fi.IsDir() {
+		return []string{p}
+	}
+	names, _ := filepath.Glob(filepath.Join(p, "*.roll"))
+	sort.Strings(names)
+	return names
+}
+
+// ReadFile reads one model file, at most grammar.MaxSourceBytes+1 bytes
+// of it: a name that leads to an endless file (a symlink to /dev/zero, a
+// pipe) stops at the cap instead of filling the memory.
+func ReadFile(name string) ([]byte, error) {
+	f, err := os.Open(name)
+	if err != nil {
+		return nil, failure.Usagef("cannot read the model: %v", err)
+	}
+	defer f.Close()
+	b, err := io.ReadAll(io.LimitReader(f, grammar.MaxSourceBytes+1))
+	if err != nil {
+		return nil, failure.Usagef("cannot read the model: %v", err)
+	}
+	if len(b) > grammar.MaxSourceBytes {
+		return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted", name, grammar.MaxSourceBytes)
+	}
+	return b, nil
+}
