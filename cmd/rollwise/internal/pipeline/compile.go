@@ -43,6 +43,9 @@ type Compiled struct {
 	// Notes are what the reader of the result must know (the plan's
 	// cautions, an approximation); a command adds those of the engine.
 	Notes []string
+	// Approximation is the note of an approximation (also among Notes),
+	// or "" when the dialect answered exactly.
+	Approximation string
 }
 
 // Compile resolves the request against m, plans the query and renders it.
@@ -144,6 +147,7 @@ func Render(m *model.Model, q *model.Query, o Options) (*Compiled, grammar.Diagn
 	c := &Compiled{Model: m, Query: q, Plan: p, SQL: sql, Notes: append([]string{}, p.Cautions...)}
 	if note != "" {
 		c.Notes = append(c.Notes, note)
+		c.Approximation = note
 	}
 	return c, diags, nil
 }

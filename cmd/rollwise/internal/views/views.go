@@ -23,6 +23,7 @@ import (
 	"sort"
 	"strings"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
@@ -234,23 +235,19 @@ func (g *generator) rowView(t *model.Table, diags *grammar.Diagnostics) {
 // `rollwise run --view` does.
 func (g *generator) measureView(m *model.Model, vb *model.View, diags *grammar.Diagnostics) {
 	q := m.ViewQuery(vb)
-	p, pd := plan.NewPlan(q)
+	c, pd, err := pipeline.Render(m, q, pipeline.Options{Dialect: g.d, Approximate: g.approximate, View: true})
 	for _, d := range pd {
 		d.Notes = append(d.Notes, "in view block "+vb.Name)
 	}
 	diags.Append(pd)
-	if p == nil {
+	if pd.HasErrors() {
 		return
 	}
-	sql, note, err := dialects.RenderView(p, g.d, dialects.Options{Approximate: g.approximate})
 	if err != nil {
 		diags.Errorf(vb.Pos, "unsupported", "view block %s: %v", vb.Name, err)
 		return
 	}
-	approximated := note != ""
-	if approximated {
-		p.Cautions = append(p.Cautions, note)
-	}
+	p, sql := c.Plan, c.SQL
 	v := &View{Name: vb.Name, Kind: Measures, Source: "view block " + vb.Name}
 	var reads []string
 	for _, s := range p.Scans {
@@ -292,8 +289,8 @@ func (g *generator) measureView(m *model.Model, vb *model.View, diags *grammar.D
 		diags.Errorf(vb.Pos, "unsupported", "view block %s: %v", vb.Name, err)
 		return
 	}
-	for _, c := range p.Cautions {
-		g.set.Cautions = append(g.set.Cautions, "view "+v.Name+": "+c)
+	for _, n := range c.Notes {
+		g.set.Cautions = append(g.set.Cautions, "view "+v.Name+": "+n)
 	}
 	lines := []string{"Measures of view block " + vb.Name + ": the rows and values of `rollwise run MODEL --view " + vb.Name + "`."}
 	if len(q.Groups) > 0 {
@@ -307,8 +304,8 @@ func (g *generator) measureView(m *model.Model, vb *model.View, diags *grammar.D
 		lines = append(lines, "Where "+model.Text(vb.Where)+".")
 	}
 	lines = append(lines, groupingNote(q, p, groupNames))
-	if approximated {
-		lines = append(lines, "Caution: "+note+".")
+	if c.Approximation != "" {
+		lines = append(lines, "Caution: "+c.Approximation+".")
 	}
 	g.header[v] = header(v, lines)
 }
