@@ -35,8 +35,8 @@ func BenchmarkTPCHFiles(b *testing.B) {
 	if err != nil {
 		b.Fatal(err)
 	}
-	native := benchConn(b, func() (*sql.DB, error) { return engine.Open(ctx, m, dir, engine.Options{FileDecimals: true}) })
-	wide := benchConn(b, func() (*sql.DB, error) { return engine.OpenDuckDB(ctx, m, dir) })
+	native := benchConn(b, func() (*sql.DB, error) { return engine.OpenDuckDB(ctx, m, dir, engine.Options{FileDecimals: true}) })
+	wide := benchConn(b, func() (*sql.DB, error) { return engine.OpenDuckDB(ctx, m, dir, engine.Options{}) })
 	raw := benchConn(b, func() (*sql.DB, error) { return rawParquetDB(ctx, dir) })
 	runner := &engineRunner{ctx: ctx, models: map[string]*model.Model{}}
 	b.Logf("TPC-H scale factor %v", sf)

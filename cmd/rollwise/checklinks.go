@@ -35,22 +35,18 @@ func checkData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engi
 	if len(links) == 0 && len(uniquenesses(m)) == 0 {
 		return nil, nil
 	}
-	runner, live, closeData, err := openData(ctx, m, dataDir, dsn, lo)
+	eng, err := openEngine(ctx, engine.Target{DSN: dsn, Live: lo, Model: m, DataDir: dataDir})
 	if err != nil {
 		return nil, err
 	}
-	defer closeData()
-	dialect := "duckdb"
-	if live != nil {
-		dialect = live.Dialect
-	}
-	d, err := dialects.Get(dialect)
+	defer eng.Close()
+	d, err := dialects.Get(eng.Dialect())
 	if err != nil {
 		return nil, failure.New(failure.Internal, err)
 	}
 	var diags grammar.Diagnostics
 	for _, l := range links {
-		res, err := runner.Query(ctx, dialects.UnmatchedRows(l, d))
+		res, err := eng.Query(ctx, dialects.UnmatchedRows(l, d), nil)
 		if err != nil {
 			return nil, failure.Newf(failure.Input, "counting the rows of %s that link %s misses: %w", l.From.Name, l, err)
 		}
@@ -68,7 +64,7 @@ func checkData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engi
 				l.To.Name + " through this link are wrong"
 		}
 	}
-	u, err := checkUnique(ctx, runner, d, m)
+	u, err := checkUnique(ctx, eng, d, m)
 	diags.Append(u)
 	return diags, err
 }

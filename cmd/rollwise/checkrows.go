@@ -7,8 +7,8 @@ import (
 	"strings"
 	"time"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
-	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
@@ -85,14 +85,14 @@ func sameColumns(a, b []*model.Column) bool {
 // checkUnique reports, as an error at its declaration, each promise of
 // uniqueness the data breaks: the table, the columns, how many values
 // repeat on how many rows, and the most repeated value.
-func checkUnique(ctx context.Context, runner verify.Runner, d *dialects.Dialect, m *model.Model) (grammar.Diagnostics, error) {
+func checkUnique(ctx context.Context, eng engine.Engine, d *dialects.Dialect, m *model.Model) (grammar.Diagnostics, error) {
 	var diags grammar.Diagnostics
 	for _, u := range uniquenesses(m) {
 		count, example, err := dialects.RepeatedRows(u.table, u.cols, d)
 		if err != nil {
 			return nil, failure.New(failure.Internal, err)
 		}
-		res, err := runner.Query(ctx, count)
+		res, err := eng.Query(ctx, count, nil)
 		if err != nil {
 			return nil, failure.Newf(failure.Input, "counting the repeated values of %s (%s): %w", u.table.Name, columnNames(u.cols), err)
 		}
@@ -103,7 +103,7 @@ func checkUnique(ctx context.Context, runner verify.Runner, d *dialects.Dialect,
 		if values == "0" {
 			continue
 		}
-		ex, err := runner.Query(ctx, example)
+		ex, err := eng.Query(ctx, example, nil)
 		if err != nil || len(ex.Rows) != 1 {
 			return nil, failure.Newf(failure.Input, "finding a repeated value of %s (%s): %v", u.table.Name, columnNames(u.cols), err)
 		}

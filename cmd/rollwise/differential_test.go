@@ -238,7 +238,7 @@ func diffOpen(dir string) (*diffOpened, error) {
 		return nil, fmt.Errorf("the reference evaluator cannot load the data: %w", err)
 	}
 	ctx := context.Background()
-	db, err := engine.OpenDuckDB(ctx, m, "")
+	db, err := engine.OpenDuckDB(ctx, m, "", engine.Options{})
 	if err != nil {
 		return nil, fmt.Errorf("the engine cannot load the data: %w", err)
 	}

@@ -120,37 +120,20 @@ func runExplain(e *env, o *explainOptions) error {
 // (or --data).
 func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explainOptions) (*reference.Data, error) {
 	tables := explain.Tables(m, q)
-	var query explain.Query
-	dialect := "duckdb"
-	if o.dsn != "" {
-		l, err := engine.OpenLive(ctx, o.dsn, o.live.options())
-		if err != nil {
-			return nil, failure.New(failure.Findings, err)
-		}
-		defer l.Close()
-		dialect = l.Dialect
-		query = func(ctx context.Context, sql string, want []model.Type) ([][]any, error) {
-			res, err := l.Query(ctx, sql, want)
-			if err != nil {
-				return nil, err
-			}
-			return res.Rows, nil
-		}
-	} else {
-		db, err := engine.Open(ctx, m, o.data, engine.Options{Tables: tables})
-		if err != nil {
-			return nil, failure.New(failure.Findings, err)
-		}
-		defer db.Close()
-		query = func(ctx context.Context, sql string, _ []model.Type) ([][]any, error) {
-			res, err := engine.Query(ctx, db, sql)
-			if err != nil {
-				return nil, err
-			}
-			return res.Rows, nil
-		}
+	eng, err := openEngine(ctx, engine.Target{DSN: o.dsn, Live: o.live.options(), Model: m, DataDir: o.data,
+		DuckDB: engine.Options{Tables: tables}})
+	if err != nil {
+		return nil, err
 	}
-	d, err := dialects.Get(dialect)
+	defer eng.Close()
+	query := func(ctx context.Context, sql string, want []model.Type) ([][]any, error) {
+		res, err := eng.Query(ctx, sql, want)
+		if err != nil {
+			return nil, err
+		}
+		return res.Rows, nil
+	}
+	d, err := dialects.Get(eng.Dialect())
 	if err != nil {
 		return nil, failure.New(failure.Internal, err)
 	}

@@ -12,7 +12,6 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
-	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
@@ -71,55 +70,52 @@ func (f liveFlags) options() engine.LiveOptions {
 // each row, shaped for the report exactly as for the embedded engine, to
 // write as the server sends it.
 func executeLive(ctx context.Context, c *pipeline.Compiled, dsn string, lo engine.LiveOptions, write func(report.Row) error) error {
-	l, err := engine.OpenLive(ctx, dsn, lo)
+	eng, err := openEngine(ctx, engine.Target{DSN: dsn, Live: lo})
 	if err != nil {
-		return failure.New(failure.Input, err)
-	}
-	defer l.Close()
-	if err := rejected(l.Server, l.QueryEach(ctx, c.SQL, resultTypes(c), shaper(c, write))); err != nil {
 		return err
 	}
-	addLiveCautions(ctx, l, c)
+	defer eng.Close()
+	if err := rejected(engineName(eng), eng.QueryEach(ctx, c.SQL, resultTypes(c), shaper(c, write))); err != nil {
+		return err
+	}
+	addLiveCautions(ctx, eng, c)
 	return nil
 }
 
-// openData opens the data a command reads: the live database at dsn, or
-// else the embedded DuckDB over m's files (or dataDir). live is nil on
-// the embedded engine; closeData releases what was opened.
-func openData(ctx context.Context, m *model.Model, dataDir, dsn string, lo engine.LiveOptions) (run verify.Runner, live *engine.Live, closeData func(), err error) {
-	if dsn != "" {
-		l, err := engine.OpenLive(ctx, dsn, lo)
-		if err != nil {
-			return nil, nil, nil, failure.New(failure.Input, err)
-		}
-		return liveRunner{l: l}, l, func() { l.Close() }, nil
-	}
-	db, err := engine.OpenDuckDB(ctx, m, dataDir)
+// openEngine opens the engine t names (engine.Open); data it cannot use
+// is an input error.
+func openEngine(ctx context.Context, t engine.Target) (engine.Engine, error) {
+	eng, err := engine.Open(ctx, t)
 	if err != nil {
-		return nil, nil, nil, failure.New(failure.Input, err)
+		return nil, failure.New(failure.Input, err)
 	}
-	return verify.DB(db), nil, func() { db.Close() }, nil
+	return eng, nil
 }
 
-// liveRunner runs queries on a live database; the types of each result
-// column come from the server.
-type liveRunner struct{ l *engine.Live }
-
-func (r liveRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
-	return r.l.Query(ctx, q, nil)
+// engineName names an engine in messages: the server as it reports
+// itself, or "the engine" for the embedded DuckDB.
+func engineName(eng engine.Engine) string {
+	if l, ok := eng.(*engine.Live); ok {
+		return l.Server
+	}
+	return "the engine"
 }
 
-// addLiveCautions adds to c's notes what may make the live engine's
+// addLiveCautions adds to c's notes what may make a live engine's
 // numbers differ from the embedded engine's: SQLite's float decimals, and
 // MySQL/MariaDB group columns whose collation merges values that differ
-// in case or trailing spaces.
-func addLiveCautions(ctx context.Context, l *engine.Live, c *pipeline.Compiled) {
+// in case or trailing spaces. The embedded engine adds none.
+func addLiveCautions(ctx context.Context, eng engine.Engine, c *pipeline.Compiled) {
+	l, ok := eng.(*engine.Live)
+	if !ok {
+		return
+	}
 	loose, err := l.LooseGroupCollations(ctx, c.Query.Groups)
 	if err != nil {
 		loose = append(loose, fmt.Sprintf("%s: could not check that the group columns compare text exactly (%v): groups may merge values that differ in case or trailing spaces", l.Server, err))
 	}
 	c.Notes = append(c.Notes, loose...)
-	if l.Dialect != "sqlite" {
+	if l.Dialect() != "sqlite" {
 		return
 	}
 	for _, o := range c.Plan.Outputs {

@@ -152,26 +152,27 @@ func execute(ctx context.Context, c *pipeline.Compiled, dataDir string) (*report
 // DECIMAL(38,6).
 func executeEach(ctx context.Context, c *pipeline.Compiled, dataDir string, write func(report.Row) error) error {
 	written := false
-	err := executeOn(ctx, c, dataDir, engine.Options{FileDecimals: true}, func(r report.Row) error {
+	t := engine.Target{Model: c.Model, DataDir: dataDir,
+		DuckDB: engine.Options{FileDecimals: true, Tables: engine.TablesRead(c.Model, c.Plan)}}
+	err := executeOn(ctx, c, t, func(r report.Row) error {
 		written = true
 		return write(r)
 	})
 	if engine.Overflowed(err) && !written {
-		err = executeOn(ctx, c, dataDir, engine.Options{}, write)
+		t.DuckDB.FileDecimals = false
+		err = executeOn(ctx, c, t, write)
 	}
 	return rejected("the engine", err)
 }
 
-// executeOn opens the embedded engine with options o, loading only the
-// tables c reads, and runs c there.
-func executeOn(ctx context.Context, c *pipeline.Compiled, dataDir string, o engine.Options, write func(report.Row) error) error {
-	o.Tables = engine.TablesRead(c.Model, c.Plan)
-	db, err := engine.Open(ctx, c.Model, dataDir, o)
+// executeOn opens the engine t names and runs c there.
+func executeOn(ctx context.Context, c *pipeline.Compiled, t engine.Target, write func(report.Row) error) error {
+	eng, err := openEngine(ctx, t)
 	if err != nil {
-		return failure.New(failure.Input, err)
+		return err
 	}
-	defer db.Close()
-	return engine.QueryEach(ctx, db, c.SQL, shaper(c, write))
+	defer eng.Close()
+	return eng.QueryEach(ctx, c.SQL, resultTypes(c), shaper(c, write))
 }
 
 // rejected says that the engine rejected the query, unless err is

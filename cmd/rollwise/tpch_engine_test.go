@@ -75,7 +75,7 @@ func newEngineRunner(ctx context.Context, dir string) (*engineRunner, error) {
 	// Decimals in the files' own types, as `rollwise run --data` reads
 	// them first (it runs a query again on DECIMAL(38,6) only if it
 	// overflows them).
-	db, err := engine.Open(ctx, m, dir, engine.Options{FileDecimals: true})
+	db, err := engine.OpenDuckDB(ctx, m, dir, engine.Options{FileDecimals: true})
 	if err != nil {
 		return nil, err
 	}

@@ -6,6 +6,7 @@ import (
 
 	"github.com/spf13/cobra"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/verify"
 	"github.com/rollwise/rollwise/dialects"
@@ -133,21 +134,19 @@ func runVerify(e *env, o *verifyOptions) error {
 		return err
 	}
 	ctx := e.context()
-	runner, live, closeData, err := openData(ctx, c.Model, o.data, o.dsn, o.live.options())
+	eng, err := openEngine(ctx, engine.Target{DSN: o.dsn, Live: o.live.options(), Model: c.Model, DataDir: o.data})
 	if err != nil {
 		return err
 	}
-	defer closeData()
-	if live != nil {
-		addLiveCautions(ctx, live, c)
-	}
+	defer eng.Close()
+	addLiveCautions(ctx, eng, c)
 	in := &verify.Input{
 		Spec: verify.Spec{Measures: o.measures, By: o.by, Where: o.where, Totals: o.totals, Map: maps,
 			GroupingColumn: o.grouping, Tolerance: o.tolerance},
 		Model: c.Model, Query: c.Query, Plan: c.Plan, Compiled: c.SQL,
 		Handwritten: string(text), SQLName: o.sqlFile, Dialect: d,
 	}
-	rep, err := verify.Run(ctx, in, runner)
+	rep, err := verify.Run(ctx, in, eng)
 	if err != nil {
 		if _, ok := failure.KindOf(err); ok {
 			return err

@@ -79,7 +79,7 @@ func publish(t *testing.T, models []string, schema, ddlOf string) *published {
 	if set == nil {
 		t.Fatalf("generate: %v", diags)
 	}
-	db, err := engine.OpenDuckDB(ctx, m.Model, "")
+	db, err := engine.OpenDuckDB(ctx, m.Model, "", engine.Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

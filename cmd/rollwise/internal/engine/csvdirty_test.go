@@ -22,7 +22,7 @@ func TestCSVReportsEveryBadValueAtOnce(t *testing.T) {
 		"4,1,2024-01-03,1.00\n")
 	m := newModel(table("sales", nil, file, col("id", model.TypeInteger), col("qty", model.TypeInteger),
 		col("sold_on", model.TypeDate), col("price", model.TypeDecimal)))
-	_, err := OpenDuckDB(context.Background(), m, "")
+	_, err := OpenDuckDB(context.Background(), m, "", Options{})
 	if err == nil {
 		t.Fatal("OpenDuckDB loaded a dirty file")
 	}
@@ -52,7 +52,7 @@ func TestCSVBadValuesAreCappedAndCounted(t *testing.T) {
 		fmt.Fprintf(&b, "%d,x%d\n", i, i)
 	}
 	file := writeFile(t, t.TempDir(), "t.csv", b.String())
-	_, err := OpenDuckDB(context.Background(), newModel(table("t", nil, file, col("id", model.TypeInteger), col("qty", model.TypeInteger))), "")
+	_, err := OpenDuckDB(context.Background(), newModel(table("t", nil, file, col("id", model.TypeInteger), col("qty", model.TypeInteger))), "", Options{})
 	if err == nil {
 		t.Fatal("OpenDuckDB loaded a file of garbage")
 	}
@@ -73,7 +73,7 @@ func TestNullTextsOfOneFileMustAgree(t *testing.T) {
 	a.NullTexts = []string{"NA"}
 	expectOpenError(t, newModel(a, b), "", "tables a and b read", `different NULL texts (["NA"] and [])`, "same `with null` list")
 	b.NullTexts = []string{"NA"}
-	db, err := OpenDuckDB(context.Background(), newModel(a, b), "")
+	db, err := OpenDuckDB(context.Background(), newModel(a, b), "", Options{})
 	if err != nil {
 		t.Fatal(err)
 	}

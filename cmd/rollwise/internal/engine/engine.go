@@ -38,18 +38,7 @@ type column struct {
 	table    *model.Table
 }
 
-// OpenDuckDB opens an in-memory DuckDB and creates every table of m under its
-// relation name: a TABLE loaded from a CSV file, or a VIEW over a Parquet
-// file, with the stored columns in their declared types. With dataDir set,
-// the file of table NAME is dataDir/NAME.csv or dataDir/NAME.parquet;
-// otherwise it is the table's `from` file. All problems found are returned
-// together; on error no database is returned. The database's time zone
-// is UTC.
-func OpenDuckDB(ctx context.Context, m *model.Model, dataDir string) (*sql.DB, error) {
-	return Open(ctx, m, dataDir, Options{})
-}
-
-// Options are the choices of Open.
+// Options are the choices of OpenDuckDB.
 type Options struct {
 	// FileDecimals keeps a Parquet column of a decimal type that always
 	// fits DecimalType (a DECIMAL(15,2), say) in the file's own type
@@ -73,8 +62,14 @@ func Overflowed(err error) bool {
 	return err != nil && strings.Contains(err.Error(), "Out of Range Error")
 }
 
-// Open is OpenDuckDB with options.
-func Open(ctx context.Context, m *model.Model, dataDir string, o Options) (*sql.DB, error) {
+// OpenDuckDB opens an in-memory DuckDB and creates every table of m under its
+// relation name: a TABLE loaded from a CSV file, or a VIEW over a Parquet
+// file, with the stored columns in their declared types. With dataDir set,
+// the file of table NAME is dataDir/NAME.csv or dataDir/NAME.parquet;
+// otherwise it is the table's `from` file. All problems found are returned
+// together; on error no database is returned. The database's time zone
+// is UTC.
+func OpenDuckDB(ctx context.Context, m *model.Model, dataDir string, o Options) (*sql.DB, error) {
 	if m == nil {
 		return nil, errors.New("no model to load")
 	}

@@ -46,7 +46,7 @@ func writeFile(t *testing.T, dir, name, content string) string {
 
 func open(t *testing.T, m *model.Model, dataDir string) *sql.DB {
 	t.Helper()
-	db, err := OpenDuckDB(context.Background(), m, dataDir)
+	db, err := OpenDuckDB(context.Background(), m, dataDir, Options{})
 	if err != nil {
 		t.Fatalf("OpenDuckDB: %v", err)
 	}
@@ -66,7 +66,7 @@ func query(t *testing.T, db *sql.DB, q string) *Result {
 // expectOpenError opens m and checks that the error mentions every want.
 func expectOpenError(t *testing.T, m *model.Model, dataDir string, want ...string) {
 	t.Helper()
-	db, err := OpenDuckDB(context.Background(), m, dataDir)
+	db, err := OpenDuckDB(context.Background(), m, dataDir, Options{})
 	if err == nil {
 		db.Close()
 		t.Fatalf("OpenDuckDB succeeded; want an error mentioning %q", want)

@@ -22,9 +22,9 @@ import (
 // (sqlite:PATH). Every statement runs on one connection, so that session
 // settings (and SQLite's attached databases) hold for all of them.
 type Live struct {
-	// Dialect is the rollwise dialect the URL implies: postgres, mysql
+	// dialect is the rollwise dialect the URL implies: postgres, mysql
 	// or sqlite.
-	Dialect string
+	dialect string
 	// Server names the engine and its version, as it reports them.
 	Server string
 	// textCollation is the binary NO PAD collation of a MySQL/MariaDB
@@ -125,7 +125,7 @@ func newLive(ctx context.Context, dialect string, db *sql.DB, o LiveOptions, set
 		db.Close()
 		return nil, err
 	}
-	l := &Live{Dialect: dialect, db: db, conn: conn, writable: o.Writable}
+	l := &Live{dialect: dialect, db: db, conn: conn, writable: o.Writable}
 	for _, s := range setup {
 		if _, err := conn.ExecContext(ctx, s); err != nil {
 			l.Close()
@@ -291,7 +291,7 @@ func (l *Live) Exec(ctx context.Context, stmt string, args ...any) error {
 // it runs in a read-only transaction, which done rolls back (after the
 // rows are read); SQLite's read-only session needs none.
 func (l *Live) rows(ctx context.Context, query string) (rows *sql.Rows, done func() error, err error) {
-	if l.writable || l.Dialect == "sqlite" {
+	if l.writable || l.dialect == "sqlite" {
 		rows, err := l.conn.QueryContext(ctx, query)
 		return rows, func() error { return nil }, err
 	}
@@ -306,6 +306,10 @@ func (l *Live) rows(ctx context.Context, query string) (rows *sql.Rows, done fun
 	}
 	return rows, tx.Rollback, nil
 }
+
+// Dialect is the rollwise dialect the URL implies: postgres, mysql or
+// sqlite.
+func (l *Live) Dialect() string { return l.dialect }
 
 // Close closes the connection.
 func (l *Live) Close() error {

@@ -161,7 +161,7 @@ func liveEngine(t *testing.T, name string) *Live {
 // when it ends.
 func dropAtEnd(t *testing.T, l *Live, schema string) {
 	t.Cleanup(func() {
-		if l.Dialect == "postgres" {
+		if l.Dialect() == "postgres" {
 			l.Exec(context.Background(), `DROP SCHEMA "`+schema+`" CASCADE`) //nolint:errcheck // best effort
 		} else {
 			l.Exec(context.Background(), "DROP DATABASE `"+schema+"`") //nolint:errcheck // best effort

@@ -27,7 +27,7 @@ var collationName = regexp.MustCompile(`^[A-Za-z0-9_]+$`)
 // server, by comparing two probes under it, rather than guessed from its
 // name.
 func (l *Live) LooseGroupCollations(ctx context.Context, groups []*model.Column) ([]string, error) {
-	if l.Dialect != "mysql" {
+	if l.dialect != "mysql" {
 		return nil, nil
 	}
 	var out []string

@@ -22,11 +22,11 @@ import (
 // attached database (sqlite:PATH?attach=NAME=FILE). Existing tables of
 // those names are dropped first: never point it at a warehouse.
 func LoadInto(ctx context.Context, l *Live, m *model.Model, dataDir string) error {
-	d, err := dialects.Get(l.Dialect)
+	d, err := dialects.Get(l.dialect)
 	if err != nil {
 		return err
 	}
-	src, err := OpenDuckDB(ctx, m, dataDir)
+	src, err := OpenDuckDB(ctx, m, dataDir, Options{})
 	if err != nil {
 		return err
 	}
@@ -67,7 +67,7 @@ func (l *Live) createNamespaceLive(ctx context.Context, d *dialects.Dialect, r *
 		return fmt.Errorf("relation %q has %d parts; the loader creates SCHEMA.TABLE or TABLE", r.displayName(), len(r.name))
 	}
 	schema := r.name[0]
-	switch l.Dialect {
+	switch l.dialect {
 	case "postgres":
 		return l.Exec(ctx, "CREATE SCHEMA IF NOT EXISTS "+d.Ident(schema))
 	case "mysql":
@@ -94,7 +94,7 @@ func (l *Live) columnType(d *dialects.Dialect, t model.Type) string {
 
 // placeholder is the n-th (1-based) statement parameter.
 func (l *Live) placeholder(n int) string {
-	if l.Dialect == "postgres" {
+	if l.dialect == "postgres" {
 		return fmt.Sprintf("$%d", n)
 	}
 	return "?"
@@ -149,7 +149,7 @@ func (l *Live) param(v any, t model.Type) any {
 	case decimal.Decimal:
 		return x.String()
 	case time.Time:
-		if l.Dialect == "postgres" {
+		if l.dialect == "postgres" {
 			return x
 		}
 		if t == model.TypeDate {

@@ -92,7 +92,7 @@ func (l *Live) cancelOnServer() {
 		return
 	}
 	stmt := "KILL QUERY " + strconv.FormatInt(l.connID, 10)
-	if l.Dialect == "postgres" {
+	if l.dialect == "postgres" {
 		stmt = "SELECT pg_cancel_backend(" + strconv.FormatInt(l.connID, 10) + ")"
 	}
 	ctx, cancel := context.WithTimeout(context.Background(), l.connectTimeout)

@@ -211,7 +211,7 @@ func TestParquetFileDecimals(t *testing.T) {
 		) v(price, qty, rate)`)
 	m := newModel(table("lines", nil, file,
 		col("price", model.TypeDecimal), col("qty", model.TypeDecimal), col("rate", model.TypeDecimal)))
-	db, err := Open(context.Background(), m, "", Options{FileDecimals: true})
+	db, err := OpenDuckDB(context.Background(), m, "", Options{FileDecimals: true})
 	if err != nil {
 		t.Fatal(err)
 	}

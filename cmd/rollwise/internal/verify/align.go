@@ -93,7 +93,7 @@ func (h *handwritten) anyNullKey() bool {
 func (v *verifier) runHandwritten(ctx context.Context) (*handwritten, error) {
 	// The one statement CheckQuery let through, cut after its end only,
 	// so that the engine's line numbers are the file's.
-	res, err := v.run.Query(ctx, v.stmt)
+	res, err := v.run.Query(ctx, v.stmt, nil)
 	if err != nil {
 		return nil, &SQLError{Name: v.in.SQLName, Err: err}
 	}

@@ -623,7 +623,7 @@ func (v *verifier) perRowVariants(ctx context.Context, j int) []*variant {
 	}
 	var rows []resultRow
 	if err == nil {
-		res, qerr := v.run.Query(ctx, sql)
+		res, qerr := v.run.Query(ctx, sql, nil)
 		err = qerr
 		if qerr == nil {
 			rows, err = readCells(res, v.n, []string{"rollwise_sum", "rollwise_avg", "rollwise_count"})

@@ -48,7 +48,7 @@ func (v *verifier) measureQuery(m *model.Measure, e model.Expr, filters []model.
 // runCells runs SQL shaped as rollwise renders it, computing the measures
 // at the given report positions, and reads its cells.
 func (v *verifier) runCells(ctx context.Context, sql string, at []int) (cells, error) {
-	res, err := v.run.Query(ctx, sql)
+	res, err := v.run.Query(ctx, sql, nil)
 	if err != nil {
 		return nil, err
 	}

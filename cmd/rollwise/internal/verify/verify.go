@@ -11,7 +11,6 @@ package verify
 
 import (
 	"context"
-	"database/sql"
 	"errors"
 	"fmt"
 	"math"
@@ -47,25 +46,6 @@ const (
 	// as an inner join does.
 	DroppedUnmatched = "dropped-unmatched"
 )
-
-// Runner runs one SQL statement on the engine that holds the model's
-// tables under their `at` relations, and returns its rows with values
-// normalised as engine.Result documents. The embedded DuckDB is one (see
-// DB); a live database reached by a DSN can be another, with the dialect
-// that goes with it.
-type Runner interface {
-	Query(ctx context.Context, sql string) (*engine.Result, error)
-}
-
-type dbRunner struct{ db *sql.DB }
-
-func (r dbRunner) Query(ctx context.Context, q string) (*engine.Result, error) {
-	return engine.Query(ctx, r.db, q)
-}
-
-// DB is a Runner over an open database, such as the embedded DuckDB that
-// engine.OpenDuckDB loads.
-func DB(db *sql.DB) Runner { return dbRunner{db: db} }
 
 // Spec is what to compare, as the command line gives it.
 type Spec struct {
@@ -192,7 +172,7 @@ type Ambiguity struct {
 }
 
 // Run compares the handwritten SQL with the compiled query.
-func Run(ctx context.Context, in *Input, r Runner) (*Report, error) {
+func Run(ctx context.Context, in *Input, r engine.Engine) (*Report, error) {
 	v, err := newVerifier(in, r)
 	if err != nil {
 		return nil, err
@@ -216,7 +196,7 @@ func Run(ctx context.Context, in *Input, r Runner) (*Report, error) {
 // verifier holds the state of one comparison.
 type verifier struct {
 	in       *Input
-	run      Runner
+	run      engine.Engine
 	stmt     string // the handwritten query, checked by CheckQuery
 	n        int    // number of --by columns
 	measures []*model.Measure
@@ -230,7 +210,7 @@ type verifier struct {
 	pairs map[int]int
 }
 
-func newVerifier(in *Input, r Runner) (*verifier, error) {
+func newVerifier(in *Input, r engine.Engine) (*verifier, error) {
 	if in.Model == nil || in.Query == nil || in.Plan == nil || in.Dialect == nil {
 		return nil, errors.New("verify: incomplete input")
 	}
@@ -265,7 +245,7 @@ func (v *verifier) rolledUp(mask uint64) []string { return v.in.Query.RolledUp(m
 
 // runCompiled runs the compiled query and reads its rows.
 func (v *verifier) runCompiled(ctx context.Context) ([]resultRow, error) {
-	res, err := v.run.Query(ctx, v.in.Compiled)
+	res, err := v.run.Query(ctx, v.in.Compiled, nil)
 	if err != nil {
 		return nil, fmt.Errorf("the engine rejected rollwise's own query: %w", err)
 	}
