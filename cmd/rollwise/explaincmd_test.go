@@ -169,6 +169,7 @@ func cellOfRow(r map[string]any, by []string) string {
 }
 
 func TestExplainRatioByHand(t *testing.T) {
+	t.Parallel()
 	tree := explainTree(t, shopModel, "-m", "margin_rate", "-b", "stores.region", "--cell", "stores.region='North'")
 	north := []string{"stores.region = 'North'"}
 	// North is lines 1, 2, 3: revenue 10 + 10 + 5 = 25, cost 4 + 6 + 2 = 12,
@@ -183,6 +184,7 @@ func TestExplainRatioByHand(t *testing.T) {
 }
 
 func TestExplainEditsNarrowingAndPerGrain(t *testing.T) {
+	t.Parallel()
 	models := []string{shopModel, editsModel}
 	// north_share = (revenue where stores.region = 'North') / revenue[drop
 	// stores.region], in South: the narrowing adds North to South, no row
@@ -219,6 +221,7 @@ func TestExplainEditsNarrowingAndPerGrain(t *testing.T) {
 }
 
 func TestExplainTimeEdits(t *testing.T) {
+	t.Parallel()
 	// ytd = revenue[orders.day to date year] in March 2025: E is the last
 	// order day of the cell, 2025-03-31, so the year to date holds orders
 	// 2 (10), 3 (20), 4 (7) and 5 (30): 67.
@@ -242,6 +245,7 @@ func TestExplainTimeEdits(t *testing.T) {
 // narrowing and the edit on the way to each part, rows, additivity, the
 // cells in words, and why the narrowed part is NULL.
 func TestExplainTableFormat(t *testing.T) {
+	t.Parallel()
 	var out, errb bytes.Buffer
 	code := Main([]string{"explain", shopModel, editsModel, "-m", "north_share", "-b", "stores.region", "--cell", "stores.region=South"},
 		strings.NewReader(""), &out, &errb)
@@ -272,6 +276,7 @@ north_share = (revenue where stores.region = 'North') / revenue[drop stores.regi
 }
 
 func TestExplainGrandTotalByDefault(t *testing.T) {
+	t.Parallel()
 	tree := explainTree(t, shopModel, "-m", "revenue", "-b", "stores.region")
 	if tree["default_cell"] != true || fmt.Sprint(tree["rolled_up"]) != "[stores.region]" {
 		t.Errorf("without --cell the cell is the grand total: %v", tree)
@@ -291,6 +296,7 @@ func TestExplainGrandTotalByDefault(t *testing.T) {
 }
 
 func TestExplainCellErrors(t *testing.T) {
+	t.Parallel()
 	for _, c := range []struct {
 		args []string
 		code int
@@ -319,14 +325,17 @@ func TestExplainCellErrors(t *testing.T) {
 // query, a few cells of the report (detail rows and totals) drawn from
 // what run prints, and checks that explain's root value is run's.
 func TestExplainMatchesRunOnRandomCases(t *testing.T) {
+	t.Parallel()
 	explainRandom(t, 25, nil)
 }
 
 // TestExplainMatchesRunOnRandomCasesLive does the same with the rows
 // read from each live engine (--dsn), each case loaded there.
 func TestExplainMatchesRunOnRandomCasesLive(t *testing.T) {
+	t.Parallel()
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
+			t.Parallel() // each engine holds the cases in a database of its own
 			e := livetest.Empty(t, name, "explain_"+name)
 			explainRandom(t, 10, e)
 		})
@@ -394,6 +403,7 @@ func explainRandom(t *testing.T, n int, live *livetest.Engine) {
 // TestExplainLive reads the rows from each live engine (--dsn) and checks
 // the root values against run --dsn there.
 func TestExplainLive(t *testing.T) {
+	t.Parallel()
 	for _, name := range livetest.Names {
 		t.Run(name, func(t *testing.T) {
 			shop := liveEngine(t, name, shopModel)
