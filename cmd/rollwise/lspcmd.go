@@ -19,7 +19,7 @@ output. It checks the model as it is typed (the messages of rollwise check,
 with their positions and hints; the model is every .roll file of the
 document's folder), shows a measure's definition, type, description,
 iteration tables and additivity on hover, goes to where a name is declared
-(of a measure, of a table, of a column), finds its uses, and completes
+(of a measure, of a table, of a column), finds its uses, completes
 measure names and table.column after a dot, and formats a document as
 rollwise fmt does.`,
 		Args: cobra.NoArgs,
