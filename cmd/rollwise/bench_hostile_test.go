@@ -39,7 +39,11 @@ func BenchmarkCheckHostile(b *testing.B) {
 			struct {
 				name string
 				src  func() string
-			}{"random-60MiB", func() string { return randomBytes(60 << 20) }})
+			}{"random-60MiB", func() string { return randomBytes(60 << 20) }},
+			struct {
+				name string
+				src  func() string
+			}{"model-near-cap", func() string { return synthModelOfSize(54 << 20) }})
 	}
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
