@@ -617,13 +617,9 @@ func (v *verifier) perRowVariants(ctx context.Context, j int) []*variant {
 		return nil
 	}
 	inner, err := v.planSQL(q)
-	var sql string
-	if err == nil {
-		sql, err = v.perRowSQL(inner, m.Name)
-	}
 	var rows []resultRow
 	if err == nil {
-		res, qerr := v.run.Query(ctx, sql, nil)
+		res, qerr := v.run.Query(ctx, v.perRowSQL(inner, m.Name), nil)
 		err = qerr
 		if qerr == nil {
 			rows, err = readCells(res, v.n, []string{"rollwise_sum", "rollwise_avg", "rollwise_count"})

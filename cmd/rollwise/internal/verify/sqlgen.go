@@ -266,46 +266,21 @@ func pathJoins(d *dialects.Dialect, t *model.Table, path []*model.Link, join str
 // perRowSQL wraps a query that computes measure name once per row of an
 // iteration table (grouped by the report's groups and the table's key)
 // into one that adds and averages those values in every cell of the
-// report, over the report's grouping sets.
-func (v *verifier) perRowSQL(inner, name string) (string, error) {
+// report, over the report's grouping sets as the renderer spells them in
+// the dialect (dialects.GroupingSetsSQL), with the grouping column last.
+func (v *verifier) perRowSQL(inner, name string) string {
 	d := v.in.Dialect
 	q := d.Ident
-	sets := v.in.Plan.Sets
-	if len(sets) > 1 && !d.Caps().GroupingSets {
-		return "", fmt.Errorf("%s has no grouping sets", d.Name())
-	}
 	var keys []string
 	for _, g := range v.in.Query.GroupNames {
 		keys = append(keys, q(g))
 	}
-	cols := append([]string{}, keys...)
 	m := q(name)
-	cols = append(cols, "sum("+m+") AS "+q("rollwise_sum"), "avg("+m+") AS "+q("rollwise_avg"),
-		"count("+m+") AS "+q("rollwise_count"))
-	grouping := "0"
-	if len(keys) > 0 && len(sets) > 1 {
-		grouping = "GROUPING(" + strings.Join(keys, ", ") + ")"
-	}
-	cols = append(cols, grouping+" AS "+q(dialects.GroupingColumn))
-	sql := "SELECT\n  " + strings.Join(cols, ",\n  ") + "\nFROM (\n" + inner + "\n) AS " + q("rollwise_per_row")
-	switch {
-	case len(keys) == 0:
-	case len(sets) == 1:
-		sql += "\nGROUP BY " + strings.Join(keys, ", ")
-	default:
-		var parts []string
-		for _, mask := range sets {
-			var in []string
-			for i, k := range keys {
-				if mask&(1<<(len(keys)-1-i)) == 0 {
-					in = append(in, k)
-				}
-			}
-			parts = append(parts, "("+strings.Join(in, ", ")+")")
-		}
-		sql += "\nGROUP BY GROUPING SETS (" + strings.Join(parts, ", ") + ")"
-	}
-	return sql, nil
+	aggs := []string{"sum(" + m + ") AS " + q("rollwise_sum"), "avg(" + m + ") AS " + q("rollwise_avg"),
+		"count(" + m + ") AS " + q("rollwise_count")}
+	cells := dialects.GroupingSetsSQL(d, keys, v.in.Plan.Sets, aggs, "(\n"+inner+"\n) AS "+q("rollwise_per_row"))
+	cols := append(append([]string{}, keys...), q("rollwise_sum"), q("rollwise_avg"), q("rollwise_count"), q(dialects.GroupingColumn))
+	return "SELECT " + strings.Join(cols, ", ") + "\nFROM (\n" + cells + "\n) AS " + q("rollwise_cells")
 }
 
 // refText writes a column as a --by reference, backquoting names that
