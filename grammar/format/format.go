@@ -54,6 +54,7 @@ type tok struct {
 	off     int  // byte offset of its first character
 	endLine int  // the line of its last character
 	member  bool // a keyword after a dot: a name
+	blank   bool // a blank line before it
 }
 
 // lex returns the file's tokens, comments included, with their byte
@@ -65,9 +66,10 @@ func lex(filename, src string) []tok {
 			lineStart = append(lineStart, i+1)
 		}
 	}
-	var out []tok
+	toks := grammar.Tokens(filename, src)
+	out := make([]tok, 0, len(toks))
 	off, line, col := 0, 1, 1 // walks forward, token by token
-	for _, t := range grammar.Tokens(filename, src) {
+	for _, t := range toks {
 		if t.Line != line {
 			off, line, col = lineStart[t.Line-1], t.Line, 1
 		}

@@ -88,11 +88,10 @@ func (p *printer) segment(f *grammar.File) {
 	var cur *segment
 	var pending []*tok // comments after cur's last token
 	prevEnd := 0       // the line where the token before ends
-	blankBefore := map[*tok]bool{}
 	end := func() {
 		if cur == nil {
 			for _, c := range pending {
-				p.addComment(c, 0, blankBefore[c])
+				p.addComment(c, 0, c.blank)
 			}
 			return
 		}
@@ -100,19 +99,19 @@ func (p *printer) segment(f *grammar.File) {
 		if len(pending) > 0 && pending[0].Line == last.endLine {
 			cur.trailing, pending = pending[0], pending[1:]
 		}
-		p.add(cur, blankBefore[cur.toks[0]])
+		p.add(cur, cur.toks[0].blank)
 		inside := cur.kind == segTable || cur.kind == segColumn || cur.kind == segItem
 		for _, c := range pending {
 			indent := 0
 			if inside {
 				indent = 2
 			}
-			p.addComment(c, indent, blankBefore[c])
+			p.addComment(c, indent, c.blank)
 		}
 	}
 	for i := range p.toks {
 		t := &p.toks[i]
-		blankBefore[t] = prevEnd > 0 && t.Line > prevEnd+1
+		t.blank = prevEnd > 0 && t.Line > prevEnd+1
 		prevEnd = t.endLine
 		if t.Kind == "comment" {
 			pending = append(pending, t)
