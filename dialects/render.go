@@ -570,7 +570,8 @@ var extremeOf = map[string]string{"latest": "MAX", "earliest": "MIN"}
 // window spells an edited aggregate as a window over the context's own
 // cells (the base scan's cells are the context's rows): each cell's value
 // combines the cells of its grouping set that share the keys the edit
-// keeps.
+// keeps; for a window time edit, those of its period (to date) that come
+// no later by the time key (NULL keys apart), NULL where E is NULL.
 func (r *renderer) window(ctx *plan.Context, w *plan.WindowRel, column string) (string, error) {
 	col := func(name string) string {
 		if _, single := r.from(ctx); single {
@@ -582,10 +583,27 @@ func (r *renderer) window(ctx *plan.Context, w *plan.WindowRel, column string) (
 	for _, i := range w.Partition {
 		part = append(part, col(ctx.Keys[i].Name))
 	}
-	for _, p := range w.Parts {
-		if p.Name == column {
-			return p.Func + "(" + col(p.Source) + ") OVER (PARTITION BY " + strings.Join(part, ", ") + ")", nil
+	order := ""
+	if t := w.Time; t != nil {
+		key := ctx.Keys[t.Order]
+		at := col(key.Name)
+		if t.Kind == model.EditToDate {
+			part = append(part, r.d.DateTrunc(t.Unit, at, key.Col.Type))
+		} else {
+			part = append(part, "CASE WHEN "+at+" IS NULL THEN 1 ELSE 0 END")
 		}
+		order = " ORDER BY " + at + " RANGE BETWEEN UNBOUNDED PRECEDING AND CURRENT ROW"
+	}
+	for _, p := range w.Parts {
+		if p.Name != column {
+			continue
+		}
+		sql := p.Func + "(" + col(p.Source) + ") OVER (PARTITION BY " + strings.Join(part, ", ") + order + ")"
+		if w.Time == nil {
+			return sql, nil
+		}
+		e, err := r.expr(w.Time.E)
+		return "CASE WHEN " + e + " IS NOT NULL THEN " + sql + " END", err
 	}
 	return "", fmt.Errorf("internal error: no window column %s", column)
 }

@@ -101,6 +101,22 @@ type WindowRel struct {
 	// Partition lists the context keys the window keeps (by index).
 	Partition []int
 	Parts     []*WindowPart
+	// Time is set for a window time edit (running, to date) planned over
+	// the base's cells: see TimeWindow.
+	Time *TimeWindow
+}
+
+// TimeWindow makes a WindowRel a window time edit's: each cell combines
+// the cells of its grouping set that share the kept keys (Partition), lie
+// in its Unit period (to date) and come no later in the order of the time
+// key Order, a month, quarter, ... of D itself (see timeCells). A cell
+// whose E is NULL is NULL.
+type TimeWindow struct {
+	Kind model.EditKind
+	Unit string
+	// Order is the index of the context's time key.
+	Order int
+	E     *ValueRef
 }
 
 // WindowPart is one window column: Func over the base's column Source.
@@ -265,6 +281,9 @@ type cell struct {
 type windowEdit struct {
 	ed *model.CellEdit
 	e  *ValueRef
+	// order is the index of the time key whose cells the edit may be
+	// computed over (see cellOrder), or -1.
+	order int
 }
 
 type cellFilter struct {

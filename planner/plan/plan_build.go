@@ -33,6 +33,9 @@ type planner struct {
 	// timeEnds are the relations that compute a window edit's E: they stay
 	// scans (a window edit's relation reads them on their own).
 	timeEnds map[*Rel]bool
+	// cellOrders maps a window edit's range relation to the time key it
+	// may be computed over as a window over the base's cells, or -1.
+	cellOrders map[*Rel]int
 	// computed holds each measure's value compiled in a cell of a context
 	// (see measureValue); iterTables the iteration tables found per measure.
 	computed   map[string]model.Expr
@@ -45,7 +48,7 @@ type planner struct {
 func NewPlan(q *model.Query) (*Plan, grammar.Diagnostics) {
 	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
 		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[model.Expr]string{},
-		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{},
+		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{}, cellOrders: map[*Rel]int{},
 		computed: map[string]model.Expr{}, iterTables: map[*model.Measure][]*model.Table{}}
 	pl.measureNames = map[string]bool{}
 	for _, m := range q.Measures {
@@ -86,6 +89,7 @@ func NewPlan(q *model.Query) (*Plan, grammar.Diagnostics) {
 	}
 	if !pl.diags.HasErrors() {
 		pl.useWindows(root)
+		pl.timeCells(root)
 		pl.distinctLeaves(root)
 		for _, s := range pl.p.Scans {
 			pl.checkReach(s)

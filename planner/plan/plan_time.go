@@ -250,7 +250,10 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 		return nil, false
 	}
 	pl.timeEnds[ev.Rel] = true
-	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev}}
+	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev, order: -1}}
+	if len(e.Edits[i+1:]) == 0 {
+		out.window.order = cellOrder(ctx, c, ed)
+	}
 	n := len(ctx.Keys)
 	for k, key := range ctx.Keys {
 		if timeBound(ed.Col, key.Col) {
@@ -314,6 +317,9 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 	where := rowFilters(c.filters)
 	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), w.e.Rel.Name+"."+w.e.Column)
 	if r, ok := pl.rels[key]; ok {
+		if pl.cellOrders[r] != w.order {
+			pl.cellOrders[r] = -1
+		}
 		return r
 	}
 	n := len(ctx.Keys)
@@ -335,6 +341,7 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
 		D: pl.input(s, r.Name+"_at", &model.ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
 	pl.rels[key] = r
+	pl.cellOrders[r] = w.order
 	ctx.Rels = append(ctx.Rels, r)
 	pl.p.Scans = append(pl.p.Scans, s)
 	return r

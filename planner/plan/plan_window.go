@@ -50,17 +50,22 @@ func (pl *planner) useWindows(ctx *Context) {
 		if !ok {
 			continue
 		}
-		w := &WindowRel{Base: base, Partition: r.Keys}
-		for _, l := range s.Leaves {
-			src := pl.baseLeaf(base.Scan, s, l)
-			w.Parts = append(w.Parts, &WindowPart{Name: l.Name, Func: windowFunc(l), Source: src.Name, T: l.T})
-		}
-		r.Scan, r.Window = nil, w
-		r.Keys = base.Keys
-		r.Sets = base.Sets
-		r.GidOf = base.GidOf
-		pl.p.Scans = slices.DeleteFunc(pl.p.Scans, func(x *Scan) bool { return x == s })
+		pl.windowOver(r, &WindowRel{Base: base, Partition: r.Keys})
 	}
+}
+
+// windowOver makes r, a scan relation, the window w over the cells of
+// w.Base: each of the scan's leaves a window part over the base's same
+// aggregate (added to the base scan where it lacks it).
+func (pl *planner) windowOver(r *Rel, w *WindowRel) {
+	s, base := r.Scan, w.Base
+	for _, l := range s.Leaves {
+		src := pl.baseLeaf(base.Scan, s, l)
+		w.Parts = append(w.Parts, &WindowPart{Name: l.Name, Func: windowFunc(l), Source: src.Name, T: l.T})
+	}
+	r.Scan, r.Window = nil, w
+	r.Keys, r.Sets, r.GidOf = base.Keys, base.Sets, base.GidOf
+	pl.p.Scans = slices.DeleteFunc(pl.p.Scans, func(x *Scan) bool { return x == s })
 }
 
 // baseLeaf finds or adds in the base scan the aggregate l of scan s.

@@ -50,6 +50,23 @@ func (g *gen) drawMeasures() {
 	for i := 0; i < nMore; i++ {
 		g.addMeasure(g.expr(g.intn(1, 3)))
 	}
+	if f := g.anyFact(); g.chance(25) {
+		// A running total or period to date on a fact's own date, the
+		// edit alone: time reports over it (drawQuery) are what the SQL
+		// path computes over the report's cells.
+		if dates := g.dateCols(f.cols); len(dates) > 0 {
+			// sum, min or max: aggregates that decompose over cells.
+			fn := []string{"sum", "sum", "min", "max"}[g.pick(4)]
+			arg, exact, factors := g.rowNumber(f, fn != "sum")
+			a := mx{kind: "num", text: fn + "(" + arg + ")", exact: exact, factors: factors, tables: []*table{f}}
+			edit := g.col(dates).ref() + " running"
+			if g.chance(60) {
+				edit = g.col(dates).ref() + " to date " + []string{"day", "week", "month", "quarter", "year"}[g.pick(5)]
+			}
+			a.text, a.advanced = "("+a.text+")["+edit+"]", true
+			g.addMeasure(a)
+		}
+	}
 }
 
 func (g *gen) addMeasure(e mx) {

@@ -1,6 +1,7 @@
 package casegen
 
 import (
+	"regexp"
 	"slices"
 	"strings"
 )
@@ -64,6 +65,21 @@ func (g *gen) drawQuery() (Query, bool) {
 		q.Where = "(" + strings.Join(where, ") and (") + ")"
 	}
 	q.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
+	if d := g.windowDate(chosen); d != nil && slices.Contains(cols, d) && g.chance(60) {
+		// A time report: grouped by the month (or the day) of a window
+		// edit's date, no total rows, now and then a second group: the
+		// shape the SQL path computes over the report's cells.
+		q.By = []string{d.ref()}
+		if m := d.t.col("month"); m != nil && g.chance(60) {
+			q.By[0] = m.ref()
+		}
+		if len(cols) > 0 && g.chance(40) {
+			if c := g.col(cols); !slices.Contains(q.By, c.ref()) {
+				q.By = append(q.By, c.ref())
+			}
+		}
+		q.Totals = "none"
+	}
 	if g.chance(30) {
 		// One to three keys among the exact measures and the groups.
 		var cands []string
@@ -89,4 +105,35 @@ func (g *gen) drawQuery() (Query, bool) {
 		q.Limit = g.intn(1, 4)
 	}
 	return q, true
+}
+
+// windowDate is a date column that a window edit (running, to date) of
+// the chosen measures, or of the measures they read, moves; nil if none.
+func (g *gen) windowDate(chosen []*measure) *column {
+	var text strings.Builder
+	seen := map[*measure]bool{}
+	var read func(m *measure)
+	read = func(m *measure) {
+		if seen[m] {
+			return
+		}
+		seen[m] = true
+		text.WriteString(m.text + "\n")
+		for _, o := range g.measures {
+			if regexp.MustCompile(`\b` + o.name + `\b`).MatchString(m.text) {
+				read(o)
+			}
+		}
+	}
+	for _, m := range chosen {
+		read(m)
+	}
+	for _, t := range g.tables {
+		for _, d := range g.dateCols(t.cols) {
+			if strings.Contains(text.String(), d.ref()+" running") || strings.Contains(text.String(), d.ref()+" to date") {
+				return d
+			}
+		}
+	}
+	return nil
 }

@@ -82,6 +82,48 @@ var timeCases = []Case{
 			{"orders.month": "2026-03-01", "revenue": "3", "ytd": "6", "running": "173", "last3": "6"},
 			{"orders.month": nil, "revenue": "173", "ytd": "6", "running": "173", "last3": "6", "rolled_up": total("orders.month")},
 		}},
+	// Reports grouped by a month (or the day) of D with no total row: the
+	// SQL path computes these windows over the report's cells
+	// (planner/plan_timecells.go); the numbers are the same.
+	{Models: timeModel, Name: "cells: windows by month and shop", Measures: "revenue,ytd,running,run_shops", By: "orders.month,orders.shop", Totals: "none",
+		Rows: []Row{
+			{"orders.month": "2024-02-01", "orders.shop": "a", "revenue": "100", "ytd": "100", "running": "100", "run_shops": "100"},
+			{"orders.month": "2025-01-01", "orders.shop": "a", "revenue": "10", "ytd": "10", "running": "110", "run_shops": "110"},
+			{"orders.month": "2025-02-01", "orders.shop": "a", "revenue": "20", "ytd": "30", "running": "130", "run_shops": "130"},
+			// b's first row: ytd and running are b's alone (37); every shop
+			// (the drop) up to E = 2025-03-31: 100 + 10 + 20 + 37.
+			{"orders.month": "2025-03-01", "orders.shop": "b", "revenue": "37", "ytd": "37", "running": "37", "run_shops": "167"},
+			// a up to 2026-01-15: 100 + 10 + 20 + 1.
+			{"orders.month": "2026-01-01", "orders.shop": "a", "revenue": "1", "ytd": "1", "running": "131", "run_shops": "168"},
+			// b: 7 + 30 + 2.
+			{"orders.month": "2026-02-01", "orders.shop": "b", "revenue": "2", "ytd": "2", "running": "39", "run_shops": "170"},
+			// a's 2026: 1 + 3; a's all: 134; every shop's all: 173 (the
+			// identity: running at the last month is revenue unfiltered).
+			{"orders.month": "2026-03-01", "orders.shop": "a", "revenue": "3", "ytd": "4", "running": "134", "run_shops": "173"},
+		}},
+	{Models: timeModel, Name: "cells: year to date by month of 2025", Measures: "revenue,ytd,running", By: "orders.month", Where: "orders.year = 2025", Totals: "none",
+		Rows: []Row{
+			// The year filter keeps whole years: ytd reads 2025's cells.
+			// running replaces it and reads 2024 too (100 before January).
+			{"orders.month": "2025-01-01", "revenue": "10", "ytd": "10", "running": "110"},
+			{"orders.month": "2025-02-01", "revenue": "20", "ytd": "30", "running": "130"},
+			{"orders.month": "2025-03-01", "revenue": "37", "ytd": "67", "running": "167"},
+		}},
+	{Models: timeModel, Name: "cells: week to date and running by day", Measures: "revenue,wtd,running", By: "orders.day", Totals: "none",
+		Rows: []Row{
+			// Each day is alone in its ISO week (Monday first) but the last:
+			// Thursday 2024-02-29, Friday 2025-01-31, Friday 2025-02-28,
+			// Saturday 2025-03-15, Monday 2025-03-31, Thursday 2026-01-15.
+			{"orders.day": "2024-02-29", "revenue": "100", "wtd": "100", "running": "100"},
+			{"orders.day": "2025-01-31", "revenue": "10", "wtd": "10", "running": "110"},
+			{"orders.day": "2025-02-28", "revenue": "20", "wtd": "20", "running": "130"},
+			{"orders.day": "2025-03-15", "revenue": "7", "wtd": "7", "running": "137"},
+			{"orders.day": "2025-03-31", "revenue": "30", "wtd": "30", "running": "167"},
+			{"orders.day": "2026-01-15", "revenue": "1", "wtd": "1", "running": "168"},
+			// Saturday 2026-02-28 and Sunday 2026-03-01 share a week: 2 + 3.
+			{"orders.day": "2026-02-28", "revenue": "2", "wtd": "2", "running": "170"},
+			{"orders.day": "2026-03-01", "revenue": "3", "wtd": "5", "running": "173"},
+		}},
 	{Models: timeModel, Name: "week to date in 2026", Measures: "revenue,wtd", By: "orders.day", Where: "orders.year = 2026", Totals: "grand",
 		Rows: []Row{
 			// ISO 8601 weeks start on Monday: 2026-01-15 (a Thursday) from the 12th.

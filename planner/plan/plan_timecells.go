@@ -1,0 +1,164 @@
+package plan
+
+import (
+	"slices"
+
+	"github.com/rollwise/rollwise/planner/model"
+)
+
+// Window time edits over the report's cells. A running total or a period
+// to date in a context grouped by a month (quarter, year, day) of D itself
+// is, where exact, a window over the base scan's cells instead of a
+// second read of the facts with a range join (docs/benchmarks.md, "Time
+// edits"). Let X be a cell and tk its time key, date_trunc(G, D) or D:
+//
+//   - E (the latest D of X's rows) lies in X's period tk, and every row of
+//     that period passes X's constraints (they are not time-bound, or
+//     determined by the period: the conditions below), so the rows with
+//     D <= E are the rows of the periods up to tk, as tk grows with D;
+//   - to date UNIT starts at start_of_UNIT(E), which is the start of a
+//     period of tk when UNIT is G or coarser: the range is the periods of
+//     the same UNIT up to tk;
+//   - those periods' rows, with X's kept keys, are exactly the cells of
+//     X's grouping set that share X's kept keys (every row is in one cell
+//     of each set), provided the base read them: the time-bound filters
+//     the edit replaces keep or drop whole UNIT periods (to date) or there
+//     are none (running).
+//
+// So the value is the window aggregate (sum of sums and counts, min of
+// mins, max of maxes) over those cells, NULL where E is NULL.
+
+// within lists, for each grain of a time key ("" is D itself), the units
+// whose periods are unions of the grain's periods.
+var within = map[string][]string{
+	"":        {"day", "week", "month", "quarter", "year"},
+	"day":     {"day", "week", "month", "quarter", "year"},
+	"week":    {"week"},
+	"month":   {"month", "quarter", "year"},
+	"quarter": {"quarter", "year"},
+	"year":    {"year"},
+}
+
+// keyGrain is G when col is date_trunc(G, d) (a derived column of d's
+// table) and "" when col is d; ok is false otherwise.
+func keyGrain(d, col *model.Column) (string, bool) {
+	if col == d {
+		return "", true
+	}
+	if col.Table != d.Table || col.Derived == nil {
+		return "", false
+	}
+	if f, ok := col.Derived.(*model.Func); ok && f.Name == "date_trunc" && isCol(f.Args[0], d) {
+		return f.Unit, true
+	}
+	return "", false
+}
+
+func isCol(e model.Expr, c *model.Column) bool {
+	r, ok := e.(*model.ColRef)
+	return ok && r.Col == c
+}
+
+// determinedBy reports whether e reads d only through values fixed within
+// each period of grain g: date_trunc or extract of d by a unit within g,
+// d itself where g is "" (or a day of a date), derived columns of those.
+func determinedBy(e model.Expr, d *model.Column, g string) bool {
+	ok := true
+	model.Walk(e, func(x model.Expr) bool {
+		switch x := x.(type) {
+		case *model.Func:
+			if (x.Name == "date_trunc" || x.Name == "extract") && len(x.Args) == 1 && isCol(x.Args[0], d) {
+				ok = ok && slices.Contains(within[g], x.Unit)
+				return false
+			}
+		case *model.ColRef:
+			switch {
+			case x.Col == d:
+				ok = ok && (g == "" || g == "day" && d.Type == model.TypeDate)
+			case x.Col.Table == d.Table && x.Col.Derived != nil:
+				ok = ok && determinedBy(x.Col.Derived, d, g)
+			default:
+				ok = false
+			}
+		}
+		return ok
+	})
+	return ok
+}
+
+// cellOrder is the index of the time key of ctx over whose cells the
+// window edit ed, the last edit applied in cell c, may be computed, or
+// -1: the one key time-bound to D, a grain of D itself grouped in every
+// grouping set and kept by c; to date's unit within its grain; c's
+// time-bound filters (which E reads) fixed within each period of the key.
+func cellOrder(ctx *Context, c cell, ed *model.CellEdit) int {
+	if ed.Kind != model.EditRunning && ed.Kind != model.EditToDate {
+		return -1
+	}
+	d, n, order := ed.Col, len(ctx.Keys), -1
+	for i, k := range ctx.Keys {
+		if timeBound(d, k.Col) {
+			if order >= 0 {
+				return -1
+			}
+			order = i
+		}
+	}
+	if order < 0 || c.removed&bit(order, n) != 0 {
+		return -1
+	}
+	for _, s := range ctx.Sets {
+		if s&bit(order, n) != 0 {
+			return -1
+		}
+	}
+	g, ok := keyGrain(d, ctx.Keys[order].Col)
+	if !ok || ed.Kind == model.EditToDate && !slices.Contains(within[g], ed.Unit) {
+		return -1
+	}
+	for _, f := range c.filters {
+		if allBound(f.e, d) && !determinedBy(f.e, d, g) {
+			return -1
+		}
+	}
+	return order
+}
+
+// timeCells turns the range scans of window edits into windows over the
+// base scan's cells where cellOrder found them exact and the scan reads
+// what the base reads: the same table, the base's row filters but the
+// time-bound ones the edit replaces, and those keep or drop whole periods
+// of to date's unit (a running total has none: the base lacks the rows
+// they drop); aggregates that decompose.
+func (pl *planner) timeCells(ctx *Context) {
+	for _, r := range ctx.Rels {
+		if r.Per != nil {
+			pl.timeCells(r.Per.Sub)
+		}
+	}
+	if len(ctx.Bases) != 1 {
+		return
+	}
+	base := ctx.Bases[0]
+	for _, r := range ctx.Rels {
+		s := r.Scan
+		if s == nil || s.Range == nil || pl.cellOrders[r] < 0 || s.Table != base.Scan.Table {
+			continue
+		}
+		d := s.Range.D.Expr.(*model.ColRef).Col
+		var kept []model.Expr
+		whole := true
+		for _, w := range base.Scan.Where {
+			if !allBound(w, d) {
+				kept = append(kept, w)
+			} else if s.Range.Kind == model.EditRunning || !determinedBy(w, d, s.Range.Unit) {
+				whole = false
+			}
+		}
+		if !whole || pl.whereKey(kept) != pl.whereKey(s.Where) || slices.ContainsFunc(s.Leaves, func(l *Leaf) bool { return windowFunc(l) == "" }) {
+			continue
+		}
+		pl.windowOver(r, &WindowRel{Base: base, Partition: s.Range.Match,
+			Time: &TimeWindow{Kind: s.Range.Kind, Unit: s.Range.Unit, Order: pl.cellOrders[r], E: s.Range.E}})
+	}
+}
