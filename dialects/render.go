@@ -201,6 +201,9 @@ func (r *renderer) context(ctx *plan.Context) error {
 			err = r.scan(ctx, rel)
 		case rel.Window != nil:
 			// spelled inline where it is used (see window)
+		case rel.Shift != nil:
+			// after its source's cells
+			ranges = append(ranges, rel)
 		default:
 			err = r.per(ctx, rel)
 		}
@@ -224,7 +227,7 @@ func (r *renderer) context(ctx *plan.Context) error {
 		r.keyRel[ctx] = name
 	}
 	for _, rel := range ranges {
-		if err := r.rangeScan(ctx, rel); err != nil {
+		if err := r.later(ctx, rel); err != nil {
 			return err
 		}
 	}
@@ -260,7 +263,7 @@ func (r *renderer) joinRels(ctx *plan.Context) fromClause {
 	joined := 0
 	for _, rel := range ctx.Rels {
 		name := r.cte[rel]
-		if name == r.keyRel[ctx] || rel.Window != nil {
+		if name == r.keyRel[ctx] || rel.Window != nil || rel.Feeds {
 			continue
 		}
 		joined++

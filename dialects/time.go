@@ -164,3 +164,35 @@ func (r *renderer) rangeMedians(ctx *plan.Context, rel *plan.Rel, ends, rowsName
 	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(out, ", ")+"\n  FROM "+r.q(ranked)+"\n  GROUP BY "+strings.Join(group, ", "))
 	return nil
 }
+
+// later renders a relation that reads the context's cells or another
+// relation's: a window edit's range scan, or a shift.
+func (r *renderer) later(ctx *plan.Context, rel *plan.Rel) error {
+	if rel.Shift == nil {
+		return r.rangeScan(ctx, rel)
+	}
+	sh := rel.Shift
+	k := ctx.Keys[sh.Key]
+	moved := r.moveBy(r.q(k.Name), sh.N, sh.Unit, k.Col.Type)
+	group := []string{r.q(GroupingColumn)}
+	for _, i := range rel.Keys {
+		if i == sh.Key {
+			group = append(group, moved)
+		} else {
+			group = append(group, r.q(ctx.Keys[i].Name))
+		}
+	}
+	sel := slices.Clone(group)
+	for j, i := range rel.Keys {
+		if i == sh.Key {
+			sel[j+1] = moved + " AS " + r.q(k.Name)
+		}
+	}
+	for _, p := range sh.Parts {
+		sel = append(sel, p.Func+"("+r.q(p.Source)+") AS "+r.q(p.Name))
+	}
+	r.cte[rel] = r.cteName(rel.Name + "_moved")
+	r.addCTE(r.cte[rel], "  SELECT "+strings.Join(sel, ", ")+"\n  FROM "+r.q(r.cte[sh.Source])+
+		"\n  GROUP BY "+strings.Join(group, ", "))
+	return nil
+}

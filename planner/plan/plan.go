@@ -90,6 +90,23 @@ type Rel struct {
 	Scan   *Scan
 	Per    *PerRel
 	Window *WindowRel
+	Shift  *ShiftRel
+	// Feeds is set on a scan whose cells only a shift reads: it is not
+	// joined to the context's rows.
+	Feeds bool
+}
+
+// ShiftRel computes `D back N UNIT` over another relation's cells: each
+// cell of Source moves to the cell whose time key (the context's key
+// Key, a grain of D itself) is its own moved forward N Units, and the
+// cells that land on one key combine (Parts: sum, min, max). Its keys and
+// grouping sets are Source's.
+type ShiftRel struct {
+	Source *Rel
+	Key    int
+	N      int
+	Unit   string
+	Parts  []*WindowPart
 }
 
 // WindowRel computes edited aggregates that decompose (sum, count, min,

@@ -90,6 +90,7 @@ func NewPlan(q *model.Query) (*Plan, grammar.Diagnostics) {
 	if !pl.diags.HasErrors() {
 		pl.useWindows(root)
 		pl.timeCells(root)
+		pl.shiftCells(root)
 		pl.distinctLeaves(root)
 		for _, s := range pl.p.Scans {
 			pl.checkReach(s)

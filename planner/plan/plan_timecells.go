@@ -1,6 +1,7 @@
 package plan
 
 import (
+	"fmt"
 	"slices"
 
 	"github.com/rollwise/rollwise/planner/model"
@@ -63,21 +64,28 @@ func isCol(e model.Expr, c *model.Column) bool {
 // each period of grain g: date_trunc or extract of d by a unit within g,
 // d itself where g is "" (or a day of a date), derived columns of those.
 func determinedBy(e model.Expr, d *model.Column, g string) bool {
+	return fixedWithin(e, d, g, func(x model.Expr) bool { return isCol(x, d) })
+}
+
+// fixedWithin is determinedBy with isD telling what stands for d: d, or
+// d moved forward (the moved filters of `back`, see shiftable).
+func fixedWithin(e model.Expr, d *model.Column, g string, isD func(model.Expr) bool) bool {
 	ok := true
 	model.Walk(e, func(x model.Expr) bool {
+		if isD(x) {
+			ok = ok && (g == "" || g == "day" && d.Type == model.TypeDate)
+			return false
+		}
 		switch x := x.(type) {
 		case *model.Func:
-			if (x.Name == "date_trunc" || x.Name == "extract") && len(x.Args) == 1 && isCol(x.Args[0], d) {
+			if (x.Name == "date_trunc" || x.Name == "extract") && len(x.Args) == 1 && isD(x.Args[0]) {
 				ok = ok && slices.Contains(within[g], x.Unit)
 				return false
 			}
 		case *model.ColRef:
-			switch {
-			case x.Col == d:
-				ok = ok && (g == "" || g == "day" && d.Type == model.TypeDate)
-			case x.Col.Table == d.Table && x.Col.Derived != nil:
-				ok = ok && determinedBy(x.Col.Derived, d, g)
-			default:
+			if x.Col.Table == d.Table && x.Col.Derived != nil {
+				ok = ok && fixedWithin(x.Col.Derived, d, g, isD)
+			} else {
 				ok = false
 			}
 		}
@@ -161,4 +169,160 @@ func (pl *planner) timeCells(ctx *Context) {
 		pl.windowOver(r, &WindowRel{Base: base, Partition: s.Range.Match,
 			Time: &TimeWindow{Kind: s.Range.Kind, Unit: s.Range.Unit, Order: pl.cellOrders[r], E: s.Range.E}})
 	}
+}
+
+// Shifts over the report's cells. `D back N UNIT` groups the rows by the
+// time key computed on D moved forward; where the key is a grain G of D
+// itself (date_trunc(G, D), or D) and moving commutes with truncating
+// (trunc_G(D + N UNIT) = trunc_G(D) + N UNIT: days and weeks on a day,
+// whole weeks on a week, months on a month, whole quarters on a quarter,
+// whole years on a year), the moved rows of a cell are the rows of the
+// cells whose key, moved forward, is its key: the plan groups the rows
+// once, by the unmoved key, and moves the cells.
+
+// lifts reports whether moving by n units commutes with truncating to
+// grain g (see above).
+func lifts(g, unit string, n int) bool {
+	months := map[string]int{"month": 1, "quarter": 3, "year": 12}
+	switch g {
+	case "":
+		return true
+	case "day":
+		return true
+	case "week":
+		return unit == "week" || unit == "day" && n%7 == 0
+	}
+	step, ok := months[unit]
+	return ok && months[g] > 0 && n*step%months[g] == 0
+}
+
+// movedBy reads a moved key's row expression: date_move(D, N) or
+// date_trunc(G, date_move(D, N)) for the key's grain G.
+func movedBy(e model.Expr, d *model.Column, g string) (n int, unit string, ok bool) {
+	if f, isF := e.(*model.Func); isF && g != "" && f.Name == "date_trunc" && f.Unit == g {
+		e = f.Args[0]
+	}
+	f, isF := e.(*model.Func)
+	if !isF || f.Name != movedFunc || !isCol(f.Args[0], d) {
+		return 0, "", false
+	}
+	lit, isLit := f.Args[1].(*model.Lit)
+	if !isLit {
+		return 0, "", false
+	}
+	if _, err := fmt.Sscan(lit.Text, &n); err != nil {
+		return 0, "", false
+	}
+	return n, f.Unit, true
+}
+
+// shiftCells turns the scans of `back` into shifts of cells where exact:
+// the scan moves one key, a grain of D that lifts the move; its other
+// keys and row filters are a scan's of the same table (the source, the
+// base itself when they are the base's), but its moved filters; those
+// are fixed within each period of the key and the key is grouped in
+// every grouping set (so a cell that exists passes them, and so do the
+// rows moved into it); its aggregates decompose and their filters are
+// not moved.
+func (pl *planner) shiftCells(ctx *Context) {
+	for _, r := range ctx.Rels {
+		if r.Per != nil {
+			pl.shiftCells(r.Per.Sub)
+		}
+	}
+	if len(ctx.Bases) != 1 {
+		return
+	}
+	base := ctx.Bases[0]
+	for _, r := range slices.Clone(ctx.Rels) {
+		s := r.Scan
+		if s == nil || s.Range != nil || s.Table != base.Scan.Table {
+			continue
+		}
+		key, n, unit, d := -1, 0, "", (*model.Column)(nil)
+		for j, k := range s.Keys {
+			if k.Expr == nil {
+				continue
+			}
+			i := r.Keys[j]
+			for _, c := range model.Columns(k.Expr) {
+				d = c
+			}
+			g, ok := keyGrain(d, ctx.Keys[i].Col)
+			m, u, moved := movedBy(k.Expr, d, g)
+			if key >= 0 || !ok || !moved || !lifts(g, u, m) {
+				key = -2
+				break
+			}
+			key, n, unit = i, m, u
+		}
+		if key < 0 || !pl.shiftable(ctx, r, key, d) {
+			continue
+		}
+		var kept []model.Expr
+		for _, w := range s.Where {
+			if !movesDate(w) {
+				kept = append(kept, w)
+			}
+		}
+		var removed uint64
+		for i := range ctx.Keys {
+			if !slices.Contains(r.Keys, i) {
+				removed |= bit(i, len(ctx.Keys))
+			}
+		}
+		_, shared := pl.rels[pl.scanKey(ctx, s.Table, removed, kept)]
+		src := pl.scanRel(ctx, s.Table, removed, kept, nil, r.Name+"_unmoved")
+		src.Feeds = src.Feeds || !shared
+		shift := &ShiftRel{Source: src, Key: key, N: n, Unit: unit}
+		for _, l := range s.Leaves {
+			sl := pl.baseLeaf(src.Scan, s, l)
+			shift.Parts = append(shift.Parts, &WindowPart{Name: l.Name, Func: windowFunc(l), Source: sl.Name, T: l.T})
+		}
+		r.Scan, r.Shift = nil, shift
+		pl.p.Scans = slices.DeleteFunc(pl.p.Scans, func(x *Scan) bool { return x == s })
+	}
+}
+
+// shiftable checks the rest of shiftCells' conditions for r, a scan that
+// moves the context's key by a lifting move of D.
+func (pl *planner) shiftable(ctx *Context, r *Rel, key int, d *model.Column) bool {
+	s := r.Scan
+	g, _ := keyGrain(d, ctx.Keys[key].Col)
+	for _, l := range s.Leaves {
+		if windowFunc(l) == "" || l.Filter != nil && movesDate(l.Filter.Expr) || l.Arg != nil && movesDate(l.Arg.Expr) {
+			return false
+		}
+	}
+	n := len(ctx.Keys)
+	for _, w := range s.Where {
+		if !movesDate(w) {
+			continue
+		}
+		movedD := func(x model.Expr) bool {
+			f, ok := x.(*model.Func)
+			return ok && f.Name == movedFunc && isCol(f.Args[0], d)
+		}
+		if !fixedWithin(w, d, g, movedD) {
+			return false
+		}
+		for _, set := range ctx.Sets {
+			if set&bit(key, n) != 0 {
+				return false
+			}
+		}
+	}
+	return true
+}
+
+// movesDate reports whether e reads a date moved forward.
+func movesDate(e model.Expr) bool {
+	found := false
+	model.Walk(e, func(x model.Expr) bool {
+		if f, ok := x.(*model.Func); ok && f.Name == movedFunc {
+			found = true
+		}
+		return !found
+	})
+	return found
 }

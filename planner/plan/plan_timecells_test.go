@@ -1,6 +1,7 @@
 package plan_test
 
 import (
+	"slices"
 	"strings"
 	"testing"
 
@@ -31,10 +32,18 @@ measure last3   = revenue[orders.day last 3 months]
 measure avg_run = avg(orders.amount)[orders.day running]
 measure run_all = revenue[drop orders.shop; orders.day running]
 measure run_then_drop = revenue[orders.day running; drop orders.shop]
+measure ly      = revenue[orders.day back 1 year]
+measure lq      = revenue[orders.day back 1 quarter]
+measure lm      = revenue[orders.day back 1 month]
+measure lw      = revenue[orders.day back 1 week]
+measure ld      = revenue[orders.day back 3 days]
+measure ly_all  = revenue[orders.day back 1 year; drop orders.shop]
+measure ly_max  = max(orders.amount)[orders.day back 1 year]
+measure ly_avg  = avg(orders.amount)[orders.day back 1 year]
 `
 
 // Window time edits are computed over the report's cells exactly where
-// planner/plan_timecells.go says it is exact, and by a second read of
+// planner/plan/plan_timecells.go says it is exact, and by a second read of
 // the rows (a range scan) elsewhere; the numbers of both plans are held
 // to the reference evaluator by cmd/rollwise's TestTimeEdits and the
 // differential tests.
@@ -108,4 +117,59 @@ func planTotals(t *testing.T, src, measures, by, where, totals string) *plan.Pla
 		t.Fatal(d)
 	}
 	return planOf(t, []*grammar.File{f}, model.Request{Measures: strings.Split(measures, ","), By: strings.Split(by, ","), Where: where, Totals: totals})
+}
+
+// `back` is a shift of the report's cells exactly where
+// planner/plan/plan_timecells.go says it is exact, and a scan of the rows
+// grouped by the moved key elsewhere.
+func TestBackOverCells(t *testing.T) {
+	for _, c := range []struct {
+		measure, by, where, totals string
+		shift                      bool
+	}{
+		{"ly", "orders.month", "", "none", true},
+		{"lm", "orders.month", "", "none", true},
+		{"lq", "orders.quarter", "", "none", true},
+		{"ly", "orders.quarter", "", "none", true},
+		{"lw", "orders.week", "", "none", true},
+		{"ld", "orders.day", "", "none", true},
+		{"lm", "orders.day", "", "none", true},
+		{"ly_max", "orders.month", "", "none", true},
+		// total rows without a time-bound filter: nothing moves there
+		{"ly", "orders.month", "", "grand", true},
+		{"ly", "orders.month,orders.shop", "", "rollup", true},
+		{"ly_all", "orders.month,orders.shop", "", "rollup", true},
+		// a filter that keeps whole months: the cells moved into a month
+		// that passes it pass it (read from a scan without it)
+		{"ly", "orders.month", "orders.year = 2025", "none", true},
+		{"ly", "orders.month", "orders.shop = 'a'", "grand", true},
+		// ... but a total row under it moves the filter, not a key
+		{"ly", "orders.month", "orders.year = 2025", "grand", false},
+		{"ly", "orders.month", "orders.day >= date '2025-03-15'", "none", false},
+		// moves that do not commute with the key's grain
+		{"lm", "orders.quarter", "", "none", false},
+		{"lm", "orders.week", "", "none", false},
+		{"lw", "orders.month", "", "none", false},
+		// not a grain of D itself
+		{"ly", "orders.mon", "", "none", false},
+		{"ly_avg", "orders.month", "", "none", false},
+	} {
+		p := planTotals(t, timed, c.measure, c.by, c.where, c.totals)
+		shifts, moved := 0, 0
+		for _, r := range p.Root.Rels {
+			if r.Shift != nil {
+				shifts++
+			}
+			if r.Scan != nil && slices.ContainsFunc(r.Scan.Keys, func(k plan.Key) bool { return k.Expr != nil }) {
+				moved++
+			}
+		}
+		name := c.measure + " by " + c.by + " where " + c.where + " totals " + c.totals
+		switch {
+		case c.shift && (shifts != 1 || moved != 0):
+			t.Errorf("%s: want a shift of the cells, got %d shifts and %d moved scans", name, shifts, moved)
+		case !c.shift && (shifts != 0 || moved != 1):
+			t.Errorf("%s: want the moved scan, got %d shifts and %d moved scans", name, shifts, moved)
+		}
+	}
 }

@@ -84,7 +84,7 @@ var timeCases = []Case{
 		}},
 	// Reports grouped by a month (or the day) of D with no total row: the
 	// SQL path computes these windows over the report's cells
-	// (planner/plan_timecells.go); the numbers are the same.
+	// (planner/plan/plan_timecells.go); the numbers are the same.
 	{Models: timeModel, Name: "cells: windows by month and shop", Measures: "revenue,ytd,running,run_shops", By: "orders.month,orders.shop", Totals: "none",
 		Rows: []Row{
 			{"orders.month": "2024-02-01", "orders.shop": "a", "revenue": "100", "ytd": "100", "running": "100", "run_shops": "100"},
@@ -123,6 +123,38 @@ var timeCases = []Case{
 			// Saturday 2026-02-28 and Sunday 2026-03-01 share a week: 2 + 3.
 			{"orders.day": "2026-02-28", "revenue": "2", "wtd": "2", "running": "170"},
 			{"orders.day": "2026-03-01", "revenue": "3", "wtd": "5", "running": "173"},
+		}},
+	// `back` by a month of D: the SQL path moves the report's cells
+	// (planner/plan/plan_timecells.go); same numbers.
+	{Models: timeModel, Name: "cells: a year back by month and shop", Measures: "revenue,rev_ly,ly_shops", By: "orders.month,orders.shop", Totals: "rollup",
+		Rows: []Row{
+			{"orders.month": "2024-02-01", "orders.shop": "a", "revenue": "100", "rev_ly": nil, "ly_shops": nil},
+			{"orders.month": "2024-02-01", "orders.shop": nil, "revenue": "100", "rev_ly": nil, "ly_shops": nil, "rolled_up": total("orders.shop")},
+			{"orders.month": "2025-01-01", "orders.shop": "a", "revenue": "10", "rev_ly": nil, "ly_shops": nil},
+			{"orders.month": "2025-01-01", "orders.shop": nil, "revenue": "10", "rev_ly": nil, "ly_shops": nil},
+			// the leap day moves to 2025-02-28: a's 100
+			{"orders.month": "2025-02-01", "orders.shop": "a", "revenue": "20", "rev_ly": "100", "ly_shops": "100"},
+			{"orders.month": "2025-02-01", "orders.shop": nil, "revenue": "20", "rev_ly": "100", "ly_shops": "100"},
+			{"orders.month": "2025-03-01", "orders.shop": "b", "revenue": "37", "rev_ly": nil, "ly_shops": nil},
+			{"orders.month": "2025-03-01", "orders.shop": nil, "revenue": "37", "rev_ly": nil, "ly_shops": nil},
+			{"orders.month": "2026-01-01", "orders.shop": "a", "revenue": "1", "rev_ly": "10", "ly_shops": "10"},
+			{"orders.month": "2026-01-01", "orders.shop": nil, "revenue": "1", "rev_ly": "10", "ly_shops": "10"},
+			// b had nothing in February 2025 (a had 20): every shop's is 20
+			{"orders.month": "2026-02-01", "orders.shop": "b", "revenue": "2", "rev_ly": nil, "ly_shops": "20"},
+			{"orders.month": "2026-02-01", "orders.shop": nil, "revenue": "2", "rev_ly": "20", "ly_shops": "20"},
+			// a had nothing in March 2025 (b had 37)
+			{"orders.month": "2026-03-01", "orders.shop": "a", "revenue": "3", "rev_ly": nil, "ly_shops": "37"},
+			{"orders.month": "2026-03-01", "orders.shop": nil, "revenue": "3", "rev_ly": "37", "ly_shops": "37"},
+			// the grand total has no time-bound constraint: nothing moves
+			{"orders.month": nil, "orders.shop": nil, "revenue": "173", "rev_ly": "173", "ly_shops": "173", "rolled_up": total("orders.month", "orders.shop")},
+		}},
+	{Models: timeModel, Name: "cells: back by month of 2026", Measures: "revenue,rev_ly,rev_lm", By: "orders.month", Where: "orders.year = 2026", Totals: "none",
+		Rows: []Row{
+			// the year filter moves with the rows: 2025's months come
+			// back a year, December 2025 (nothing) a month
+			{"orders.month": "2026-01-01", "revenue": "1", "rev_ly": "10", "rev_lm": nil},
+			{"orders.month": "2026-02-01", "revenue": "2", "rev_ly": "20", "rev_lm": "1"},
+			{"orders.month": "2026-03-01", "revenue": "3", "rev_ly": "37", "rev_lm": "2"},
 		}},
 	{Models: timeModel, Name: "week to date in 2026", Measures: "revenue,wtd", By: "orders.day", Where: "orders.year = 2026", Totals: "grand",
 		Rows: []Row{

@@ -1,0 +1,64 @@
+-- rollwise sql testdata/exec/time.roll -m 'revenue,rev_ly,rev_lm,ly_shops' -b 'orders.month,orders.shop' --totals rollup -d snowflake
+WITH "ORDERS_ROWS" AS (
+  SELECT
+    (DATE_TRUNC('MONTH', "ORDERS"."DAY")) AS "orders.month",
+    "ORDERS"."SHOP" AS "orders.shop",
+    "ORDERS"."AMOUNT" AS "REVENUE_ARG"
+  FROM "TIMED"."ORDERS" AS "ORDERS"
+),
+"ORDERS_CELLS" AS (
+  SELECT
+    "orders.month",
+    "orders.shop",
+    GROUPING("orders.month", "orders.shop") AS "GROUPING_ID",
+    sum("REVENUE_ARG") AS "REVENUE"
+  FROM "ORDERS_ROWS"
+  GROUP BY GROUPING SETS (("orders.month", "orders.shop"), ("orders.month"), ())
+),
+"LY_SHOPS_ORDERS_UNMOVED_ROWS" AS (
+  SELECT
+    (DATE_TRUNC('MONTH', "ORDERS"."DAY")) AS "orders.month",
+    "ORDERS"."AMOUNT" AS "LY_SHOPS_REVENUE_ARG_2"
+  FROM "TIMED"."ORDERS" AS "ORDERS"
+),
+"LY_SHOPS_ORDERS_UNMOVED_CELLS" AS (
+  SELECT
+    "orders.month",
+    GROUPING("orders.month") AS "GROUPING_ID",
+    sum("LY_SHOPS_REVENUE_ARG_2") AS "LY_SHOPS_REVENUE_CELL"
+  FROM "LY_SHOPS_ORDERS_UNMOVED_ROWS"
+  GROUP BY GROUPING SETS (("orders.month"), ())
+),
+"REV_LY_ORDERS_MOVED" AS (
+  SELECT "GROUPING_ID", DATEADD(month, 12, "orders.month") AS "orders.month", "orders.shop", sum("REVENUE") AS "REV_LY_REVENUE"
+  FROM "ORDERS_CELLS"
+  GROUP BY "GROUPING_ID", DATEADD(month, 12, "orders.month"), "orders.shop"
+),
+"REV_LM_ORDERS_MOVED" AS (
+  SELECT "GROUPING_ID", DATEADD(month, 1, "orders.month") AS "orders.month", "orders.shop", sum("REVENUE") AS "REV_LM_REVENUE"
+  FROM "ORDERS_CELLS"
+  GROUP BY "GROUPING_ID", DATEADD(month, 1, "orders.month"), "orders.shop"
+),
+"LY_SHOPS_ORDERS_MOVED" AS (
+  SELECT "GROUPING_ID", DATEADD(month, 12, "orders.month") AS "orders.month", sum("LY_SHOPS_REVENUE_CELL") AS "LY_SHOPS_REVENUE"
+  FROM "LY_SHOPS_ORDERS_UNMOVED_CELLS"
+  GROUP BY "GROUPING_ID", DATEADD(month, 12, "orders.month")
+)
+SELECT
+  "ORDERS_CELLS"."orders.month",
+  "ORDERS_CELLS"."orders.shop",
+  "ORDERS_CELLS"."REVENUE" AS "REVENUE",
+  "REV_LY_ORDERS_MOVED"."REV_LY_REVENUE" AS "REV_LY",
+  "REV_LM_ORDERS_MOVED"."REV_LM_REVENUE" AS "REV_LM",
+  "LY_SHOPS_ORDERS_MOVED"."LY_SHOPS_REVENUE" AS "LY_SHOPS",
+  "ORDERS_CELLS"."GROUPING_ID"
+FROM "ORDERS_CELLS"
+  LEFT JOIN "REV_LY_ORDERS_MOVED" ON "REV_LY_ORDERS_MOVED"."GROUPING_ID" = "ORDERS_CELLS"."GROUPING_ID"
+    AND "REV_LY_ORDERS_MOVED"."orders.month" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.month"
+    AND "REV_LY_ORDERS_MOVED"."orders.shop" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.shop"
+  LEFT JOIN "REV_LM_ORDERS_MOVED" ON "REV_LM_ORDERS_MOVED"."GROUPING_ID" = "ORDERS_CELLS"."GROUPING_ID"
+    AND "REV_LM_ORDERS_MOVED"."orders.month" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.month"
+    AND "REV_LM_ORDERS_MOVED"."orders.shop" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.shop"
+  LEFT JOIN "LY_SHOPS_ORDERS_MOVED" ON "LY_SHOPS_ORDERS_MOVED"."GROUPING_ID" = CASE "ORDERS_CELLS"."GROUPING_ID" WHEN 0 THEN 0 WHEN 1 THEN 0 WHEN 3 THEN 1 END
+    AND "LY_SHOPS_ORDERS_MOVED"."orders.month" IS NOT DISTINCT FROM "ORDERS_CELLS"."orders.month"
+ORDER BY BITAND("ORDERS_CELLS"."GROUPING_ID", 2), "ORDERS_CELLS"."orders.month" ASC NULLS LAST, BITAND("ORDERS_CELLS"."GROUPING_ID", 1), "ORDERS_CELLS"."orders.shop" ASC NULLS LAST;
