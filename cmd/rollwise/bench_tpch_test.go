@@ -274,9 +274,10 @@ func BenchmarkTPCH(b *testing.B) {
 
 // BenchmarkTimeEdits times the plan rollwise makes for last year's order
 // value and the year to date (queries.json's derived check orders_ly_ytd:
-// the moved rows read again, and each cell's range read again) against the
-// window query written by hand from the TPC-H schema, which computes both
-// from the month cells alone (a join on the shifted month, a running sum).
+// the month cells shifted a year, and a window over the month cells; see
+// planner/plan/plan_timecells.go) against the window query written by
+// hand from the TPC-H schema, which computes both from the month cells
+// alone (a join on the shifted month, a running sum).
 func BenchmarkTimeEdits(b *testing.B) {
 	d := sharedBenchData(b)
 	b.Logf("TPC-H scale factor %v", d.sf)
