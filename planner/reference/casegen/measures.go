@@ -51,17 +51,22 @@ func (g *gen) drawMeasures() {
 		g.addMeasure(g.expr(g.intn(1, 3)))
 	}
 	if f := g.anyFact(); g.chance(25) {
-		// A running total or period to date on a fact's own date, the
-		// edit alone: time reports over it (drawQuery) are what the SQL
-		// path computes over the report's cells.
+		// A running total, period to date or back on a fact's own date,
+		// the edit alone: time reports over it (drawQuery) are what the
+		// SQL path computes over the report's cells.
 		if dates := g.dateCols(f.cols); len(dates) > 0 {
 			// sum, min or max: aggregates that decompose over cells.
 			fn := []string{"sum", "sum", "min", "max"}[g.pick(4)]
 			arg, exact, factors := g.rowNumber(f, fn != "sum")
 			a := mx{kind: "num", text: fn + "(" + arg + ")", exact: exact, factors: factors, tables: []*table{f}}
-			edit := g.col(dates).ref() + " running"
-			if g.chance(60) {
-				edit = g.col(dates).ref() + " to date " + []string{"day", "week", "month", "quarter", "year"}[g.pick(5)]
+			units := []string{"day", "week", "month", "quarter", "year"}
+			d := g.col(dates).ref()
+			edit := d + " running"
+			switch k := g.pick(10); {
+			case k < 4:
+				edit = d + " to date " + units[g.pick(5)]
+			case k < 7:
+				edit = fmt.Sprintf("%s back %d %s", d, g.intn(1, 13), units[g.pick(5)])
 			}
 			a.text, a.advanced = "("+a.text+")["+edit+"]", true
 			g.addMeasure(a)

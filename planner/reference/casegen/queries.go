@@ -67,8 +67,9 @@ func (g *gen) drawQuery() (Query, bool) {
 	q.Totals = []string{"none", "grand", "rollup", "all"}[g.pick(4)]
 	if d := g.windowDate(chosen); d != nil && slices.Contains(cols, d) && g.chance(60) {
 		// A time report: grouped by the month (or the day) of a window
-		// edit's date, no total rows, now and then a second group: the
-		// shape the SQL path computes over the report's cells.
+		// edit's or a back's date, no total rows, now and then a second
+		// group: the shape the SQL path computes over the report's cells
+		// (a back also with total rows).
 		q.By = []string{d.ref()}
 		if m := d.t.col("month"); m != nil && g.chance(60) {
 			q.By[0] = m.ref()
@@ -78,7 +79,9 @@ func (g *gen) drawQuery() (Query, bool) {
 				q.By = append(q.By, c.ref())
 			}
 		}
-		q.Totals = "none"
+		if g.chance(70) {
+			q.Totals = "none"
+		}
 	}
 	if g.chance(30) {
 		// One to three keys among the exact measures and the groups.
@@ -107,8 +110,9 @@ func (g *gen) drawQuery() (Query, bool) {
 	return q, true
 }
 
-// windowDate is a date column that a window edit (running, to date) of
-// the chosen measures, or of the measures they read, moves; nil if none.
+// windowDate is a date column that a window edit (running, to date) or
+// a back of the chosen measures, or of the measures they read, moves;
+// nil if none.
 func (g *gen) windowDate(chosen []*measure) *column {
 	var text strings.Builder
 	seen := map[*measure]bool{}
@@ -130,7 +134,8 @@ func (g *gen) windowDate(chosen []*measure) *column {
 	}
 	for _, t := range g.tables {
 		for _, d := range g.dateCols(t.cols) {
-			if strings.Contains(text.String(), d.ref()+" running") || strings.Contains(text.String(), d.ref()+" to date") {
+			if strings.Contains(text.String(), d.ref()+" running") || strings.Contains(text.String(), d.ref()+" to date") ||
+				strings.Contains(text.String(), d.ref()+" back ") {
 				return d
 			}
 		}
