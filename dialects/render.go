@@ -436,7 +436,12 @@ func (r *renderer) scanRows(rel *plan.Rel) (string, func(string) string, error) 
 	for _, l := range s.Joins {
 		var conds []string
 		for i := range l.FromCols {
-			conds = append(conds, r.q(l.From.Name)+"."+r.q(l.FromCols[i].Name)+" = "+r.q(l.To.Name)+"."+r.q(l.ToCols[i].Name))
+			from := r.q(l.From.Name) + "." + r.q(l.FromCols[i].Name)
+			if m, moved := r.p.Moves[l]; moved {
+				// a copy of a calendar, joined on the moved date (back)
+				from = r.moveBy(from, m.N, m.Unit, l.FromCols[i].Type)
+			}
+			conds = append(conds, from+" = "+r.q(l.To.Name)+"."+r.q(l.ToCols[i].Name))
 		}
 		join := "LEFT JOIN"
 		if s.Inner[l] {

@@ -32,6 +32,15 @@ type Plan struct {
 	Scans []*Scan
 	// Cautions are things the reader of the numbers should know.
 	Cautions []string
+	// Moves are the links to copies of a calendar that `back` joins on a
+	// moved date: To's key equals From's column moved forward.
+	Moves map[*model.Link]Move
+}
+
+// Move is a date moved forward N Units.
+type Move struct {
+	N    int
+	Unit string
 }
 
 // SortKey is a key of the report's order: an output (a measure), or,

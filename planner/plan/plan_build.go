@@ -36,6 +36,8 @@ type planner struct {
 	// cellOrders maps a window edit's range relation to the time key it
 	// may be computed over as a window over the base's cells, or -1.
 	cellOrders map[*Rel]int
+	// movedTables are the copies of calendars `back` joins, by name.
+	movedTables map[string]*model.Table
 	// computed holds each measure's value compiled in a cell of a context
 	// (see measureValue); iterTables the iteration tables found per measure.
 	computed   map[string]model.Expr
@@ -46,7 +48,7 @@ type planner struct {
 // aggregates, each computed in the (possibly edited) cell of its measure
 // by a scan of its iteration table, or by a per-grain sub-context.
 func NewPlan(q *model.Query) (*Plan, grammar.Diagnostics) {
-	pl := &planner{q: q, p: &Plan{Query: q}, taken: map[string]bool{}, rels: map[string]*Rel{},
+	pl := &planner{q: q, p: &Plan{Query: q, Moves: map[*model.Link]Move{}}, movedTables: map[string]*model.Table{}, taken: map[string]bool{}, rels: map[string]*Rel{},
 		values: map[string]*ValueRef{}, inputs: map[*Scan]map[string]*Input{}, texts: map[model.Expr]string{},
 		distinct: map[*PerLeaf]distinctOrigin{}, timeEnds: map[*Rel]bool{}, cellOrders: map[*Rel]int{},
 		computed: map[string]model.Expr{}, iterTables: map[*model.Measure][]*model.Table{}}

@@ -49,9 +49,21 @@ func (pl *planner) measuresOf(s *Scan) string {
 	return strings.Join(names, ", ")
 }
 
+// reach is model.Reach(t) and the copies of calendars `back` joins (see
+// movedColumn): one is reached through its link from a table t reaches.
+func (pl *planner) reach(t *model.Table) map[*model.Table][]*model.Link {
+	reach := model.Reach(t)
+	for l := range pl.p.Moves {
+		if path, ok := reach[l.From]; ok {
+			reach[l.To] = append(slices.Clone(path), l)
+		}
+	}
+	return reach
+}
+
 // checkReach reports keys and filters the scan's table cannot reach.
 func (pl *planner) checkReach(s *Scan) {
-	reach := model.Reach(s.Table)
+	reach := pl.reach(s.Table)
 	for _, k := range s.Keys {
 		if _, ok := reach[k.Col.Table]; !ok {
 			what := "group by " + k.Name
@@ -90,7 +102,7 @@ func (pl *planner) checkReach(s *Scan) {
 
 // joins lists the links the scan follows, nearest first.
 func (pl *planner) joins(s *Scan) {
-	reach := model.Reach(s.Table)
+	reach := pl.reach(s.Table)
 	need := map[*model.Table]bool{}
 	var exprs []model.Expr
 	exprs = append(exprs, s.Where...)
@@ -107,6 +119,10 @@ func (pl *planner) joins(s *Scan) {
 		for _, c := range model.Columns(e) {
 			need[c.Table] = true
 		}
+	}
+	for l := range pl.p.Moves {
+		// the join of a calendar's copy reads the moved date
+		need[l.From] = need[l.From] || need[l.To]
 	}
 	var links []*model.Link
 	for t := range need {

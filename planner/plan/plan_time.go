@@ -16,7 +16,10 @@ import (
 //   - `m[D back N UNIT]` moves the cell's time-bound constraints: a
 //     time-bound key groups the rows by its expression over D moved
 //     forward N units (Key.Expr), a time-bound filter reads D moved
-//     forward. Nothing else changes, so the scans are the usual ones.
+//     forward, a stored column of D's calendar is read from a copy of the
+//     calendar joined on the moved D (Plan.Moves). Nothing else changes,
+//     so the scans are the usual ones (or shifts of cells, see
+//     plan_timecells.go).
 //   - the window edits (to date, running, last) read the rows again for
 //     every cell: a scan whose cells are the context's, each aggregating
 //     the rows whose D lies in the range its E sets (TimeRange).
@@ -69,27 +72,75 @@ func allBound(e model.Expr, d *model.Column) bool {
 }
 
 // moveTime substitutes, in a row expression over time-bound columns, d
-// moved forward by ed's count and unit for d (derived columns are read
-// through). A column of a calendar other than d's own table cannot be
-// moved by an expression: ok is false.
-func moveTime(e model.Expr, ed *model.CellEdit) (out model.Expr, ok bool) {
-	ok = true
-	out = substitute(e, func(r *model.ColRef) model.Expr {
+// moved forward by ed's count and unit for d (derived columns computed
+// from d alone are read through); a stored column of d's calendar reads
+// the calendar's row of the moved date (see movedColumn), and a derived
+// one is its formula over that row, NULL where the moved date finds none.
+func (pl *planner) moveTime(e model.Expr, ed *model.CellEdit) model.Expr {
+	return substitute(e, func(r *model.ColRef) model.Expr {
 		switch {
 		case r.Col == ed.Col:
 			return &model.Func{Pos: ed.Pos, Name: movedFunc, Unit: ed.Unit, T: r.Col.Type,
 				Args: []model.Expr{r, &model.Lit{Pos: ed.Pos, T: model.TypeInteger, Text: fmt.Sprint(ed.N)}}}
 		case !timeBound(ed.Col, r.Col):
 			return r
-		case r.Col.Table != ed.Col.Table || r.Col.Derived == nil:
-			ok = false
-			return r
+		case r.Col.Derived == nil:
+			return &model.ColRef{Pos: r.Pos, Col: pl.movedColumn(r.Col, ed)}
 		}
-		x, fine := moveTime(r.Col.Derived, ed)
-		ok = ok && fine
-		return x
+		x := pl.moveTime(r.Col.Derived, ed)
+		if r.Col.Table == ed.Col.Table && allBound(r.Col.Derived, ed.Col) && !mentions(r.Col.Derived, func(c *model.Column) bool { return c != ed.Col && c.Derived == nil }) {
+			return x
+		}
+		key := pl.movedColumn(calendarKey(ed.Col), ed)
+		return &model.CaseExpr{Pos: r.Pos, T: r.Col.Type, Whens: []model.WhenArm{{
+			Cond: &model.IsNullExpr{Pos: r.Pos, X: &model.ColRef{Pos: r.Pos, Col: key}, Not: true}, Then: x}}}
 	})
-	return out, ok
+}
+
+// calendarKey is the key column of d's calendar: d itself when d is its
+// table's key, else the column d's link reaches.
+func calendarKey(d *model.Column) *model.Column {
+	for _, l := range d.Table.Links {
+		if len(l.FromCols) == 1 && l.FromCols[0] == d {
+			return l.ToCols[0]
+		}
+	}
+	return d
+}
+
+// movedColumn is col, a stored column of d's calendar (d = ed.Col), read
+// on the calendar's row of d moved forward by ed: the column of a copy of
+// the calendar joined on its key = d moved (Plan.Moves), one copy per
+// calendar and move.
+func (pl *planner) movedColumn(col *model.Column, ed *model.CellEdit) *model.Column {
+	cal := col.Table
+	name := fmt.Sprintf("%s moved %d %s", cal.Name, ed.N, ed.Unit)
+	m := pl.movedTables[name]
+	if m == nil {
+		m = &model.Table{Name: name, Relation: cal.Relation, File: cal.File, NullTexts: cal.NullTexts, Pos: cal.Pos}
+		for _, c := range cal.Columns {
+			if c.Derived == nil {
+				copied := *c
+				copied.Table = m
+				m.Columns = append(m.Columns, &copied)
+			}
+		}
+		pl.movedTables[name] = m
+		l := &model.Link{From: ed.Col.Table, FromCols: []*model.Column{ed.Col}, To: m,
+			ToCols: []*model.Column{movedCopy(m, calendarKey(ed.Col))}, Pos: ed.Pos}
+		pl.p.Moves[l] = Move{N: ed.N, Unit: ed.Unit}
+	}
+	return movedCopy(m, col)
+}
+
+// movedCopy is the copy in m of the calendar's column c.
+func movedCopy(m *model.Table, c *model.Column) *model.Column {
+	for _, x := range m.Columns {
+		if x.Name == c.Name {
+			return x
+		}
+	}
+	return nil
 }
 
 // substitute copies a row expression with every column reference replaced
@@ -138,12 +189,6 @@ func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
 	for i, e := range c.moved {
 		out.moved[i] = e
 	}
-	refuse := func(col *model.Column) (cell, bool) {
-		d := pl.diags.Errorf(ed.Pos, "not-supported", "%s back moves %s, a column of the calendar %s: moving through a calendar table is not planned into SQL yet",
-			ed.Col, col, col.Table.Name)
-		d.Suggestion = "group and filter by the fact's own date or by derived columns computed from it (for example month = date_trunc(month, day))"
-		return c, false
-	}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
 		if c.removed&bit(i, n) != 0 || !timeBound(ed.Col, k.Col) {
@@ -153,19 +198,11 @@ func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
 		if e, ok := c.moved[i]; ok {
 			from = e
 		}
-		e, ok := moveTime(from, ed)
-		if !ok {
-			return refuse(k.Col)
-		}
-		out.moved[i] = e
+		out.moved[i] = pl.moveTime(from, ed)
 	}
 	for _, f := range c.filters {
 		if allBound(f.e, ed.Col) {
-			e, ok := moveTime(f.e, ed)
-			if !ok {
-				return refuse(model.Columns(f.e)[0])
-			}
-			f = cellFilter{e: e, rows: f.rows}
+			f = cellFilter{e: pl.moveTime(f.e, ed), rows: f.rows}
 		}
 		out.filters = append(out.filters, f)
 	}

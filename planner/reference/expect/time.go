@@ -174,7 +174,6 @@ var timeCases = []Case{
 			{"days.mon": nil, "revenue": "6", "cal_close": "3", "rolled_up": total("days.mon")},
 		}},
 	{Models: timeModel, Name: "calendar months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.mon", Where: "days.yr = 2026", Totals: "grand",
-		NotInSQL: "moving through a calendar table is not planned into SQL yet",
 		Rows: []Row{
 			// 2025-01-31 moves to the calendar's 2026-01-31 (month 2026-01).
 			{"days.mon": "2026-01", "revenue": "1", "cal_ly": "10"},
@@ -182,6 +181,19 @@ var timeCases = []Case{
 			// 2025-03-15 and 2025-03-31 move to 2026-03-15 and 2026-03-31.
 			{"days.mon": "2026-03", "revenue": "3", "cal_ly": "37"},
 			{"days.mon": nil, "revenue": "6", "cal_ly": "67", "rolled_up": total("days.mon")},
+		}},
+	{Models: timeModel, Name: "calendar months of 2026, the order's own day moved", Measures: "revenue,rev_ly,rev_lm", By: "days.mon", Where: "days.yr = 2026", Totals: "grand",
+		Rows: []Row{
+			// A column of the calendar the day links to is read on the
+			// calendar's row of the moved day: 2025-01-31 plus a year is
+			// the calendar's 2026-01-31 (month 2026-01).
+			// A month back: 2026-01-15 moves to 2026-02-15, 2026-02-28 to
+			// 2026-03-28, neither a day of the calendar: no month, no row.
+			{"days.mon": "2026-01", "revenue": "1", "rev_ly": "10", "rev_lm": nil},
+			{"days.mon": "2026-02", "revenue": "2", "rev_ly": "20", "rev_lm": nil},
+			{"days.mon": "2026-03", "revenue": "3", "rev_ly": "37", "rev_lm": nil},
+			// The year filter moves too: 2025's days land in 2026.
+			{"days.mon": nil, "revenue": "6", "rev_ly": "67", "rev_lm": nil, "rolled_up": total("days.mon")},
 		}},
 	{Models: timeModel, Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand",
 		Rows: []Row{
