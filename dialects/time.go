@@ -50,10 +50,20 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		cols = append(cols, key+"."+r.q(k.Name))
 	}
 	from := key
-	e := key + "." + r.q(tr.E.Column)
-	if name := r.cte[tr.E.Rel]; name != r.keyRel[ctx] {
-		from += "\n  LEFT JOIN " + r.q(name) + " ON " + r.joinOn(ctx, key, tr.E.Rel)
-		e = r.q(name) + "." + r.q(tr.E.Column)
+	joined := map[*plan.Rel]bool{}
+	model.Walk(tr.E, func(x model.Expr) bool {
+		if v, ok := x.(*plan.ValueRef); ok && !joined[v.Rel] && r.cte[v.Rel] != r.keyRel[ctx] {
+			joined[v.Rel] = true
+			from += "\n  LEFT JOIN " + r.q(r.cte[v.Rel]) + " ON " + r.joinOn(ctx, key, v.Rel)
+		}
+		return true
+	})
+	outer := r.ctx
+	r.ctx = ctx // the context's rows are not joined yet: every value qualified
+	e, err := r.expr(tr.E)
+	r.ctx = outer
+	if err != nil {
+		return err
 	}
 	cols = append(cols, e+" AS "+r.q(rel.Name+"_end"))
 	r.addCTE(ends, "  SELECT "+strings.Join(cols, ", ")+"\n  FROM "+from)
@@ -64,9 +74,9 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 	conds := []string{at + " <= " + end}
 	switch tr.Kind {
 	case model.EditToDate:
-		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.T))
+		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.Type()))
 	case model.EditLast:
-		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.T))
+		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.Type()))
 	}
 	n := len(ctx.Keys)
 	for j, i := range tr.Match {

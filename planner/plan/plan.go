@@ -142,7 +142,7 @@ type TimeWindow struct {
 	Unit string
 	// Order is the index of the context's time key.
 	Order int
-	E     *ValueRef
+	E     model.Expr
 }
 
 // WindowPart is one window column: Func over the base's column Source.
@@ -181,9 +181,10 @@ type TimeRange struct {
 	Kind model.EditKind
 	N    int
 	Unit string
-	// D is the date read on each row; E is the cell's latest D.
+	// D is the date read on each row; E is the cell's latest D, a value
+	// (or the greatest of values) of the context.
 	D *Input
-	E *ValueRef
+	E model.Expr
 	// Match lists, for each of the scan's Keys, its index among the
 	// context's keys.
 	Match []int
@@ -306,7 +307,7 @@ type cell struct {
 // E, as a value of the context.
 type windowEdit struct {
 	ed *model.CellEdit
-	e  *ValueRef
+	e  model.Expr
 	// order is the index of the time key whose cells the edit may be
 	// computed over (see cellOrder), or -1.
 	order int

@@ -295,7 +295,7 @@ func (pl *planner) measureValue(ctx *Context, m *model.Measure, c cell) model.Ex
 		}
 	}
 	if c.window != nil {
-		key += fmt.Sprintf("|window %p %p %s", c.window.ed, c.window.e.Rel, c.window.e.Column)
+		key += fmt.Sprintf("|window %p %s", c.window.ed, endKey(c.window.e))
 	}
 	if x, ok := pl.computed[key]; ok {
 		return x

@@ -261,32 +261,44 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 
 // windowEdit compiles X under a window edit (to date, running, last) and
 // the edits after it: the cell's E is the latest D among its rows of X's
-// iteration table; the edited cell drops the time-bound keys and filters,
+// iteration tables; the edited cell drops the time-bound keys and filters,
 // and its aggregates read the rows whose D lies in the range E sets
 // (see TimeRange).
 func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
 	refuse := func(what string) (model.Expr, bool) {
 		pl.diags.Errorf(ed.Pos, "not-supported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
-			"the reference evaluator (rollwise verify) computes it; write the window edit on a measure of one fact table, as the outermost time edit"
+			"the reference evaluator (rollwise verify) computes it; write the window edit as the outermost time edit"
 		return nil, false
 	}
 	tables := pl.iterationTables(e.X)
-	switch {
-	case len(tables) != 1:
-		return refuse("over measures of several tables")
-	case len(c.moved) > 0 || c.window != nil:
+	if len(c.moved) > 0 || c.window != nil {
 		return refuse("after another time edit")
 	}
 	if slices.ContainsFunc(e.Edits[i+1:], func(r *model.CellEdit) bool { return r.Kind.Time() }) {
 		return refuse("before another time edit")
 	}
-	end := &model.Agg{Pos: ed.Pos, Func: "max", Arg: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, Table: tables[0], T: ed.Col.Type}
-	ev, ok := pl.leaf(ctx, end, c).(*ValueRef)
-	if !ok {
-		return nil, false
+	// E over several iteration tables is the latest of each one's latest
+	// D (greatest skips NULLs).
+	var ends []model.Expr
+	for _, t := range tables {
+		end := &model.Agg{Pos: ed.Pos, Func: "max", Arg: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, Table: t, T: ed.Col.Type}
+		ev, ok := pl.leaf(ctx, end, c).(*ValueRef)
+		if !ok {
+			return nil, false
+		}
+		pl.timeEnds[ev.Rel] = true
+		ends = append(ends, ev)
 	}
-	pl.timeEnds[ev.Rel] = true
+	var ev model.Expr
+	switch len(ends) {
+	case 0:
+		return refuse("over a measure that reads no table")
+	case 1:
+		ev = ends[0]
+	default:
+		ev = &model.Func{Pos: ed.Pos, Name: "greatest", Args: ends, T: ed.Col.Type}
+	}
 	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev, order: -1}}
 	if len(e.Edits[i+1:]) == 0 {
 		out.window.order = cellOrder(ctx, c, ed)
@@ -352,7 +364,7 @@ func nullOverNoRows(e model.Expr, seen map[*model.Measure]bool) bool {
 func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase string) *Rel {
 	w := c.window
 	where := rowFilters(c.filters)
-	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), w.e.Rel.Name+"."+w.e.Column)
+	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), endKey(w.e))
 	if r, ok := pl.rels[key]; ok {
 		if pl.cellOrders[r] != w.order {
 			pl.cellOrders[r] = -1
@@ -382,4 +394,16 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 	ctx.Rels = append(ctx.Rels, r)
 	pl.p.Scans = append(pl.p.Scans, s)
 	return r
+}
+
+// endKey is a text for a window edit's E: the relation columns it reads.
+func endKey(e model.Expr) string {
+	var t []string
+	model.Walk(e, func(x model.Expr) bool {
+		if v, ok := x.(*ValueRef); ok {
+			t = append(t, v.Rel.Name+"."+v.Column)
+		}
+		return true
+	})
+	return strings.Join(t, ",")
 }

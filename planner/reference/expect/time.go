@@ -195,6 +195,20 @@ var timeCases = []Case{
 			// The year filter moves too: 2025's days land in 2026.
 			{"days.mon": nil, "revenue": "6", "rev_ly": "67", "rev_lm": nil, "rolled_up": total("days.mon")},
 		}},
+	{Models: timeModel, Name: "a window edit over two iteration tables", Measures: "revenue,two_run", By: "days.mon", Where: "days.yr = 2026", Totals: "grand",
+		Rows: []Row{
+			// E is the latest day among the cell's rows of both tables:
+			// January's calendar days end on the 31st (its order is on
+			// the 15th). Orders up to then: 100 + 10 + 20 + 7 + 30 + 1;
+			// calendar days up to then: 7. The year filter is replaced.
+			{"days.mon": "2026-01", "revenue": "1", "two_run": "175"},
+			// up to 2026-02-28: 170 and 8 days
+			{"days.mon": "2026-02", "revenue": "2", "two_run": "178"},
+			// E = 2026-03-31, the calendar's (the order is on the 1st):
+			// all 173 and all 11 days (9 if E were the orders' own).
+			{"days.mon": "2026-03", "revenue": "3", "two_run": "184"},
+			{"days.mon": nil, "revenue": "6", "two_run": "184", "rolled_up": total("days.mon")},
+		}},
 	{Models: timeModel, Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand",
 		Rows: []Row{
 			// Derived calendar columns computed from the key alone move by their formula.
