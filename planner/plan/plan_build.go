@@ -376,7 +376,8 @@ func (pl *planner) base(ctx *Context, t *model.Table) {
 
 // leaf finds or adds the scan leaf computing a in cell c.
 func (pl *planner) leaf(ctx *Context, a *model.Agg, c cell) model.Expr {
-	if pa := distinctAsPer(a); pa != nil {
+	if pa := distinctAsPer(a); pa != nil && c.window == nil {
+		// (under a window edit, a DISTINCT aggregate of the range scan)
 		return pl.distinctPer(ctx, a, pa, c)
 	}
 	nameBase := a.Table.Name
@@ -448,7 +449,7 @@ func (pl *planner) input(s *Scan, name string, e model.Expr) *Input {
 // leaf's name and of a new sub-context's.
 func (pl *planner) per(ctx *Context, pa *model.PerAgg, c cell, name string) model.Expr {
 	if c.window != nil {
-		pl.diags.Errorf(pa.Pos, "not-supported", "a per-grain aggregate (or a distinct count) under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
+		pl.diags.Errorf(pa.Pos, "not-supported", "a per-grain aggregate under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
 			"write the time edit inside the per-grain aggregate, around its measure"
 		return nil
 	}

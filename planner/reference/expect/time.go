@@ -209,6 +209,21 @@ var timeCases = []Case{
 			{"days.mon": "2026-03", "revenue": "3", "two_run": "184"},
 			{"days.mon": nil, "revenue": "6", "two_run": "184", "rolled_up": total("days.mon")},
 		}},
+	{Models: timeModel, Name: "distinct counts under window edits", Measures: "shops_run,shops_ytd", By: "orders.month", Totals: "grand",
+		Rows: []Row{
+			// the shops seen up to E (running), and since January 1st of
+			// E's year (to date): a until b's first order in March 2025.
+			{"orders.month": "2024-02-01", "shops_run": 1, "shops_ytd": 1},
+			{"orders.month": "2025-01-01", "shops_run": 1, "shops_ytd": 1},
+			{"orders.month": "2025-02-01", "shops_run": 1, "shops_ytd": 1},
+			{"orders.month": "2025-03-01", "shops_run": 2, "shops_ytd": 2},
+			// 2026 starts with a alone; b orders on February 28th.
+			{"orders.month": "2026-01-01", "shops_run": 2, "shops_ytd": 1},
+			{"orders.month": "2026-02-01", "shops_run": 2, "shops_ytd": 2},
+			{"orders.month": "2026-03-01", "shops_run": 2, "shops_ytd": 2},
+			// E = 2026-03-01: both shops, both in 2026.
+			{"orders.month": nil, "shops_run": 2, "shops_ytd": 2, "rolled_up": total("orders.month")},
+		}},
 	{Models: timeModel, Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand",
 		Rows: []Row{
 			// Derived calendar columns computed from the key alone move by their formula.
