@@ -8,7 +8,6 @@ import (
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/explain"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
-	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
 )
@@ -126,18 +125,7 @@ func explainData(ctx context.Context, m *model.Model, q *model.Query, o *explain
 		return nil, err
 	}
 	defer eng.Close()
-	query := func(ctx context.Context, sql string, want []model.Type) ([][]any, error) {
-		res, err := eng.Query(ctx, sql, want)
-		if err != nil {
-			return nil, err
-		}
-		return res.Rows, nil
-	}
-	d, err := dialects.Get(eng.Dialect())
-	if err != nil {
-		return nil, failure.New(failure.Internal, err)
-	}
-	data, err := explain.Load(ctx, m, tables, d, query)
+	data, err := explain.Load(ctx, m, tables, eng)
 	if err != nil {
 		if _, ok := failure.KindOf(err); ok {
 			return nil, err

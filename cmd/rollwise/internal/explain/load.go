@@ -3,9 +3,9 @@ package explain
 import (
 	"context"
 	"fmt"
-	"slices"
 	"strings"
 
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/engine"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
@@ -62,14 +62,13 @@ func Tables(m *model.Model, q *model.Query) []*model.Table {
 	return out
 }
 
-// Query runs one statement on an engine and returns its rows, each value
-// normalised as engine.Result promises; want gives the logical type of
-// each column.
-type Query func(ctx context.Context, sql string, want []model.Type) ([][]any, error)
-
-// Load reads the stored columns of each table through query, in SQL of
-// dialect d, and holds them for the reference evaluator.
-func Load(ctx context.Context, m *model.Model, tables []*model.Table, d *dialects.Dialect, query Query) (*reference.Data, error) {
+// Load reads the stored columns of each table from the engine, in SQL of
+// its dialect, and holds them for the reference evaluator.
+func Load(ctx context.Context, m *model.Model, tables []*model.Table, eng engine.Engine) (*reference.Data, error) {
+	d, err := dialects.Get(eng.Dialect())
+	if err != nil {
+		return nil, err
+	}
 	rows := map[*model.Table][][]any{}
 	for _, t := range tables {
 		var cols []string
@@ -87,11 +86,11 @@ func Load(ctx context.Context, m *model.Model, tables []*model.Table, d *dialect
 		for _, part := range t.Relation {
 			rel = append(rel, d.Ident(part))
 		}
-		got, err := query(ctx, "SELECT "+strings.Join(cols, ", ")+" FROM "+strings.Join(rel, "."), types)
+		got, err := eng.Query(ctx, "SELECT "+strings.Join(cols, ", ")+" FROM "+strings.Join(rel, "."), types)
 		if err != nil {
 			return nil, fmt.Errorf("reading the rows of %s: %w", t.Name, err)
 		}
-		rows[t] = slices.Clip(got)
+		rows[t] = got.Rows
 	}
 	return reference.FromRows(m, rows)
 }
