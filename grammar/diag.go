@@ -61,6 +61,10 @@ type Diagnostic struct {
 	Notes []string
 	// Suggestion says what to write instead, when there is something to say.
 	Suggestion string
+	// More is set only on the last diagnostic of a list that reached
+	// MaxKept (code "too-many"): how many more were found and not kept.
+	// Print and Error count them; Print does not print this one.
+	More int
 }
 
 func (d *Diagnostic) Error() string {
@@ -71,25 +75,80 @@ func (d *Diagnostic) Error() string {
 // of go/scanner.ErrorList.
 type Diagnostics []*Diagnostic
 
-// Add appends a diagnostic.
-func (l *Diagnostics) Add(d *Diagnostic) { *l = append(*l, d) }
+// MaxKept is the most diagnostics a list keeps (ten times what Print
+// shows, so that after sorting and removing repeats there are still
+// enough to show): past it, a last diagnostic (code "too-many") only
+// counts the others in its More, so that a model with millions of errors
+// costs no more memory, and no more formatting, than one with MaxKept.
+const MaxKept = 10 * MaxPrinted
+
+// Add appends a diagnostic, or counts it once the list holds MaxKept.
+func (l *Diagnostics) Add(d *Diagnostic) {
+	if !l.count(d.Pos, d.Severity) {
+		*l = append(*l, d)
+	}
+}
+
+// count counts a diagnostic of severity sev at pos in the list's last
+// entry, if the list is full, and says whether it did.
+func (l *Diagnostics) count(pos Pos, sev Severity) bool {
+	if len(*l) < MaxKept {
+		return false
+	}
+	if len(*l) == MaxKept {
+		*l = append(*l, &Diagnostic{Pos: pos, Severity: Warning, Code: "too-many",
+			Message: fmt.Sprintf("more than %d diagnostics; the rest are counted, not kept", MaxKept)})
+	}
+	last := (*l)[len(*l)-1]
+	last.More++
+	if sev == Error {
+		last.Severity = Error
+	}
+	return true
+}
 
 // Errorf appends an error with a code at pos.
 func (l *Diagnostics) Errorf(pos Pos, code, format string, args ...any) *Diagnostic {
-	d := &Diagnostic{Pos: pos, Severity: Error, Code: code, Message: fmt.Sprintf(format, args...)}
-	l.Add(d)
-	return d
+	return l.newf(pos, Error, code, format, args)
 }
 
 // Warnf appends a warning with a code at pos.
 func (l *Diagnostics) Warnf(pos Pos, code, format string, args ...any) *Diagnostic {
-	d := &Diagnostic{Pos: pos, Severity: Warning, Code: code, Message: fmt.Sprintf(format, args...)}
-	l.Add(d)
+	return l.newf(pos, Warning, code, format, args)
+}
+
+// newf appends a diagnostic, or, once the list is full, counts it and
+// returns one that is not kept, without formatting its message.
+func (l *Diagnostics) newf(pos Pos, sev Severity, code, format string, args []any) *Diagnostic {
+	if l.count(pos, sev) {
+		return &Diagnostic{Pos: pos, Severity: sev, Code: code}
+	}
+	d := &Diagnostic{Pos: pos, Severity: sev, Code: code, Message: fmt.Sprintf(format, args...)}
+	*l = append(*l, d)
 	return d
 }
 
-// Append adds every diagnostic of other.
-func (l *Diagnostics) Append(other Diagnostics) { *l = append(*l, other...) }
+// Append adds every diagnostic of other (the counted ones too).
+func (l *Diagnostics) Append(other Diagnostics) {
+	for _, d := range other {
+		if d.More == 0 {
+			l.Add(d)
+			continue
+		}
+		for range d.More {
+			l.count(d.Pos, d.Severity)
+		}
+	}
+}
+
+// NotKept is how many diagnostics were counted and not kept.
+func (l Diagnostics) NotKept() int {
+	n := 0
+	for _, d := range l {
+		n += d.More
+	}
+	return n
+}
 
 // Sort orders the list by file, line and column, keeping the order of
 // diagnostics at the same place.
@@ -137,13 +196,17 @@ func (l Diagnostics) Err() error {
 
 // Error renders the first error and how many more there are.
 func (l Diagnostics) Error() string {
-	switch len(l) {
+	more := l.NotKept()
+	if more > 0 {
+		more-- // the entry that counts them
+	}
+	switch len(l) + more {
 	case 0:
 		return "no errors"
 	case 1:
 		return l[0].Error()
 	}
-	return fmt.Sprintf("%s (and %d more errors)", l[0].Error(), len(l)-1)
+	return fmt.Sprintf("%s (and %d more errors)", l[0].Error(), len(l)+more-1)
 }
 
 // Sources maps a file name to its text, so that messages can quote the line
@@ -163,6 +226,10 @@ func (l Diagnostics) Print(w io.Writer, src Sources, color bool) {
 	seen := map[string]bool{}
 	shown, omitted := 0, 0
 	for _, d := range l {
+		if d.More > 0 {
+			omitted += d.More
+			continue
+		}
 		if key := d.Error(); seen[key] {
 			continue // the same message at the same place, found twice
 		} else {

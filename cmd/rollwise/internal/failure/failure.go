@@ -103,14 +103,20 @@ func diagnosticsKind(d grammar.Diagnostics) Kind {
 }
 
 // CountErrors counts the errors as Print shows them: the same message at
-// the same place, found twice, once ("1 error", "3 errors").
+// the same place, found twice, once ("1 error", "3 errors"), and those
+// counted and not kept past grammar.MaxKept.
 func CountErrors(d grammar.Diagnostics) string {
 	seen := map[string]bool{}
+	more := 0
 	for _, x := range d.Errors() {
+		if x.More > 0 {
+			more += x.More
+			continue
+		}
 		seen[x.Error()] = true
 	}
-	if len(seen) == 1 {
+	if len(seen)+more == 1 {
 		return "1 error"
 	}
-	return fmt.Sprintf("%d errors", len(seen))
+	return fmt.Sprintf("%d errors", len(seen)+more)
 }
