@@ -36,8 +36,8 @@ total without it), the row constraints it is evaluated under and its value
 there. The values are computed by the reference evaluator from the rows
 the measure reads, loaded from the embedded DuckDB (or --dsn), and match
 what run prints for the same cell.`,
-		Example: `  rollwise explain garden.roll -m margin_rate -b stores.region --cell "stores.region='North'"
-  rollwise explain garden.roll -m revenue_ly --cell sales.sold_month=2026-03-01 --format json`,
+		Example: `  rollwise explain garden.roll -m margin_rate -b districts.region --cell "districts.region='North'"
+  rollwise explain garden.roll -m growth --cell calendar.month_start=2026-03-01 --format json`,
 		RunE: func(cmd *cobra.Command, args []string) error {
 			if err := modelArgs(args); err != nil {
 				return err
