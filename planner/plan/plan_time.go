@@ -272,7 +272,10 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 		return nil, false
 	}
 	tables := pl.iterationTables(e.X)
-	if len(c.moved) > 0 || c.window != nil {
+	// After back, E is the latest D of the moved cell's rows and the
+	// range replaces the moved constraints (they are time-bound), but
+	// a calendar's copy (movedColumn) is not: refused there.
+	if c.window != nil || pl.readsMovedCalendar(c) {
 		return refuse("after another time edit")
 	}
 	if slices.ContainsFunc(e.Edits[i+1:], func(r *model.CellEdit) bool { return r.Kind.Time() }) {
@@ -406,4 +409,15 @@ func endKey(e model.Expr) string {
 		return true
 	})
 	return strings.Join(t, ",")
+}
+
+// readsMovedCalendar reports whether a filter of c reads a copy of a
+// calendar that back joins (movedColumn).
+func (pl *planner) readsMovedCalendar(c cell) bool {
+	for _, f := range c.filters {
+		if mentions(f.e, func(col *model.Column) bool { return pl.movedTables[col.Table.Name] == col.Table }) {
+			return true
+		}
+	}
+	return false
 }

@@ -100,7 +100,7 @@ func fixedWithin(e model.Expr, d *model.Column, g string, isD func(model.Expr) b
 // grouping set and kept by c; to date's unit within its grain; c's
 // time-bound filters (which E reads) fixed within each period of the key.
 func cellOrder(ctx *Context, c cell, ed *model.CellEdit) int {
-	if ed.Kind != model.EditRunning && ed.Kind != model.EditToDate {
+	if ed.Kind != model.EditRunning && ed.Kind != model.EditToDate || len(c.moved) > 0 {
 		return -1
 	}
 	d, n, order := ed.Col, len(ctx.Keys), -1

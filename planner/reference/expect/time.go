@@ -224,6 +224,23 @@ var timeCases = []Case{
 			// E = 2026-03-01: both shops, both in 2026.
 			{"orders.month": nil, "shops_run": 2, "shops_ytd": 2, "rolled_up": total("orders.month")},
 		}},
+	{Models: timeModel, Name: "last year's year to date", Measures: "revenue,ly_ytd", By: "orders.month", Totals: "grand",
+		Rows: []Row{
+			// back first: E is the latest day of the rows a year earlier
+			// (NULL where there are none), then the year to date of that E.
+			{"orders.month": "2024-02-01", "revenue": "100", "ly_ytd": nil},
+			{"orders.month": "2025-01-01", "revenue": "10", "ly_ytd": nil},
+			// February 2024 (the leap day lands on 2025-02-28): E =
+			// 2024-02-29, 2024 up to it: 100.
+			{"orders.month": "2025-02-01", "revenue": "20", "ly_ytd": "100"},
+			{"orders.month": "2025-03-01", "revenue": "37", "ly_ytd": nil},
+			{"orders.month": "2026-01-01", "revenue": "1", "ly_ytd": "10"},
+			{"orders.month": "2026-02-01", "revenue": "2", "ly_ytd": "30"},
+			{"orders.month": "2026-03-01", "revenue": "3", "ly_ytd": "67"},
+			// the grand total has no time-bound constraint: back moves
+			// nothing, E = 2026-03-01, 2026 up to it: 6.
+			{"orders.month": nil, "revenue": "173", "ly_ytd": "6", "rolled_up": total("orders.month")},
+		}},
 	{Models: timeModel, Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand",
 		Rows: []Row{
 			// Derived calendar columns computed from the key alone move by their formula.
