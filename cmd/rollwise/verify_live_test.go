@@ -38,3 +38,39 @@ func TestVerifyOnLivePostgres(t *testing.T) {
 		})
 	}
 }
+
+// verify's per-row sums and averages on the live engines without
+// GROUPING SETS (SQLite; MySQL/MariaDB have only WITH ROLLUP:
+// docs/engine-facts.md): the renderer spells the report's grouping sets
+// as a UNION ALL of one GROUP BY per set, so the per-row diagnosis comes
+// out as on DuckDB (testdata/verify/average_of_ratios.sql: the rose's
+// unit revenue is the plain average of its lines' prices, 2.6667 for
+// 18 / 7 = 2.5714, worked out in that file).
+func TestVerifyPerRowWithoutGroupingSets(t *testing.T) {
+	t.Parallel()
+	for _, name := range []string{"sqlite", "mysql"} {
+		t.Run(name, func(t *testing.T) {
+			e := liveEngine(t, name, shopModel)
+			var out, errb bytes.Buffer
+			args := []string{"verify", shopModel, verifyExtra, "--dsn", e.DSN, "--sql", "../../testdata/verify/average_of_ratios.sql",
+				"-m", "margin_rate,unit_revenue", "-b", "sales.item", "--totals", "grand"}
+			code := Main(args, strings.NewReader(""), &out, &errb)
+			if code != 1 {
+				t.Fatalf("exit %d, want 1\nstdout:\n%s\nstderr:\n%s", code, out.String(), errb.String())
+			}
+			for _, line := range strings.Split(out.String(), "\n") {
+				if strings.Contains(line, "could not compute the per-row") {
+					t.Errorf("the per-row values were not computed: %s", line)
+				}
+			}
+			// The rose's cell (detail set) and the grand total (the
+			// empty set), each from the per-row values: 3 and 6 lines.
+			for _, want := range []string{"unit_revenue is computed on each of the 3 sales rows of the cell and averaged",
+				"unit_revenue is computed on each of the 6 sales rows of the cell and averaged"} {
+				if !strings.Contains(out.String(), want) {
+					t.Errorf("the report does not say %q:\n%s", want, out.String())
+				}
+			}
+		})
+	}
+}
