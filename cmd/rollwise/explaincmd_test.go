@@ -3,6 +3,7 @@ package main
 import (
 	"bytes"
 	"context"
+	"database/sql"
 	"encoding/json"
 	"fmt"
 	"os"
@@ -273,6 +274,38 @@ north_share = (revenue where stores.region = 'North') / revenue[drop stores.regi
 	if out.String() != want {
 		t.Errorf("got:\n%s\nwant:\n%s", out.String(), want)
 	}
+}
+
+// TestExplainReadsDataDirAndParquet reads the shop from --data, its sales
+// as a Parquet file the engine reads in place: the rows explain holds come
+// from the engine, so the values are those of the CSV files (margin_rate
+// in North 0.52, as in TestExplainRatioByHand).
+func TestExplainReadsDataDirAndParquet(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	db, err := sql.Open("duckdb", "")
+	if err != nil {
+		t.Fatal(err)
+	}
+	defer db.Close()
+	if _, err := db.Exec(`COPY (SELECT * FROM read_csv('../../testdata/exec/sales.csv', all_varchar = true)) TO '` +
+		filepath.Join(dir, "sales.parquet") + `' (FORMAT parquet)`); err != nil {
+		t.Fatal(err)
+	}
+	for _, name := range []string{"stores", "districts", "repairs"} {
+		b, err := os.ReadFile("../../testdata/exec/" + name + ".csv")
+		if err != nil {
+			t.Fatal(err)
+		}
+		if err := os.WriteFile(filepath.Join(dir, name+".csv"), b, 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	tree := explainTree(t, shopModel, "--data", dir, "-m", "margin_rate", "--cell", "stores.region=North")
+	expectPart(t, part(t, tree), num("0.52"), []string{"stores.region = 'North'"}, -1)
+	expectPart(t, part(t, tree, 0), num("25"), []string{"stores.region = 'North'"}, 3)
+	explainAgreesWithRun(t, []string{shopModel}, "margin_rate", []string{"stores.region"}, nil,
+		map[string]string{"stores.region": "North"}, "--data", dir)
 }
 
 func TestExplainGrandTotalByDefault(t *testing.T) {
