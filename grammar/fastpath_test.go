@@ -17,7 +17,7 @@ import (
 	"github.com/rollwise/rollwise/planner/reference/casegen"
 )
 
-var mutations = flag.Int("fastpath-mutations", 3,
+var mutations = flag.Int("fastpath-mutations", 2,
 	"mutations of each model in TestFastPathMatchesParticiple (a longer campaign: 50, or FuzzFastPath)")
 
 // TestFastPathMatchesParticiple parses every model of the repository
@@ -138,7 +138,7 @@ func mutate(rng *rand.Rand, toks []grammar.Token) string {
 }
 
 // modelCorpus gathers the repository's models: .roll files, string
-// literals of Go files that hold a declaration, and 200 generated
+// literals of Go files that hold a declaration, and 40 generated
 // models.
 func modelCorpus(t *testing.T) []string {
 	var out []string
@@ -176,7 +176,7 @@ func modelCorpus(t *testing.T) []string {
 		t.Fatal(err)
 	}
 	gen := casegen.Generator(casegen.DefaultOptions)
-	for i := range 60 {
+	for i := range 40 {
 		out = append(out, gen.Example(i).Model)
 	}
 	return out
