@@ -14,7 +14,8 @@ import (
 // addCompletions teaches the shell completion of `rollwise completion`
 // what cmd's arguments and flags name: model files (.roll) as arguments,
 // and, read from the model files already on the line, measures for -m,
-// columns (table.column) for -b, views for --view; dialects for -d and
+// columns (table.column) for -b and, with an =, for explain's --cell,
+// views for --view; dialects for -d and
 // the totals modes for --totals.
 func addCompletions(cmd *cobra.Command) {
 	cmd.ValidArgsFunction = func(*cobra.Command, []string, string) ([]string, cobra.ShellCompDirective) {
@@ -39,12 +40,21 @@ func addCompletions(cmd *cobra.Command) {
 		}
 		return out
 	})
-	fromModel("by", func(m *model.Model) []string {
+	columns := func(m *model.Model) []string {
 		var out []string
 		for _, t := range m.Tables {
 			for _, c := range t.Columns {
 				out = append(out, c.String())
 			}
+		}
+		return out
+	}
+	fromModel("by", columns)
+	// explain's --cell: a column followed by =, its value for the user.
+	fromModel("cell", func(m *model.Model) []string {
+		out := columns(m)
+		for i := range out {
+			out[i] += "="
 		}
 		return out
 	})

@@ -78,6 +78,9 @@ func TestCompletionFromTheModelOnTheLine(t *testing.T) {
 	if got := strings.Join(complete("sql", shopModel, "-b", "stores."), " "); got != "stores.district_id stores.id stores.region" {
 		t.Errorf("-b stores. completes to %q", got)
 	}
+	if got := strings.Join(complete("explain", shopModel, "--cell", "stores.region=North,sales.it"), " "); got != "stores.region=North,sales.item=" {
+		t.Errorf("--cell stores.region=North,sales.it completes to %q", got)
+	}
 	if got := strings.Join(complete("sql", shopModel, "-d", "post"), " "); got != "postgres" {
 		t.Errorf("-d post completes to %q", got)
 	}
