@@ -241,12 +241,13 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 	switch ed.Kind {
 	case model.EditLatest, model.EditEarliest:
 		x := e.X
-		if rest := e.Edits[i+1:]; len(rest) > 0 {
-			if slices.ContainsFunc(rest, func(r *model.CellEdit) bool { return r.Kind == model.EditUngroup || r.Kind.Time() }) {
-				pl.diags.Errorf(ed.Pos, "not-supported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
-					"write that edit before the time edit, or in brackets of its own around the measure"
-				return nil, false
-			}
+		rest := e.Edits[i+1:]
+		if slices.ContainsFunc(rest, ungroupOrTime) || ungroupOrTimeBelow(e.X) {
+			pl.diags.Errorf(ed.Pos, "not-supported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
+				"write that edit before the time edit, or in brackets of its own around the measure"
+			return nil, false
+		}
+		if len(rest) > 0 {
 			x = &model.EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
 		}
 		fn := "latest"
@@ -257,6 +258,29 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 		return pl.per(ctx, pa, c, pl.owner.Name+"_"+fn), true
 	}
 	return pl.windowEdit(ctx, e, i, c)
+}
+
+// ungroupOrTime reports whether r is an ungroup or a time edit: after
+// `= latest` / `= earliest` (in the same brackets, or inside the measure
+// they edit) the per-grain plan would not hold D to E (F): an ungroup
+// there removes the group of D that stands for the pinned day, where the
+// language keeps the pin (the reference evaluator does).
+func ungroupOrTime(r *model.CellEdit) bool {
+	return r.Kind == model.EditUngroup || r.Kind.Time()
+}
+
+// ungroupOrTimeBelow reports whether x, through the measures it uses,
+// edits a cell with ungroupOrTime (found by TestDifferentialEditsAndPerGrain:
+// `(count(*)[ungroup])[sales.day = earliest]` counted every row).
+func ungroupOrTimeBelow(x model.Expr) bool {
+	found := false
+	model.WalkMeasures(x, func(y model.Expr) bool {
+		if ee, ok := y.(*model.EditExpr); ok && slices.ContainsFunc(ee.Edits, ungroupOrTime) {
+			found = true
+		}
+		return !found
+	})
+	return found
 }
 
 // windowEdit compiles X under a window edit (to date, running, last) and
