@@ -26,8 +26,9 @@ import (
 // round: DuckDB would read 3.5 as the integer 4, 1.2345678 as 1.234568,
 // 0x10 as 16, 1e400 as an infinity, and its CSV reader an unreadable
 // timestamp as NULL. Timestamps with a time zone offset are converted to
-// UTC. Any failure is diagnosed by diagnoseCSV, which names the file,
-// line, column and value.
+// UTC. The checks are left out when Go has found every such value
+// plainly spelled (csvPlain). Any failure is diagnosed by diagnoseCSV,
+// which names the file, line, column and value.
 func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 	header, err := readHeader(r.file)
 	if err != nil {
@@ -45,9 +46,14 @@ func loadCSV(ctx context.Context, conn *sql.Conn, r *relation) error {
 	for i := range readTypes {
 		readTypes[i] = "VARCHAR"
 	}
+	plain := csvPlain(r, at, nulls)
 	selects := make([]string, len(r.columns))
 	for i, c := range r.columns {
 		field := fieldName(at[i])
+		if readsAsText(c.typ) && plain {
+			selects[i] = textParsed(field, c) + " AS " + quoteIdent(c.name)
+			continue
+		}
 		if readsAsText(c.typ) {
 			selects[i] = fmt.Sprintf("CASE WHEN %s THEN error('rollwise: value refused') ELSE %s END AS %s",
 				textRefused(field, c), textParsed(field, c), quoteIdent(c.name))
