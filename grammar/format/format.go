@@ -69,6 +69,7 @@ func lex(filename, src string) []tok {
 	toks := grammar.Tokens(filename, src)
 	out := make([]tok, 0, len(toks))
 	off, line, col := 0, 1, 1 // walks forward, token by token
+	afterDot := false         // the last token other than a comment is "."
 	for _, t := range toks {
 		if t.Line != line {
 			off, line, col = lineStart[t.Line-1], t.Line, 1
@@ -81,8 +82,13 @@ func lex(filename, src string) []tok {
 			continue
 		}
 		k := tok{Token: t, off: off, endLine: t.Line + strings.Count(t.Text, "\n")}
-		if t.Kind == "keyword" && len(out) > 0 && out[len(out)-1].Text == "." {
+		// A comment may stand between the dot and the name (`s. -- x` then
+		// `DATE` on the next line): the name is still a member.
+		if t.Kind == "keyword" && afterDot {
 			k.member = true
+		}
+		if t.Kind != "comment" {
+			afterDot = t.Kind == "operator" && t.Text == "."
 		}
 		out = append(out, k)
 	}

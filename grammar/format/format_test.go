@@ -30,6 +30,11 @@ var layouts = []struct{ name, in, want string }{
 	{"spacing: calls, unary minus, edits, in, keyword after a dot",
 		"measure m = - sum ( s.x ) [ s.d = DATE '2026-01-01' ; DROP s.k ] + - - 1 - -2 where s.Date IN ( 'a' , 'b' ) and not s.b\n",
 		"measure m = -sum(s.x)[s.d = date '2026-01-01'; drop s.k] + - -1 - -2 where s.Date in ('a', 'b') and not s.b\n"},
+	// Found by TestRandomLayouts: with a comment between the dot and the
+	// name, the name (a keyword) was lower-cased into another column.
+	{"a keyword after a dot and a comment is a name as written",
+		"measure m = sum(s. -- noise\nDATE)\n",
+		"measure m = sum(s.  -- noise\n    DATE)\n"},
 	{"links, semiadditive, count(*)",
 		"table x { key a,b\nlink ( a , b ) -> y ( c , d ) required\nbal decimal semiadditive ( x.day )\nday date }\nmeasure n = count( * per x.a having n > 1 )\n",
 		"table x {\n  key a, b\n  link (a, b) -> y (c, d) required\n  bal  decimal  semiadditive(x.day)\n  day  date\n}\n\nmeasure n = count(* per x.a having n > 1)\n"},
