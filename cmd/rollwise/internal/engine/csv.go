@@ -126,20 +126,27 @@ func (r *relation) nullTexts() ([]string, error) {
 
 var utf8BOM = []byte{0xEF, 0xBB, 0xBF}
 
+// csvRecords opens a CSV file for reading its records, after a UTF-8
+// byte order mark if it starts with one; the caller closes f.
+func csvRecords(path string) (cr *csv.Reader, f *os.File, err error) {
+	f, err = os.Open(path)
+	if err != nil {
+		return nil, nil, err
+	}
+	br := bufio.NewReader(f)
+	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
+		br.Discard(len(utf8BOM)) //nolint:errcheck // the bytes are buffered
+	}
+	return csv.NewReader(br), f, nil
+}
+
 // readHeader reads the header row of a CSV file.
 func readHeader(path string) ([]string, error) {
-	f, err := os.Open(path)
+	cr, f, err := csvRecords(path)
 	if err != nil {
 		return nil, err
 	}
 	defer f.Close()
-	br := bufio.NewReader(f)
-	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
-		if _, err := br.Discard(len(utf8BOM)); err != nil {
-			return nil, err
-		}
-	}
-	cr := csv.NewReader(br)
 	cr.FieldsPerRecord = -1
 	rec, err := cr.Read()
 	if errors.Is(err, io.EOF) {

@@ -1,9 +1,6 @@
 package engine
 
 import (
-	"bufio"
-	"bytes"
-	"encoding/csv"
 	"errors"
 	"io"
 	"os"
@@ -45,16 +42,11 @@ func csvPlain(r *relation, at []int, nulls []string) bool {
 	if fi, err := os.Stat(r.file); err != nil || fi.Size() > plainCheckMax {
 		return false
 	}
-	f, err := os.Open(r.file)
+	cr, f, err := csvRecords(r.file)
 	if err != nil {
 		return false
 	}
 	defer f.Close()
-	br := bufio.NewReader(f)
-	if b, err := br.Peek(len(utf8BOM)); err == nil && bytes.Equal(b, utf8BOM) {
-		br.Discard(len(utf8BOM)) //nolint:errcheck // the bytes are buffered
-	}
-	cr := csv.NewReader(br)
 	cr.ReuseRecord = true
 	if _, err := cr.Read(); err != nil { // the header row
 		return false
