@@ -26,10 +26,30 @@ var (
 // process with its own ROLLWISE_TEST_DB_PREFIX has databases of its own
 // and takes a lock of its own. SQLite needs none: its databases are each
 // process's own (sqliteDir).
+//
+// Whichever server is asked for first, a process takes the locks of every
+// server set in its environment, in one order (PostgreSQL, then MySQL):
+// its parallel tests ask in any order, and two processes that took the
+// two locks in opposite orders would each wait for the other to exit.
 func holdServer(t testing.TB, name, server string) {
 	t.Helper()
 	locksMu.Lock()
 	defer locksMu.Unlock()
+	for _, n := range []string{"postgres", "mysql"} {
+		s := server
+		if n != name {
+			s = os.Getenv(map[string]string{"postgres": EnvPostgres, "mysql": EnvMySQL}[n])
+		}
+		if s != "" {
+			lockOne(t, n, s)
+		}
+	}
+}
+
+// lockOne takes the lock of engine name on server, once per process
+// (locksMu held).
+func lockOne(t testing.TB, name, server string) {
+	t.Helper()
 	key := lockKey(name, server)
 	if locks[key] != nil {
 		return
