@@ -539,6 +539,9 @@ func (g *gen) atom(c *column) string {
 		switch c.typ {
 		case "integer":
 			vals = []string{"1", "2", "3", "99"}
+			if c.name == "yr" {
+				vals = []string{"2025", "2026"}
+			}
 		case "decimal":
 			vals = []string{"0", "1.5", "10"}
 		case "text":

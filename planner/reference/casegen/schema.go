@@ -195,6 +195,22 @@ func (g *gen) drawSchema() {
 		}
 		dims = append(dims, items)
 	}
+	if g.chance(30) {
+		// A calendar (issue 12): a table keyed by a date that the facts
+		// reach through a link. Time edits move its key (D reached through
+		// a link), and constraints on its columns are time-bound: its
+		// month and year are computed from the key alone, its season is
+		// stored. Its days fall around month ends and on a leap day; a
+		// fact's day it lacks (calendarMissing) finds no row.
+		days := &table{name: "days"}
+		key := days.add(&column{name: "day", typ: "date", key: true})
+		p := dateVals(calendarDays...)
+		key.vals, key.raw = p.lits, p.raw
+		days.add(&column{name: "month", typ: "date", derived: "date_trunc(month, day)"})
+		days.add(&column{name: "yr", typ: "integer", derived: "extract(year from day)"})
+		days.add(attr("season", "text", 10, textVals("wet", "dry")))
+		dims = append(dims, days)
+	}
 	maxFacts := g.o.Facts
 	if maxFacts < 1 || maxFacts > 3 {
 		maxFacts = 3
@@ -356,12 +372,32 @@ func (t *table) nrowsOf(g *gen, name string) int {
 	return 0
 }
 
+// calendarDays are the calendar's days, in row order (a calendar has at
+// most six rows: dims draw 1 to 6); calendarMissing is a day it never has.
+var calendarDays = []string{"2025-12-31", "2026-01-31", "2024-02-29", "2026-02-28", "2025-02-28", "2026-03-31"}
+
+const calendarMissing = "2026-03-30"
+
 // keyValue is the key of row r of a table, as CSV text.
 func keyValue(c *column, r int) string {
-	if c.typ == "text" {
+	switch c.typ {
+	case "text":
 		return fmt.Sprintf("k%d", r+1)
+	case "date":
+		return calendarDays[r%len(calendarDays)]
 	}
 	return fmt.Sprint(r + 1)
+}
+
+// unmatchedKey is a link value that finds no row of its table.
+func unmatchedKey(c *column) string {
+	switch c.typ {
+	case "text":
+		return "zz"
+	case "date":
+		return calendarMissing
+	}
+	return "99"
 }
 
 func (g *gen) field(c *column, r int) string {
@@ -376,10 +412,7 @@ func (g *gen) field(c *column, r int) string {
 		case k < c.nullPct/5:
 			return ""
 		case k == 19 || to.nrows == 0:
-			if c.typ == "text" {
-				return "zz"
-			}
-			return "99"
+			return unmatchedKey(c)
 		default:
 			return keyValue(to.cols[0], g.pick(to.nrows))
 		}
