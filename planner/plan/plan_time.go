@@ -247,6 +247,11 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 				"write that edit before the time edit, or in brackets of its own around the measure"
 			return nil, false
 		}
+		if mixedFilter(c, ed.Col) {
+			pl.diags.Errorf(ed.Pos, "not-supported", "%s %s under a filter that reads %s together with other columns is not planned into SQL yet", ed.Col, ed.TimeText(), ed.Col).Suggestion =
+				"write the filter so that each of its and-ed parts reads " + ed.Col.String() + " alone or not at all"
+			return nil, false
+		}
 		if len(rest) > 0 {
 			x = &model.EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
 		}
@@ -258,6 +263,23 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 		return pl.per(ctx, pa, c, pl.owner.Name+"_"+fn), true
 	}
 	return pl.windowEdit(ctx, e, i, c)
+}
+
+// mixedFilter reports whether a filter of cell c reads d and another
+// column. `= latest` pins D to E, which removes the filters that mention
+// D (a pin's rule); the per-grain plan keeps them, which changes nothing
+// for a filter on D alone (E meets it) but does for one that also reads
+// another column: (returns.id = 2 or returns.day is null) kept the other
+// rows of E out (found by TestDifferentialLive, regression case
+// latest_under_mixed_filter).
+func mixedFilter(c cell, d *model.Column) bool {
+	for _, f := range c.filters {
+		if mentions(f.e, func(x *model.Column) bool { return x == d }) &&
+			mentions(f.e, func(x *model.Column) bool { return x != d }) {
+			return true
+		}
+	}
+	return false
 }
 
 // ungroupOrTime reports whether r is an ungroup or a time edit: after
