@@ -59,6 +59,7 @@ func (r *renderer) expr(e model.Expr) (string, error) {
 		case "||":
 			return r.d.Concat(l, rt), nil
 		}
+		l, rt = bare(e.Op, e.L, l, false), bare(e.Op, e.R, rt, true)
 		return "(" + l + " " + strings.ToUpper(e.Op) + " " + rt + ")", nil
 	case *model.UnOp:
 		render := r.expr
@@ -163,6 +164,43 @@ func (r *renderer) pred(e model.Expr) (string, error) {
 	return r.d.Truth(s), nil
 }
 
+// arithmetic ranks the operators bare works with: * and / bind tighter
+// than + and -, and all four group from the left, in SQL as in
+// arithmetic (common practice; every dialect here agrees). A division is
+// spelled `l / NULLIF(r, 0)` (Divide), so as an operand it is a / at its
+// top; as an operator it keeps its operands as they are.
+// The comma between the arguments of a plain call (coalesce, nullif)
+// binds loosest of all.
+var arithmetic = map[string]int{",": 0, "+": 1, "-": 1, "*": 2, "/": 2}
+
+// bare drops the parentheses around operand s (x rendered) of an
+// operator op (+ - or *) where they change nothing: x is itself + - * or
+// /, rendered as "(" ... ")" by expr, and binds at least as tightly as op on the
+// left, or more tightly on the right (a - (b - c) keeps them). Layered
+// measures nest arithmetic deeply, and every level's parentheses made
+// their SQL a few percent longer.
+// A value computed once (plan.Computed) is its expression when written
+// inline, or a quoted column name, which bare leaves as it is.
+func bare(op string, x model.Expr, s string, right bool) string {
+	for {
+		c, ok := x.(*plan.Computed)
+		if !ok {
+			break
+		}
+		x = c.X
+	}
+	b, ok := x.(*model.BinOp)
+	if !ok || !strings.HasPrefix(s, "(") || !strings.HasSuffix(s, ")") {
+		return s
+	}
+	p, ok1 := arithmetic[op]
+	c, ok2 := arithmetic[b.Op]
+	if !ok1 || !ok2 || c < p || right && c == p {
+		return s
+	}
+	return s[1 : len(s)-1]
+}
+
 func (r *renderer) value(e model.Expr) (string, error) {
 	s, err := r.expr(e)
 	if err != nil || !IsPredicate(e) {
@@ -206,6 +244,9 @@ func (r *renderer) fn(e *model.Func) (string, error) {
 		x, err := r.value(a)
 		if err != nil {
 			return "", err
+		}
+		if e.Name == "coalesce" || e.Name == "nullif" { // plain calls in every dialect
+			x = bare(",", a, x, false)
 		}
 		args = append(args, x)
 		types = append(types, a.Type())

@@ -168,3 +168,24 @@ func TestLabMedians(t *testing.T) {
 		{"patients.ward": nil, "mid_minutes": 20.0, "urgent_mid": 17.5, "patient_mid": 45.0, "rolled_up": []string{"patients.ward"}},
 	})
 }
+
+// Nested arithmetic keeps its meaning where the SQL leaves parentheses
+// out (a - b - c, a + b * c) and keeps them (a - (b - c), a * (b - c)):
+// nested_arith = n - (m - n) - n * (n - 2) + coalesce(m - 100, 0) / (n - 6)
+// with n visits and m minutes.
+func TestLabNestedArithmetic(t *testing.T) {
+	t.Parallel()
+	got := runJSON(t, "run", labModel, "-m", "nested_arith,visits_n,total_minutes", "-b", "patients.ward", "--totals", "grand")
+	expectRows(t, got, []row{
+		// East: n 1, m 1: 1 - 0 + 1 + -99 / -5 = 21.8
+		{"patients.ward": "East", "visits_n": 1, "total_minutes": 1, "nested_arith": 21.8},
+		// North: n 4, m 155: 4 - 151 - 8 + 55 / -2 = -182.5
+		{"patients.ward": "North", "visits_n": 4, "total_minutes": 155, "nested_arith": -182.5},
+		// South: n 2, m 15: 2 - 13 - 0 + -85 / -4 = 10.25
+		{"patients.ward": "South", "visits_n": 2, "total_minutes": 15, "nested_arith": 10.25},
+		// no ward: n 1, m 7: 1 - 6 + 1 + -93 / -5 = 14.6
+		{"patients.ward": nil, "visits_n": 1, "total_minutes": 7, "nested_arith": 14.6},
+		// all: n 8, m 178: 8 - 170 - 48 + 78 / 2 = -171
+		{"patients.ward": nil, "visits_n": 8, "total_minutes": 178, "nested_arith": -171.0},
+	})
+}
