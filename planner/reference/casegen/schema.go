@@ -208,6 +208,7 @@ func (g *gen) drawSchema() {
 		key.vals, key.raw = p.lits, p.raw
 		days.add(&column{name: "month", typ: "date", derived: "date_trunc(month, day)"})
 		days.add(&column{name: "yr", typ: "integer", derived: "extract(year from day)"})
+		days.add(&column{name: "qtr", typ: "date", derived: "date_trunc(quarter, day)"})
 		days.add(attr("season", "text", 10, textVals("wet", "dry")))
 		dims = append(dims, days)
 	}
@@ -309,6 +310,12 @@ func (g *gen) factColumns(f *table) {
 	}
 	if day != nil && g.chance(20) {
 		f.add(&column{name: "mon", typ: "integer", derived: "extract(month from day)"})
+	}
+	if day != nil && g.chance(20) {
+		f.add(&column{name: "qtr", typ: "date", derived: "date_trunc(quarter, day)"})
+	}
+	if day != nil && g.chance(15) {
+		f.add(&column{name: "yr", typ: "integer", derived: "extract(year from day)"})
 	}
 	if seen != nil && g.chance(50) {
 		f.add(&column{name: "seen_day", typ: "timestamp", derived: "date_trunc(day, seen_at)"})
