@@ -93,45 +93,13 @@ func periodLabel(t time.Time, period string) (string, bool) {
 	return "", false
 }
 
-// normalize maps the accepted Go types onto the few renderValue handles.
+// normalize takes a value as engine.Result promises it (nil, int64,
+// float64, decimal.Decimal, string, bool, time.Time): the engine converts
+// each driver's values once (engine.normalize), and the reference
+// evaluator's are of the same types. Times are shown in UTC.
 func normalize(v any) (any, error) {
-	switch x := v.(type) {
-	case int:
-		return int64(x), nil
-	case int8:
-		return int64(x), nil
-	case int16:
-		return int64(x), nil
-	case int32:
-		return int64(x), nil
-	case uint8:
-		return int64(x), nil
-	case uint16:
-		return int64(x), nil
-	case uint32:
-		return int64(x), nil
-	case uint:
-		return decimal.NewFromUint64(uint64(x)), nil
-	case uint64:
-		return decimal.NewFromUint64(x), nil
-	case float32:
-		f, err := strconv.ParseFloat(strconv.FormatFloat(float64(x), 'g', -1, 32), 64)
-		if err != nil {
-			return float64(x), nil
-		}
-		return f, nil
-	case *decimal.Decimal:
-		if x == nil {
-			return nil, nil
-		}
-		return *x, nil
-	case decimal.NullDecimal:
-		if !x.Valid {
-			return nil, nil
-		}
-		return x.Decimal, nil
-	case time.Time:
-		return x.UTC(), nil
+	if t, ok := v.(time.Time); ok {
+		return t.UTC(), nil
 	}
 	return v, nil
 }
