@@ -207,7 +207,7 @@ func TestDisplayFormats(t *testing.T) {
 		{int64(12), model.FormatPercent, "1,200.0%"},
 		{math.Inf(1), model.FormatCurrency, "+Inf"},
 		{"text", model.FormatPercent, "text"},
-				{dec("18446744073709551615"), model.FormatInteger, "18,446,744,073,709,551,615"},
+		{dec("18446744073709551615"), model.FormatInteger, "18,446,744,073,709,551,615"},
 	}
 	for _, c := range cases {
 		tb := &Table{Columns: []Column{{Name: "m", Format: c.format}}, Rows: []Row{{Values: []any{c.v}}}}
