@@ -1,7 +1,6 @@
 package dialects_test
 
 import (
-	"encoding/json"
 	"errors"
 	"flag"
 	"fmt"
@@ -12,8 +11,8 @@ import (
 	"testing"
 
 	"github.com/google/go-cmp/cmp"
-
 	"github.com/rollwise/rollwise/dialects"
+	"github.com/rollwise/rollwise/dialects/goldencases"
 	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/plan"
@@ -35,46 +34,14 @@ var update = flag.Bool("update", false, "rewrite the golden SQL files (read the 
 
 const root = "../"
 
-// goldenSets are the case folders and the models their cases run on.
-var goldenSets = []struct {
-	name, dir string
-	models    []string
-}{
-	{"shop", "testdata/sql", []string{"testdata/exec/shop.roll", "testdata/exec/edits.roll"}},
-	{"lab", "testdata/dialects/lab", []string{"testdata/dialects/lab.roll"}},
-	{"hostile", "testdata/dialects/hostile", []string{"testdata/dialects/hostile.roll"}},
-	{"time", "testdata/dialects/time", []string{"testdata/exec/time.roll"}},
-}
-
-// goldenCase is one case: its set, name, models and arguments.
-type goldenCase struct {
-	set, name string
-	models    []string
-	args      []string
-}
-
-func goldenCases(t *testing.T) []goldenCase {
+// goldenCases are the cases, as goldencases lists them.
+func goldenCases(t *testing.T) []goldencases.Case {
 	t.Helper()
-	var out []goldenCase
-	for _, s := range goldenSets {
-		files, _ := filepath.Glob(filepath.Join(root, s.dir, "*.test"))
-		if len(files) == 0 {
-			t.Fatalf("no cases in %s", s.dir)
-		}
-		for _, f := range files {
-			b, err := os.ReadFile(f)
-			if err != nil {
-				t.Fatal(err)
-			}
-			head, _, _ := strings.Cut(string(b), "----\n")
-			var args []string
-			if err := json.Unmarshal([]byte(head), &args); err != nil {
-				t.Fatalf("%s: the first line must be a JSON array of arguments: %v", f, err)
-			}
-			out = append(out, goldenCase{set: s.name, name: strings.TrimSuffix(filepath.Base(f), ".test"), models: s.models, args: args})
-		}
+	cs, err := goldencases.Read(root)
+	if err != nil {
+		t.Fatal(err)
 	}
-	return out
+	return cs
 }
 
 // loadModel parses and resolves model files (paths from the repository's
@@ -166,19 +133,19 @@ func casePlan(m *model.Model, args []string) (*plan.Plan, error) {
 func TestDialectGoldenSQL(t *testing.T) {
 	models := map[string]*model.Model{}
 	for _, c := range goldenCases(t) {
-		key := strings.Join(c.models, " ")
+		key := strings.Join(c.Models, " ")
 		if models[key] == nil {
-			models[key] = loadModel(t, c.models)
+			models[key] = loadModel(t, c.Models)
 		}
-		p, err := casePlan(models[key], c.args)
+		p, err := casePlan(models[key], c.Args)
 		if err != nil {
-			t.Errorf("%s/%s: %v", c.set, c.name, err)
+			t.Errorf("%s/%s: %v", c.Set, c.Name, err)
 			continue
 		}
 		for _, name := range dialects.Names() {
-			t.Run(name+"/"+c.set+"/"+c.name, func(t *testing.T) {
+			t.Run(name+"/"+c.Set+"/"+c.Name, func(t *testing.T) {
 				d, _ := dialects.Get(name)
-				args := append(append(append([]string{"sql"}, c.models...), c.args...), "-d", name)
+				args := append(append(append([]string{"sql"}, c.Models...), c.Args...), "-d", name)
 				got := "-- rollwise " + strings.Join(displayArgs(args), " ") + "\n"
 				sql, err := dialects.Render(p, d)
 				var ue *dialects.UnsupportedError
@@ -190,7 +157,7 @@ func TestDialectGoldenSQL(t *testing.T) {
 				default:
 					t.Fatalf("render: %v", err)
 				}
-				file := filepath.Join(root, "testdata/dialects/golden", name, c.set+"__"+c.name+".sql")
+				file := filepath.Join(root, "testdata/dialects/golden", name, c.Set+"__"+c.Name+".sql")
 				compareGolden(t, file, got)
 				if err == nil {
 					if problems := portabilityProblems(d, sql); len(problems) > 0 {

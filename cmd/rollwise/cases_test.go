@@ -1,11 +1,11 @@
 package main
 
 import (
-	"encoding/json"
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
+
+	"github.com/rollwise/rollwise/dialects/goldencases"
 )
 
 // The cases of the golden SQL (testdata/sql, testdata/dialects/{lab,
@@ -19,46 +19,22 @@ const (
 	hostileModel = "../../testdata/dialects/hostile.roll"
 )
 
-// goldenSets are the case folders and the models their cases run on.
-var goldenSets = []struct {
-	name, dir string
-	models    []string
-}{
-	{"shop", "../../testdata/sql", []string{shopModel, editsModel}},
-	{"lab", "../../testdata/dialects/lab", []string{labModel}},
-	{"hostile", "../../testdata/dialects/hostile", []string{hostileModel}},
-	{"time", "../../testdata/dialects/time", []string{timeModel}},
-}
-
-// goldenCase is one case: its set, name, models and arguments.
-type goldenCase struct {
-	set, name string
-	models    []string
-	args      []string
-}
-
-func goldenCases(t *testing.T) []goldenCase {
+// goldenCases are the cases, as goldencases lists them, with their
+// model files' paths from this folder.
+func goldenCases(t *testing.T) []goldencases.Case {
 	t.Helper()
-	var out []goldenCase
-	for _, s := range goldenSets {
-		files, _ := filepath.Glob(filepath.Join(s.dir, "*.test"))
-		if len(files) == 0 {
-			t.Fatalf("no cases in %s", s.dir)
-		}
-		for _, f := range files {
-			b, err := os.ReadFile(f)
-			if err != nil {
-				t.Fatal(err)
-			}
-			head, _, _ := strings.Cut(string(b), "----\n")
-			var args []string
-			if err := json.Unmarshal([]byte(head), &args); err != nil {
-				t.Fatalf("%s: the first line must be a JSON array of arguments: %v", f, err)
-			}
-			out = append(out, goldenCase{set: s.name, name: strings.TrimSuffix(filepath.Base(f), ".test"), models: s.models, args: args})
-		}
+	cs, err := goldencases.Read("../..")
+	if err != nil {
+		t.Fatal(err)
 	}
-	return out
+	for i := range cs {
+		models := make([]string, len(cs[i].Models))
+		for j, m := range cs[i].Models {
+			models[j] = filepath.Join("../..", m)
+		}
+		cs[i].Models = models
+	}
+	return cs
 }
 
 func lastLine(s string) string {

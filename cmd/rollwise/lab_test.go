@@ -17,9 +17,9 @@ import (
 func TestCasesRunOnEveryEngine(t *testing.T) {
 	t.Parallel()
 	for _, c := range goldenCases(t) {
-		t.Run(c.set+"/"+c.name, func(t *testing.T) {
-			got := runJSON(t, append(append([]string{"run"}, c.models...), c.args...)...)
-			if empty := noRowCases[c.set+"/"+c.name]; empty != (len(got) == 0) {
+		t.Run(c.Set+"/"+c.Name, func(t *testing.T) {
+			got := runJSON(t, append(append([]string{"run"}, c.Models...), c.Args...)...)
+			if empty := noRowCases[c.Set+"/"+c.Name]; empty != (len(got) == 0) {
 				t.Errorf("%d rows; a row is due: %v", len(got), !empty)
 			}
 		})
