@@ -95,22 +95,13 @@ func diffRefusal(tg diffTarget, err error) bool {
 // SQLite as a float step (and logs the count) instead of failing; it was
 // seen about once in a thousand SQLite cases (round(sum(decimal), 1) * x).
 func floatStep(q *model.Query) bool {
-	measures := map[*model.Measure]bool{}
 	step := false
-	var visit func(e model.Expr)
-	visit = func(e model.Expr) {
-		model.Walk(e, func(x model.Expr) bool {
+	for _, m := range q.Measures {
+		model.WalkMeasures(m.Expr, func(x model.Expr) bool {
 			switch x := x.(type) {
-			case *model.MeasureRef:
-				if !measures[x.Measure] {
-					measures[x.Measure] = true
-					visit(x.Measure.Expr)
-				}
 			case *model.Func:
-				if len(x.Args) > 0 && x.Args[0].Type() == model.TypeDecimal &&
-					(x.Name == "round" || x.Name == "cast" && x.CastTo == model.TypeInteger) {
-					step = true
-				}
+				step = step || len(x.Args) > 0 && x.Args[0].Type() == model.TypeDecimal &&
+					(x.Name == "round" || x.Name == "cast" && x.CastTo == model.TypeInteger)
 			case *model.BinOp:
 				switch x.Op {
 				case "=", "<>", "<", "<=", ">", ">=":
@@ -119,11 +110,8 @@ func floatStep(q *model.Query) bool {
 			case *model.InExpr:
 				step = step || x.X.Type() == model.TypeDecimal
 			}
-			return true
+			return !step
 		})
-	}
-	for _, m := range q.Measures {
-		visit(m.Expr)
 	}
 	return step
 }
