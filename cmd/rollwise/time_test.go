@@ -29,9 +29,6 @@ func TestTimeEditErrors(t *testing.T) {
 		{"revenue[orders.day last 0 days]", "last 0 units holds no rows"},
 		{"sum(stock.qty)[stock.day back 1 day]", "sum of stock.qty, which is semiadditive"},
 		{"avg(revenue per orders.shop)[orders.day running]", "a per-grain aggregate under orders.day running is not planned into SQL yet"},
-		// An ungroup inside the measure that = earliest edits: the SQL once
-		// counted every row there (TestDifferentialEditsAndPerGrain).
-		{"(count(orders.id)[ungroup])[orders.day = earliest]", "an ungroup or another time edit after orders.day = earliest is not planned into SQL yet"},
 	} {
 		extra := filepath.Join(t.TempDir(), "extra.roll")
 		if err := os.WriteFile(extra, []byte("measure x = "+c.measure+"\n"), 0o644); err != nil {
@@ -80,26 +77,5 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 	}
 	if diff := diffRows(q, got, want, true); diff != "" {
 		t.Error(diff)
-	}
-}
-
-// = latest under a filter that reads D with another column is refused:
-// the pin removes that filter, which the per-grain plan did not (found by
-// TestDifferentialLive: the closing value lost E's other rows).
-func TestLatestUnderMixedFilterIsRefused(t *testing.T) {
-	t.Parallel()
-	var out, errb bytes.Buffer
-	code := Main([]string{"run", timeModel, "-m", "closing", "-b", "orders.shop", "-w", "orders.shop = 'a' or orders.day is null"},
-		strings.NewReader(""), &out, &errb)
-	want := "orders.day = latest under a filter that reads orders.day together with other columns is not planned into SQL yet"
-	if code == 0 || !strings.Contains(errb.String(), want) || !strings.Contains(errb.String(), "time.roll:39:") {
-		t.Errorf("want an error containing %q at the measure, got exit %d:\n%s", want, code, errb.String())
-	}
-	// A filter on the date alone stays planned (E meets it).
-	out.Reset()
-	errb.Reset()
-	if code := Main([]string{"run", timeModel, "-m", "closing", "-b", "orders.shop", "-w", "orders.day >= date '2025-01-01'"},
-		strings.NewReader(""), &out, &errb); code != 0 {
-		t.Errorf("a filter on orders.day alone: exit %d\n%s", code, errb.String())
 	}
 }

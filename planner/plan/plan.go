@@ -60,6 +60,10 @@ type Key struct {
 	// Expr, when set, is the row expression a scan groups by instead of
 	// Col: Col read on rows whose date a time edit moves (`back`).
 	Expr model.Expr
+	// Pin marks the per key of `D = latest` (`= earliest`): it stands for
+	// the pin D = E, a filter, which a later ungroup keeps (a drop, a
+	// pin on D or a window edit over D removes it).
+	Pin bool
 }
 
 // RowExpr is the row expression the key groups rows by.
@@ -354,7 +358,7 @@ func (c cell) edit(ctx *Context, ed *model.CellEdit) cell {
 	}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
-		if hit(k.Col) {
+		if hit(k.Col) && !(k.Pin && ed.Kind == model.EditUngroup) {
 			out.removed |= bit(i, n)
 		}
 	}

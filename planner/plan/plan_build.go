@@ -464,10 +464,7 @@ func (pl *planner) per(ctx *Context, pa *model.PerAgg, c cell, name string) mode
 	}
 	r, fresh := pl.perRel(ctx, pa, c, name)
 	sub := r.Per.Sub
-	start := cell{}
-	for _, f := range sub.Filters {
-		start.filters = append(start.filters, cellFilter{e: f, rows: true})
-	}
+	start := pinStart(pa, sub)
 	outerNarrow, outerEdit := pl.narrowedBy, pl.editedBy
 	pl.narrowedBy, pl.editedBy = "", ""
 	leaf := &PerLeaf{Func: pa.Func, PerKeys: sub.Keys[len(r.Keys):], T: pa.T}
@@ -516,7 +513,7 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 	for _, col := range pa.Per {
 		cols = append(cols, model.Text(&model.ColRef{Col: col}))
 	}
-	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved))
+	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s|%v", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved), pinned(pa))
 	if r, ok := pl.rels[key]; ok {
 		return r, false
 	}
@@ -534,7 +531,7 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 			kn += " per"
 		}
 		keyNames = append(keyNames, kn)
-		sub.Keys = append(sub.Keys, Key{Name: kn, Col: col, Pos: pa.Pos})
+		sub.Keys = append(sub.Keys, Key{Name: kn, Col: col, Pos: pa.Pos, Pin: pinned(pa)})
 	}
 	sub.Sets = sets
 	for _, f := range c.filters {

@@ -235,24 +235,19 @@ func movedKeys(ctx *Context, keep []int, moved map[int]model.Expr) []Key {
 }
 
 // timeEdit compiles X edited by edits[i], a time edit, and the edits after
-// it, in cell c.
+// it, in cell c. `D = latest` (`= earliest`) is the per-grain aggregate
+// latest(X' per D), X' being X under the edits after it: its groups are
+// the cell's rows (every filter of c applies, so E is the latest D among
+// them), its key of D stands for the pin D = E (Key.Pin: a later ungroup
+// keeps it, a later time edit moves or replaces it as the time-bound
+// constraint it is), and X' is evaluated without the filters that the pin
+// removes (pinStart).
 func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
 	switch ed.Kind {
 	case model.EditLatest, model.EditEarliest:
 		x := e.X
-		rest := e.Edits[i+1:]
-		if slices.ContainsFunc(rest, ungroupOrTime) || ungroupOrTimeBelow(e.X) {
-			pl.diags.Errorf(ed.Pos, "not-supported", "an ungroup or another time edit after %s %s is not planned into SQL yet", ed.Col, ed.TimeText()).Suggestion =
-				"write that edit before the time edit, or in brackets of its own around the measure"
-			return nil, false
-		}
-		if mixedFilter(c, ed.Col) {
-			pl.diags.Errorf(ed.Pos, "not-supported", "%s %s under a filter that reads %s together with other columns is not planned into SQL yet", ed.Col, ed.TimeText(), ed.Col).Suggestion =
-				"write the filter so that each of its and-ed parts reads " + ed.Col.String() + " alone or not at all"
-			return nil, false
-		}
-		if len(rest) > 0 {
+		if rest := e.Edits[i+1:]; len(rest) > 0 {
 			x = &model.EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
 		}
 		fn := "latest"
@@ -265,44 +260,32 @@ func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (mod
 	return pl.windowEdit(ctx, e, i, c)
 }
 
-// mixedFilter reports whether a filter of cell c reads d and another
-// column. `= latest` pins D to E, which removes the filters that mention
-// D (a pin's rule); the per-grain plan keeps them, which changes nothing
-// for a filter on D alone (E meets it) but does for one that also reads
-// another column: (returns.id = 2 or returns.day is null) kept the other
-// rows of E out (found by TestDifferentialLive, regression case
-// latest_under_mixed_filter).
-func mixedFilter(c cell, d *model.Column) bool {
-	for _, f := range c.filters {
-		if mentions(f.e, func(x *model.Column) bool { return x == d }) &&
-			mentions(f.e, func(x *model.Column) bool { return x != d }) {
-			return true
+// pinned reports whether pa is the per-grain aggregate of `D = latest`
+// or `D = earliest` (see timeEdit): its per key is a pin.
+func pinned(pa *model.PerAgg) bool {
+	return pa.Func == "latest" || pa.Func == "earliest"
+}
+
+// pinStart is the cell in which a per-grain aggregate's X is compiled in
+// its sub-context: the sub-context's filters (those of the outer cell).
+// Under a pin (pinned), the filters that read D together with another
+// column are left out: the pin D = E removes every constraint that
+// mentions D, and where one on D alone changes nothing (E meets it), one
+// that also reads another column would keep other rows of E out
+// ((returns.id = 2 or returns.day is null), found by TestDifferentialLive,
+// regression case latest_under_mixed_filter). The groups, and so E, are
+// still formed under every filter (the sub-context's bases).
+func pinStart(pa *model.PerAgg, sub *Context) cell {
+	start := cell{}
+	for _, f := range sub.Filters {
+		d := pa.Per[0]
+		if pinned(pa) && mentions(f, func(x *model.Column) bool { return x == d }) &&
+			mentions(f, func(x *model.Column) bool { return x != d }) {
+			continue
 		}
+		start.filters = append(start.filters, cellFilter{e: f, rows: true})
 	}
-	return false
-}
-
-// ungroupOrTime reports whether r is an ungroup or a time edit: after
-// `= latest` / `= earliest` (in the same brackets, or inside the measure
-// they edit) the per-grain plan would not hold D to E (F): an ungroup
-// there removes the group of D that stands for the pinned day, where the
-// language keeps the pin (the reference evaluator does).
-func ungroupOrTime(r *model.CellEdit) bool {
-	return r.Kind == model.EditUngroup || r.Kind.Time()
-}
-
-// ungroupOrTimeBelow reports whether x, through the measures it uses,
-// edits a cell with ungroupOrTime (found by TestDifferentialEditsAndPerGrain:
-// `(count(*)[ungroup])[sales.day = earliest]` counted every row).
-func ungroupOrTimeBelow(x model.Expr) bool {
-	found := false
-	model.WalkMeasures(x, func(y model.Expr) bool {
-		if ee, ok := y.(*model.EditExpr); ok && slices.ContainsFunc(ee.Edits, ungroupOrTime) {
-			found = true
-		}
-		return !found
-	})
-	return found
+	return start
 }
 
 // windowEdit compiles X under a window edit (to date, running, last) and
