@@ -194,7 +194,10 @@ func (r *renderer) context(ctx *plan.Context) error {
 	for _, rel := range ctx.Rels {
 		var err error
 		switch {
-		case rel.Scan != nil && rel.Scan.Range != nil:
+		case rel.Scan != nil && rel.Scan.Range != nil && rel.Scan.Range.Cells != nil:
+			// the cells of an outer context, rendered before this one
+			err = r.rangeScan(rel.Scan.Range.Cells, rel)
+		case rel.Scan != nil && rel.Scan.Range != nil, rel.Per != nil && rel.Per.AfterCells:
 			// after the context's rows, which its cells are
 			ranges = append(ranges, rel)
 		case rel.Scan != nil:

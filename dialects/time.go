@@ -79,7 +79,13 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.Type()))
 	}
 	n := len(ctx.Keys)
+	var extra []int
 	for j, i := range tr.Match {
+		if i >= n {
+			// a key of a per-grain sub-context: read on the rows
+			extra = append(extra, j)
+			continue
+		}
 		k := ctx.Keys[i]
 		eq := r.d.NullSafeEqual(x+"."+r.q(col(s.Keys[j].Name)), a+"."+r.q(k.Name))
 		rolled := false
@@ -91,16 +97,17 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		}
 		conds = append(conds, eq)
 	}
+	cells := r.rangeCells(ctx, rel, extra, col)
 	for _, l := range s.Leaves {
 		if l.Func == "median" && r.windowMedians() {
-			return r.rangeMedians(ctx, rel, ends, rowsName, col, conds)
+			return r.rangeMedians(cells, rel, ends, rowsName, col, conds)
 		}
 	}
-	group := []string{a + "." + r.q(GroupingColumn)}
-	for _, k := range ctx.Keys {
-		group = append(group, a+"."+r.q(k.Name))
+	var group, sel []string
+	for _, c := range cells {
+		group = append(group, c.expr)
+		sel = append(sel, c.sel(r))
 	}
-	sel := append([]string{}, group...)
 	for _, l := range s.Leaves {
 		agg, err := r.leafAgg(l, x+".", col)
 		if err != nil {
@@ -115,21 +122,56 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 	return nil
 }
 
+// rangeCell is a column that names a range scan's cells: its value on the
+// joined cell (a) and row (x), and its name.
+type rangeCell struct {
+	expr, name string
+}
+
+// sel is the cell column in a select list, named where the value is not
+// already the column of that name.
+func (c rangeCell) sel(r *renderer) string {
+	if c.expr == r.q("a")+"."+r.q(c.name) {
+		return c.expr
+	}
+	return c.expr + " AS " + r.q(c.name)
+}
+
+// rangeCells lists the columns of a range scan's cells: the grouping id
+// and keys of ctx's cells, then the scan's keys read on the rows (extra:
+// their indexes in the scan's Keys), which a per-grain sub-context under a
+// window edit adds. The grouping id is then the sub-context's: ctx's,
+// shifted past the added keys (which are never rolled up).
+func (r *renderer) rangeCells(ctx *plan.Context, rel *plan.Rel, extra []int, col func(string) string) []rangeCell {
+	a, x := r.q("a"), r.q("x")
+	gid := a + "." + r.q(GroupingColumn)
+	if len(extra) > 0 {
+		gid += " * " + strconv.Itoa(1<<len(extra))
+	}
+	cells := []rangeCell{{gid, GroupingColumn}}
+	for _, k := range ctx.Keys {
+		cells = append(cells, rangeCell{a + "." + r.q(k.Name), k.Name})
+	}
+	for _, j := range extra {
+		name := rel.Scan.Keys[j].Name
+		cells = append(cells, rangeCell{x + "." + r.q(col(name)), name})
+	}
+	return cells
+}
+
 // rangeMedians finishes a range scan whose leaves include a median the
 // dialect computes with windows (render_median.go): the cells' rows (each
 // cell of ends joined to the rows in its date range, on conds) go to a CTE
 // of their own, numbered within each cell, and the cells CTE aggregates
 // them by cell.
-func (r *renderer) rangeMedians(ctx *plan.Context, rel *plan.Rel, ends, rowsName string, col func(string) string, conds []string) error {
+func (r *renderer) rangeMedians(cells []rangeCell, rel *plan.Rel, ends, rowsName string, col func(string) string, conds []string) error {
 	s := rel.Scan
 	a, x := r.q("a"), r.q("x")
-	cols := []string{GroupingColumn}
-	sel := []string{a + "." + r.q(GroupingColumn) + " AS " + r.q(GroupingColumn)}
-	part := []string{r.q(GroupingColumn)}
-	for _, k := range ctx.Keys {
-		cols = append(cols, k.Name)
-		sel = append(sel, a+"."+r.q(k.Name)+" AS "+r.q(k.Name))
-		part = append(part, r.q(k.Name))
+	var cols, sel, part []string
+	for _, c := range cells {
+		cols = append(cols, c.name)
+		sel = append(sel, c.expr+" AS "+r.q(c.name))
+		part = append(part, r.q(c.name))
 	}
 	group := append([]string{}, part...)
 	var vals []rankedValue
@@ -178,7 +220,10 @@ func (r *renderer) rangeMedians(ctx *plan.Context, rel *plan.Rel, ends, rowsName
 // later renders a relation that reads the context's cells or another
 // relation's: a window edit's range scan, or a shift.
 func (r *renderer) later(ctx *plan.Context, rel *plan.Rel) error {
-	if rel.Shift == nil {
+	switch {
+	case rel.Per != nil:
+		return r.per(ctx, rel)
+	case rel.Shift == nil:
 		return r.rangeScan(ctx, rel)
 	}
 	sh := rel.Shift

@@ -277,6 +277,9 @@ func (dc *diffOpened) compare(tg diffTarget, q casegen.Query, st *diffStats) str
 		for _, d := range pd.Errors() {
 			if d.Code == "not-supported" {
 				st.skipped.Add(1)
+				if testing.Verbose() {
+					fmt.Println("skipped (not-supported):", d.Message)
+				}
 				return ""
 			}
 		}

@@ -192,12 +192,25 @@ type TimeRange struct {
 	// Match lists, for each of the scan's Keys, its index among the
 	// context's keys.
 	Match []int
+	// Cells is the context whose cells (and E) the range belongs to when
+	// it is not the scan's own: a per-grain sub-context under a window
+	// edit, whose first keys are Cells' keys. Its cells are each cell of
+	// Cells with the values of the scan's other keys (Match indexes past
+	// Cells' keys) among the cell's rows in range.
+	Cells *Context
 }
 
 // PerRel aggregates the values of a sub-context over its per-grain keys.
 type PerRel struct {
 	Sub    *Context
 	Leaves []*PerLeaf
+	// AfterCells marks the groups of a per-grain aggregate under a window
+	// edit: the sub-context's range scans read the context's cells and
+	// their E, so it is computed after them.
+	AfterCells bool
+	// start is the cell the sub-context's values are planned in, before
+	// its filters.
+	start cell
 }
 
 // PerLeaf is AGG(sub value) over the kept groups.
@@ -315,6 +328,10 @@ type windowEdit struct {
 	// order is the index of the time key whose cells the edit may be
 	// computed over (see cellOrder), or -1.
 	order int
+	// cells is the context whose cells carry E: the one the edit is in,
+	// or, in a per-grain sub-context under the edit, the outer one (whose
+	// keys the sub-context's first keys are; see perInWindow).
+	cells *Context
 }
 
 type cellFilter struct {

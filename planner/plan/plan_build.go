@@ -407,7 +407,8 @@ func (pl *planner) leaf(ctx *Context, a *model.Agg, c cell) model.Expr {
 	}
 	s.Leaves = append(s.Leaves, l)
 	// A window edit's cell without E is missing: NULL, counts included.
-	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count" && c.window == nil}
+	// (In a per-grain sub-context under the edit, every cell has E.)
+	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count" && (c.window == nil || c.window.cells != ctx)}
 	pl.values[key] = v
 	return v
 }
@@ -448,23 +449,18 @@ func (pl *planner) input(s *Scan, name string, e model.Expr) *Input {
 // sub-context, each a leaf of its relation. name is the base of the
 // leaf's name and of a new sub-context's.
 func (pl *planner) per(ctx *Context, pa *model.PerAgg, c cell, name string) model.Expr {
-	if c.window != nil {
-		pl.diags.Errorf(pa.Pos, "not-supported", "a per-grain aggregate under %s %s is not planned into SQL yet", c.window.ed.Col, c.window.ed.TimeText()).Suggestion =
-			"write the time edit inside the per-grain aggregate, around its measure"
-		return nil
-	}
 	var texts []string
 	for _, f := range c.filters {
 		texts = append(texts, fmt.Sprint(f.rows)+pl.text(f.e))
 	}
 	slices.Sort(texts)
-	key := fmt.Sprintf("%p|per|%s|%d|%s|%s", ctx, pl.text(pa), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved))
+	key := fmt.Sprintf("%p|per|%s|%d|%s|%s|%s", ctx, pl.text(pa), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved), windowKey(c))
 	if v, ok := pl.values[key]; ok {
 		return &ValueRef{Pos: pa.Pos, Rel: v.Rel, Column: v.Column, T: v.T, ZeroIfMissing: v.ZeroIfMissing}
 	}
 	r, fresh := pl.perRel(ctx, pa, c, name)
 	sub := r.Per.Sub
-	start := pinStart(pa, sub)
+	start := pinStart(pa, sub, r.Per.start)
 	outerNarrow, outerEdit := pl.narrowedBy, pl.editedBy
 	pl.narrowedBy, pl.editedBy = "", ""
 	leaf := &PerLeaf{Func: pa.Func, PerKeys: sub.Keys[len(r.Keys):], T: pa.T}
@@ -513,12 +509,18 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 	for _, col := range pa.Per {
 		cols = append(cols, model.Text(&model.ColRef{Col: col}))
 	}
-	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s|%v", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved), pinned(pa))
+	key := fmt.Sprintf("per|%p|%s|%s|%d|%s|%s|%v|%s", ctx, strings.Join(cols, ","), strings.Join(tnames, ","), c.removed, strings.Join(texts, " and "), pl.movedKey(c.moved), pinned(pa), windowKey(c))
 	if r, ok := pl.rels[key]; ok {
 		return r, false
 	}
 	k := len(pa.Per)
-	keep, sets, gid := localKeys(ctx, c.removed, k)
+	removed := c.removed
+	if c.window != nil {
+		// Under a window edit every key stays: the cell (all its keys)
+		// sets E, hence the range of rows the groups come from.
+		removed = 0
+	}
+	keep, sets, gid := localKeys(ctx, removed, k)
 	sub := &Context{Name: pl.name(name + "_per")}
 	var keyNames []string
 	sub.Keys = movedKeys(ctx, keep, c.moved)
@@ -537,10 +539,50 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 	for _, f := range c.filters {
 		sub.Filters = append(sub.Filters, f.e)
 	}
-	for _, t := range tables {
-		pl.base(sub, t)
-	}
 	r = &Rel{Name: sub.Name, Keys: keep, Sets: sets, GidOf: gid, Per: &PerRel{Sub: sub}}
+	if c.window != nil {
+		pl.windowBases(ctx, sub, r.Per, tables, c)
+	} else {
+		for _, t := range tables {
+			pl.base(sub, t)
+		}
+	}
 	pl.rels[key] = r
 	return r, true
+}
+
+// windowBases makes the groups of a per-grain aggregate under a window
+// edit (cell c of ctx): each of ctx's cells with the per columns' values
+// among its rows in range, read by range scans of sub (whose first keys
+// are ctx's, the cell; the rest, the per columns, are read on the rows).
+// The sub-context's cells start from the same range: ctx's keys that c
+// removed stay keys of sub (they name the cell, whose E sets the range)
+// but constrain no row.
+func (pl *planner) windowBases(ctx, sub *Context, pr *PerRel, tables []*model.Table, c cell) {
+	n, ns := len(ctx.Keys), len(sub.Keys)
+	start := cell{window: &windowEdit{ed: c.window.ed, e: c.window.e, order: -1, cells: c.window.cells}}
+	for i := range ctx.Keys {
+		if c.removed&bit(i, n) != 0 {
+			start.removed |= bit(i, ns)
+		}
+	}
+	for _, f := range sub.Filters {
+		start.filters = append(start.filters, cellFilter{e: f, rows: true})
+	}
+	pr.start = cell{removed: start.removed, window: start.window}
+	pr.AfterCells = true
+	for _, t := range tables {
+		r := pl.rangeRel(sub, t, start, sub.Name+"_"+t.Name)
+		if !slices.Contains(sub.Bases, r) {
+			sub.Bases = append(sub.Bases, r)
+		}
+	}
+}
+
+// windowKey is a text for the window edit in force in cell c, if any.
+func windowKey(c cell) string {
+	if c.window == nil {
+		return ""
+	}
+	return c.window.ed.Col.String() + " " + c.window.ed.TimeText() + " " + endKey(c.window.e)
 }

@@ -267,7 +267,8 @@ func pinned(pa *model.PerAgg) bool {
 }
 
 // pinStart is the cell in which a per-grain aggregate's X is compiled in
-// its sub-context: the sub-context's filters (those of the outer cell).
+// its sub-context: base (under a window edit, the range: windowBases) with
+// the sub-context's filters (those of the outer cell).
 // Under a pin (pinned), the filters that read D together with another
 // column are left out: the pin D = E removes every constraint that
 // mentions D, and where one on D alone changes nothing (E meets it), one
@@ -275,8 +276,8 @@ func pinned(pa *model.PerAgg) bool {
 // ((returns.id = 2 or returns.day is null), found by TestDifferentialLive,
 // regression case latest_under_mixed_filter). The groups, and so E, are
 // still formed under every filter (the sub-context's bases).
-func pinStart(pa *model.PerAgg, sub *Context) cell {
-	start := cell{}
+func pinStart(pa *model.PerAgg, sub *Context, base cell) cell {
+	start := base
 	for _, f := range sub.Filters {
 		d := pa.Per[0]
 		if pinned(pa) && mentions(f, func(x *model.Column) bool { return x == d }) &&
@@ -331,7 +332,7 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 	default:
 		ev = &model.Func{Pos: ed.Pos, Name: "greatest", Args: ends, T: ed.Col.Type}
 	}
-	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev, order: -1}}
+	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev, order: -1, cells: ctx}}
 	if len(e.Edits[i+1:]) == 0 {
 		out.window.order = cellOrder(ctx, c, ed)
 	}
@@ -392,7 +393,10 @@ func nullOverNoRows(e model.Expr, seen map[*model.Measure]bool) bool {
 }
 
 // rangeRel finds or adds the relation of a window edit's scan of t in cell
-// c: cells keyed like ctx's, rows matched on the keys c keeps.
+// c: cells keyed like ctx's, rows matched on the keys c keeps. In a
+// per-grain sub-context under the edit (c.window.cells is not ctx), the
+// cells are those of the outer context, each with the values of ctx's own
+// kept keys (the per columns) among its rows in range.
 func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase string) *Rel {
 	w := c.window
 	where := rowFilters(c.filters)
@@ -403,24 +407,34 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 		}
 		return r
 	}
-	n := len(ctx.Keys)
-	var all, match []int
+	n, nc := len(ctx.Keys), len(w.cells.Keys)
+	var keys, match []int
 	for i := range ctx.Keys {
-		all = append(all, i)
-		if c.removed&bit(i, n) == 0 {
+		kept := c.removed&bit(i, n) == 0
+		if i < nc || kept {
+			keys = append(keys, i)
+		}
+		if kept {
 			match = append(match, i)
 		}
 	}
 	gid := map[uint64]uint64{}
+	var sets []uint64
 	for _, s := range ctx.Sets {
-		gid[s] = s
+		gid[s] = compact(s, n, keys)
+		if !slices.Contains(sets, gid[s]) {
+			sets = append(sets, gid[s])
+		}
 	}
 	s := &Scan{Table: t, Where: where, Keys: movedKeys(ctx, match, nil)}
-	r := &Rel{Name: pl.name(nameBase), Keys: all, Sets: ctx.Sets, GidOf: gid, Scan: s}
+	r := &Rel{Name: pl.name(nameBase), Keys: keys, Sets: sets, GidOf: gid, Scan: s}
 	s.Name = r.Name
 	pl.inputs[s] = map[string]*Input{}
 	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
 		D: pl.input(s, r.Name+"_at", &model.ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
+	if w.cells != ctx {
+		s.Range.Cells = w.cells
+	}
 	pl.rels[key] = r
 	pl.cellOrders[r] = w.order
 	ctx.Rels = append(ctx.Rels, r)
