@@ -80,6 +80,7 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 		t.Error(diff)
 	}
 }
+
 // Per-grain aggregates under window edits (to date, running, last) are
 // planned into SQL: each cell's groups are the per values among its rows
 // in range (the kept constraints and start_of_UNIT(E) <= D <= E, ...), as
