@@ -228,7 +228,9 @@ func (x *exprResolver) deadPins(edits []*CellEdit, outer map[*Column]grammar.Pos
 	for _, ce := range edits {
 		switch {
 		case ce.Kind == EditPin || ce.Kind == EditLatest || ce.Kind == EditEarliest:
-			if p, ok := pins[ce.Col]; ok {
+			// = latest (earliest) finds E among the rows the earlier pin
+			// keeps: that pin is not dead (the reference evaluator).
+			if p, ok := pins[ce.Col]; ok && ce.Kind == EditPin {
 				x.r.diags.Warnf(p, "dead-pin", "this pin of %s has no effect: the pin at %d:%d replaces it", ce.Col, ce.Pos.Line, ce.Pos.Col).Suggestion =
 					"remove one of the two pins"
 			}

@@ -93,6 +93,25 @@ func TestDeadPinWarns(t *testing.T) {
 		at(0, 61)+": warning: this pin of sales.day has no effect: the pin at "+at(0, 29)+" replaces it | hint: remove one of the two pins")
 }
 
+// A pin before `= latest` (or around a measure that `= earliest` edits)
+// is not dead: E is the latest day among the rows it keeps
+// (revenue[D = latest; D = earliest] is the value on E, not on F).
+func TestPinBeforeLatestIsNotDead(t *testing.T) {
+	for _, m := range []string{
+		"sum(sales.qty)[sales.day = latest; sales.day = earliest]",
+		"(sum(sales.qty)[sales.day = earliest])[sales.day = date '2026-01-31']",
+		"sum(sales.qty)[sales.day in (date '2026-01-30', date '2026-01-31'); sales.day = latest]",
+	} {
+		_, got := load(t, "measure m = "+m+"\n")
+		if strings.Contains(strings.Join(got, "\n"), "dead-pin") || strings.Contains(strings.Join(got, "\n"), "has no effect") {
+			t.Errorf("%s: want no dead-pin warning, got:\n%s", m, strings.Join(got, "\n"))
+		}
+	}
+	// a literal pin after = latest does replace it
+	expectErrors(t, "measure m = sum(sales.qty)[sales.day = latest; sales.day = date '2026-01-31']\n",
+		at(0, 28)+": warning: this pin of sales.day has no effect: the pin at "+at(0, 48)+" replaces it | hint: remove one of the two pins")
+}
+
 // wrapKeeping draws a row expression around x that keeps x's kind: a copy
 // through coalesce, case, abs, round, a constant factor or term, nested.
 func wrapKeeping(t *rapid.T, x string, depth int) string {
