@@ -30,7 +30,7 @@ func TestPinUnderLaterEditsMatchesReference(t *testing.T) {
 		t.Fatal(err)
 	}
 	measures := []string{"closing", "close_all", "open_all", "close_day", "close_ly", "close_lm_all", "close_running",
-		"close_ytd", "close_last", "inner_ungroup", "inner_back", "cal_close_all", "cal_close_ly", "shop_close"}
+		"close_ytd", "close_last", "close_open", "inner_ungroup", "inner_back", "cal_close_all", "cal_close_ly", "shop_close"}
 	for _, req := range []model.Request{
 		{By: []string{"sales.shop", "days.mon"}, Totals: "rollup"},
 		{By: []string{"sales.year", "sales.shop"}, Totals: "all"},
