@@ -100,6 +100,13 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 		"avg(revenue[drop orders.shop] per orders.shop)[orders.day running]",
 		"sum(count(distinct orders.id) per orders.shop)[orders.day last 1 year]",
 		"count(* per orders.shop)[orders.day running] + revenue[orders.day running]",
+		"avg(revenue[orders.day = latest] per orders.shop)[orders.day to date year]",
+		"avg(revenue[ungroup] per orders.shop)[orders.day running]",
+		"avg(revenue per orders.shop)[orders.day running; drop orders.shop]",
+		"avg(revenue where orders.amount > 3 per orders.shop)[orders.day last 2 months]",
+		"avg(revenue[drop days.day] per orders.shop)[days.day running]",
+		"avg(revenue[orders.shop = 'a'] per orders.shop)[orders.day running]",
+		"avg(revenue per orders.shop)[days.day running]",
 	}
 	var src strings.Builder
 	var names []string

@@ -144,7 +144,8 @@ func (pl *planner) timeCells(ctx *Context) {
 			pl.timeCells(r.Per.Sub)
 		}
 	}
-	if len(ctx.Bases) != 1 {
+	if len(ctx.Bases) != 1 || ctx.Bases[0].Scan.Range != nil {
+		// (a range scan's cells overlap: see useWindows)
 		return
 	}
 	base := ctx.Bases[0]

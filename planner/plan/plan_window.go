@@ -32,7 +32,9 @@ func (pl *planner) useWindows(ctx *Context) {
 			pl.useWindows(r.Per.Sub)
 		}
 	}
-	if len(ctx.Bases) != 1 {
+	if len(ctx.Bases) != 1 || ctx.Bases[0].Scan.Range != nil {
+		// (the cells of a range scan, in a per-grain sub-context under a
+		// window edit, overlap: running ranges share rows)
 		return
 	}
 	base := ctx.Bases[0]
