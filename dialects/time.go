@@ -77,6 +77,8 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.Type()))
 	case model.EditLast:
 		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.Type()))
+	case model.EditLatest, model.EditEarliest:
+		conds = []string{at + " = " + end}
 	}
 	n := len(ctx.Keys)
 	var extra []int

@@ -298,7 +298,11 @@ func (d *dumper) scan(depth int, ctx *Context, s *Scan) {
 			match = append(match, ctx.Keys[i].Name)
 		}
 		ed := &model.CellEdit{Kind: r.Kind, N: r.N, Unit: r.Unit}
-		line := fmt.Sprintf("range: %s %s, up to E = %s", r.D.Name, ed.TimeText(), d.text(r.E))
+		upTo := "up to"
+		if r.Kind == model.EditLatest || r.Kind == model.EditEarliest {
+			upTo = "at"
+		}
+		line := fmt.Sprintf("range: %s %s, %s E = %s", r.D.Name, ed.TimeText(), upTo, d.text(r.E))
 		if len(match) > 0 {
 			line += "; matching " + strings.Join(match, ", ")
 		}

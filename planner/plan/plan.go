@@ -180,13 +180,16 @@ type Scan struct {
 // cells (every key, every grouping set), each aggregating the rows that
 // match the cell's kept keys (the scan's Keys, matched where the cell
 // groups by them) and whose date D lies in the cell's range: up to E, and
-// from start_of_Unit(E) (to date) or after E - N Unit (last).
+// from start_of_Unit(E) (to date) or after E - N Unit (last); or, for
+// = latest and = earliest after another window edit, on E alone.
 type TimeRange struct {
 	Kind model.EditKind
 	N    int
 	Unit string
-	// D is the date read on each row; E is the cell's latest D, a value
-	// (or the greatest of values) of the context.
+	// D is the date read on each row (the column, or the column moved by
+	// the backs applied after the edit); E is the cell's latest D (or
+	// earliest, for = earliest), a value (or the greatest, least of
+	// values) of the context.
 	D *Input
 	E model.Expr
 	// Match lists, for each of the scan's Keys, its index among the
@@ -320,11 +323,15 @@ type cell struct {
 	window *windowEdit
 }
 
-// windowEdit is a window edit in force in a cell: the edit and the cell's
-// E, as a value of the context.
+// windowEdit is a window edit in force in a cell: the edit (to date,
+// running, last; or = latest, = earliest after another window edit) and
+// the cell's E, as a value of the context.
 type windowEdit struct {
 	ed *model.CellEdit
 	e  model.Expr
+	// at is the date each row is matched on: D, or D moved forward by
+	// the backs applied after the edit.
+	at model.Expr
 	// order is the index of the time key whose cells the edit may be
 	// computed over (see cellOrder), or -1.
 	order int

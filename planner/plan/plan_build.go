@@ -295,7 +295,7 @@ func (pl *planner) measureValue(ctx *Context, m *model.Measure, c cell) model.Ex
 		}
 	}
 	if c.window != nil {
-		key += fmt.Sprintf("|window %p %s", c.window.ed, endKey(c.window.e))
+		key += "|window " + windowKey(c)
 	}
 	if x, ok := pl.computed[key]; ok {
 		return x
@@ -560,7 +560,7 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 // but constrain no row.
 func (pl *planner) windowBases(ctx, sub *Context, pr *PerRel, tables []*model.Table, c cell) {
 	n, ns := len(ctx.Keys), len(sub.Keys)
-	start := cell{window: &windowEdit{ed: c.window.ed, e: c.window.e, order: -1, cells: c.window.cells}}
+	start := cell{window: &windowEdit{ed: c.window.ed, e: c.window.e, at: c.window.at, order: -1, cells: c.window.cells}}
 	for i := range ctx.Keys {
 		if c.removed&bit(i, n) != 0 {
 			start.removed |= bit(i, ns)
@@ -579,10 +579,11 @@ func (pl *planner) windowBases(ctx, sub *Context, pr *PerRel, tables []*model.Ta
 	}
 }
 
-// windowKey is a text for the window edit in force in cell c, if any.
+// windowKey is a text for the window edit in force in cell c, if any:
+// the edit, the date its rows are matched on and E.
 func windowKey(c cell) string {
 	if c.window == nil {
 		return ""
 	}
-	return c.window.ed.Col.String() + " " + c.window.ed.TimeText() + " " + endKey(c.window.e)
+	return c.window.ed.Col.String() + " " + c.window.ed.TimeText() + " at " + model.Text(c.window.at) + " " + endKey(c.window.e)
 }

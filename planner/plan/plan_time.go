@@ -183,11 +183,18 @@ func substitute(e model.Expr, f func(*model.ColRef) model.Expr) model.Expr {
 }
 
 // back applies `D back N UNIT` to the cell: its time-bound keys and
-// filters read D moved forward N units.
+// filters, and the range of a window edit in force, read D moved forward
+// N units.
 func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
-	out := cell{removed: c.removed, moved: map[int]model.Expr{}}
+	out := cell{removed: c.removed, moved: map[int]model.Expr{}, window: c.window}
 	for i, e := range c.moved {
 		out.moved[i] = e
+	}
+	if w := c.window; w != nil && timeBound(ed.Col, w.ed.Col) {
+		// the window's range is time-bound: it reads D moved too
+		moved := *w
+		moved.at, moved.order = pl.moveTime(w.at, ed), -1
+		out.window = &moved
 	}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
@@ -244,6 +251,10 @@ func movedKeys(ctx *Context, keep []int, moved map[int]model.Expr) []Key {
 // removes (pinStart).
 func (pl *planner) timeEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
+	if c.window != nil {
+		// after a window edit: a pin within its range (see windowEdit)
+		return pl.windowEdit(ctx, e, i, c)
+	}
 	switch ed.Kind {
 	case model.EditLatest, model.EditEarliest:
 		x := e.X
@@ -293,7 +304,11 @@ func pinStart(pa *model.PerAgg, sub *Context, base cell) cell {
 // the edits after it: the cell's E is the latest D among its rows of X's
 // iteration tables; the edited cell drops the time-bound keys and filters,
 // and its aggregates read the rows whose D lies in the range E sets
-// (see TimeRange).
+// (see TimeRange). The range is itself time-bound: a later window edit
+// replaces it (its E the latest D of the range's rows), a later back
+// moves the date it reads (see back), and `= latest` (`= earliest`)
+// after it pins D to the latest (earliest) D of the range's rows, planned
+// here as a range of that one day.
 func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (model.Expr, bool) {
 	ed := e.Edits[i]
 	refuse := func(what string) (model.Expr, bool) {
@@ -301,21 +316,19 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 			"the reference evaluator (rollwise verify) computes it; write the window edit as the outermost time edit"
 		return nil, false
 	}
-	tables := pl.iterationTables(e.X)
-	// After back, E is the latest D of the moved cell's rows and the
-	// range replaces the moved constraints (they are time-bound), but
-	// a calendar's copy (movedColumn) is not: refused there.
-	if c.window != nil || pl.readsMovedCalendar(c) {
-		return refuse("after another time edit")
-	}
-	if slices.ContainsFunc(e.Edits[i+1:], func(r *model.CellEdit) bool { return r.Kind.Time() }) {
-		return refuse("before another time edit")
+	pin := ed.Kind == model.EditLatest || ed.Kind == model.EditEarliest
+	if w := c.window; w != nil && !replaces(ed, w.ed.Col) {
+		return refuse(fmt.Sprintf("after %s %s (a range on another date)", w.ed.Col, w.ed.TimeText()))
 	}
 	// E over several iteration tables is the latest of each one's latest
-	// D (greatest skips NULLs).
+	// D (greatest skips NULLs); F the earliest of the earliest.
+	fn, most := "max", "greatest"
+	if ed.Kind == model.EditEarliest {
+		fn, most = "min", "least"
+	}
 	var ends []model.Expr
-	for _, t := range tables {
-		end := &model.Agg{Pos: ed.Pos, Func: "max", Arg: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, Table: t, T: ed.Col.Type}
+	for _, t := range pl.iterationTables(e.X) {
+		end := &model.Agg{Pos: ed.Pos, Func: fn, Arg: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, Table: t, T: ed.Col.Type}
 		ev, ok := pl.leaf(ctx, end, c).(*ValueRef)
 		if !ok {
 			return nil, false
@@ -330,38 +343,88 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 	case 1:
 		ev = ends[0]
 	default:
-		ev = &model.Func{Pos: ed.Pos, Name: "greatest", Args: ends, T: ed.Col.Type}
+		ev = &model.Func{Pos: ed.Pos, Name: most, Args: ends, T: ed.Col.Type}
 	}
-	out := cell{removed: c.removed, window: &windowEdit{ed: ed, e: ev, order: -1, cells: ctx}}
-	if len(e.Edits[i+1:]) == 0 {
+	rest := e.Edits[i+1:]
+	out := cell{removed: c.removed, moved: map[int]model.Expr{},
+		window: &windowEdit{ed: ed, e: ev, at: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, order: -1, cells: ctx}}
+	if len(rest) == 0 && c.window == nil {
 		out.window.order = cellOrder(ctx, c, ed)
+	}
+	// A range replaces the time-bound keys and filters; a pin (after
+	// another window) those that mention D.
+	drop := func(col *model.Column) bool { return timeBound(ed.Col, pl.original(col)) }
+	if pin {
+		drop = func(col *model.Column) bool { return pl.original(col) == ed.Col }
 	}
 	n := len(ctx.Keys)
 	for k, key := range ctx.Keys {
-		if timeBound(ed.Col, key.Col) {
+		if drop(key.Col) {
 			out.removed |= bit(k, n)
+		} else if m, ok := c.moved[k]; ok {
+			out.moved[k] = m
 		}
 	}
 	for _, f := range c.filters {
-		if !allBound(f.e, ed.Col) {
+		some := mentions(f.e, drop)
+		all := some && !mentions(f.e, func(col *model.Column) bool { return !drop(col) })
+		if pin && !some || !pin && !all {
 			out.filters = append(out.filters, f)
 		}
 	}
-	for _, r := range e.Edits[i+1:] {
-		out = out.edit(ctx, r)
+	x := e.X
+	if slices.ContainsFunc(rest, func(r *model.CellEdit) bool { return r.Kind.Time() }) {
+		// the later time edits apply in the range's cell
+		x = &model.EditExpr{Pos: e.Pos, X: e.X, Edits: rest}
+	} else {
+		for _, r := range rest {
+			out = out.edit(ctx, r)
+		}
 	}
-	x := pl.compile(ctx, e.X, out)
-	if x == nil {
+	cx := pl.compile(ctx, x, out)
+	if cx == nil {
 		return nil, false
 	}
-	if out.window != nil && nullOverNoRows(e.X, map[*model.Measure]bool{}) {
-		return x, true
+	if out.window != nil && nullOverNoRows(x, map[*model.Measure]bool{}) {
+		return cx, true
 	}
 	// A cell without E (no row of X's table, or no date) has NULL, even
 	// where X itself is not NULL over no rows (a count, a coalesce), or
 	// where a later edit removed the range and X reads other rows:
 	// language.md, Time.
-	return &model.CaseExpr{Pos: ed.Pos, Whens: []model.WhenArm{{Cond: &model.IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: x}}, T: e.X.Type()}, true
+	return &model.CaseExpr{Pos: ed.Pos, Whens: []model.WhenArm{{Cond: &model.IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: cx}}, T: e.X.Type()}, true
+}
+
+// replaces reports whether the time edit ed, applied in a cell with a
+// range on the date column d, removes that range: a range on a column
+// time-bound to ed's (a window edit replaces it), or, for a pin (= latest,
+// = earliest), a range on D or on the column D's link reaches, or the
+// other way round (each row's two dates are one, so the pinned day lies
+// in the range).
+func replaces(ed *model.CellEdit, d *model.Column) bool {
+	if ed.Kind != model.EditLatest && ed.Kind != model.EditEarliest {
+		return timeBound(ed.Col, d)
+	}
+	return d == ed.Col || calendarKey(d) == ed.Col || calendarKey(ed.Col) == d
+}
+
+// original is the column of a calendar that col stands for when col is a
+// column of a copy `back` joins (movedColumn), else col itself: a window
+// edit replaces a moved constraint as it replaces the constraint.
+func (pl *planner) original(col *model.Column) *model.Column {
+	if pl.movedTables[col.Table.Name] != col.Table {
+		return col
+	}
+	for l := range pl.p.Moves {
+		if l.To == col.Table {
+			if cal := calendarOf(l.FromCols[0]); cal != nil {
+				if o := cal.Column(col.Name); o != nil {
+					return o
+				}
+			}
+		}
+	}
+	return col
 }
 
 // nullOverNoRows reports whether e is NULL whenever its aggregates see no
@@ -400,7 +463,7 @@ func nullOverNoRows(e model.Expr, seen map[*model.Measure]bool) bool {
 func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase string) *Rel {
 	w := c.window
 	where := rowFilters(c.filters)
-	key := fmt.Sprintf("range|%s|%s|%s|%s", pl.scanKey(ctx, t, c.removed, where), w.ed.Col, w.ed.TimeText(), endKey(w.e))
+	key := "range|" + pl.scanKey(ctx, t, c.removed, where) + "|moved " + pl.movedKey(c.moved) + "|" + windowKey(c)
 	if r, ok := pl.rels[key]; ok {
 		if pl.cellOrders[r] != w.order {
 			pl.cellOrders[r] = -1
@@ -426,12 +489,12 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 			sets = append(sets, gid[s])
 		}
 	}
-	s := &Scan{Table: t, Where: where, Keys: movedKeys(ctx, match, nil)}
+	s := &Scan{Table: t, Where: where, Keys: movedKeys(ctx, match, c.moved)}
 	r := &Rel{Name: pl.name(nameBase), Keys: keys, Sets: sets, GidOf: gid, Scan: s}
 	s.Name = r.Name
 	pl.inputs[s] = map[string]*Input{}
 	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
-		D: pl.input(s, r.Name+"_at", &model.ColRef{Pos: w.ed.Pos, Col: w.ed.Col})}
+		D: pl.input(s, r.Name+"_at", w.at)}
 	if w.cells != ctx {
 		s.Range.Cells = w.cells
 	}
@@ -452,15 +515,4 @@ func endKey(e model.Expr) string {
 		return true
 	})
 	return strings.Join(t, ",")
-}
-
-// readsMovedCalendar reports whether a filter of c reads a copy of a
-// calendar that back joins (movedColumn).
-func (pl *planner) readsMovedCalendar(c cell) bool {
-	for _, f := range c.filters {
-		if mentions(f.e, func(col *model.Column) bool { return pl.movedTables[col.Table.Name] == col.Table }) {
-			return true
-		}
-	}
-	return false
 }

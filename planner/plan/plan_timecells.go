@@ -137,7 +137,8 @@ func cellOrder(ctx *Context, c cell, ed *model.CellEdit) int {
 // what the base reads: the same table, the base's row filters but the
 // time-bound ones the edit replaces, and those keep or drop whole periods
 // of to date's unit (a running total has none: the base lacks the rows
-// they drop); aggregates that decompose.
+// they drop); aggregates that decompose; not a scan whose cells give a
+// later window edit its E (the range scan reads them).
 func (pl *planner) timeCells(ctx *Context) {
 	for _, r := range ctx.Rels {
 		if r.Per != nil {
@@ -151,7 +152,7 @@ func (pl *planner) timeCells(ctx *Context) {
 	base := ctx.Bases[0]
 	for _, r := range ctx.Rels {
 		s := r.Scan
-		if s == nil || s.Range == nil || pl.cellOrders[r] < 0 || s.Table != base.Scan.Table {
+		if s == nil || s.Range == nil || pl.cellOrders[r] < 0 || pl.timeEnds[r] || s.Table != base.Scan.Table {
 			continue
 		}
 		d := s.Range.D.Expr.(*model.ColRef).Col

@@ -355,6 +355,11 @@ func (g *gen) edited(depth int) mx {
 	var edits []string
 	if dates := g.dateCols(cols); len(dates) > 0 && g.chance(35) {
 		edits = append(edits, g.timeEdit(g.col(dates)))
+		if g.chance(30) {
+			// a chain: the second time edit applies in the cell the
+			// first one made (a window's range replaced, moved, pinned)
+			edits = append(edits, g.timeEdit(g.col(dates)))
+		}
 	}
 	for n := g.intn(1, 2); len(edits) < n; {
 		switch k := g.intn(0, 9); {
