@@ -241,6 +241,47 @@ var timeCases = []Case{
 			// nothing, E = 2026-03-01, 2026 up to it: 6.
 			{"orders.month": nil, "revenue": "173", "ly_ytd": "6", "rolled_up": total("orders.month")},
 		}},
+	// Two time edits, the second in the cell the first made
+	// (language.md, "Time": chains).
+	{Models: timeModel, Name: "chains: a window, then another time edit", Measures: "revenue,ytd_ly,open3,run_ytd,running", By: "orders.month", Totals: "grand",
+		Rows: []Row{
+			// ytd_ly: the year to date up to E, then a year back: the rows
+			// whose day plus a year lies in [January 1st of E's year, E]:
+			// last year's year to date up to the same day. 2024-02: E =
+			// 2024-02-29, no 2023 row. open3: the earliest day of the
+			// last three months up to E, its revenue. run_ytd: the
+			// running total inside the year to date, whose E is the
+			// cell's own: running.
+			{"orders.month": "2024-02-01", "revenue": "100", "ytd_ly": nil, "open3": "100", "run_ytd": "100", "running": "100"},
+			// 2025-01-01..31 a year back: none. (2024-10-31, 2025-01-31]: 2025-01-31.
+			{"orders.month": "2025-01-01", "revenue": "10", "ytd_ly": nil, "open3": "10", "run_ytd": "110", "running": "110"},
+			// 2025-01-01..02-28: the leap day lands on 2025-02-28: 100. (2024-11-28, 2025-02-28]: January 31st's 10.
+			{"orders.month": "2025-02-01", "revenue": "20", "ytd_ly": "100", "open3": "10", "run_ytd": "130", "running": "130"},
+			{"orders.month": "2025-03-01", "revenue": "37", "ytd_ly": "100", "open3": "10", "run_ytd": "167", "running": "167"},
+			// 2026-01-01..15: 2025-01-31 lands on 2026-01-31, later: none.
+			{"orders.month": "2026-01-01", "revenue": "1", "ytd_ly": nil, "open3": "1", "run_ytd": "168", "running": "168"},
+			// 2026-01-01..02-28: 2025-01-31 and 2025-02-28 land in it: 10 + 20.
+			{"orders.month": "2026-02-01", "revenue": "2", "ytd_ly": "30", "open3": "1", "run_ytd": "170", "running": "170"},
+			// 2026-01-01..03-01: March 2025's days land after March 1st: 30
+			// (ly_ytd, back first, gives 67: its E is 2025-03-31).
+			{"orders.month": "2026-03-01", "revenue": "3", "ytd_ly": "30", "open3": "1", "run_ytd": "173", "running": "173"},
+			// E = 2026-03-01, as in its last month.
+			{"orders.month": nil, "revenue": "173", "ytd_ly": "30", "open3": "1", "run_ytd": "173", "running": "173", "rolled_up": total("orders.month")},
+		}},
+	{Models: timeModel, Name: "chains: a calendar moved, then a window", Measures: "revenue,cal_ly_ytd", By: "days.mon", Where: "days.yr = 2026", Totals: "grand",
+		Rows: []Row{
+			// back moves the calendar's month and year (read on the
+			// calendar's row of the day a year later); to date year
+			// replaces them. 2026-01: 2025-01-31 lands on the calendar's
+			// 2026-01-31: E = 2025-01-31, 2025 up to it: 10.
+			{"days.mon": "2026-01", "revenue": "1", "cal_ly_ytd": "10"},
+			// 2025-02-28 lands on 2026-02-28 (the leap day on 2025-02-28,
+			// out of 2026): E = 2025-02-28: 10 + 20.
+			{"days.mon": "2026-02", "revenue": "2", "cal_ly_ytd": "30"},
+			// 2025-03-15 and 2025-03-31 land on 2026's: E = 2025-03-31: 67.
+			{"days.mon": "2026-03", "revenue": "3", "cal_ly_ytd": "67"},
+			{"days.mon": nil, "revenue": "6", "cal_ly_ytd": "67", "rolled_up": total("days.mon")},
+		}},
 	{Models: timeModel, Name: "calendar's derived months of 2026, a year back", Measures: "revenue,cal_ly", By: "days.cal_month", Where: "days.cal_year = 2026", Totals: "grand",
 		Rows: []Row{
 			// Derived calendar columns computed from the key alone move by their formula.
