@@ -77,13 +77,15 @@ type LinkDecl struct {
 	Required bool
 }
 
-// MeasureDecl is `measure NAME = EXPR [format F] ["doc"]`.
+// MeasureDecl is `measure NAME = EXPR [format F] ["doc"]`. Expr is nil
+// in a file of ParseLazy: Expression gives it.
 type MeasureDecl struct {
 	Pos    Pos
 	Name   Ident
 	Expr   Expr
 	Format *Ident
 	Doc    string
+	lazy   *lazySource
 }
 
 // ViewDecl is `view NAME = M, ... by T.C, ... [where P] [with totals [MODE]]`.

@@ -63,13 +63,18 @@ func (r *syntaxRef) ref() *Ref {
 	return &Ref{Pos: pos(r.Pos), Table: first.Name, Name: second.Name, NamePos: second.Pos}
 }
 
-func (d *syntaxDecl) addTo(f *File) {
+// addTo adds the declaration to f; a measure's expression is left to be
+// parsed again from lazy when lazy is set (ParseLazy).
+func (d *syntaxDecl) addTo(f *File, lazy *lazySource) {
 	switch {
 	case d.Table != nil:
 		f.Tables = append(f.Tables, d.Table.decl())
 	case d.Measure != nil:
 		m := d.Measure
-		md := &MeasureDecl{Pos: pos(m.Pos), Name: m.Name.ident(), Expr: m.Expr.expr()}
+		md := &MeasureDecl{Pos: pos(m.Pos), Name: m.Name.ident(), lazy: lazy}
+		if lazy == nil {
+			md.Expr = m.Expr.expr()
+		}
 		if m.Format != nil {
 			id := m.Format.ident()
 			md.Format = &id

@@ -44,8 +44,11 @@ func FastPathDiff(src string) (diff string, decls, missed int) {
 			}
 		}
 	}
-	ff, fd := parseFile(name, src, true)
-	pf, pd := parseFile(name, src, false)
+	ff, fd := parseFile(name, src, true, nil)
+	pf, pd := parseFile(name, src, false, nil)
+	if diff := lazyDiff(name, src, ff, fd); diff != "" {
+		return diff, decls, missed
+	}
 	if !reflect.DeepEqual(fd, pd) {
 		return fmt.Sprintf("diagnostics differ:\nparticiple %s\nfast path  %s", dump(pd), dump(fd)), decls, missed
 	}
@@ -53,6 +56,33 @@ func FastPathDiff(src string) (diff string, decls, missed int) {
 		return fmt.Sprintf("files differ:\nparticiple %s\nfast path  %s", dump(pf), dump(ff)), decls, missed
 	}
 	return "", decls, missed
+}
+
+// lazyDiff describes the first difference between ParseLazy's file and
+// diagnostics and Parse's (f and d), with each lazy measure's expression
+// parsed again ("" if none).
+func lazyDiff(name, src string, f *File, d Diagnostics) string {
+	lf, ld := ParseLazy(name, src)
+	if !reflect.DeepEqual(ld, d) {
+		return fmt.Sprintf("diagnostics differ:\nParse     %s\nParseLazy %s", dump(d), dump(ld))
+	}
+	if len(lf.Measures) != len(f.Measures) {
+		return fmt.Sprintf("ParseLazy has %d measures, Parse %d", len(lf.Measures), len(f.Measures))
+	}
+	for i, m := range lf.Measures {
+		if m.Expr != nil || m.lazy == nil {
+			return fmt.Sprintf("ParseLazy kept the expression of measure %s", m.Name.Name)
+		}
+		again := *m
+		again.Expr, again.lazy = m.Expression(), nil
+		if !reflect.DeepEqual(&again, f.Measures[i]) {
+			return fmt.Sprintf("measure %d parsed again differs:\nParse     %s\nParseLazy %s", i, dump(f.Measures[i]), dump(&again))
+		}
+	}
+	if !reflect.DeepEqual(lf.Tables, f.Tables) || !reflect.DeepEqual(lf.Views, f.Views) {
+		return fmt.Sprintf("tables or views differ:\nParse     %s\nParseLazy %s", dump(f), dump(lf))
+	}
+	return ""
 }
 
 // FastExprDiff does the same for ParseExpr.

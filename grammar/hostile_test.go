@@ -68,7 +68,7 @@ func randomText(n int) string {
 }
 
 // hostileSize is the size of the hostile inputs: 4 MiB, 1 MiB with
-// -short, the 64 MiB cap with ROLLWISE_TEST_CAP=1.
+// -short, the size cap (MaxSourceBytes) with ROLLWISE_TEST_CAP=1.
 func hostileSize() int {
 	switch {
 	case os.Getenv("ROLLWISE_TEST_CAP") != "":
@@ -149,7 +149,7 @@ func TestDeclarationTokenLimit(t *testing.T) {
 	}
 }
 
-// BenchmarkParseHostile parses each hostile input at the 64 MiB cap (at
+// BenchmarkParseHostile parses each hostile input at the size cap (at
 // 8 MiB with -short), reporting MB/s and the bytes allocated:
 //
 //	go test ./grammar -run '^$' -bench ParseHostile -benchtime 1x

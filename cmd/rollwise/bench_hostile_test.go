@@ -8,11 +8,13 @@ import (
 	"runtime"
 	"strings"
 	"testing"
+
+	"github.com/rollwise/rollwise/grammar"
 )
 
 // BenchmarkCheckHostile runs `rollwise check` on inputs made to grow the
 // work faster than their size (issue 17 item 5; target: any input up to
-// the 64 MiB cap in under 5 s and 500 MB). Each reports wall and CPU
+// the size cap, grammar.MaxSourceBytes, in under 5 s and 500 MB). Each reports wall and CPU
 // milliseconds, the input's size and the peak heap in MB (sampled after
 // each run, so a lower bound of the process's peak). ROLLWISE_BENCH_CAP=1
 // adds the inputs at the cap itself.
@@ -35,15 +37,15 @@ func BenchmarkCheckHostile(b *testing.B) {
 			struct {
 				name string
 				src  func() string
-			}{"hash-64MiB", func() string { return strings.Repeat("#", 64<<20) }},
+			}{"hash-cap", func() string { return strings.Repeat("#", grammar.MaxSourceBytes) }},
 			struct {
 				name string
 				src  func() string
-			}{"random-60MiB", func() string { return randomBytes(60 << 20) }},
+			}{"random-cap", func() string { return randomBytes(grammar.MaxSourceBytes) }},
 			struct {
 				name string
 				src  func() string
-			}{"model-near-cap", func() string { return synthModelOfSize(54 << 20) }})
+			}{"model-near-cap", func() string { return synthModelUnder(grammar.MaxSourceBytes) }})
 	}
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
@@ -88,4 +90,22 @@ func synthModelOfSize(size int) string {
 		src = synthModel(n)
 	}
 	return src
+}
+
+// synthModelUnder is the synthetic model with the most measures (a
+// multiple of 1,000) that keeps it at most size bytes.
+func synthModelUnder(size int) string {
+	n := 5000 * size / len(synthModel(5000)) / 1000 * 1000
+	src := synthModel(n)
+	for len(src) > size {
+		n -= 1000
+		src = synthModel(n)
+	}
+	for {
+		next := synthModel(n + 1000)
+		if len(next) > size {
+			return src
+		}
+		n, src = n+1000, next
+	}
 }

@@ -100,3 +100,25 @@ func TestLinkChainIsQuick(t *testing.T) {
 		t.Errorf("exit %d: %s", code, stderr)
 	}
 }
+
+// TestModelCapIsForAllFiles: the cap bounds a model's files together, so
+// two files each under it but over it in all are refused (a usage error
+// saying what to do), not checked past the bounds the cap keeps.
+func TestModelCapIsForAllFiles(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	half := "-- " + strings.Repeat("x", grammar.MaxSourceBytes/2) + "\n"
+	for _, name := range []string{"a.roll", "b.roll"} {
+		if err := os.WriteFile(filepath.Join(dir, name), []byte(half), 0o644); err != nil {
+			t.Fatal(err)
+		}
+	}
+	code, stderr := checkWithin(t, dir)
+	want := fmt.Sprintf("hold more than %d bytes in all", grammar.MaxSourceBytes)
+	if code != exitUsage || !strings.Contains(stderr, want) || !strings.Contains(stderr, "split it into smaller models") {
+		t.Errorf("exit %d, stderr %q; want exit %d and %q", code, stderr, exitUsage, want)
+	}
+	if code, stderr := checkWithin(t, filepath.Join(dir, "a.roll")); code != exitOK {
+		t.Errorf("one file under the cap: exit %d, stderr %q", code, stderr)
+	}
+}

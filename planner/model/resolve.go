@@ -17,6 +17,7 @@ func Load(files []*grammar.File) (*Model, grammar.Diagnostics) {
 		m:            &Model{tables: map[string]*Table{}, measures: map[string]*Measure{}},
 		measureDecls: map[string]*grammar.MeasureDecl{},
 		state:        map[string]int{},
+		viewNames:    map[string]bool{},
 	}
 	for _, f := range files {
 		for _, td := range f.Tables {
@@ -68,6 +69,9 @@ type resolver struct {
 	stack []string
 	// derivedState does the same for derived columns.
 	derivedState map[*Column]int
+	// viewNames are the views declared so far (a map, so that a model of
+	// many views is not checked for duplicates in quadratic time).
+	viewNames map[string]bool
 }
 
 var typeByName = map[string]Type{

@@ -510,7 +510,7 @@ func (r *resolver) measure(name string) *Measure {
 		}
 	}
 	x := &exprResolver{r: r}
-	m.Expr = x.expr(md.Expr)
+	m.Expr = x.expr(md.Expression())
 	if m.Expr != nil {
 		m.Type = m.Expr.Type()
 		r.checkMeasure(m)
@@ -555,12 +555,11 @@ func isSum(e Expr) bool {
 
 func (r *resolver) view(vd *grammar.ViewDecl) {
 	v := &View{Name: vd.Name.Name, Pos: vd.Name.Pos, Totals: TotalsNone}
-	for _, v2 := range r.m.Views {
-		if v2.Name == v.Name {
-			r.diags.Errorf(vd.Name.Pos, "duplicate-view", "view %q is declared twice", v.Name)
-			return
-		}
+	if r.viewNames[v.Name] {
+		r.diags.Errorf(vd.Name.Pos, "duplicate-view", "view %q is declared twice", v.Name)
+		return
 	}
+	r.viewNames[v.Name] = true
 	for _, mn := range vd.Measures {
 		m := r.measure(mn.Name)
 		if m == nil {

@@ -11,6 +11,7 @@ import (
 	"os"
 	"path/filepath"
 	"sort"
+	"strings"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
 	"github.com/rollwise/rollwise/grammar"
@@ -50,25 +51,37 @@ func Load(paths []string) (*Model, grammar.Diagnostics, error) {
 
 // Read reads the model files paths stand for, in order: a file, or for a
 // folder the .roll files in it, sorted. An unreadable path, a folder
-// without model files and a file over grammar.MaxSourceBytes are usage
-// errors.
+// without model files and files holding more than grammar.MaxSourceBytes
+// in all are usage errors: the cap bounds the whole model, not each file,
+// so that no set of files makes check go past its bounds.
 func Read(paths []string) ([]Source, error) {
 	var out []Source
+	left := grammar.MaxSourceBytes
 	for _, p := range paths {
 		names := FileNames(p)
 		if len(names) == 0 {
 			return nil, failure.Usagef("folder %s holds no .roll files", p)
 		}
 		for _, name := range names {
-			b, err := ReadFile(name)
+			text, err := readText(name, left)
 			if err != nil {
 				return nil, err
 			}
-			out = append(out, Source{Name: name, Text: string(b)})
+			if len(text) > left {
+				if len(out) == 0 {
+					return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted; %s", name, grammar.MaxSourceBytes, tooLargeHint)
+				}
+				return nil, failure.Usagef("the model's files hold more than %d bytes in all (%s and those before it), the largest model accepted; %s", grammar.MaxSourceBytes, name, tooLargeHint)
+			}
+			left -= len(text)
+			out = append(out, Source{Name: name, Text: text})
 		}
 	}
 	return out, nil
 }
+
+// tooLargeHint says what to do with a model over the cap.
+const tooLargeHint = "split it into smaller models, each read on its own (the cap keeps check within 5 s and 500 MB; see docs/cli.md, Safety)"
 
 // Resolve parses the files and resolves them into a model. When a file
 // does not parse, the diagnostics are the parse errors and the model is
@@ -79,7 +92,9 @@ func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
 	var parsed []*grammar.File
 	var diags grammar.Diagnostics
 	for _, s := range files {
-		f, d := grammar.Parse(s.Name, s.Text)
+		// Lazily: the measures' syntax trees are made one at a time by
+		// the resolver, never all held at once.
+		f, d := grammar.ParseLazy(s.Name, s.Text)
 		diags.Append(d)
 		if f != nil {
 			parsed = append(parsed, f)
@@ -109,17 +124,31 @@ func FileNames(p string) []string {
 // of it: a name that leads to an endless file (a symlink to /dev/zero, a
 // pipe) stops at the cap instead of filling the memory.
 func ReadFile(name string) ([]byte, error) {
+	text, err := readText(name, grammar.MaxSourceBytes)
+	if err != nil {
+		return nil, err
+	}
+	if len(text) > grammar.MaxSourceBytes {
+		return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted; %s", name, grammar.MaxSourceBytes, tooLargeHint)
+	}
+	return []byte(text), nil
+}
+
+// readText reads at most limit+1 bytes of the file name into one string,
+// sized from the file's length where it has one (so the text is not
+// copied as a growing buffer would be, then once more into a string).
+func readText(name string, limit int) (string, error) {
 	f, err := os.Open(name)
 	if err != nil {
-		return nil, failure.Usagef("cannot read the model: %v", err)
+		return "", failure.Usagef("cannot read the model: %v", err)
 	}
 	defer f.Close()
-	b, err := io.ReadAll(io.LimitReader(f, grammar.MaxSourceBytes+1))
-	if err != nil {
-		return nil, failure.Usagef("cannot read the model: %v", err)
+	var b strings.Builder
+	if fi, err := f.Stat(); err == nil && fi.Mode().IsRegular() {
+		b.Grow(int(min(fi.Size(), int64(limit))) + 1)
 	}
-	if len(b) > grammar.MaxSourceBytes {
-		return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted", name, grammar.MaxSourceBytes)
+	if _, err := io.Copy(&b, io.LimitReader(f, int64(limit)+1)); err != nil {
+		return "", failure.Usagef("cannot read the model: %v", err)
 	}
-	return b, nil
+	return b.String(), nil
 }
