@@ -51,34 +51,36 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 	}
 	from := key
 	joined := map[*plan.Rel]bool{}
-	model.Walk(tr.E, func(x model.Expr) bool {
-		if v, ok := x.(*plan.ValueRef); ok && !joined[v.Rel] && r.cte[v.Rel] != r.keyRel[ctx] {
-			joined[v.Rel] = true
-			from += "\n  LEFT JOIN " + r.q(r.cte[v.Rel]) + " ON " + r.joinOn(ctx, key, v.Rel)
+	ranges := append([]*plan.TimeRange{tr}, tr.Also...)
+	endName := func(i int) string {
+		if i == 0 {
+			return rel.Name + "_end"
 		}
-		return true
-	})
-	outer := r.ctx
-	r.ctx = ctx // the context's rows are not joined yet: every value qualified
-	e, err := r.expr(tr.E)
-	r.ctx = outer
-	if err != nil {
-		return err
+		return rel.Name + "_end" + strconv.Itoa(i+1)
 	}
-	cols = append(cols, e+" AS "+r.q(rel.Name+"_end"))
+	for i, g := range ranges {
+		model.Walk(g.E, func(x model.Expr) bool {
+			if v, ok := x.(*plan.ValueRef); ok && !joined[v.Rel] && r.cte[v.Rel] != r.keyRel[ctx] {
+				joined[v.Rel] = true
+				from += "\n  LEFT JOIN " + r.q(r.cte[v.Rel]) + " ON " + r.joinOn(ctx, key, v.Rel)
+			}
+			return true
+		})
+		outer := r.ctx
+		r.ctx = ctx // the context's rows are not joined yet: every value qualified
+		e, err := r.expr(g.E)
+		r.ctx = outer
+		if err != nil {
+			return err
+		}
+		cols = append(cols, e+" AS "+r.q(endName(i)))
+	}
 	r.addCTE(ends, "  SELECT "+strings.Join(cols, ", ")+"\n  FROM "+from)
 
 	a, x := r.q("a"), r.q("x")
-	at := x + "." + r.q(col(tr.D.Name))
-	end := a + "." + r.q(rel.Name+"_end")
-	conds := []string{at + " <= " + end}
-	switch tr.Kind {
-	case model.EditToDate:
-		conds = append(conds, at+" >= "+r.d.DateTrunc(tr.Unit, end, tr.E.Type()))
-	case model.EditLast:
-		conds = append(conds, at+" > "+r.moveBy(end, -tr.N, tr.Unit, tr.E.Type()))
-	case model.EditLatest, model.EditEarliest:
-		conds = []string{at + " = " + end}
+	var conds []string
+	for i, g := range ranges {
+		conds = append(conds, r.inRange(g, x+"."+r.q(col(g.D.Name)), a+"."+r.q(endName(i)))...)
 	}
 	n := len(ctx.Keys)
 	var extra []int
@@ -122,6 +124,20 @@ func (r *renderer) rangeScan(ctx *plan.Context, rel *plan.Rel) error {
 		"\n  JOIN "+r.q(rowsName)+" AS "+x+" ON "+strings.Join(conds, "\n    AND ")+
 		"\n  GROUP BY "+strings.Join(group, ", "))
 	return nil
+}
+
+// inRange is the conditions that the date at lies in range g, whose E
+// is end.
+func (r *renderer) inRange(g *plan.TimeRange, at, end string) []string {
+	switch g.Kind {
+	case model.EditToDate:
+		return []string{at + " <= " + end, at + " >= " + r.d.DateTrunc(g.Unit, end, g.E.Type())}
+	case model.EditLast:
+		return []string{at + " <= " + end, at + " > " + r.moveBy(end, -g.N, g.Unit, g.E.Type())}
+	case model.EditLatest, model.EditEarliest:
+		return []string{at + " = " + end}
+	}
+	return []string{at + " <= " + end}
 }
 
 // rangeCell is a column that names a range scan's cells: its value on the

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"os"
 	"path/filepath"
 	"slices"
@@ -36,6 +37,13 @@ var timeChains = []string{
 	"count(orders.id)[orders.day to date month; orders.day running]",
 	"revenue[orders.day running; drop orders.shop; orders.day = latest]",
 	"(revenue[orders.day = latest])[orders.day last 1 year; orders.day back 1 month]",
+	// A range on the order's day does not bind the calendar's day:
+	// both ranges hold.
+	"revenue[orders.day running; days.day last 1 month]",
+	"revenue[orders.day last 2 months; days.day to date year; days.day back 1 month]",
+	"(revenue[days.day to date month])[orders.day last 1 year]",
+	"revenue[orders.day to date year; days.day = latest]",
+	"revenue[orders.day running; days.day last 1 month; drop days.day]",
 }
 
 // timeChainsTwoTables read the orders and the calendar's days: grouped
@@ -57,7 +65,7 @@ func TestTimeChainsMatchReference(t *testing.T) {
 	var names []string
 	chains := append(slices.Clone(timeChains), timeChainsTwoTables...)
 	for i, m := range chains {
-		name := "chain" + string(rune('a'+i))
+		name := fmt.Sprintf("chain%d", i)
 		names = append(names, name)
 		text += "measure " + name + " = " + m + "\n"
 	}

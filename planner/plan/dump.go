@@ -297,15 +297,23 @@ func (d *dumper) scan(depth int, ctx *Context, s *Scan) {
 		for _, i := range r.Match {
 			match = append(match, ctx.Keys[i].Name)
 		}
-		ed := &model.CellEdit{Kind: r.Kind, N: r.N, Unit: r.Unit}
-		upTo := "up to"
-		if r.Kind == model.EditLatest || r.Kind == model.EditEarliest {
-			upTo = "at"
+		line := "range: " + d.rangeText(r)
+		for _, a := range r.Also {
+			line += "; and " + d.rangeText(a)
 		}
-		line := fmt.Sprintf("range: %s %s, %s E = %s", r.D.Name, ed.TimeText(), upTo, d.text(r.E))
 		if len(match) > 0 {
 			line += "; matching " + strings.Join(match, ", ")
 		}
 		d.line(depth, "%s", line)
 	}
+}
+
+// rangeText is one range of a window edit's scan.
+func (d *dumper) rangeText(r *TimeRange) string {
+	ed := &model.CellEdit{Kind: r.Kind, N: r.N, Unit: r.Unit}
+	upTo := "up to"
+	if r.Kind == model.EditLatest || r.Kind == model.EditEarliest {
+		upTo = "at"
+	}
+	return fmt.Sprintf("%s %s, %s E = %s", r.D.Name, ed.TimeText(), upTo, d.text(r.E))
 }

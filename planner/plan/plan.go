@@ -201,6 +201,10 @@ type TimeRange struct {
 	// Cells with the values of the scan's other keys (Match indexes past
 	// Cells' keys) among the cell's rows in range.
 	Cells *Context
+	// Also lists the ranges of earlier window edits still in force (on
+	// another date, see replaces in plan_time.go): a row is in the
+	// cell's range when it lies in every one (their Match unused).
+	Also []*TimeRange
 }
 
 // PerRel aggregates the values of a sub-context over its per-grain keys.
@@ -339,6 +343,9 @@ type windowEdit struct {
 	// or, in a per-grain sub-context under the edit, the outer one (whose
 	// keys the sub-context's first keys are; see perInWindow).
 	cells *Context
+	// prior is a range of an earlier window edit still in force: on a
+	// date this edit does not bind (see replaces), so both hold.
+	prior *windowEdit
 }
 
 type cellFilter struct {
@@ -374,11 +381,11 @@ func (c cell) edit(ctx *Context, ed *model.CellEdit) cell {
 		return true
 	}
 	out := cell{removed: c.removed, moved: c.moved, window: c.window}
-	if c.window != nil && ed.Kind != model.EditUngroup && hit(c.window.ed.Col) {
-		// The window's date range is a constraint on D: an edit that
+	if ed.Kind != model.EditUngroup {
+		// A window's date range is a constraint on D: an edit that
 		// removes what mentions D (drop, drop D, drop D's table, a pin on
 		// D) removes it too, as it does in the reference evaluator.
-		out.window = nil
+		out.window = c.window.keep(func(w *windowEdit) bool { return !hit(w.ed.Col) })
 	}
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {

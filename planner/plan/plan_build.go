@@ -560,7 +560,7 @@ func (pl *planner) perRel(ctx *Context, pa *model.PerAgg, c cell, name string) (
 // but constrain no row.
 func (pl *planner) windowBases(ctx, sub *Context, pr *PerRel, tables []*model.Table, c cell) {
 	n, ns := len(ctx.Keys), len(sub.Keys)
-	start := cell{window: &windowEdit{ed: c.window.ed, e: c.window.e, at: c.window.at, order: -1, cells: c.window.cells}}
+	start := cell{window: c.window.each(func(w windowEdit) windowEdit { w.order = -1; return w })}
 	for i := range ctx.Keys {
 		if c.removed&bit(i, n) != 0 {
 			start.removed |= bit(i, ns)
@@ -582,8 +582,9 @@ func (pl *planner) windowBases(ctx, sub *Context, pr *PerRel, tables []*model.Ta
 // windowKey is a text for the window edit in force in cell c, if any:
 // the edit, the date its rows are matched on and E.
 func windowKey(c cell) string {
-	if c.window == nil {
-		return ""
+	var t []string
+	for w := c.window; w != nil; w = w.prior {
+		t = append(t, w.ed.Col.String()+" "+w.ed.TimeText()+" at "+model.Text(w.at)+" "+endKey(w.e))
 	}
-	return c.window.ed.Col.String() + " " + c.window.ed.TimeText() + " at " + model.Text(c.window.at) + " " + endKey(c.window.e)
+	return strings.Join(t, "; ")
 }

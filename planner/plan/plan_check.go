@@ -114,6 +114,9 @@ func (pl *planner) joins(s *Scan) {
 	}
 	if s.Range != nil {
 		exprs = append(exprs, s.Range.D.Expr)
+		for _, a := range s.Range.Also {
+			exprs = append(exprs, a.D.Expr)
+		}
 	}
 	for _, e := range exprs {
 		for _, c := range model.Columns(e) {

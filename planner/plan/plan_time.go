@@ -190,12 +190,13 @@ func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
 	for i, e := range c.moved {
 		out.moved[i] = e
 	}
-	if w := c.window; w != nil && timeBound(ed.Col, w.ed.Col) {
-		// the window's range is time-bound: it reads D moved too
-		moved := *w
-		moved.at, moved.order = pl.moveTime(w.at, ed), -1
-		out.window = &moved
-	}
+	// a window's range time-bound to D reads D moved too
+	out.window = c.window.each(func(w windowEdit) windowEdit {
+		if timeBound(ed.Col, w.ed.Col) {
+			w.at, w.order = pl.moveTime(w.at, ed), -1
+		}
+		return w
+	})
 	n := len(ctx.Keys)
 	for i, k := range ctx.Keys {
 		if c.removed&bit(i, n) != 0 || !timeBound(ed.Col, k.Col) {
@@ -317,9 +318,6 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 		return nil, false
 	}
 	pin := ed.Kind == model.EditLatest || ed.Kind == model.EditEarliest
-	if w := c.window; w != nil && !replaces(ed, w.ed.Col) {
-		return refuse(fmt.Sprintf("after %s %s (a range on another date)", w.ed.Col, w.ed.TimeText()))
-	}
 	// E over several iteration tables is the latest of each one's latest
 	// D (greatest skips NULLs); F the earliest of the earliest.
 	fn, most := "max", "greatest"
@@ -347,7 +345,8 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 	}
 	rest := e.Edits[i+1:]
 	out := cell{removed: c.removed, moved: map[int]model.Expr{},
-		window: &windowEdit{ed: ed, e: ev, at: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, order: -1, cells: ctx}}
+		window: &windowEdit{ed: ed, e: ev, at: &model.ColRef{Pos: ed.Pos, Col: ed.Col}, order: -1, cells: ctx,
+			prior: c.window.keep(func(w *windowEdit) bool { return !replaces(ed, w.ed.Col) })}}
 	if len(rest) == 0 && c.window == nil {
 		out.window.order = cellOrder(ctx, c, ed)
 	}
@@ -393,6 +392,31 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 	// where a later edit removed the range and X reads other rows:
 	// language.md, Time.
 	return &model.CaseExpr{Pos: ed.Pos, Whens: []model.WhenArm{{Cond: &model.IsNullExpr{Pos: ed.Pos, X: ev, Not: true}, Then: cx}}, T: e.X.Type()}, true
+}
+
+// keep copies the chain of ranges w (w and its priors) with only those
+// keep reports.
+func (w *windowEdit) keep(keep func(*windowEdit) bool) *windowEdit {
+	if w == nil {
+		return nil
+	}
+	prior := w.prior.keep(keep)
+	if !keep(w) {
+		return prior
+	}
+	out := *w
+	out.prior = prior
+	return &out
+}
+
+// each copies the chain of ranges w, each range as f returns it.
+func (w *windowEdit) each(f func(windowEdit) windowEdit) *windowEdit {
+	if w == nil {
+		return nil
+	}
+	out := f(*w)
+	out.prior = w.prior.each(f)
+	return &out
 }
 
 // replaces reports whether the time edit ed, applied in a cell with a
@@ -495,6 +519,10 @@ func (pl *planner) rangeRel(ctx *Context, t *model.Table, c cell, nameBase strin
 	pl.inputs[s] = map[string]*Input{}
 	s.Range = &TimeRange{Kind: w.ed.Kind, N: w.ed.N, Unit: w.ed.Unit, E: w.e, Match: match,
 		D: pl.input(s, r.Name+"_at", w.at)}
+	for p := w.prior; p != nil; p = p.prior {
+		s.Range.Also = append(s.Range.Also, &TimeRange{Kind: p.ed.Kind, N: p.ed.N, Unit: p.ed.Unit, E: p.e,
+			D: pl.input(s, r.Name+"_at", p.at)})
+	}
 	if w.cells != ctx {
 		s.Range.Cells = w.cells
 	}
