@@ -89,7 +89,6 @@ func TestDemoMonthReportMatchesReference(t *testing.T) {
 // filter on the year.
 func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 	t.Parallel()
-	extra := filepath.Join(t.TempDir(), "extra.roll")
 	measures := []string{
 		"avg(revenue per orders.shop)[orders.day running]",
 		"count(* per orders.shop)[orders.day to date year]",
@@ -107,7 +106,35 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 		"avg(revenue[drop days.day] per orders.shop)[days.day running]",
 		"avg(revenue[orders.shop = 'a'] per orders.shop)[orders.day running]",
 		"avg(revenue per orders.shop)[days.day running]",
+		"avg(revenue[orders.day back 1 year] per orders.shop)[orders.day running]",
+		"avg(revenue[orders.day running] per orders.shop)[orders.day to date year]",
+		"avg(rev_ly per orders.shop)[orders.day to date year]",
 	}
+	compareTimeMeasures(t, measures, []model.Request{
+		{By: []string{"days.mon"}, Totals: "grand"},
+		{By: []string{"orders.shop", "days.mon"}, Totals: "rollup"},
+		{By: []string{"days.yr", "orders.shop"}, Totals: "all", Where: "days.yr >= 2025"},
+		{By: []string{"orders.month"}, Totals: "grand", Where: "orders.year = 2026"},
+	})
+	// Balances: each shop's closing stock in the cell's range, summed, and
+	// the average daily balance of the year to date.
+	compareTimeMeasures(t, []string{
+		"sum(sum(stock.qty)[stock.day = latest] per stock.shop)[stock.day last 2 months]",
+		"avg(sum(stock.qty) per stock.day)[stock.day to date year]",
+		"max(sum(stock.qty) per stock.day)[stock.day running]",
+	}, []model.Request{
+		{By: []string{"stock.shop"}, Totals: "grand"},
+		{By: []string{"stock.day", "stock.shop"}, Totals: "rollup"},
+		{By: []string{"stock.shop"}, Totals: "grand", Where: "stock.day < date '2026-01-01'"},
+	})
+}
+
+// compareTimeMeasures runs the measures, each written into a file beside
+// timeModel, for each request on DuckDB and compares every row with the
+// reference evaluator's.
+func compareTimeMeasures(t *testing.T, measures []string, specs []model.Request) {
+	t.Helper()
+	extra := filepath.Join(t.TempDir(), "extra.roll")
 	var src strings.Builder
 	var names []string
 	for i, m := range measures {
@@ -121,12 +148,7 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 	if err != nil || diags.HasErrors() {
 		t.Fatalf("%v %v", err, diags)
 	}
-	for _, spec := range []model.Request{
-		{By: []string{"days.mon"}, Totals: "grand"},
-		{By: []string{"orders.shop", "days.mon"}, Totals: "rollup"},
-		{By: []string{"days.yr", "orders.shop"}, Totals: "all", Where: "days.yr >= 2025"},
-		{By: []string{"orders.month"}, Totals: "grand", Where: "orders.year = 2026"},
-	} {
+	for _, spec := range specs {
 		spec.Measures = names
 		q, diags := m.Model.NewQuery(spec)
 		if diags.HasErrors() {
