@@ -19,7 +19,7 @@ type checkOptions struct {
 	required  bool
 	data, dsn string
 	// dialect, when given, also checks the model's names against the
-	// engine's identifier limits.
+	// engine's identifier limits and renders every view for it.
 	dialect string
 	live    liveFlags
 }
@@ -53,7 +53,7 @@ func newCheckCmd(e *env) *cobra.Command {
 			return scrubDSN(o.dsn, runCheck(e, o))
 		},
 	}
-	onceStringVarP(cmd.Flags(), &o.dialect, "dialect", "d", "", "also check that every name fits the dialect's identifier limit (63 bytes on postgres, 64 characters on mysql, 128 on sqlserver)")
+	onceStringVarP(cmd.Flags(), &o.dialect, "dialect", "d", "", "also check that every name fits the dialect's identifier limit (63 bytes on postgres, 64 characters on mysql, 128 on sqlserver) and that every view renders for it")
 	cmd.Flags().BoolVar(&o.required, "required", false, "check on the data every promise of the model: links declared required find their row, keys (and semiadditive columns' key and date) are unique (tables read as run reads them)")
 	cmd.Flags().StringVar(&o.data, "data", "", "with --required (implied): read each table from DIR/NAME.csv or DIR/NAME.parquet")
 	o.live.add(cmd.Flags())
@@ -69,13 +69,26 @@ func runCheck(e *env, o *checkOptions) error {
 	m := loaded.Model
 	// A view is a query: plan it, so that a view grouped by a column its
 	// measures cannot reach fails here and not on first use.
+	// With --dialect, render it too: a construct the engine cannot express
+	// exactly (a variance on SQLite...) fails here and not in views.
+	var d *dialects.Dialect
+	if o.dialect != "" {
+		d, _ = dialects.Get(o.dialect)
+	}
 	var diags grammar.Diagnostics
 	for _, v := range m.Views {
-		_, d := plan.NewPlan(m.ViewQuery(v))
-		for _, x := range d {
+		p, vd := plan.NewPlan(m.ViewQuery(v))
+		for _, x := range vd {
 			x.Message = fmt.Sprintf("view %s: %s", v.Name, x.Message)
 		}
-		diags.Append(d)
+		diags.Append(vd)
+		if d == nil || vd.HasErrors() {
+			continue
+		}
+		if _, err := dialects.Render(p, d); err != nil {
+			diags.Errorf(v.Pos, "dialect", "view %s: %v", v.Name, err).Suggestion =
+				"change the view's measures, or publish it for another dialect"
+		}
 	}
 	diags.Append(identTooLong(m, o.dialect))
 	held := ""

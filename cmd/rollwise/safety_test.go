@@ -117,3 +117,25 @@ func TestCheckDialectNameLimits(t *testing.T) {
 		}
 	}
 }
+
+// TestCheckDialectRendersViews: `check -d` renders every view for the
+// dialect, so a construct the engine cannot express exactly (a sample
+// variance on SQLite, which has no such aggregate: docs/dialects.md) is
+// an error at the view's line, not a surprise in `views`; on DuckDB the
+// same model is fine, and a view that does not use it passes on SQLite.
+func TestCheckDialectRendersViews(t *testing.T) {
+	t.Parallel()
+	model := "table sales at \"sales\" from \"sales.csv\" {\n  key id\n  id integer\n  qty integer\n}\n" +
+		"measure spread = variance(sales.qty)\nmeasure units = sum(sales.qty)\n" +
+		"view plain = units by sales.id\nview spreads = spread, units by sales.id\n"
+	for _, c := range []struct {
+		dialect string
+		code    int
+		want    string
+	}{{"sqlite", exitFindings, "m.roll:9:6: error: view spreads: sqlite cannot express the sample variance exactly"}, {"duckdb", 0, "ok: 1 table, 2 measures, 2 views"}} {
+		code, _, errb := runIn(t, t.TempDir(), model, "check", "MODEL", "-d", c.dialect)
+		if code != c.code || !strings.Contains(errb, c.want) || strings.Count(errb, "error: ") > 1 {
+			t.Errorf("check -d %s: exit %d, want %d and %q:\n%s", c.dialect, code, c.code, c.want, errb)
+		}
+	}
+}
