@@ -247,14 +247,7 @@ func (x *exprResolver) iterationTable(p grammar.Pos, arg Expr) *Table {
 	}
 	var cands []*Table
 	for _, t := range tables {
-		reach := Reach(t)
-		all := true
-		for _, o := range tables {
-			if _, ok := reach[o]; !ok {
-				all = false
-			}
-		}
-		if all {
+		if reachesAll(t, tables) {
 			cands = append(cands, t)
 		}
 	}

@@ -180,7 +180,7 @@ func (x *exprResolver) ref(e *grammar.Ref) Expr {
 		x.r.ensureDerived(c)
 	}
 	if x.self != nil && c.Table != x.self {
-		if _, ok := Reach(x.self)[c.Table]; !ok {
+		if !reachesAll(x.self, []*Table{c.Table}) {
 			x.errorf(e.Pos, "unreachable", "derived column of %s reads %s, but no link leads from %s to %s",
 				x.self.Name, c, x.self.Name, c.Table.Name)
 			return nil
