@@ -189,13 +189,18 @@ func (d *dumper) context(depth int, ctx *Context) {
 	}
 }
 
-// key prints a key: its name, and the row expression it groups by when
-// that is not its column (a date moved by a time edit).
+// key prints a key: its name, the row expression it groups by when that
+// is not its column (a date moved by a time edit), and "(pin)" for the key
+// that stands for the pin of `= latest` / `= earliest` (Key.Pin).
 func (d *dumper) key(k Key) string {
+	s := k.Name
 	if k.Expr != nil {
-		return k.Name + " = " + d.text(k.Expr)
+		s += " = " + d.text(k.Expr)
 	}
-	return k.Name
+	if k.Pin {
+		s += " (pin)"
+	}
+	return s
 }
 
 func (d *dumper) rel(depth int, ctx *Context, r *Rel) {
