@@ -47,3 +47,45 @@ func TestLongLinkChainResolvesInLinearMemory(t *testing.T) {
 		t.Errorf("resolving allocated %.0f bytes a table; want at most 4,000", per)
 	}
 }
+
+// TestManyTablesAreSmall: a model of 20,000 one-column tables resolves
+// in a bounded number of bytes a table (issue 17 item 5: at the size cap
+// such a model is 600,000 tables). A table of at most eight columns has
+// no map of its columns by name (which cost some 250 bytes a table);
+// lookups by name work the same with or without it.
+func TestManyTablesAreSmall(t *testing.T) {
+	const n = 20_000
+	var b strings.Builder
+	for i := range n {
+		fmt.Fprintf(&b, "table t%d { x integer }\n", i)
+	}
+	b.WriteString("table wide {\n")
+	for i := range 20 {
+		fmt.Fprintf(&b, "  c%d integer\n", i)
+	}
+	b.WriteString("}\n")
+	f, d := grammar.Parse("m.roll", b.String())
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	var before, after runtime.MemStats
+	runtime.ReadMemStats(&before)
+	m, diags := model.Load([]*grammar.File{f})
+	runtime.ReadMemStats(&after)
+	if len(diags) != 0 {
+		t.Fatalf("diagnostics: %v", diags)
+	}
+	per := float64(after.TotalAlloc-before.TotalAlloc) / n
+	t.Logf("%.0f bytes a table", per)
+	if per > 850 {
+		t.Errorf("resolving allocated %.0f bytes a table; want at most 850 (1,003 with a map per table)", per)
+	}
+	for _, c := range []struct{ table, col string }{{"t0", "x"}, {"t19999", "x"}, {"wide", "c0"}, {"wide", "c8"}, {"wide", "c19"}} {
+		if got := m.Table(c.table).Column(c.col); got == nil || got.Name != c.col {
+			t.Errorf("%s.%s: %v", c.table, c.col, got)
+		}
+	}
+	if m.Table("t0").Column("y") != nil || m.Table("wide").Column("c20") != nil {
+		t.Errorf("a column that is not there was found")
+	}
+}

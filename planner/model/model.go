@@ -83,11 +83,42 @@ type Table struct {
 	// Links are this table's many-to-one links to other tables.
 	Links []*Link
 
+	// columns indexes Columns by name once there are more than
+	// smallTable of them; a smaller table is searched in order (a map
+	// costs about 250 bytes, more than a one-column table's own model).
 	columns map[string]*Column
 }
 
+// smallTable is the most columns a table has without an index by name.
+const smallTable = 8
+
 // Column returns the column called name, or nil.
-func (t *Table) Column(name string) *Column { return t.columns[name] }
+func (t *Table) Column(name string) *Column {
+	if t.columns != nil {
+		return t.columns[name]
+	}
+	for _, c := range t.Columns {
+		if c.Name == name {
+			return c
+		}
+	}
+	return nil
+}
+
+// addColumn appends c to the table's columns, indexing them by name once
+// there are more than smallTable.
+func (t *Table) addColumn(c *Column) {
+	t.Columns = append(t.Columns, c)
+	switch {
+	case t.columns != nil:
+		t.columns[c.Name] = c
+	case len(t.Columns) > smallTable:
+		t.columns = make(map[string]*Column, 2*len(t.Columns))
+		for _, c := range t.Columns {
+			t.columns[c.Name] = c
+		}
+	}
+}
 
 // Column is a stored or derived column.
 type Column struct {

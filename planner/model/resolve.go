@@ -90,7 +90,7 @@ func (r *resolver) declareTable(f *grammar.File, td *grammar.TableDecl) {
 			Notes = []string{"first declared at " + prev.Pos.String()}
 		return
 	}
-	t := &Table{Name: name, Pos: td.Name.Pos, Relation: []string{name}, columns: map[string]*Column{}}
+	t := &Table{Name: name, Pos: td.Name.Pos, Relation: []string{name}}
 	if td.At != nil {
 		parts := strings.Split(td.At.Value, ".")
 		for _, p := range parts {
@@ -116,7 +116,7 @@ func (r *resolver) declareTable(f *grammar.File, td *grammar.TableDecl) {
 		}
 	}
 	for _, cd := range td.Columns {
-		if prev := t.columns[cd.Name.Name]; prev != nil {
+		if prev := t.Column(cd.Name.Name); prev != nil {
 			r.diags.Errorf(cd.Name.Pos, "duplicate-column", "column %q is declared twice in table %s", cd.Name.Name, name).
 				Notes = []string{"first declared at " + prev.Pos.String()}
 			continue
@@ -139,11 +139,10 @@ func (r *resolver) declareTable(f *grammar.File, td *grammar.TableDecl) {
 		case grammar.SemiAdditive:
 			c.Additivity = SemiAdditive
 		}
-		t.columns[c.Name] = c
-		t.Columns = append(t.Columns, c)
+		t.addColumn(c)
 	}
 	for _, k := range td.Key {
-		c := t.columns[k.Name]
+		c := t.Column(k.Name)
 		if c == nil {
 			r.unknownColumn(k.Pos, t, k.Name)
 			continue
@@ -190,7 +189,7 @@ func (r *resolver) lookupTable(p grammar.Pos, name string) *Table {
 
 func (r *resolver) resolveLinks(t *Table, td *grammar.TableDecl) {
 	for _, cd := range td.Columns {
-		c := t.columns[cd.Name.Name]
+		c := t.Column(cd.Name.Name)
 		if c == nil || c.Pos != cd.Name.Pos {
 			continue
 		}
@@ -298,7 +297,7 @@ func (r *resolver) resolveDerived(t *Table, td *grammar.TableDecl) {
 		r.derivedState = map[*Column]int{}
 	}
 	for _, cd := range td.Columns {
-		c := t.columns[cd.Name.Name]
+		c := t.Column(cd.Name.Name)
 		if c == nil || c.Pos != cd.Name.Pos || cd.Expr == nil {
 			continue
 		}
