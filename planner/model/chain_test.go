@@ -30,19 +30,7 @@ func TestLongLinkChainResolvesInLinearMemory(t *testing.T) {
 		b.WriteString("  v integer\n}\n")
 	}
 	fmt.Fprintf(&b, "measure a = sum(t0.v)\nmeasure b = sum(t0.v + t%d.v)\nmeasure c = sum(t0.far)\nmeasure d = sum(t1.v + t0.v)\n", n-1)
-	f, d := grammar.Parse("m.roll", b.String())
-	if d.HasErrors() {
-		t.Fatal(d)
-	}
-	var before, after runtime.MemStats
-	runtime.ReadMemStats(&before)
-	_, diags := model.Load([]*grammar.File{f})
-	runtime.ReadMemStats(&after)
-	if len(diags) != 0 {
-		t.Fatalf("diagnostics: %v", diags)
-	}
-	per := float64(after.TotalAlloc-before.TotalAlloc) / n
-	t.Logf("%.0f bytes a table", per)
+	_, per := loadPerTable(t, b.String(), n)
 	if per > 4000 {
 		t.Errorf("resolving allocated %.0f bytes a table; want at most 4,000", per)
 	}
@@ -64,19 +52,7 @@ func TestManyTablesAreSmall(t *testing.T) {
 		fmt.Fprintf(&b, "  c%d integer\n", i)
 	}
 	b.WriteString("}\n")
-	f, d := grammar.Parse("m.roll", b.String())
-	if d.HasErrors() {
-		t.Fatal(d)
-	}
-	var before, after runtime.MemStats
-	runtime.ReadMemStats(&before)
-	m, diags := model.Load([]*grammar.File{f})
-	runtime.ReadMemStats(&after)
-	if len(diags) != 0 {
-		t.Fatalf("diagnostics: %v", diags)
-	}
-	per := float64(after.TotalAlloc-before.TotalAlloc) / n
-	t.Logf("%.0f bytes a table", per)
+	m, per := loadPerTable(t, b.String(), n)
 	if per > 850 {
 		t.Errorf("resolving allocated %.0f bytes a table; want at most 850 (1,003 with a map per table)", per)
 	}
@@ -88,4 +64,25 @@ func TestManyTablesAreSmall(t *testing.T) {
 	if m.Table("t0").Column("y") != nil || m.Table("wide").Column("c20") != nil {
 		t.Errorf("a column that is not there was found")
 	}
+}
+
+// loadPerTable parses and resolves src, which must check without a
+// diagnostic, and returns the model and the bytes resolving allocated for
+// each of its n tables.
+func loadPerTable(t *testing.T, src string, n int) (*model.Model, float64) {
+	t.Helper()
+	f, d := grammar.Parse("m.roll", src)
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	var before, after runtime.MemStats
+	runtime.ReadMemStats(&before)
+	m, diags := model.Load([]*grammar.File{f})
+	runtime.ReadMemStats(&after)
+	if len(diags) != 0 {
+		t.Fatalf("diagnostics: %v", diags)
+	}
+	per := float64(after.TotalAlloc-before.TotalAlloc) / float64(n)
+	t.Logf("%.0f bytes a table", per)
+	return m, per
 }
