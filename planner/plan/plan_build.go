@@ -406,9 +406,11 @@ func (pl *planner) leaf(ctx *Context, a *model.Agg, c cell) model.Expr {
 		l.Filter = pl.input(s, l.Name+"_if", extra)
 	}
 	s.Leaves = append(s.Leaves, l)
-	// A window edit's cell without E is missing: NULL, counts included.
-	// (In a per-grain sub-context under the edit, every cell has E.)
-	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count" && (c.window == nil || c.window.cells != ctx)}
+	// A count is 0 in a cell its relation lacks, under a window edit too:
+	// there a cell with E can lack the rows of one of X's tables (E came
+	// from another), and a cell without E is NULL by windowEdit's guard
+	// on E, which every X with a count gets (nullOverNoRows).
+	v := &ValueRef{Pos: a.Pos, Rel: r, Column: l.Name, T: a.T, ZeroIfMissing: a.Func == "count"}
 	pl.values[key] = v
 	return v
 }
