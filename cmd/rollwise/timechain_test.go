@@ -25,6 +25,8 @@ var timeChains = []string{
 	"revenue[orders.day running; orders.day last 2 months]",
 	"revenue[orders.day to date month; orders.day = latest]",
 	"revenue[orders.day last 2 months; orders.day = earliest]",
+	// back inside a running total once lost the range (back rebuilt
+	// the cell without it): revenue under no time constraint at all.
 	"(revenue[orders.day back 1 year])[orders.day running]",
 	"(revenue[orders.day back 1 month])[orders.day to date year]",
 	"revenue[days.day back 1 year; orders.day to date year]",
