@@ -190,11 +190,13 @@ func (pl *planner) back(ctx *Context, c cell, ed *model.CellEdit) (cell, bool) {
 	for i, e := range c.moved {
 		out.moved[i] = e
 	}
-	// a window's range time-bound to D reads D moved too
+	// a window's range time-bound to D reads D moved too; its scan reads
+	// moved rows, never the base's cells
 	out.window = c.window.each(func(w windowEdit) windowEdit {
 		if timeBound(ed.Col, w.ed.Col) {
-			w.at, w.order = pl.moveTime(w.at, ed), -1
+			w.at = pl.moveTime(w.at, ed)
 		}
+		w.order = -1
 		return w
 	})
 	n := len(ctx.Keys)
