@@ -47,6 +47,10 @@ var timeChains = []string{
 	"revenue[orders.day to date year; days.day = latest]",
 	"revenue[orders.day running; days.day last 1 month; drop days.day]",
 	"(revenue[orders.day back 1 month])[days.day running]",
+	// in a per-grain sub-context under a window edit
+	"avg(revenue[orders.day = latest] per orders.shop)[orders.day running]",
+	"sum(revenue[orders.day last 1 month] per orders.shop)[orders.day to date year]",
+	"max(revenue[orders.day back 1 month] per orders.shop)[orders.day running]",
 }
 
 // timeChainsTwoTables read the orders and the calendar's days: grouped

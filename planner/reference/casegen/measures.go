@@ -72,6 +72,22 @@ func (g *gen) drawMeasures() {
 			g.addMeasure(a)
 		}
 	}
+	g.drawChain()
+}
+
+// drawChain now and then adds an aggregate under two time edits in one
+// brackets, on dates its table reaches: the second applies in the cell
+// the first made (a window's range replaced, moved by back or pinned;
+// two ranges where the dates are unrelated).
+func (g *gen) drawChain() {
+	if f := g.anyFact(); g.chance(25) {
+		a := g.aggregate(f)
+		if dates := g.dateCols(g.common(a.tables, func(c *column) bool { return c.groupable() })); len(dates) > 0 {
+			a.text = "(" + a.text + ")[" + g.timeEdit(g.col(dates)) + "; " + g.timeEdit(g.col(dates)) + "]"
+			a.advanced = true
+			g.addMeasure(a)
+		}
+	}
 }
 
 func (g *gen) addMeasure(e mx) {
