@@ -1,16 +1,9 @@
 package main
 
 import (
-	"fmt"
-	"os"
-	"path/filepath"
-	"slices"
-	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/planner/model"
-	"github.com/rollwise/rollwise/planner/reference"
 )
 
 // timeChains are window edits (to date, running, last) combined with
@@ -61,67 +54,26 @@ var timeChainsTwoTables = []string{
 	"(revenue + count(days.day))[days.day last 2 months; days.day = latest]",
 }
 
-// TestTimeChainsMatchReference runs each chain by month, by shop and by
-// the calendar's month (detail rows, subtotals, the grand total), with and
-// without a year filter, on DuckDB, and compares every value with the
-// reference evaluator's.
+// TestTimeChainsMatchReference runs the chains by month, by shop, by day
+// and by the calendar's month (detail rows, subtotals, the grand total),
+// with and without a year filter, on DuckDB, and compares every value
+// with the reference evaluator's.
 func TestTimeChainsMatchReference(t *testing.T) {
 	t.Parallel()
-	extra := filepath.Join(t.TempDir(), "chains.roll")
-	text := ""
-	var names []string
-	chains := append(slices.Clone(timeChains), timeChainsTwoTables...)
-	for i, m := range chains {
-		name := fmt.Sprintf("chain%d", i)
-		names = append(names, name)
-		text += "measure " + name + " = " + m + "\n"
+	calendar := []model.Request{
+		{By: []string{"days.mon"}, Totals: "grand", Where: "days.yr = 2026"},
+		{By: []string{"days.mon"}, Totals: "grand"},
+		{By: []string{"days.yr", "days.mon"}, Totals: "rollup"},
 	}
-	if err := os.WriteFile(extra, []byte(text), 0o644); err != nil {
-		t.Fatal(err)
-	}
-	pm, ld, err := pipeline.Load([]string{timeModel, extra})
-	if err != nil || ld.HasErrors() {
-		t.Fatal(err, ld)
-	}
-	m := pm.Model
-	for _, g := range []struct{ by, where, totals string }{
-		{"orders.month", "", "grand"},
-		{"orders.month,orders.shop", "", "rollup"},
-		{"orders.shop", "orders.year = 2025", "grand"},
-		{"days.mon", "days.yr = 2026", "grand"},
-		{"orders.day", "", "none"},
-		{"days.mon", "", "grand"},
+	compareTimeMeasures(t, timeChains, append([]model.Request{
+		{By: []string{"orders.month"}, Totals: "grand"},
+		{By: []string{"orders.month", "orders.shop"}, Totals: "rollup"},
+		{By: []string{"orders.shop"}, Totals: "grand", Where: "orders.year = 2025"},
+		{By: []string{"orders.day"}, Totals: "none"},
 		// the calendar's month beside the order's: a running total on
 		// the calendar's day alone is a window over the report's cells
 		// here; the chains must not be
-		{"days.cal_month,orders.month", "", "none"},
-		{"days.yr,days.mon", "", "rollup"},
-	} {
-		for i, name := range names {
-			if i >= len(timeChains) && strings.Contains(g.by, "orders.") {
-				continue
-			}
-			spec := model.Request{Measures: []string{name}, By: strings.Split(g.by, ","), Where: g.where, Totals: g.totals}
-			q, diags := m.NewQuery(spec)
-			if diags.HasErrors() {
-				t.Fatal(diags)
-			}
-			res, err := reference.Evaluate(m, q, "")
-			if err != nil {
-				t.Fatalf("%s: %v", chains[i], err)
-			}
-			args := []string{"run", timeModel, extra, "-m", name, "-b", g.by, "--totals", g.totals, "--format", "json"}
-			if g.where != "" {
-				args = append(args, "-w", g.where)
-			}
-			got, stderr, code := diffRunJSON(args)
-			if code != 0 {
-				t.Errorf("%s by %s: exit %d\n%s", chains[i], g.by, code, stderr)
-				continue
-			}
-			if diff := diffRows(q, got, res.JSON(), true); diff != "" {
-				t.Errorf("%s by %s where %q:\n%s", chains[i], g.by, g.where, diff)
-			}
-		}
-	}
+		{By: []string{"days.cal_month", "orders.month"}, Totals: "none"},
+	}, calendar...))
+	compareTimeMeasures(t, timeChainsTwoTables, calendar)
 }
