@@ -155,11 +155,7 @@ func set(mask uint64, keys []Key) string {
 }
 
 func (d *dumper) context(depth int, ctx *Context) {
-	name := ctx.Name
-	if name == "" {
-		name = "root"
-	}
-	d.line(depth, "context %s", name)
+	d.line(depth, "context %s", d.contextName(ctx))
 	in := depth + 1
 	var keys []string
 	for _, k := range ctx.Keys {
@@ -298,19 +294,41 @@ func (d *dumper) scan(depth int, ctx *Context, s *Scan) {
 		d.line(depth, "%s: %s", line, l.T)
 	}
 	if r := s.Range; r != nil {
-		var match []string
+		cells := ctx
+		if r.Cells != nil {
+			cells = r.Cells
+		}
+		var match, rows []string
 		for _, i := range r.Match {
-			match = append(match, ctx.Keys[i].Name)
+			if i < len(cells.Keys) {
+				match = append(match, ctx.Keys[i].Name)
+			} else {
+				rows = append(rows, ctx.Keys[i].Name)
+			}
 		}
 		line := "range: " + d.rangeText(r)
 		for _, a := range r.Also {
 			line += "; and " + d.rangeText(a)
 		}
+		if r.Cells != nil {
+			line += "; cells of " + d.contextName(r.Cells)
+		}
 		if len(match) > 0 {
 			line += "; matching " + strings.Join(match, ", ")
 		}
+		if len(rows) > 0 {
+			line += "; grouped by the rows' " + strings.Join(rows, ", ")
+		}
 		d.line(depth, "%s", line)
 	}
+}
+
+// contextName is how the dump names a context.
+func (d *dumper) contextName(ctx *Context) string {
+	if ctx.Name == "" {
+		return "root"
+	}
+	return ctx.Name
 }
 
 // rangeText is one range of a window edit's scan.

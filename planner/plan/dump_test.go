@@ -45,6 +45,10 @@ func TestPlanDumps(t *testing.T) {
 		// Time edits: a date moved back, a window to date, the latest day.
 		{"time_edits", timeModels, model.Request{Measures: []string{"revenue", "rev_ly", "ytd", "closing"},
 			By: []string{"orders.month"}, Where: "orders.year = 2025", Totals: "grand"}},
+		// A per-grain aggregate under a window edit: its groups come from
+		// the root's cells joined to the rows in each cell's range.
+		{"per_grain_window", append(timeModels[:1:1], "testdata/dump/per_window.roll"), model.Request{
+			Measures: []string{"ytd", "shop_avg_ytd"}, By: []string{"orders.month"}, Totals: "grand"}},
 		// Values used by several expressions: computed once, read by
 		// name; gross in two cells (as asked, and with the region dropped).
 		{"layers", append(shopModels[:1:1], "testdata/dump/layers.roll"), model.Request{
