@@ -82,14 +82,16 @@ func (pl *planner) distinctLeaves(ctx *Context) {
 }
 
 // onlyDistinct reports whether every leaf of r stands for a distinct
-// count that base b's scan would have computed.
+// count that base b's scan would have computed: not one whose cell moves
+// a key (the pinned day of = latest moved by a later back reads other
+// rows than the base's cell: regression case distinct_under_moved_pin).
 func (pl *planner) onlyDistinct(ctx *Context, r, b *Rel) bool {
 	if r.Per == nil || len(r.Per.Sub.Values) > 0 {
 		return false
 	}
 	for _, l := range r.Per.Leaves {
 		o, ok := pl.distinct[l]
-		if !ok || o.cell.removed != 0 || pl.rels[pl.scanKey(ctx, o.agg.Table, 0, rowFilters(o.cell.filters))] != b {
+		if !ok || o.cell.removed != 0 || len(o.cell.moved) > 0 || pl.rels[pl.scanKey(ctx, o.agg.Table, 0, rowFilters(o.cell.filters))] != b {
 			return false
 		}
 	}
