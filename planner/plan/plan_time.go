@@ -316,7 +316,7 @@ func (pl *planner) windowEdit(ctx *Context, e *model.EditExpr, i int, c cell) (m
 	ed := e.Edits[i]
 	refuse := func(what string) (model.Expr, bool) {
 		pl.diags.Errorf(ed.Pos, "not-supported", "%s %s %s is not planned into SQL yet", ed.Col, ed.TimeText(), what).Suggestion =
-			"the reference evaluator (rollwise verify) computes it; write the window edit as the outermost time edit"
+			"edit a measure that aggregates a table's column, such as sum(t.c)"
 		return nil, false
 	}
 	pin := ed.Kind == model.EditLatest || ed.Kind == model.EditEarliest
