@@ -114,6 +114,9 @@ type Dialect struct {
 	// each ending with it (see render_layers.go).
 	materialize bool
 	layerTail   string
+	// materializeShared writes a rows CTE that several scans read AS
+	// MATERIALIZED (see sharedRows).
+	materializeShared bool
 	// view is how the engine creates views.
 	view ViewDDL
 }

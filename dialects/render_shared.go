@@ -50,6 +50,10 @@ func (r *renderer) rowsOf(base, from string, joined bool, cols []rowCol) (string
 	for _, sr := range r.rows[from] {
 		if (joined || sr.computes(cols)) && sr.merge(cols, as) {
 			r.ctes[sr.at] = r.cteSQL(sr.name, sr.body(r))
+			if r.d.materializeShared {
+				// (read by a second scan now)
+				r.ctes[sr.at] = r.q(sr.name) + " AS MATERIALIZED (\n" + sr.body(r) + "\n)"
+			}
 			return sr.name, col
 		}
 	}

@@ -1,5 +1,5 @@
 -- rollwise sql testdata/dialects/hostile.roll --view 'by '\''label'\''' --totals rollup -d duckdb
-WITH "we""ird'; --_rows" AS (
+WITH "we""ird'; --_rows" AS MATERIALIZED (
   SELECT
     "gr/*oup*/"."la""bel'" AS "gr/*oup*/.la""bel'",
     "we""ird'; --"."üñí 名" AS "we""ird'; --.üñí 名",

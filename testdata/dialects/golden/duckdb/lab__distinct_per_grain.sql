@@ -1,5 +1,5 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'visits_n,patients_seen,patient_minutes,urgent_patients,north_patients' -b 'patients.ward,visits.seen_year' --totals rollup -d duckdb
-WITH "visits_rows" AS (
+WITH "visits_rows" AS MATERIALIZED (
   SELECT
     "patients"."ward" AS "patients.ward",
     (CAST(date_trunc('year', "visits"."seen_on") AS DATE)) AS "visits.seen_year",

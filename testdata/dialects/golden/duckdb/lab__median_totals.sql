@@ -1,5 +1,5 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'mid_minutes,urgent_mid,patient_mid' -b patients.ward --totals rollup -d duckdb
-WITH "visits_rows" AS (
+WITH "visits_rows" AS MATERIALIZED (
   SELECT
     "patients"."ward" AS "patients.ward",
     "visits"."minutes" AS "mid_minutes_arg",

@@ -1,5 +1,5 @@
 -- rollwise sql testdata/dialects/lab.roll -m 'visits_n,total_minutes,avg_minutes,per_visit,urgent_share,fees,fee_per_min,sd_score,var_score,notes' -b patients.ward --totals grand -d duckdb
-WITH "visits_rows" AS (
+WITH "visits_rows" AS MATERIALIZED (
   SELECT
     "patients"."ward" AS "patients.ward",
     "visits"."minutes" AS "total_minutes_arg",

@@ -1,5 +1,5 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'store_avg,big_items,chain_store_avg' -b stores.region --totals grand -d duckdb
-WITH "sales_rows" AS (
+WITH "sales_rows" AS MATERIALIZED (
   SELECT
     "stores"."region" AS "stores.region",
     "sales"."store_id" AS "sales.store_id per",

@@ -1,5 +1,5 @@
 -- rollwise sql testdata/exec/shop.roll testdata/exec/edits.roll -m 'revenue,item_share,rose_rev,region_share,store_avg' -b 'stores.region,sales.item' --totals rollup -d duckdb
-WITH "sales_rows" AS (
+WITH "sales_rows" AS MATERIALIZED (
   SELECT
     "stores"."region" AS "stores.region",
     "sales"."item" AS "sales.item",
