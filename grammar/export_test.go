@@ -44,8 +44,8 @@ func FastPathDiff(src string) (diff string, decls, missed int) {
 			}
 		}
 	}
-	ff, fd := parseFile(name, src, true, nil)
-	pf, pd := parseFile(name, src, false, nil)
+	ff, fd := parseFile(name, src, true, nil, nil)
+	pf, pd := parseFile(name, src, false, nil, nil)
 	if diff := lazyDiff(name, src, ff, fd); diff != "" {
 		return diff, decls, missed
 	}

@@ -22,7 +22,7 @@ type lazySource struct{ src string }
 // that the measures' expressions are not kept: each MeasureDecl's Expr is
 // nil, and Expression parses it again from src when asked.
 func ParseLazy(filename, src string) (*File, Diagnostics) {
-	return parseFile(filename, src, true, &lazySource{src: src})
+	return parseFile(filename, src, true, &lazySource{src: src}, nil)
 }
 
 // reparser is the scratch space of Expression, reused through a pool so

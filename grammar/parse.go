@@ -38,13 +38,16 @@ func EBNF() string { return parser.String() }
 // not parsed. A declaration nesting deeper than
 // MaxNesting or longer than MaxDeclTokens is refused before the parser
 // sees it, so no more than MaxDeclTokens tokens are held at once.
-func Parse(filename, src string) (*File, Diagnostics) { return parseFile(filename, src, true, nil) }
+func Parse(filename, src string) (*File, Diagnostics) {
+	return parseFile(filename, src, true, nil, nil)
+}
 
 // parseFile is Parse, with the fast path (fast.go) tried on each
 // declaration before participle when fast is set, and the measures'
 // expressions left to be parsed again from lazy when it is set
-// (ParseLazy).
-func parseFile(filename, src string, fast bool, lazy *lazySource) (*File, Diagnostics) {
+// (ParseLazy), counting the tables and views against their limits in
+// count when it is not nil (ParseLazyIn).
+func parseFile(filename, src string, fast bool, lazy *lazySource, count *Declared) (*File, Diagnostics) {
 	f := &File{Name: filename}
 	var diags Diagnostics
 	if len(src) > MaxSourceBytes {
@@ -73,6 +76,9 @@ func parseFile(filename, src string, fast bool, lazy *lazySource) (*File, Diagno
 		}
 		if fast {
 			decl, ok := fastDecl(chunk, &a)
+			if ok && !count.admit(decl, &diags) {
+				return f, diags
+			}
 			if ok {
 				decl.addTo(f, lazy)
 			}
@@ -87,6 +93,9 @@ func parseFile(filename, src string, fast bool, lazy *lazySource) (*File, Diagno
 			continue
 		}
 		for _, decl := range sf.Decls {
+			if !count.admit(decl, &diags) {
+				return f, diags
+			}
 			decl.addTo(f, lazy)
 		}
 	}

@@ -1,6 +1,7 @@
 package main
 
 import (
+	"fmt"
 	"io"
 	"math/rand/v2"
 	"os"
@@ -45,7 +46,15 @@ func BenchmarkCheckHostile(b *testing.B) {
 			struct {
 				name string
 				src  func() string
-			}{"model-near-cap", func() string { return synthModelUnder(grammar.MaxSourceBytes) }})
+			}{"model-near-cap", func() string { return synthModelUnder(grammar.MaxSourceBytes) }},
+			struct {
+				name string
+				src  func() string
+			}{"limits-near-cap", func() string { return limitModel(grammar.MaxSourceBytes, false) }},
+			struct {
+				name string
+				src  func() string
+			}{"limits-chain-near-cap", func() string { return limitModel(grammar.MaxSourceBytes, true) }})
 	}
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
@@ -78,6 +87,42 @@ func randomBytes(n int) string {
 		b[i] = byte(r.Uint32())
 	}
 	return string(b)
+}
+
+// limitModel is a model at the limits on what a model declares, up to
+// at most size bytes: grammar.MaxTables tables (one-column ones or, with
+// chain, each linking to the next), grammar.MaxViews views of a measure
+// by a column three links away, and as many of the synthetic model's
+// measures as keep it within grammar.MaxNames names and size bytes.
+func limitModel(size int, chain bool) string {
+	var b strings.Builder
+	b.WriteString(synthModel(0))
+	n := grammar.MaxTables - strings.Count(synthTables, "\ntable ")
+	for i := range n {
+		switch {
+		case !chain:
+			fmt.Fprintf(&b, "table t%d { x integer }\n", i)
+		case i+1 < n:
+			fmt.Fprintf(&b, "table t%d {\n  key id\n  id integer\n  next_id integer -> t%d.id\n  v integer\n}\n", i, i+1)
+		default:
+			fmt.Fprintf(&b, "table t%d {\n  key id\n  id integer\n  v integer\n}\n", i)
+		}
+	}
+	for i := range grammar.MaxViews {
+		fmt.Fprintf(&b, "view v%d = m0 by regions.name\n", i)
+	}
+	var declared grammar.Declared
+	if _, d := grammar.ParseLazyIn("m.roll", b.String(), &declared); d.HasErrors() {
+		panic(d)
+	}
+	for i := 0; declared.Names+i < grammar.MaxNames; i++ {
+		m := fmt.Sprintf("measure m%d = %s\n", i, synthMeasure(i))
+		if b.Len()+len(m) > size {
+			break
+		}
+		b.WriteString(m)
+	}
+	return b.String()
 }
 
 // synthModelOfSize is the synthetic model with as many measures as make

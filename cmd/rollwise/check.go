@@ -6,6 +6,7 @@ import (
 	"github.com/spf13/cobra"
 
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/failure"
+	"github.com/rollwise/rollwise/cmd/rollwise/internal/pipeline"
 	"github.com/rollwise/rollwise/cmd/rollwise/internal/report"
 	"github.com/rollwise/rollwise/dialects"
 	"github.com/rollwise/rollwise/grammar"
@@ -62,6 +63,8 @@ func newCheckCmd(e *env) *cobra.Command {
 }
 
 func runCheck(e *env, o *checkOptions) error {
+	restore := pipeline.LimitMemory()
+	defer restore()
 	loaded, err := loadModel(e, o.models)
 	if err != nil {
 		return err
@@ -91,6 +94,7 @@ func runCheck(e *env, o *checkOptions) error {
 		}
 	}
 	diags.Append(identTooLong(m, o.dialect))
+	restore() // what follows reads data, not bounded by the model's size
 	held := ""
 	if o.required && !diags.HasErrors() {
 		d, err := checkData(e.context(), m, o.data, o.dsn, o.live.options())

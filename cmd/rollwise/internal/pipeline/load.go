@@ -10,6 +10,8 @@ import (
 	"io"
 	"os"
 	"path/filepath"
+	"runtime/debug"
+	"slices"
 	"sort"
 	"strings"
 
@@ -31,8 +33,9 @@ type Model struct {
 // Load reads, parses and resolves the model files paths stand for (a
 // folder stands for the .roll files in it). The diagnostics hold every
 // error and warning. The error is a usage error when a path cannot be
-// read, and of kind Findings when the model has errors; the Model is then
-// nil or holds only the sources, for printing the diagnostics.
+// read or the model is over a size limit (bytes, tables, views), and of
+// kind Findings when the model has errors; the Model is then nil or holds
+// only the sources, for printing the diagnostics.
 func Load(paths []string) (*Model, grammar.Diagnostics, error) {
 	files, err := Read(paths)
 	if err != nil {
@@ -43,6 +46,9 @@ func Load(paths []string) (*Model, grammar.Diagnostics, error) {
 		src[f.Name] = f.Text
 	}
 	m, diags := Resolve(files)
+	if overLimit(diags) {
+		return &Model{Sources: src}, diags, failure.Usagef("%s", failure.CountErrors(diags))
+	}
 	if diags.HasErrors() {
 		return &Model{Sources: src}, diags, failure.Newf(failure.Findings, "%s", failure.CountErrors(diags))
 	}
@@ -83,21 +89,40 @@ func Read(paths []string) ([]Source, error) {
 // tooLargeHint says what to do with a model over the cap.
 const tooLargeHint = "split it into smaller models, each read on its own (the cap keeps check within 5 s and 500 MB; see docs/cli.md, Safety)"
 
+// overLimit says whether the diagnostics refuse a model for declaring
+// more tables, views or names than a model may (grammar.MaxTables,
+// grammar.MaxViews, grammar.MaxNames): like a model over the size cap, a
+// usage error.
+func overLimit(diags grammar.Diagnostics) bool {
+	for _, d := range diags.Errors() {
+		if slices.Contains(grammar.LimitCodes, d.Code) {
+			return true
+		}
+	}
+	return false
+}
+
 // Resolve parses the files and resolves them into a model. When a file
 // does not parse, the diagnostics are the parse errors and the model is
 // resolved, as far as it goes, from the files that parse (for an editor's
 // hover and completion while one file is being typed). The model is
-// whole only when the diagnostics hold no error.
+// whole only when the diagnostics hold no error. The files after one that
+// takes the model past a limit on what it declares (grammar.MaxTables,
+// grammar.MaxViews, grammar.MaxNames) are not parsed.
 func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
 	var parsed []*grammar.File
 	var diags grammar.Diagnostics
+	var declared grammar.Declared
 	for _, s := range files {
 		// Lazily: the measures' syntax trees are made one at a time by
 		// the resolver, never all held at once.
-		f, d := grammar.ParseLazy(s.Name, s.Text)
+		f, d := grammar.ParseLazyIn(s.Name, s.Text, &declared)
 		diags.Append(d)
 		if f != nil {
 			parsed = append(parsed, f)
+		}
+		if declared.Over {
+			break
 		}
 	}
 	if diags.HasErrors() {
@@ -107,6 +132,26 @@ func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
 	m, d := model.Load(parsed)
 	diags.Append(d)
 	return m, diags
+}
+
+// CheckMemory is the soft limit on the Go heap (debug.SetMemoryLimit)
+// while a model is checked: at the size cap the resolved model is some
+// 250 MB, and the garbage collector's default goal, twice what is live,
+// let the peak reach 700 MB; under the limit it collects sooner instead,
+// for a little more CPU, and the peak stays near 450 MB (issue 17 item 5;
+// docs/cli.md, Safety). A soft limit never fails: a model that needs
+// more only costs more collections.
+const CheckMemory = 420 << 20
+
+// LimitMemory sets CheckMemory as the soft memory limit, unless the
+// GOMEMLIMIT environment variable sets one, and returns the function that
+// puts back the limit before.
+func LimitMemory() (restore func()) {
+	if os.Getenv("GOMEMLIMIT") != "" {
+		return func() {}
+	}
+	before := debug.SetMemoryLimit(CheckMemory)
+	return func() { debug.SetMemoryLimit(before) }
 }
 
 // FileNames are the model files a path stands for: itself, or, for a
