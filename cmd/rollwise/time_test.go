@@ -110,7 +110,7 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 		"avg(revenue[orders.day running] per orders.shop)[orders.day to date year]",
 		"avg(rev_ly per orders.shop)[orders.day to date year]",
 	}
-	compareTimeMeasures(t, measures, []model.Request{
+	compareTimeMeasures(t, timeModel, measures, []model.Request{
 		{By: []string{"days.mon"}, Totals: "grand"},
 		{By: []string{"orders.shop", "days.mon"}, Totals: "rollup"},
 		{By: []string{"days.yr", "orders.shop"}, Totals: "all", Where: "days.yr >= 2025"},
@@ -118,7 +118,7 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 	})
 	// Balances: each shop's closing stock in the cell's range, summed, and
 	// the average daily balance of the year to date.
-	compareTimeMeasures(t, []string{
+	compareTimeMeasures(t, timeModel, []string{
 		"sum(sum(stock.qty)[stock.day = latest] per stock.shop)[stock.day last 2 months]",
 		"avg(sum(stock.qty) per stock.day)[stock.day to date year]",
 		"max(sum(stock.qty) per stock.day)[stock.day running]",
@@ -129,10 +129,10 @@ func TestPerGrainUnderWindowEditsMatchReference(t *testing.T) {
 	})
 }
 
-// compareTimeMeasures runs the measures, each written into a file beside
-// timeModel, for each request on DuckDB and compares every row with the
-// reference evaluator's.
-func compareTimeMeasures(t *testing.T, measures []string, specs []model.Request) {
+// compareTimeMeasures runs the measures, each written into a file read
+// with modelFile, for each request on DuckDB and compares every row with
+// the reference evaluator's.
+func compareTimeMeasures(t *testing.T, modelFile string, measures []string, specs []model.Request) {
 	t.Helper()
 	extra := filepath.Join(t.TempDir(), "extra.roll")
 	var src strings.Builder
@@ -144,7 +144,7 @@ func compareTimeMeasures(t *testing.T, measures []string, specs []model.Request)
 	if err := os.WriteFile(extra, []byte(src.String()), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	m, diags, err := pipeline.Load([]string{timeModel, extra})
+	m, diags, err := pipeline.Load([]string{modelFile, extra})
 	if err != nil || diags.HasErrors() {
 		t.Fatalf("%v %v", err, diags)
 	}
@@ -158,7 +158,7 @@ func compareTimeMeasures(t *testing.T, measures []string, specs []model.Request)
 		if err != nil {
 			t.Fatal(err)
 		}
-		args := []string{"run", timeModel, extra, "-m", strings.Join(names, ","), "-b", strings.Join(spec.By, ","), "--totals", spec.Totals, "--format", "json"}
+		args := []string{"run", modelFile, extra, "-m", strings.Join(names, ","), "-b", strings.Join(spec.By, ","), "--totals", spec.Totals, "--format", "json"}
 		if spec.Where != "" {
 			args = append(args, "-w", spec.Where)
 		}
@@ -170,4 +170,25 @@ func compareTimeMeasures(t *testing.T, measures []string, specs []model.Request)
 			t.Errorf("by %v where %q:\n%s", spec.By, spec.Where, diff)
 		}
 	}
+}
+
+// Two fact tables whose dates reach one calendar, each moved by back in
+// one query: each gets its own copy of the calendar, joined on its own
+// date (the demo's sales and repairs; they once shared the first one's
+// copy, which the engine could not find from the other table).
+func TestBackOnTwoDatesOfOneCalendar(t *testing.T) {
+	t.Parallel()
+	dir := t.TempDir()
+	if err := demo.WriteFiles(dir); err != nil {
+		t.Fatal(err)
+	}
+	compareTimeMeasures(t, filepath.Join(dir, demo.ModelFile), []string{
+		"revenue[sales.sold_on back 1 year]",
+		"repair_fees[repairs.done_on back 1 year]",
+		"(revenue + repair_fees)[calendar.day_on back 1 year]",
+		"repair_fees[repairs.done_on back 1 month]",
+	}, []model.Request{
+		{By: []string{"calendar.season"}, Totals: "grand"},
+		{By: []string{"calendar.month_start"}, Totals: "grand", Where: "calendar.cal_year = 2026"},
+	})
 }

@@ -65,7 +65,7 @@ func TestTimeChainsMatchReference(t *testing.T) {
 		{By: []string{"days.mon"}, Totals: "grand"},
 		{By: []string{"days.yr", "days.mon"}, Totals: "rollup"},
 	}
-	compareTimeMeasures(t, timeChains, append([]model.Request{
+	compareTimeMeasures(t, timeModel, timeChains, append([]model.Request{
 		{By: []string{"orders.month"}, Totals: "grand"},
 		{By: []string{"orders.month", "orders.shop"}, Totals: "rollup"},
 		{By: []string{"orders.shop"}, Totals: "grand", Where: "orders.year = 2025"},
@@ -75,5 +75,5 @@ func TestTimeChainsMatchReference(t *testing.T) {
 		// here; the chains must not be
 		{By: []string{"days.cal_month", "orders.month"}, Totals: "none"},
 	}, calendar...))
-	compareTimeMeasures(t, timeChainsTwoTables, calendar)
+	compareTimeMeasures(t, timeModel, timeChainsTwoTables, calendar)
 }

@@ -111,11 +111,18 @@ func calendarKey(d *model.Column) *model.Column {
 // movedColumn is col, a stored column of d's calendar (d = ed.Col), read
 // on the calendar's row of d moved forward by ed: the column of a copy of
 // the calendar joined on its key = d moved (Plan.Moves), one copy per
-// calendar and move.
+// calendar, moved date and move. A second date moved alike (another fact
+// table's link to the same calendar) gets a copy of its own, named after
+// its table: sharing the first one's joined it on the first date only
+// (the engine could not find the copy from the other table).
 func (pl *planner) movedColumn(col *model.Column, ed *model.CellEdit) *model.Column {
 	cal := col.Table
 	name := fmt.Sprintf("%s moved %d %s", cal.Name, ed.N, ed.Unit)
 	m := pl.movedTables[name]
+	for m != nil && !pl.movesFrom(m, ed.Col) {
+		name += " for " + ed.Col.Table.Name
+		m = pl.movedTables[name]
+	}
 	if m == nil {
 		m = &model.Table{Name: name, Relation: cal.Relation, File: cal.File, NullTexts: cal.NullTexts, Pos: cal.Pos}
 		for _, c := range cal.Columns {
@@ -131,6 +138,16 @@ func (pl *planner) movedColumn(col *model.Column, ed *model.CellEdit) *model.Col
 		pl.p.Moves[l] = Move{N: ed.N, Unit: ed.Unit}
 	}
 	return movedCopy(m, col)
+}
+
+// movesFrom reports whether m, a calendar's copy, is joined on date d.
+func (pl *planner) movesFrom(m *model.Table, d *model.Column) bool {
+	for l := range pl.p.Moves {
+		if l.To == m {
+			return l.FromCols[0] == d
+		}
+	}
+	return false
 }
 
 // movedCopy is the copy in m of the calendar's column c.
