@@ -125,7 +125,9 @@ func (pl *planner) joins(s *Scan) {
 	}
 	for l := range pl.p.Moves {
 		// the join of a calendar's copy reads the moved date
-		need[l.From] = need[l.From] || need[l.To]
+		if need[l.To] {
+			need[l.From] = true
+		}
 	}
 	var links []*model.Link
 	for t := range need {

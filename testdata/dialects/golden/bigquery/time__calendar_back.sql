@@ -46,17 +46,36 @@ WITH `orders_rows` AS (
     sum(`rev_lm_revenue_arg`) AS `rev_lm_revenue`
   FROM `rev_lm_orders_rows`
   GROUP BY GROUPING SETS ((`days__mon`), ())
+),
+`cal_ly_orders_rows` AS (
+  SELECT
+    `days moved 1 year for days`.`mon` AS `days__mon`,
+    `orders`.`amount` AS `cal_ly_revenue_arg`
+  FROM `timed`.`orders` AS `orders`
+  JOIN `timed`.`days` AS `days` ON `orders`.`day` = `days`.`day`
+  JOIN `timed`.`days` AS `days moved 1 year for days` ON DATE_ADD(`days`.`day`, INTERVAL 12 MONTH) = `days moved 1 year for days`.`day`
+  WHERE (`days moved 1 year for days`.`yr` = 2026)
+),
+`cal_ly_orders_cells` AS (
+  SELECT
+    `days__mon`,
+    GROUPING(`days__mon`) AS `grouping_id`,
+    sum(`cal_ly_revenue_arg`) AS `cal_ly_revenue`
+  FROM `cal_ly_orders_rows`
+  GROUP BY GROUPING SETS ((`days__mon`), ())
 )
 SELECT
   `orders_cells`.`days__mon`,
   `orders_cells`.`revenue` AS `revenue`,
   `rev_ly_orders_cells`.`rev_ly_revenue` AS `rev_ly`,
   `rev_lm_orders_cells`.`rev_lm_revenue` AS `rev_lm`,
-  `rev_ly_orders_cells`.`rev_ly_revenue` AS `cal_ly`,
+  `cal_ly_orders_cells`.`cal_ly_revenue` AS `cal_ly`,
   `orders_cells`.`grouping_id`
 FROM `orders_cells`
   LEFT JOIN `rev_ly_orders_cells` ON `rev_ly_orders_cells`.`grouping_id` = `orders_cells`.`grouping_id`
     AND `rev_ly_orders_cells`.`days__mon` IS NOT DISTINCT FROM `orders_cells`.`days__mon`
   LEFT JOIN `rev_lm_orders_cells` ON `rev_lm_orders_cells`.`grouping_id` = `orders_cells`.`grouping_id`
     AND `rev_lm_orders_cells`.`days__mon` IS NOT DISTINCT FROM `orders_cells`.`days__mon`
+  LEFT JOIN `cal_ly_orders_cells` ON `cal_ly_orders_cells`.`grouping_id` = `orders_cells`.`grouping_id`
+    AND `cal_ly_orders_cells`.`days__mon` IS NOT DISTINCT FROM `orders_cells`.`days__mon`
 ORDER BY (`orders_cells`.`grouping_id` & 1), `orders_cells`.`days__mon` ASC NULLS LAST;
