@@ -1,6 +1,10 @@
 package grammar
 
-import "github.com/alecthomas/participle/v2/lexer"
+import (
+	"sort"
+
+	"github.com/alecthomas/participle/v2/lexer"
+)
 
 // Limits on how much one model declares, its files together: with the
 // size cap (MaxSourceBytes) they keep `check` of any model within 5 s of
@@ -20,6 +24,14 @@ const (
 	// measures and views a model may declare together. The synthetic
 	// model of the benchmarks just under the size cap declares 261,000.
 	MaxNames = 300_000
+	// MaxDerivedTokens is the most tokens the derived columns of a model
+	// may hold together, each counted from its name to the item after it:
+	// a derived column's expression is held as a tree while the model is
+	// resolved (about 130 bytes of memory a token, where a measure's is
+	// parsed again when needed), so that 16 MiB of derived columns took
+	// 8 s of CPU and 830 MB. 250,000 tokens are some 10,000 derived
+	// columns of a long expression, or 40,000 of a short one.
+	MaxDerivedTokens = 250_000
 )
 
 // Declared counts what the files of a model parsed so far declare,
@@ -27,8 +39,8 @@ const (
 // whether a declaration went past a limit, when the files after it need
 // not be parsed.
 type Declared struct {
-	Tables, Views, Names int
-	Over                 bool
+	Tables, Views, Names, DerivedTokens int
+	Over                                bool
 }
 
 // limitHint says what to do with a model over a limit.
@@ -36,20 +48,24 @@ const limitHint = "split the model into smaller models, each read on its own (th
 
 // LimitCodes are the codes of the errors that refuse a model over a
 // limit on what it declares.
-var LimitCodes = []string{"too-many-tables", "too-many-views", "too-many-names"}
+var LimitCodes = []string{"too-many-tables", "too-many-views", "too-many-names", "too-many-derived"}
 
 // ParseLazyIn is ParseLazy for one file of a model whose files before it
 // declared what n counts: the declaration that takes the model past a
-// limit (MaxTables, MaxViews, MaxNames) is an error at its position (one
+// limit (MaxTables, MaxViews, MaxNames, MaxDerivedTokens) is an error at its position (one
 // of LimitCodes), and the file is not parsed further, so that no more
 // than the limits are ever held.
 func ParseLazyIn(filename, src string, n *Declared) (*File, Diagnostics) {
 	return parseFile(filename, src, true, &lazySource{src: src}, n)
 }
 
-// admit counts the declaration d and says whether it is within the
-// limits; when it is not, it adds the error to diags.
-func (n *Declared) admit(d *syntaxDecl, diags *Diagnostics) bool {
+// namesKind is what MaxNames counts, in its error.
+const namesKind = "names (tables, their columns, keys and links, measures and views together)"
+
+// admit counts the declaration d, made of the tokens toks, and says
+// whether it is within the limits; when it is not, it adds the error to
+// diags.
+func (n *Declared) admit(d *syntaxDecl, toks []lexer.Token, diags *Diagnostics) bool {
 	if n == nil {
 		return true
 	}
@@ -63,7 +79,10 @@ func (n *Declared) admit(d *syntaxDecl, diags *Diagnostics) bool {
 			if left >= 0 {
 				p = d.Table.Items[left].Pos
 			}
-			return n.refuse(p, "too-many-names", MaxNames, "names (tables, their columns, keys and links, measures and views together)", diags)
+			return n.refuse(p, "too-many-names", MaxNames, namesKind, diags)
+		}
+		if !n.admitDerived(d.Table.Items, toks, diags) {
+			return false
 		}
 		n.Tables++
 		n.Names += 1 + len(d.Table.Items)
@@ -78,9 +97,33 @@ func (n *Declared) admit(d *syntaxDecl, diags *Diagnostics) bool {
 		if d.View != nil {
 			p = d.View.Pos
 		}
-		return n.refuse(p, "too-many-names", MaxNames, "names (tables, their columns, keys and links, measures and views together)", diags)
+		return n.refuse(p, "too-many-names", MaxNames, namesKind, diags)
 	}
 	n.Names++
+	return true
+}
+
+// admitDerived counts the tokens of a table's derived columns, each from
+// its first token to the next item's (or to the table's end), and says
+// whether they are within MaxDerivedTokens.
+func (n *Declared) admitDerived(items []*syntaxItem, toks []lexer.Token, diags *Diagnostics) bool {
+	// at is the index of the first token at or after offset off.
+	at := func(off int) int {
+		return sort.Search(len(toks), func(i int) bool { return toks[i].Pos.Offset >= off })
+	}
+	for i, it := range items {
+		if it.Column == nil || it.Column.Expr == nil {
+			continue
+		}
+		end := len(toks)
+		if i+1 < len(items) {
+			end = at(items[i+1].Pos.Offset)
+		}
+		n.DerivedTokens += end - at(it.Pos.Offset)
+		if n.DerivedTokens > MaxDerivedTokens {
+			return n.refuse(it.Pos, "too-many-derived", MaxDerivedTokens, "tokens in derived columns", diags)
+		}
+	}
 	return true
 }
 

@@ -21,6 +21,10 @@ func TestDeclarationLimits(t *testing.T) {
 		}
 		return b.String()
 	}
+	// derived is a table of n derived columns of 3 tokens each.
+	derived := func(name string, n int) string {
+		return "table " + name + " {\n  a integer\n" + lines("  d%d = a\n", 0, n) + "  z integer\n}\n"
+	}
 	const tables = "table t%d { x integer }\n"
 	const views = "view v%d = m by t.x\n"
 	const measures = "measure m%d = 1\n"
@@ -39,6 +43,9 @@ func TestDeclarationLimits(t *testing.T) {
 		// the error is.
 		{"columns", []string{lines(measures, 0, MaxNames-3), "table t {\n  a integer\n  b integer\n  c integer\n}\n"}, "too-many-names", 4, 3},
 		{"table-itself", []string{lines(measures, 0, MaxNames), "table t { a integer }\n"}, "too-many-names", 1, 1},
+		// Tokens in derived columns: 80,000 columns of 3 tokens, then the
+		// 3,334th in the next file is past 250,000.
+		{"derived", []string{derived("a", 40_000) + derived("b", 40_000), derived("c", 4_000)}, "too-many-derived", 2 + MaxDerivedTokens/3 - 80_000 + 1, 3},
 	}
 	for _, c := range cases {
 		var n Declared

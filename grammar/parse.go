@@ -76,7 +76,7 @@ func parseFile(filename, src string, fast bool, lazy *lazySource, count *Declare
 		}
 		if fast {
 			decl, ok := fastDecl(chunk, &a)
-			if ok && !count.admit(decl, &diags) {
+			if ok && !count.admit(decl, chunk, &diags) {
 				return f, diags
 			}
 			if ok {
@@ -93,7 +93,7 @@ func parseFile(filename, src string, fast bool, lazy *lazySource, count *Declare
 			continue
 		}
 		for _, decl := range sf.Decls {
-			if !count.admit(decl, &diags) {
+			if !count.admit(decl, chunk, &diags) {
 				return f, diags
 			}
 			decl.addTo(f, lazy)

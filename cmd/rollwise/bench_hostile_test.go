@@ -54,7 +54,11 @@ func BenchmarkCheckHostile(b *testing.B) {
 			struct {
 				name string
 				src  func() string
-			}{"limits-chain-near-cap", func() string { return limitModel(grammar.MaxSourceBytes, true) }})
+			}{"limits-chain-near-cap", func() string { return limitModel(grammar.MaxSourceBytes, true) }},
+			struct {
+				name string
+				src  func() string
+			}{"derived-near-cap", func() string { return derivedModel(grammar.MaxSourceBytes) }})
 	}
 	for _, c := range cases {
 		b.Run(c.name, func(b *testing.B) {
@@ -111,6 +115,29 @@ func limitModel(size int, chain bool) string {
 	for i := range grammar.MaxViews {
 		fmt.Fprintf(&b, "view v%d = m0 by regions.name\n", i)
 	}
+	return withMeasures(&b, size)
+}
+
+// derivedModel is a model whose derived columns hold nearly
+// grammar.MaxDerivedTokens tokens (tables of 19 derived columns of 26
+// tokens each), filled up to at most size bytes with the synthetic
+// model's measures.
+func derivedModel(size int) string {
+	var b strings.Builder
+	b.WriteString(synthModel(0))
+	for i := range grammar.MaxDerivedTokens/(19*26) - 1 {
+		fmt.Fprintf(&b, "table d%d {\n  a integer\n  b integer\n", i)
+		for j := range 19 {
+			fmt.Fprintf(&b, "  d%d = case when a > %d then a * 2 - a / 3 else coalesce(b, 0) + %d end\n", j, j, j)
+		}
+		b.WriteString("}\n")
+	}
+	return withMeasures(&b, size)
+}
+
+// withMeasures adds to the model in b as many of the synthetic model's
+// measures as keep it within grammar.MaxNames names and size bytes.
+func withMeasures(b *strings.Builder, size int) string {
 	var declared grammar.Declared
 	if _, d := grammar.ParseLazyIn("m.roll", b.String(), &declared); d.HasErrors() {
 		panic(d)

@@ -45,7 +45,7 @@ func Load(paths []string) (*Model, grammar.Diagnostics, error) {
 	for _, f := range files {
 		src[f.Name] = f.Text
 	}
-	m, diags := Resolve(files)
+	m, diags := resolve(files, false)
 	if overLimit(diags) {
 		return &Model{Sources: src}, diags, failure.Usagef("%s", failure.CountErrors(diags))
 	}
@@ -109,7 +109,12 @@ func overLimit(diags grammar.Diagnostics) bool {
 // whole only when the diagnostics hold no error. The files after one that
 // takes the model past a limit on what it declares (grammar.MaxTables,
 // grammar.MaxViews, grammar.MaxNames) are not parsed.
-func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
+func Resolve(files []Source) (*model.Model, grammar.Diagnostics) { return resolve(files, true) }
+
+// resolve is Resolve; a model that does not parse is resolved as far as
+// it goes only when partial is set (the command line has no use for it:
+// at the size cap that took a second or two more to refuse a model).
+func resolve(files []Source, partial bool) (*model.Model, grammar.Diagnostics) {
 	var parsed []*grammar.File
 	var diags grammar.Diagnostics
 	var declared grammar.Declared
@@ -126,6 +131,9 @@ func Resolve(files []Source) (*model.Model, grammar.Diagnostics) {
 		}
 	}
 	if diags.HasErrors() {
+		if !partial {
+			return nil, diags
+		}
 		m, _ := model.Load(parsed)
 		return m, diags
 	}
