@@ -12,9 +12,10 @@ import (
 // "Safety"). What is declared costs more than its bytes of source: a
 // one-column table is 25 bytes of source and some 900 bytes of memory
 // once resolved, a view is planned (about 10 µs), a short measure or
-// derived column costs as much as a long one; so at the cap a model of
-// nothing but tables, views or short measures went past the target. Real
-// models declare hundreds of tables and a few thousand names.
+// derived column costs as much as a long one, and a derived column's
+// expression is held as a tree; so at the cap a model of nothing but
+// tables, views, short measures or derived columns went past the target.
+// Real models declare hundreds of tables and a few thousand names.
 const (
 	// MaxTables is the most tables a model may declare.
 	MaxTables = 50_000
@@ -35,7 +36,8 @@ const (
 )
 
 // Declared counts what the files of a model parsed so far declare,
-// against MaxTables, MaxViews and MaxNames (ParseLazyIn). Over reports
+// against MaxTables, MaxViews, MaxNames and MaxDerivedTokens
+// (ParseLazyIn). Over reports
 // whether a declaration went past a limit, when the files after it need
 // not be parsed.
 type Declared struct {
@@ -52,9 +54,9 @@ var LimitCodes = []string{"too-many-tables", "too-many-views", "too-many-names",
 
 // ParseLazyIn is ParseLazy for one file of a model whose files before it
 // declared what n counts: the declaration that takes the model past a
-// limit (MaxTables, MaxViews, MaxNames, MaxDerivedTokens) is an error at its position (one
-// of LimitCodes), and the file is not parsed further, so that no more
-// than the limits are ever held.
+// limit (MaxTables, MaxViews, MaxNames, MaxDerivedTokens) is an error
+// at its position (one of LimitCodes), and the file is not parsed
+// further, so that no more than the limits are ever held.
 func ParseLazyIn(filename, src string, n *Declared) (*File, Diagnostics) {
 	return parseFile(filename, src, true, &lazySource{src: src}, n)
 }
