@@ -4,6 +4,7 @@ import (
 	"errors"
 	"flag"
 	"fmt"
+	"github.com/rollwise/rollwise/internal/modeltest"
 	"os"
 	"path/filepath"
 	"strconv"
@@ -42,29 +43,6 @@ func goldenCases(t *testing.T) []goldencases.Case {
 		t.Fatal(err)
 	}
 	return cs
-}
-
-// loadModel parses and resolves model files (paths from the repository's
-// root), as `rollwise sql` loads them.
-func loadModel(t *testing.T, paths []string) *model.Model {
-	t.Helper()
-	var files []*grammar.File
-	for _, p := range paths {
-		b, err := os.ReadFile(filepath.Join(root, p))
-		if err != nil {
-			t.Fatal(err)
-		}
-		f, diags := grammar.Parse(p, string(b))
-		if diags.HasErrors() {
-			t.Fatalf("%s: %v", p, diags.Errors()[0])
-		}
-		files = append(files, f)
-	}
-	m, diags := model.Load(files)
-	if diags.HasErrors() {
-		t.Fatalf("%v: %v", paths, diags.Errors()[0])
-	}
-	return m
 }
 
 // casePlan reads a case's arguments as `rollwise sql` reads its flags
@@ -135,7 +113,11 @@ func TestDialectGoldenSQL(t *testing.T) {
 	for _, c := range goldenCases(t) {
 		key := strings.Join(c.Models, " ")
 		if models[key] == nil {
-			models[key] = loadModel(t, c.Models)
+			var paths []string
+			for _, p := range c.Models {
+				paths = append(paths, filepath.Join(root, p))
+			}
+			models[key] = modeltest.Load(t, paths...)
 		}
 		p, err := casePlan(models[key], c.Args)
 		if err != nil {

@@ -2,12 +2,12 @@ package plan_test
 
 import (
 	"flag"
+	"github.com/rollwise/rollwise/internal/modeltest"
 	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/grammar"
 	"github.com/rollwise/rollwise/planner/model"
 )
 
@@ -77,19 +77,7 @@ func TestPlanDumps(t *testing.T) {
 // dumpOf loads the model files, resolves the request and dumps its plan.
 func dumpOf(t *testing.T, paths []string, req model.Request) string {
 	t.Helper()
-	var files []*grammar.File
-	for _, p := range paths {
-		src, err := os.ReadFile(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		f, d := grammar.Parse(p, string(src))
-		if d.HasErrors() {
-			t.Fatal(d)
-		}
-		files = append(files, f)
-	}
-	return planOf(t, files, req).Dump()
+	return planOf(t, modeltest.Files(t, paths...), req).Dump()
 }
 
 // lineDiff is a line diff of two texts: the lines of a longest common

@@ -1,12 +1,11 @@
 package reference_test
 
 import (
-	"os"
 	"path/filepath"
 	"strings"
 	"testing"
 
-	"github.com/rollwise/rollwise/grammar"
+	"github.com/rollwise/rollwise/internal/modeltest"
 	"github.com/rollwise/rollwise/planner/model"
 	"github.com/rollwise/rollwise/planner/reference"
 	"github.com/rollwise/rollwise/planner/reference/expect"
@@ -30,7 +29,7 @@ func TestHandWorked(t *testing.T) {
 				for _, p := range c.Models {
 					paths = append(paths, filepath.Join(repoRoot, p))
 				}
-				m = loadModel(t, paths...)
+				m = modeltest.Load(t, paths...)
 				models[key] = m
 			}
 			s := model.Request{Measures: expect.List(c.Measures), By: expect.List(c.By),
@@ -38,28 +37,6 @@ func TestHandWorked(t *testing.T) {
 			expectRows(t, evaluateOn(t, m, s), c.Rows)
 		})
 	}
-}
-
-// loadModel parses and resolves model files.
-func loadModel(t *testing.T, paths ...string) *model.Model {
-	t.Helper()
-	var files []*grammar.File
-	for _, p := range paths {
-		src, err := os.ReadFile(p)
-		if err != nil {
-			t.Fatal(err)
-		}
-		f, d := grammar.Parse(p, string(src))
-		if d.HasErrors() {
-			t.Fatalf("%s: %v", p, d)
-		}
-		files = append(files, f)
-	}
-	m, d := model.Load(files)
-	if d.HasErrors() {
-		t.Fatalf("load: %v", d)
-	}
-	return m
 }
 
 // evaluateOn runs a query with the reference evaluator.

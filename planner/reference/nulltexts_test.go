@@ -4,6 +4,8 @@ import (
 	"os"
 	"path/filepath"
 	"testing"
+
+	"github.com/rollwise/rollwise/internal/modeltest"
 )
 
 // TestNullTextsReadAsNull: the reference evaluator reads a table's
@@ -21,7 +23,7 @@ func TestNullTextsReadAsNull(t *testing.T) {
 	if err := os.WriteFile(model, []byte(src), 0o644); err != nil {
 		t.Fatal(err)
 	}
-	rows := evaluateOn(t, loadModel(t, model), spec("units,counted,noted", "", "none"))
+	rows := evaluateOn(t, modeltest.Load(t, model), spec("units,counted,noted", "", "none"))
 	// noted: "NA" and "" are NULL; "n/a" and "x" count: 2.
 	expectRows(t, rows, []row{{"units": "7", "counted": "2", "noted": "2", "rolled_up": none}})
 }
