@@ -30,6 +30,9 @@ func TestTimeEditErrors(t *testing.T) {
 		{"revenue[orders.day sideways]", "unknown time edit 'sideways'"},
 		{"revenue[orders.day last 0 days]", "last 0 units holds no rows"},
 		{"sum(stock.qty)[stock.day back 1 day]", "sum of stock.qty, which is semiadditive"},
+		// Two backs along a fact's date and the calendar's key it links
+		// to: the reference evaluator refuses it too (no defined meaning).
+		{"revenue[orders.day back 1 year; days.day back 1 month]", "days.day back after a back on orders.day moves one date along two columns"},
 	} {
 		extra := filepath.Join(t.TempDir(), "extra.roll")
 		if err := os.WriteFile(extra, []byte("measure x = "+c.measure+"\n"), 0o644); err != nil {

@@ -38,6 +38,9 @@ type planner struct {
 	cellOrders map[*Rel]int
 	// movedTables are the copies of calendars `back` joins, by name.
 	movedTables map[string]*model.Table
+	// backs are the dates of the back edits in force in the expression
+	// being compiled (see twoAxes).
+	backs []*model.Column
 	// computed holds each measure's value compiled in a cell of a context
 	// (see measureValue); iterTables the iteration tables found per measure.
 	computed   map[string]model.Expr
@@ -197,10 +200,15 @@ func (pl *planner) compile(ctx *Context, e model.Expr, c cell) model.Expr {
 	case *model.EditExpr:
 		outer := pl.editedBy
 		pl.editedBy = pl.owner.Name
+		defer func(n int) { pl.backs = pl.backs[:n] }(len(pl.backs))
 		c2 := c
 		for i, ed := range e.Edits {
 			switch {
 			case ed.Kind == model.EditBack:
+				if pl.twoAxes(ed) {
+					return nil
+				}
+				pl.backs = append(pl.backs, ed.Col)
 				ok := false
 				if c2, ok = pl.back(ctx, c2, ed); !ok {
 					return nil

@@ -199,6 +199,23 @@ func substitute(e model.Expr, f func(*model.ColRef) model.Expr) model.Expr {
 	return e
 }
 
+// twoAxes refuses `D back N UNIT` inside or after a back on another date
+// of the same calendar (a fact's date and the calendar's key it links to,
+// or two facts' dates): a constraint moved along one would have to move
+// along the other, which the language does not define (the reference
+// evaluator refuses it too: "a constraint moved along ... cannot move
+// along ... too"). Backs on the same date add up.
+func (pl *planner) twoAxes(ed *model.CellEdit) bool {
+	for _, d := range pl.backs {
+		if d != ed.Col && calendarKey(d) == calendarKey(ed.Col) {
+			pl.diags.Errorf(ed.Pos, "not-supported", "%s back after a back on %s moves one date along two columns, which has no defined meaning", ed.Col, d).Suggestion =
+				fmt.Sprintf("move both along the same column: write %s back ... for both (or %s for both)", d, ed.Col)
+			return true
+		}
+	}
+	return false
+}
+
 // back applies `D back N UNIT` to the cell: its time-bound keys and
 // filters, and the range of a window edit in force, read D moved forward
 // N units.

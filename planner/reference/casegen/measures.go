@@ -83,7 +83,14 @@ func (g *gen) drawChain() {
 	if f := g.anyFact(); g.chance(25) {
 		a := g.aggregate(f)
 		if dates := g.dateCols(g.common(a.tables, func(c *column) bool { return c.groupable() })); len(dates) > 0 {
-			a.text = "(" + a.text + ")[" + g.timeEdit(g.col(dates)) + "; " + g.timeEdit(g.col(dates)) + "]"
+			d1, d2 := g.col(dates), g.col(dates)
+			e1, e2 := g.timeEdit(d1), g.timeEdit(d2)
+			if d1 != d2 && strings.Contains(e1, " back ") && strings.Contains(e2, " back ") {
+				// two backs move along one date (along two, a constraint
+				// has no defined meaning: both paths refuse it)
+				e2 = g.timeEdit(d1)
+			}
+			a.text = "(" + a.text + ")[" + e1 + "; " + e2 + "]"
 			a.advanced = true
 			g.addMeasure(a)
 		}
