@@ -86,3 +86,42 @@ func loadPerTable(t *testing.T, src string, n int) (*model.Model, float64) {
 	t.Logf("%.0f bytes a table", per)
 	return m, per
 }
+
+// TestManyLinkPathsAreBounded: 1,500 tables each linking to the next ten
+// have millions of pairs of link paths between the same tables; the
+// check keeps grammar.MaxPrinted of them, then says it stopped looking,
+// and a path of thousands of tables is shown by its ends (issue 17 item
+// 5: 5,000 such tables, 1.5 MB, ran for more than 15 minutes, each
+// error's paths written out in full by repeated string concatenation).
+func TestManyLinkPathsAreBounded(t *testing.T) {
+	const n = 1_500
+	var b strings.Builder
+	for i := range n {
+		fmt.Fprintf(&b, "table t%d {\n  key id\n  id integer\n", i)
+		for j := 1; j <= 10 && i+j < n; j++ {
+			fmt.Fprintf(&b, "  l%d integer -> t%d.id\n", j, i+j)
+		}
+		b.WriteString("}\n")
+	}
+	f, d := grammar.Parse("m.roll", b.String())
+	if d.HasErrors() {
+		t.Fatal(d)
+	}
+	_, diags := model.Load([]*grammar.File{f})
+	paths, stopped := 0, false
+	for _, x := range diags {
+		if x.Code != "two-paths" {
+			continue
+		}
+		paths++
+		stopped = stopped || strings.Contains(x.Message, "the rest are not looked for")
+		for _, note := range x.Notes {
+			if len(note) > 1000 {
+				t.Fatalf("a note of %d bytes: %.200s...", len(note), note)
+			}
+		}
+	}
+	if !stopped || paths > grammar.MaxPrinted+1 {
+		t.Errorf("%d two-paths errors, stopped %v; want at most %d and the last saying the rest are not looked for", paths, stopped, grammar.MaxPrinted+1)
+	}
+}
