@@ -500,7 +500,8 @@ func firstPath(via []*Link, prev []*Table, index map[*Table]int, from, to *Table
 	return rev
 }
 
-// A path of more than 2*pathEnds links shows its first and last
+// pathString is the path from from as "a -> b -> c". A path of more
+// than 2*pathEnds links shows its first and last
 // pathEnds tables and how many are left out between: a model of many
 // links can have paths of thousands of tables.
 func pathString(from *Table, path []*Link) string {
