@@ -127,14 +127,14 @@ func TestDifferentialCore(t *testing.T) {
 	t.Parallel()
 	o := casegen.DefaultOptions
 	o.Advanced = false
-	diffRun(t, 60, o, nil)
+	diffRun(t, 40, o, nil)
 }
 
 // TestDifferentialEditsAndPerGrain compares measures over every
 // construct, cell edits and per-grain aggregates included.
 func TestDifferentialEditsAndPerGrain(t *testing.T) {
 	t.Parallel()
-	diffRun(t, 60, casegen.DefaultOptions, nil)
+	diffRun(t, 50, casegen.DefaultOptions, nil)
 }
 
 // openCase writes a drawn case (c, or a case that embeds it: w) into a

@@ -359,7 +359,7 @@ func TestExplainCellErrors(t *testing.T) {
 // what run prints, and checks that explain's root value is run's.
 func TestExplainMatchesRunOnRandomCases(t *testing.T) {
 	t.Parallel()
-	explainRandom(t, 25, nil)
+	explainRandom(t, 15, nil)
 }
 
 // TestExplainMatchesRunOnRandomCasesLive does the same with the rows

@@ -83,7 +83,7 @@ func metaKey(r map[string]any, groups []string) string {
 func TestMetamorphicPartition(t *testing.T) {
 	t.Parallel()
 	checked := 0
-	checkCases(t, 40, func(rt *rapid.T) {
+	checkCases(t, 30, func(rt *rapid.T) {
 		p := casegen.PartitionGenerator(casegen.DefaultOptions).Draw(rt, "case")
 		dc := openCase(t, rt, p, p.Case)
 		defer dc.close()
@@ -204,7 +204,7 @@ func numOrNil(d *decimal.Decimal) any {
 func TestMetamorphicTotals(t *testing.T) {
 	t.Parallel()
 	checked := 0
-	checkCases(t, 40, func(rt *rapid.T) {
+	checkCases(t, 30, func(rt *rapid.T) {
 		c := casegen.Generator(casegen.DefaultOptions).Draw(rt, "case")
 		dc := openCase(t, rt, c, c)
 		defer dc.close()
