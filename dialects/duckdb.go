@@ -45,7 +45,7 @@ var duckdb = &Dialect{
 	// 2 for 4 (regression case shared_rows_under_limit); written AS
 	// MATERIALIZED, the CTE keeps every column.
 	materializeShared: true,
-	view:         ViewDDL{Style: CreateOrReplace, OrderBy: true, ColumnList: true},
+	view:              ViewDDL{Style: CreateOrReplace, OrderBy: true, ColumnList: true},
 }
 
 // intervalMove adds an interval, as DuckDB and PostgreSQL spell it; their

@@ -114,7 +114,7 @@ func TestModelCapIsForAllFiles(t *testing.T) {
 		}
 	}
 	code, stderr := checkWithin(t, dir)
-	want := fmt.Sprintf("hold more than %d bytes in all", grammar.MaxSourceBytes)
+	want := fmt.Sprintf("hold more than %d bytes altogether", grammar.MaxSourceBytes)
 	if code != exitUsage || !strings.Contains(stderr, want) || !strings.Contains(stderr, "split it into smaller models") {
 		t.Errorf("exit %d, stderr %q; want exit %d and %q", code, stderr, exitUsage, want)
 	}

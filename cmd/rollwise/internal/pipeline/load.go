@@ -77,7 +77,7 @@ func Read(paths []string) ([]Source, error) {
 				if len(out) == 0 {
 					return nil, failure.Usagef("%s is larger than %d bytes, the largest model file accepted; %s", name, grammar.MaxSourceBytes, tooLargeHint)
 				}
-				return nil, failure.Usagef("the model's files hold more than %d bytes in all (%s and those before it), the largest model accepted; %s", grammar.MaxSourceBytes, name, tooLargeHint)
+				return nil, failure.Usagef("the model's files hold more than %d bytes altogether (%s and those before it), the largest model accepted; %s", grammar.MaxSourceBytes, name, tooLargeHint)
 			}
 			left -= len(text)
 			out = append(out, Source{Name: name, Text: text})
