@@ -341,7 +341,7 @@ type windowEdit struct {
 	order int
 	// cells is the context whose cells carry E: the one the edit is in,
 	// or, in a per-grain sub-context under the edit, the outer one (whose
-	// keys the sub-context's first keys are; see perInWindow).
+	// keys the sub-context's first keys are; see windowBases).
 	cells *Context
 	// prior is a range of an earlier window edit still in force: on a
 	// date this edit does not bind (see replaces), so both hold.
